@@ -1,0 +1,78 @@
+/**
+ * Typed errors thrown by chronomesh. Every error carries a stable `code` and,
+ * where it applies, the name of the offending field and the item (element
+ * index, node, vertex) it concerns, so that callers can react programmatically.
+ */
+
+/** Details attached to every {@link ChronomeshError}. */
+export interface ErrorDetails {
+  /** Name of the argument or field that is wrong, e.g. `"T"` or `"triangles[12]"`. */
+  field?: string;
+  /** What was expected, in words, e.g. `"a finite number > 0"`. */
+  expected?: string;
+  /** The value that was received (kept small: numbers, short strings). */
+  received?: unknown;
+}
+
+/**
+ * Base class of all errors raised by the library.
+ *
+ * @example
+ * ```ts
+ * import { ChronomeshError, TemporalBasis } from 'chronomesh';
+ * try { new TemporalBasis('trial', -1); } catch (e) { if (e instanceof ChronomeshError) console.log(e.code); }
+ * ```
+ */
+export class ChronomeshError extends Error {
+  /** Stable machine-readable code, e.g. `"invalid-argument"`. */
+  readonly code: string;
+  readonly field: string | undefined;
+  readonly expected: string | undefined;
+  readonly received: unknown;
+  constructor(code: string, message: string, details: ErrorDetails = {}) {
+    super(message);
+    this.name = new.target.name;
+    this.code = code;
+    this.field = details.field;
+    this.expected = details.expected;
+    this.received = details.received;
+  }
+}
+
+/** An argument is out of range, of the wrong length, or not finite. */
+export class InvalidArgumentError extends ChronomeshError {
+  constructor(message: string, details: ErrorDetails = {}) {
+    super('invalid-argument', message, details);
+  }
+}
+
+/** A temporal tree or space-time index set is not closed (a parent is missing) or malformed. */
+export class InvalidIndexSetError extends ChronomeshError {
+  constructor(message: string, details: ErrorDetails = {}) {
+    super('invalid-index-set', message, details);
+  }
+}
+
+/** A mesh, its boundary description or its coefficients are invalid. */
+export class InvalidMeshError extends ChronomeshError {
+  constructor(message: string, details: ErrorDetails = {}) {
+    super('invalid-mesh', message, details);
+  }
+}
+
+/** An iterative solver broke down (e.g. non-positive curvature in CG). */
+export class SolverBreakdownError extends ChronomeshError {
+  constructor(message: string, details: ErrorDetails = {}) {
+    super('solver-breakdown', message, details);
+  }
+}
+
+/** Formats a value for an error message without dumping large arrays. */
+export function describeValue(v: unknown): string {
+  if (typeof v === 'number') return Number.isNaN(v) ? 'NaN' : String(v);
+  if (typeof v === 'string') return JSON.stringify(v.length > 40 ? v.slice(0, 40) + '…' : v);
+  if (v === null || v === undefined) return String(v);
+  if (ArrayBuffer.isView(v)) return `${v.constructor.name}(length ${(v as unknown as { length: number }).length})`;
+  if (Array.isArray(v)) return `array(length ${v.length})`;
+  return typeof v;
+}

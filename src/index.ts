@@ -1,0 +1,14 @@
+/**
+ * chronomesh — adaptive space-time solver for parabolic problems.
+ *
+ * This is the one public entry point; everything not re-exported here is internal.
+ * @packageDocumentation
+ */
+export {
+  ChronomeshError,
+  InvalidArgumentError,
+  InvalidIndexSetError,
+  InvalidMeshError,
+  SolverBreakdownError,
+  type ErrorDetails,
+} from './errors';
