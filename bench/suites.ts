@@ -1,6 +1,8 @@
 /** Registry of benchmark suites; each module contributes one function returning its cases. */
 import type { BenchCase } from './harness';
+import { timeCases } from './time';
+import { spaceCases } from './space';
 
 export type Suite = (quick: boolean) => BenchCase[];
 
-export const suites: Suite[] = [];
+export const suites: Suite[] = [timeCases, spaceCases];

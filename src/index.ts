@@ -12,3 +12,6 @@ export {
   SolverBreakdownError,
   type ErrorDetails,
 } from './errors';
+
+export * from './time/index';
+export * from './space/index';

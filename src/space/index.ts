@@ -1,0 +1,2 @@
+/** Public exports of the space module (re-exported by src/index.ts). */
+export {};
