@@ -2,7 +2,8 @@
 import type { BenchCase } from './harness';
 import { timeCases } from './time';
 import { spaceCases } from './space';
+import { spaceMultigridCases } from './space-multigrid';
 
 export type Suite = (quick: boolean) => BenchCase[];
 
-export const suites: Suite[] = [timeCases, spaceCases];
+export const suites: Suite[] = [timeCases, spaceCases, spaceMultigridCases];
