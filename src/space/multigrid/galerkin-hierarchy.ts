@@ -1,0 +1,221 @@
+/**
+ * Setup of the local multilevel hierarchy on the generation levels of a leaf
+ * mesh (DESIGN.md §4.3).
+ *
+ * mesh_g = local vertices of generation ≤ g; because local vertices are ordered
+ * by generation, mesh_g is the prefix [0, levelStart[g+1]). The prolongation
+ * P_g: mesh_{g−1} → mesh_g is the identity on old vertices and the midpoint rule
+ * u[m] = ½(u[a] + u[b]) at the vertices m of generation g, so the Galerkin
+ * matrices A_{g−1} = P_gᵀ A_g P_g are the nodal matrices of the coarser
+ * conforming meshes. Going from A_g to A_{g−1} changes only the rows of the
+ * generation-g vertices (removed) and of their interpolation parents, so the
+ * matrices are coarsened in place, one vertex elimination at a time:
+ *   K'[i,j] = K[i,j] + w_i K[m,j] + w_j K[i,m] + w_i w_j K[m,m],  w = ½ at the parents of m.
+ * Before coarsening level g we copy the rows that the smoother of level g
+ * needs (the smoothing set S_g = free generation-g vertices and their free
+ * parents). Each vertex is eliminated once and each row has bounded length,
+ * so the total work and storage are linear in the number of vertices.
+ */
+import type { LeafMesh } from '../leaf-mesh';
+import type { PairedRows } from './paired-rows';
+
+export interface LevelHierarchy {
+  /** Number of generations (maximal generation + 1). */
+  readonly levels: number;
+  /** Vertices of generation g are the local indices [levelStart[g], levelStart[g+1]). */
+  readonly levelStart: Int32Array;
+  /**
+   * Smoothing set of level g ≥ 1: setVerts[setBegin[g] .. setEnd[g]) (empty for g = 0). Levels are
+   * stored from the finest to the coarsest, so setEnd[g] = setBegin[g−1].
+   */
+  readonly setBegin: Int32Array;
+  readonly setEnd: Int32Array;
+  readonly setVerts: Int32Array;
+  /** Row of A_g, M_g for the set entry k: off-diagonals rowCols/rowVals[rowPtr[k] .. rowPtr[k+1]), values interleaved (A, M). */
+  readonly rowPtr: Int32Array;
+  readonly rowCols: Int32Array;
+  readonly rowVals: Float64Array;
+  /** Diagonal (A, M) of each set entry. */
+  readonly rowDiag: Float64Array;
+  /** Free initial vertices (local indices) and their Galerkin matrices A_0, M_0 in CSR over that numbering. */
+  readonly coarseVerts: Int32Array;
+  readonly coarsePtr: Int32Array;
+  readonly coarseCols: Int32Array;
+  readonly coarseVals: Float64Array;
+  readonly coarseDiag: Float64Array;
+}
+
+/** Compressed copy of all rows of a PairedRows (used for the fine matrix). */
+export interface PairedCsr {
+  readonly ptr: Int32Array;
+  readonly cols: Int32Array;
+  readonly vals: Float64Array;
+  readonly diag: Float64Array;
+}
+
+export function copyPairedRows(rows: PairedRows): PairedCsr {
+  const n = rows.n;
+  const ptr = new Int32Array(n + 1);
+  for (let i = 0; i < n; i++) ptr[i + 1] = ptr[i]! + rows.len[i]!;
+  const nnz = ptr[n]!;
+  const cols = new Int32Array(nnz);
+  const vals = new Float64Array(2 * nnz);
+  for (let i = 0; i < n; i++) {
+    const s = rows.start[i]!;
+    const l = rows.len[i]!;
+    cols.set(rows.cols.subarray(s, s + l), ptr[i]!);
+    vals.set(rows.vals.subarray(2 * s, 2 * (s + l)), 2 * ptr[i]!);
+  }
+  return { ptr, cols, vals, diag: rows.diag.slice() };
+}
+
+/** Builds the hierarchy; consumes (coarsens) `rows`, which must hold the fine nodal matrices. */
+export function buildHierarchy(mesh: LeafMesh, rows: PairedRows): LevelHierarchy {
+  const n = mesh.vertexCount;
+  const gen = mesh.generation;
+  const pa = mesh.parentA;
+  const pb = mesh.parentB;
+  const free = mesh.isFree;
+  const levels = gen[n - 1]! + 1;
+  const levelStart = new Int32Array(levels + 1);
+  for (let m = 0; m < n; m++) levelStart[gen[m]! + 1] = levelStart[gen[m]! + 1]! + 1;
+  for (let g = 0; g < levels; g++) levelStart[g + 1] = levelStart[g + 1]! + levelStart[g]!;
+
+  // Smoothing sets: new free vertices of generation g, then their free parents (first occurrence).
+  const mark = new Int32Array(n).fill(-1);
+  const setBegin = new Int32Array(levels);
+  const setEnd = new Int32Array(levels);
+  let total = 0;
+  for (let g = levels - 1; g >= 1; g--) {
+    setBegin[g] = total;
+    for (let m = levelStart[g]!; m < levelStart[g + 1]!; m++) {
+      if (!free[m]) continue;
+      total++;
+      const a = pa[m]!;
+      const b = pb[m]!;
+      if (free[a] && mark[a] !== g) { mark[a] = g; total++; }
+      if (free[b] && mark[b] !== g) { mark[b] = g; total++; }
+    }
+    setEnd[g] = total;
+  }
+  setBegin[0] = total;
+  setEnd[0] = total;
+  const setVerts = new Int32Array(total);
+  mark.fill(-1);
+  for (let g = levels - 1; g >= 1; g--) {
+    let k = setBegin[g]!;
+    for (let m = levelStart[g]!; m < levelStart[g + 1]!; m++) if (free[m]) setVerts[k++] = m;
+    for (let m = levelStart[g]!; m < levelStart[g + 1]!; m++) {
+      if (!free[m]) continue;
+      const a = pa[m]!;
+      const b = pb[m]!;
+      if (free[a] && mark[a] !== g) { mark[a] = g; setVerts[k++] = a; }
+      if (free[b] && mark[b] !== g) { mark[b] = g; setVerts[k++] = b; }
+    }
+  }
+
+  const rowPtr = new Int32Array(total + 1);
+  const rowDiag = new Float64Array(2 * total);
+  let cap = Math.max(16, 8 * total);
+  let rowCols = new Int32Array(cap);
+  let rowVals = new Float64Array(2 * cap);
+  let used = 0;
+
+  for (let g = levels - 1; g >= 1; g--) {
+    // 1. copy the rows of A_g, M_g needed by the smoother of level g
+    for (let k = setBegin[g]!; k < setEnd[g]!; k++) {
+      const v = setVerts[k]!;
+      const l = rows.len[v]!;
+      if (used + l > cap) {
+        cap = Math.max(2 * cap, used + l);
+        const c2 = new Int32Array(cap);
+        c2.set(rowCols.subarray(0, used));
+        const v2 = new Float64Array(2 * cap);
+        v2.set(rowVals.subarray(0, 2 * used));
+        rowCols = c2;
+        rowVals = v2;
+      }
+      rowPtr[k] = used;
+      const s = rows.start[v]!;
+      rowCols.set(rows.cols.subarray(s, s + l), used);
+      rowVals.set(rows.vals.subarray(2 * s, 2 * (s + l)), 2 * used);
+      used += l;
+      rowDiag[2 * k] = rows.diag[2 * v]!;
+      rowDiag[2 * k + 1] = rows.diag[2 * v + 1]!;
+    }
+    // 2. coarsen: A_{g−1} = P_gᵀ A_g P_g
+    for (let m = levelStart[g]!; m < levelStart[g + 1]!; m++) {
+      if (free[m]) eliminate(rows, m, free[pa[m]!] ? pa[m]! : -1, free[pb[m]!] ? pb[m]! : -1);
+    }
+  }
+  rowPtr[total] = used;
+
+  // Coarse matrices on the free initial vertices.
+  const n0 = levelStart[1]!;
+  const local = new Int32Array(n0).fill(-1);
+  let nc = 0;
+  for (let v = 0; v < n0; v++) if (free[v]) local[v] = nc++;
+  const coarseVerts = new Int32Array(nc);
+  for (let v = 0; v < n0; v++) if (free[v]) coarseVerts[local[v]!] = v;
+  const coarsePtr = new Int32Array(nc + 1);
+  for (let i = 0; i < nc; i++) coarsePtr[i + 1] = coarsePtr[i]! + rows.len[coarseVerts[i]!]!;
+  const coarseCols = new Int32Array(coarsePtr[nc]!);
+  const coarseVals = new Float64Array(2 * coarsePtr[nc]!);
+  const coarseDiag = new Float64Array(2 * nc);
+  for (let i = 0; i < nc; i++) {
+    const v = coarseVerts[i]!;
+    const s = rows.start[v]!;
+    const l = rows.len[v]!;
+    for (let t = 0; t < l; t++) {
+      coarseCols[coarsePtr[i]! + t] = local[rows.cols[s + t]!]!;
+    }
+    coarseVals.set(rows.vals.subarray(2 * s, 2 * (s + l)), 2 * coarsePtr[i]!);
+    coarseDiag[2 * i] = rows.diag[2 * v]!;
+    coarseDiag[2 * i + 1] = rows.diag[2 * v + 1]!;
+  }
+  return {
+    levels, levelStart, setBegin, setEnd, setVerts, rowPtr, rowCols: rowCols.slice(0, used), rowVals: rowVals.slice(0, 2 * used),
+    rowDiag, coarseVerts, coarsePtr, coarseCols, coarseVals, coarseDiag,
+  };
+}
+
+/**
+ * Eliminates vertex m with free parents p, q (−1 if Dirichlet) by the midpoint
+ * prolongation: K ← Eᵀ K E restricted to the remaining vertices.
+ */
+function eliminate(rows: PairedRows, m: number, p: number, q: number): void {
+  const s = rows.start[m]!;
+  const l = rows.len[m]!;
+  for (let t = 0; t < l; t++) {
+    // the pool arrays may be reallocated by add(); read them afresh
+    const j = rows.cols[s + t]!;
+    const k = rows.vals[2 * (s + t)]!;
+    const mm = rows.vals[2 * (s + t) + 1]!;
+    if (p >= 0) spread(rows, p, j, k, mm);
+    if (q >= 0) spread(rows, q, j, k, mm);
+  }
+  const dk = 0.25 * rows.diag[2 * m]!;
+  const dm = 0.25 * rows.diag[2 * m + 1]!;
+  if (p >= 0) addDiag(rows, p, dk, dm);
+  if (q >= 0) addDiag(rows, q, dk, dm);
+  if (p >= 0 && q >= 0) {
+    rows.add(p, q, dk, dm);
+    rows.add(q, p, dk, dm);
+  }
+  for (let t = 0; t < l; t++) rows.remove(rows.cols[s + t]!, m);
+  rows.len[m] = 0;
+}
+
+/** Adds ½K[m,j] to K[p,j] and K[j,p] (for j = p: K[m,p] to the diagonal). */
+function spread(rows: PairedRows, p: number, j: number, k: number, mm: number): void {
+  if (j === p) addDiag(rows, p, k, mm);
+  else {
+    rows.add(p, j, 0.5 * k, 0.5 * mm);
+    rows.add(j, p, 0.5 * k, 0.5 * mm);
+  }
+}
+
+function addDiag(rows: PairedRows, p: number, k: number, mm: number): void {
+  rows.diag[2 * p] = rows.diag[2 * p]! + k;
+  rows.diag[2 * p + 1] = rows.diag[2 * p + 1]! + mm;
+}

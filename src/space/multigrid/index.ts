@@ -1,0 +1,2 @@
+/** Spatial multilevel preconditioner (DESIGN.md §4.3). */
+export { MultilevelPreconditioner, type MultilevelOptions } from './multilevel-preconditioner';
