@@ -1,2 +1,8 @@
 /** Public exports of the space module (re-exported by src/index.ts). */
-export {};
+export type { Coefficient, DomainOptions } from './domain-options';
+export { SpatialDomain } from './domain';
+export { intervalDomain, triangulatedDomain, rectangleDomain, lShapeDomain, squareWithHoleDomain } from './generators';
+export { SpatialOperatorPlan } from './operator-plan';
+export { loadVector } from './load';
+export { evaluateAt, nodalValues } from './evaluate';
+export type { LeafMesh } from './leaf-mesh';

@@ -1,0 +1,251 @@
+/**
+ * The global newest-vertex-bisection forest (DESIGN.md §4.1), grown lazily.
+ *
+ * Storage is flat and growable. Elements: `dim + 1` vertices each; in 2D counter-clockwise with
+ * refinement edge (v0, v1) and newest vertex v2. Bisecting (a, b, c) at the midpoint m of (a, b)
+ * gives the children (c, a, m) and (b, c, m), stored consecutively; their refinement edges are the
+ * edges opposite m. In 2D the current forest leaves always form one conforming mesh: an element is
+ * bisected together with the neighbour across its refinement edge, after bisecting that neighbour
+ * first when its refinement edge differs (the usual recursive completion). Neighbour pointers are
+ * kept between leaves only. A vertex records its interpolation parents (a, b), its godparents
+ * (newest vertices of the one or two elements bisected at it) and its generation.
+ */
+import { InvalidMeshError } from '../errors';
+import { DIRICHLET_EDGE, INSULATED_EDGE, type InitialMesh } from './initial-mesh';
+
+export class BisectionForest {
+  readonly dim: 1 | 2;
+  readonly nv: number; // vertices per element
+  readonly initialVertexCount: number;
+  readonly initialElementCount: number;
+  readonly kappa: Float64Array;
+  readonly reaction: Float64Array;
+
+  vertexCount = 0;
+  elementCount = 0;
+
+  // vertex data
+  vCoord: Float64Array;
+  vGen: Int32Array;
+  vParentA: Int32Array;
+  vParentB: Int32Array;
+  vGod0: Int32Array;
+  vGod1: Int32Array;
+  vFree: Uint8Array;
+
+  // element data
+  eVert: Int32Array;
+  eNb: Int32Array; // 2D only, 3 per element
+  eChild: Int32Array; // first child, −1 for forest leaves
+  eMid: Int32Array; // midpoint of the refinement edge, −1 if not bisected
+  eGen: Int32Array;
+  eMat: Int32Array;
+
+  constructor(init: InitialMesh) {
+    this.dim = init.dim;
+    this.nv = init.dim + 1;
+    const d = this.dim;
+    const nvInit = init.coords.length / d;
+    const neInit = init.elements.length / this.nv;
+    this.initialVertexCount = nvInit;
+    this.initialElementCount = neInit;
+    this.kappa = init.kappa;
+    this.reaction = init.reaction;
+    const vc = Math.max(16, 2 * nvInit);
+    const ec = Math.max(16, 2 * neInit);
+    this.vCoord = new Float64Array(vc * d);
+    this.vGen = new Int32Array(vc);
+    this.vParentA = new Int32Array(vc);
+    this.vParentB = new Int32Array(vc);
+    this.vGod0 = new Int32Array(vc);
+    this.vGod1 = new Int32Array(vc);
+    this.vFree = new Uint8Array(vc);
+    this.eVert = new Int32Array(ec * this.nv);
+    this.eNb = new Int32Array(d === 2 ? ec * 3 : 0);
+    this.eChild = new Int32Array(ec);
+    this.eMid = new Int32Array(ec);
+    this.eGen = new Int32Array(ec);
+    this.eMat = new Int32Array(ec);
+    this.vCoord.set(init.coords);
+    for (let i = 0; i < nvInit; i++) {
+      this.vParentA[i] = this.vParentB[i] = this.vGod0[i] = this.vGod1[i] = -1;
+      this.vFree[i] = init.vertexFree[i]!;
+    }
+    this.vertexCount = nvInit;
+    this.eVert.set(init.elements);
+    if (d === 2) this.eNb.set(init.neighbors);
+    for (let e = 0; e < neInit; e++) {
+      this.eChild[e] = -1;
+      this.eMid[e] = -1;
+      this.eMat[e] = e;
+    }
+    this.elementCount = neInit;
+  }
+
+  /** Vertex capacity (all per-vertex scratch arrays elsewhere must be at least this long). */
+  get vertexCapacity(): number {
+    return this.vGen.length;
+  }
+
+  private growVertices(): void {
+    const cap = this.vGen.length * 2;
+    const g = <T extends Int32Array | Float64Array | Uint8Array>(a: T, n: number): T => {
+      const b = new (a.constructor as new (n: number) => T)(n);
+      b.set(a);
+      return b;
+    };
+    this.vCoord = g(this.vCoord, cap * this.dim);
+    this.vGen = g(this.vGen, cap);
+    this.vParentA = g(this.vParentA, cap);
+    this.vParentB = g(this.vParentB, cap);
+    this.vGod0 = g(this.vGod0, cap);
+    this.vGod1 = g(this.vGod1, cap);
+    this.vFree = g(this.vFree, cap);
+  }
+
+  private growElements(): void {
+    const cap = this.eChild.length * 2;
+    const g = <T extends Int32Array>(a: T, n: number): T => {
+      const b = new Int32Array(n) as T;
+      b.set(a);
+      return b;
+    };
+    this.eVert = g(this.eVert, cap * this.nv);
+    if (this.dim === 2) this.eNb = g(this.eNb, cap * 3);
+    this.eChild = g(this.eChild, cap);
+    this.eMid = g(this.eMid, cap);
+    this.eGen = g(this.eGen, cap);
+    this.eMat = g(this.eMat, cap);
+  }
+
+  private newVertex(a: number, b: number, gen: number, god0: number, god1: number, free: number): number {
+    if (this.vertexCount === this.vGen.length) this.growVertices();
+    const m = this.vertexCount++;
+    const d = this.dim;
+    for (let k = 0; k < d; k++) this.vCoord[m * d + k] = 0.5 * (this.vCoord[a * d + k]! + this.vCoord[b * d + k]!);
+    this.vGen[m] = gen;
+    this.vParentA[m] = a;
+    this.vParentB[m] = b;
+    this.vGod0[m] = god0;
+    this.vGod1[m] = god1;
+    this.vFree[m] = free;
+    return m;
+  }
+
+  /** Appends two child elements of `e` (vertices given) and returns the first child's id. */
+  private newChildren(e: number, c0: number, c1: number, c2: number, d0: number, d1: number, d2: number): number {
+    if (this.elementCount + 2 > this.eChild.length) this.growElements();
+    const f = this.elementCount;
+    this.elementCount += 2;
+    const nv = this.nv;
+    const gen = this.eGen[e]! + 1;
+    const mat = this.eMat[e]!;
+    for (let k = 0; k < 2; k++) {
+      this.eChild[f + k] = -1;
+      this.eMid[f + k] = -1;
+      this.eGen[f + k] = gen;
+      this.eMat[f + k] = mat;
+    }
+    const ev = this.eVert;
+    ev[f * nv] = c0;
+    ev[f * nv + 1] = c1;
+    if (nv === 3) {
+      ev[f * nv + 2] = c2;
+      ev[f * nv + 3] = d0;
+      ev[f * nv + 4] = d1;
+      ev[f * nv + 5] = d2;
+    } else {
+      ev[f * nv + 2] = d0;
+      ev[f * nv + 3] = d1;
+    }
+    this.eChild[e] = f;
+    return f;
+  }
+
+  /** Bisects forest element `e` (if not yet done) and returns the midpoint of its refinement edge. */
+  bisect(e: number): number {
+    if (this.eChild[e]! >= 0) return this.eMid[e]!;
+    if (this.dim === 1) {
+      const a = this.eVert[2 * e]!, b = this.eVert[2 * e + 1]!;
+      const ga = this.vGen[a]!, gb = this.vGen[b]!;
+      const god = ga > gb || (ga === gb && a > b) ? a : b;
+      const m = this.newVertex(a, b, this.eGen[e]! + 1, god, -1, 1);
+      this.newChildren(e, a, m, 0, m, b, 0);
+      this.eMid[e] = m;
+      return m;
+    }
+    for (let guard = 0; ; guard++) {
+      if (guard > 4096) {
+        throw new InvalidMeshError(`newest-vertex bisection did not terminate at element ${e} (inconsistent labelling)`, {
+          field: 'forest',
+          expected: 'terminating refinement',
+          received: e,
+        });
+      }
+      const n = this.eNb[3 * e + 2]!;
+      if (n < 0) return this.split(e, n);
+      if (this.eNb[3 * n + 2] === e) return this.split(e, n);
+      this.bisect(n); // afterwards the neighbour across (a, b) is a child of n
+    }
+  }
+
+  private replaceNeighbor(x: number, oldE: number, newE: number): void {
+    if (x < 0) return;
+    const nb = this.eNb;
+    for (let k = 0; k < 3; k++) {
+      if (nb[3 * x + k] === oldE) {
+        nb[3 * x + k] = newE;
+        return;
+      }
+    }
+  }
+
+  /** Bisects e (and its compatible neighbour n ≥ 0, or boundary code n < 0) at one new midpoint. */
+  private split(e: number, n: number): number {
+    const ev = this.eVert;
+    const a = ev[3 * e]!, b = ev[3 * e + 1]!, c = ev[3 * e + 2]!;
+    const d = n >= 0 ? ev[3 * n + 2]! : -1;
+    let gen = this.eGen[e]!;
+    if (n >= 0 && this.eGen[n]! > gen) gen = this.eGen[n]!;
+    if (this.vGen[a]! > gen) gen = this.vGen[a]!;
+    if (this.vGen[b]! > gen) gen = this.vGen[b]!;
+    const free = n === DIRICHLET_EDGE ? 0 : 1;
+    const m = this.newVertex(a, b, gen + 1, c, d, free);
+    const eb0 = this.eNb[3 * e]!, eb1 = this.eNb[3 * e + 1]!;
+    const t = this.newChildren(e, c, a, m, b, c, m); // T1 = (c, a, m), T2 = (b, c, m)
+    this.eMid[e] = m;
+    const nb = this.eNb;
+    const t1 = t, t2 = t + 1;
+    // T1: [0] = (a, m), [1] = (m, c) ↔ T2, [2] = (c, a) = old edge opposite b.
+    // T2: [0] = (c, m) ↔ T1, [1] = (m, b), [2] = (b, c) = old edge opposite a.
+    nb[3 * t1 + 1] = t2;
+    nb[3 * t1 + 2] = eb1;
+    nb[3 * t2] = t1;
+    nb[3 * t2 + 2] = eb0;
+    this.replaceNeighbor(eb1, e, t1);
+    this.replaceNeighbor(eb0, e, t2);
+    if (n >= 0) {
+      // n = (b, a, d): N1 = (d, b, m), N2 = (a, d, m).
+      const nb0 = this.eNb[3 * n]!, nb1 = this.eNb[3 * n + 1]!;
+      const u = this.newChildren(n, d, b, m, a, d, m);
+      this.eMid[n] = m;
+      const nb2 = this.eNb;
+      const n1 = u, n2 = u + 1;
+      nb2[3 * n1] = t2; // (b, m)
+      nb2[3 * n1 + 1] = n2; // (m, d)
+      nb2[3 * n1 + 2] = nb1; // (d, b)
+      nb2[3 * n2] = n1; // (d, m)
+      nb2[3 * n2 + 1] = t1; // (m, a)
+      nb2[3 * n2 + 2] = nb0; // (a, d)
+      this.replaceNeighbor(nb1, n, n1);
+      this.replaceNeighbor(nb0, n, n2);
+      nb2[3 * t1] = n2;
+      nb2[3 * t2 + 1] = n1;
+    } else {
+      const code = n === INSULATED_EDGE ? INSULATED_EDGE : DIRICHLET_EDGE;
+      this.eNb[3 * t1] = code;
+      this.eNb[3 * t2 + 1] = code;
+    }
+    return m;
+  }
+}

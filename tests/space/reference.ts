@@ -1,0 +1,161 @@
+/**
+ * Independent dense reference for the spatial operators (DESIGN.md §4.2).
+ *
+ * Nodal P1 matrices are assembled element by element on the leaf mesh of the union with the
+ * textbook closed forms — 2D stiffness by the cotangent formula K_ij = −(κ/2) cot θ_k (i ≠ j),
+ * K_ii = −Σ_{j≠i} K_ij, mass |T|/12 (1 + δ_ij); 1D κ/h [1 −1; −1 1] and h/6 [2 1; 1 2]
+ * (Braess, Finite Elements, ch. II (from memory); the cotangent form is common practice).
+ * The hierarchical transform is formed explicitly by evaluating every hierarchical hat as a
+ * piecewise-linear function on the elements where it was created (initial elements for initial
+ * vertices; the children of the one or two triangles bisected at v, spanned by its interpolation
+ * parents and godparents, otherwise) at the coordinates of every leaf-mesh vertex. No transform
+ * kernel and no element-record code of src/space is used.
+ */
+import type { SpatialDomain } from '../../src/space/index';
+
+function union(a: Int32Array, b: Int32Array): Int32Array {
+  return Int32Array.from(new Set([...a, ...b])).sort();
+}
+
+type Tri = [number, number, number, number, number, number]; // x0 y0 x1 y1 x2 y2
+
+/** Barycentric coordinate of vertex 0 of `t` at (x, y), or −Infinity if outside (tolerance 1e-12). */
+function bary0(t: Tri, x: number, y: number): number {
+  const [x0, y0, x1, y1, x2, y2] = t;
+  const det = (x1 - x0) * (y2 - y0) - (x2 - x0) * (y1 - y0);
+  const l1 = ((x - x0) * (y2 - y0) - (y - y0) * (x2 - x0)) / det;
+  const l2 = ((x1 - x0) * (y - y0) - (y1 - y0) * (x - x0)) / det;
+  const l0 = 1 - l1 - l2;
+  const tol = 1e-12;
+  if (l0 < -tol || l1 < -tol || l2 < -tol) return -Infinity;
+  return Math.max(0, l0);
+}
+
+/** The hierarchical hat of vertex v as a function of (x, y). */
+export function hierarchicalHat(domain: SpatialDomain, v: number): (x: number, y: number) => number {
+  const c = (w: number, k: number) => domain.coordinate(w, k);
+  const buf = new Int32Array(3);
+  const par = new Int32Array(2);
+  const god = new Int32Array(2);
+  if (domain.dim === 1) {
+    const pieces: [number, number, number][] = []; // [left, peak, right]
+    if (domain.interpolationParents(v, par) === 0) {
+      for (let e = 0; e < domain.initialElementCount; e++) {
+        const [a, b] = domain.initialElement(e, buf);
+        if (a === v || b === v) pieces.push([c(a!, 0), c(v, 0), c(b!, 0)]);
+      }
+    } else pieces.push([c(par[0]!, 0), c(v, 0), c(par[1]!, 0)]);
+    return (x) => {
+      let best = 0;
+      for (const [l, p, r] of pieces) {
+        const lo = Math.min(l, r), hi = Math.max(l, r);
+        if (x < lo - 1e-14 || x > hi + 1e-14) continue;
+        const val = p === l ? (r - x) / (r - l) : p === r ? (x - l) / (r - l) : x <= p ? (x - lo) / (p - lo) : (hi - x) / (hi - p);
+        best = Math.max(best, Math.min(1, Math.max(0, val)));
+      }
+      return best;
+    };
+  }
+  const tris: Tri[] = [];
+  const tri = (p: number, q: number, r: number): Tri => [c(p, 0), c(p, 1), c(q, 0), c(q, 1), c(r, 0), c(r, 1)];
+  if (domain.interpolationParents(v, par) === 0) {
+    for (let e = 0; e < domain.initialElementCount; e++) {
+      const t = domain.initialElement(e, buf);
+      const k = t.indexOf(v);
+      if (k >= 0) tris.push(tri(v, t[(k + 1) % 3]!, t[(k + 2) % 3]!));
+    }
+  } else {
+    const ng = domain.godparents(v, god);
+    for (let g = 0; g < ng; g++) {
+      tris.push(tri(v, par[0]!, god[g]!));
+      tris.push(tri(v, par[1]!, god[g]!));
+    }
+  }
+  return (x, y) => {
+    let best = 0;
+    for (const t of tris) best = Math.max(best, bary0(t, x, y));
+    return best;
+  };
+}
+
+/** Nodal (mesh) mass and stiffness-plus-reaction matrices of the leaf mesh of `set`. */
+export function denseNodalMatrices(domain: SpatialDomain, set: Int32Array): { M: number[][]; A: number[][]; globalId: Int32Array } {
+  const mesh = domain.leafMesh(set);
+  const n = mesh.vertexCount;
+  const M = Array.from({ length: n }, () => new Array<number>(n).fill(0));
+  const A = Array.from({ length: n }, () => new Array<number>(n).fill(0));
+  const xy = mesh.coords;
+  for (let e = 0; e < mesh.elementCount; e++) {
+    const kap = mesh.kappa[mesh.elementMaterial[e]!]!;
+    const rea = mesh.reaction[mesh.elementMaterial[e]!]!;
+    if (mesh.dim === 1) {
+      const i = mesh.elements[2 * e]!, j = mesh.elements[2 * e + 1]!;
+      const h = Math.abs(xy[j]! - xy[i]!);
+      const loc = [i, j];
+      for (let p = 0; p < 2; p++) {
+        for (let q = 0; q < 2; q++) {
+          const mass = (h / 6) * (p === q ? 2 : 1);
+          M[loc[p]!]![loc[q]!]! += mass;
+          A[loc[p]!]![loc[q]!]! += (kap / h) * (p === q ? 1 : -1) + rea * mass;
+        }
+      }
+      continue;
+    }
+    const loc = [mesh.elements[3 * e]!, mesh.elements[3 * e + 1]!, mesh.elements[3 * e + 2]!];
+    const P = loc.map((i) => [xy[2 * i]!, xy[2 * i + 1]!] as [number, number]);
+    const area = 0.5 * Math.abs((P[1]![0] - P[0]![0]) * (P[2]![1] - P[0]![1]) - (P[2]![0] - P[0]![0]) * (P[1]![1] - P[0]![1]));
+    const K = [[0, 0, 0], [0, 0, 0], [0, 0, 0]];
+    for (let k = 0; k < 3; k++) {
+      // angle at vertex k, opposite edge (k+1, k+2)
+      const i = (k + 1) % 3, j = (k + 2) % 3;
+      const ux = P[i]![0] - P[k]![0], uy = P[i]![1] - P[k]![1], vx = P[j]![0] - P[k]![0], vy = P[j]![1] - P[k]![1];
+      const cot = (ux * vx + uy * vy) / Math.abs(ux * vy - uy * vx);
+      K[i]![j] = K[j]![i] = -0.5 * kap * cot;
+    }
+    for (let i = 0; i < 3; i++) K[i]![i] = -(K[i]![(i + 1) % 3]! + K[i]![(i + 2) % 3]!);
+    for (let p = 0; p < 3; p++) {
+      for (let q = 0; q < 3; q++) {
+        const mass = (area / 12) * (p === q ? 2 : 1);
+        M[loc[p]!]![loc[q]!]! += mass;
+        A[loc[p]!]![loc[q]!]! += K[p]![q]! + rea * mass;
+      }
+    }
+  }
+  return { M, A, globalId: mesh.globalId };
+}
+
+/** Explicit hierarchical transform: T[w][j] = hat of set[j] at leaf-mesh vertex w. */
+export function denseTransform(domain: SpatialDomain, globalId: Int32Array, set: Int32Array): number[][] {
+  const hats = Array.from(set, (v) => hierarchicalHat(domain, v));
+  return Array.from(globalId, (w) => {
+    const x = domain.coordinate(w, 0), y = domain.dim === 2 ? domain.coordinate(w, 1) : 0;
+    return hats.map((h) => h(x, y));
+  });
+}
+
+/**
+ * Dense hierarchical mass M and stiffness-plus-reaction A between two closed free sets:
+ * rows in `outSet` order, columns in `inSet` order.
+ */
+export function denseSpatialMatrices(domain: SpatialDomain, inSet: Int32Array, outSet: Int32Array): { M: number[][]; A: number[][] } {
+  const u = union(inSet, outSet);
+  const { M, A, globalId } = denseNodalMatrices(domain, u);
+  const Tin = denseTransform(domain, globalId, inSet);
+  const Tout = denseTransform(domain, globalId, outSet);
+  const n = globalId.length;
+  const form = (X: number[][]): number[][] => {
+    // Tout^T X Tin
+    const XT = Array.from({ length: n }, (_, r) => Array.from({ length: inSet.length }, (_, j) => {
+      let s = 0;
+      const row = X[r]!;
+      for (let k = 0; k < n; k++) if (row[k] !== 0) s += row[k]! * Tin[k]![j]!;
+      return s;
+    }));
+    return Array.from({ length: outSet.length }, (_, i) => Array.from({ length: inSet.length }, (_, j) => {
+      let s = 0;
+      for (let k = 0; k < n; k++) if (Tout[k]![i] !== 0) s += Tout[k]![i]! * XT[k]![j]!;
+      return s;
+    }));
+  };
+  return { M: form(M), A: form(A) };
+}
