@@ -1,0 +1,349 @@
+/**
+ * Tree-operator plans: the level-wise single-scale algorithms of DESIGN §3.3 compiled once per
+ * (form, input tree, output tree, part) into a {@link SparseProgram}; apply is allocation-free.
+ */
+import { InvalidArgumentError, describeValue } from '../errors';
+import { checkT, functionsPerNode, type TemporalBasisKind } from './levels';
+import { supportOf } from './nodes';
+import {
+  derivOrders,
+  elementFunctionComp,
+  elementFunctionIdx,
+  elementScale,
+  prolongStencil,
+  referenceElementMass,
+  representationSpace,
+  ssElements,
+  ssRangeMeeting,
+  ssWidth,
+  type SingleScaleSpace,
+  type TemporalForm,
+} from './single-scale';
+import { derivativeStencil, waveletStencil } from './wavelets';
+import { TemporalTree } from './tree';
+import { RangeUnion, SortedCursor } from './index-sets';
+import { DST_WORK, DST_Y, ProgramBuilder, SRC_WORK, SRC_X, runProgram, type SparseProgram } from './sparse-program';
+
+/** Which level pairs of the operator: lower |out| > |in|, upper |out| ≤ |in|, full = both. */
+export type LevelPart = 'lower' | 'upper' | 'full';
+
+const FORMS: readonly TemporalForm[] = ['mass', 'derivIn', 'derivOut', 'stiffness'];
+const PARTS: readonly LevelPart[] = ['lower', 'upper', 'full'];
+
+/** A sparse single-scale vector of one level: sorted indices, `width` scratch slots each from `base`. */
+interface Region {
+  vals: Float64Array;
+  base: number;
+  width: 1 | 2;
+}
+
+// Small scratch arrays for stencils during plan building (module level: building is synchronous).
+const stIdx = new Float64Array(8);
+const stComp = new Int32Array(8);
+const stW = new Float64Array(8);
+const fnIdx = new Float64Array(8);
+const fnComp = new Int32Array(8);
+const fnW = new Float64Array(8);
+const elem = new Float64Array(2);
+const loc = new Int32Array(2);
+const sup = new Float64Array(2);
+const rng = new Float64Array(2);
+
+type StencilFn = typeof waveletStencil;
+
+/** One side of an operator: a tree and how its functions (or their derivatives) are represented. */
+class Side {
+  readonly kind: TemporalBasisKind;
+  readonly space: SingleScaleSpace;
+  readonly fpn: 1 | 2;
+  readonly stencil: StencilFn;
+  constructor(readonly tree: TemporalTree, d: 0 | 1) {
+    this.kind = tree.kind;
+    this.space = representationSpace(tree.kind, d);
+    this.fpn = functionsPerNode(tree.kind);
+    this.stencil = d === 0 ? waveletStencil : derivativeStencil;
+  }
+
+  /** Indices of `space` meeting the supports of this side's level-l nodes. */
+  meetingSet(space: SingleScaleSpace, l: number): Float64Array {
+    const t = this.tree;
+    const u = new RangeUnion();
+    for (let p = t.levelStart[l]!; p < t.levelStart[l + 1]!; p++) {
+      supportOf(this.kind, l, t.index[p]!, sup);
+      ssRangeMeeting(space, l, sup[0]!, sup[1]!, rng);
+      u.push(rng[0]!, rng[1]!);
+    }
+    return u.values();
+  }
+
+  /** Single-scale indices used by the expansions of this side's level-l nodes. */
+  stencilSet(l: number): Float64Array {
+    const t = this.tree;
+    const u = new RangeUnion();
+    for (let p = t.levelStart[l]!; p < t.levelStart[l + 1]!; p++) {
+      for (let s = 0; s < this.fpn; s++) {
+        const n = this.stencil(this.kind, l, t.index[p]!, s, stIdx, stComp, stW);
+        if (n > 0) u.push(stIdx[0]!, stIdx[n - 1]!); // stencil indices are consecutive and increasing
+      }
+    }
+    return u.values();
+  }
+}
+
+function region(b: ProgramBuilder, vals: Float64Array, width: 1 | 2): Region {
+  return { vals, base: b.alloc(vals.length * width), width };
+}
+
+function regionEnd(r: Region): number {
+  return r.base + r.vals.length * r.width;
+}
+
+class PlanCompiler {
+  private readonly E: Float64Array;
+  private readonly inp: Side;
+  private readonly out: Side;
+  private readonly nd: number;
+  constructor(
+    private readonly b: ProgramBuilder,
+    form: TemporalForm,
+    inTree: TemporalTree,
+    outTree: TemporalTree,
+    private readonly T: number,
+  ) {
+    const [dq, dp] = derivOrders(form);
+    this.nd = dq + dp;
+    this.inp = new Side(inTree, dp);
+    this.out = new Side(outTree, dq);
+    this.E = referenceElementMass(this.out.space, this.inp.space);
+  }
+
+  /** x (level-l inputs) → region R in single scale; entries outside R are dropped. */
+  private expandInputs(l: number, R: Region): void {
+    const { b, inp } = this;
+    const t = inp.tree;
+    if (l > t.maxLevel) return;
+    const cur = new SortedCursor(R.vals);
+    b.beginStep(SRC_X, DST_WORK, R.base, regionEnd(R));
+    for (let p = t.levelStart[l]!; p < t.levelStart[l + 1]!; p++) {
+      for (let s = 0; s < inp.fpn; s++) {
+        const n = inp.stencil(inp.kind, l, t.index[p]!, s, stIdx, stComp, stW);
+        for (let e = 0; e < n; e++) {
+          const q = cur.find(stIdx[e]!);
+          if (q >= 0) b.add(p * inp.fpn + s, R.base + q * R.width + stComp[e]!, stW[e]!);
+        }
+      }
+    }
+    b.endStep();
+  }
+
+  /** Region `to` (output space, level l) += B_l · region `from` (input space, level l). */
+  private elementForm(l: number, from: Region, to: Region): void {
+    const { b, E } = this;
+    const si = this.inp.space;
+    const so = this.out.space;
+    const scale = elementScale(so, si, this.nd, l, this.T);
+    const cur = new SortedCursor(to.vals);
+    b.beginStep(SRC_WORK, DST_WORK, to.base, regionEnd(to));
+    for (let q = 0; q < from.vals.length; q++) {
+      const idx = from.vals[q]!;
+      for (let c = 0; c < from.width; c++) {
+        const ne = ssElements(si, l, idx, c, elem, loc);
+        for (let a = 0; a < ne; a++) {
+          for (let fo = 0; fo < 2; fo++) {
+            const w = E[2 * fo + loc[a]!]!;
+            if (w === 0) continue;
+            const t = cur.find(elementFunctionIdx(so, elem[a]!, fo));
+            if (t >= 0) b.add(from.base + q * from.width + c, to.base + t * to.width + elementFunctionComp(so, fo), w * scale);
+          }
+        }
+      }
+    }
+    b.endStep();
+  }
+
+  /** Region `fine` (level l+1) += P · region `coarse` (level l), or with transpose: coarse += Pᵀ fine. */
+  private prolong(space: SingleScaleSpace, l: number, coarse: Region, fine: Region, transpose: boolean): void {
+    const { b } = this;
+    const cur = new SortedCursor(fine.vals);
+    if (transpose) b.beginStep(SRC_WORK, DST_WORK, coarse.base, regionEnd(coarse));
+    else b.beginStep(SRC_WORK, DST_WORK, fine.base, regionEnd(fine));
+    for (let q = 0; q < coarse.vals.length; q++) {
+      for (let c = 0; c < coarse.width; c++) {
+        const n = prolongStencil(space, l, coarse.vals[q]!, c, fnIdx, fnComp, fnW);
+        const cs = coarse.base + q * coarse.width + c;
+        for (let e = 0; e < n; e++) {
+          const t = cur.find(fnIdx[e]!);
+          if (t < 0) continue;
+          const fs = fine.base + t * fine.width + fnComp[e]!;
+          if (transpose) b.add(fs, cs, fnW[e]!);
+          else b.add(cs, fs, fnW[e]!);
+        }
+      }
+    }
+    b.endStep();
+  }
+
+  /** y (level-l outputs) += c_μ · region R. */
+  private collectOutputs(l: number, R: Region): void {
+    const { b, out } = this;
+    const t = out.tree;
+    if (l > t.maxLevel) return;
+    const p0 = t.levelStart[l]!;
+    const p1 = t.levelStart[l + 1]!;
+    if (p0 === p1) return;
+    const cur = new SortedCursor(R.vals);
+    b.beginStep(SRC_WORK, DST_Y, p0 * out.fpn, p1 * out.fpn);
+    for (let p = p0; p < p1; p++) {
+      for (let s = 0; s < out.fpn; s++) {
+        const n = out.stencil(out.kind, l, t.index[p]!, s, stIdx, stComp, stW);
+        for (let e = 0; e < n; e++) {
+          const q = cur.find(stIdx[e]!);
+          if (q >= 0) b.add(R.base + q * R.width + stComp[e]!, p * out.fpn + s, stW[e]!);
+        }
+      }
+    }
+    b.endStep();
+  }
+
+  /**
+   * Upper part, bottom-up: e_l = Pᵀ_out e_{l+1} + B_l ss_l(x), kept on the output single-scale
+   * indices meeting a level-l input (by nestedness all nonzeros are there), then y_μ = c_μ · e_l.
+   */
+  upper(): void {
+    const { b, inp, out } = this;
+    let next: Region | null = null;
+    for (let l = inp.tree.maxLevel; l >= 0; l--) {
+      const e = region(b, inp.meetingSet(out.space, l), ssWidth(out.space));
+      const sx = region(b, inp.stencilSet(l), ssWidth(inp.space));
+      this.expandInputs(l, sx);
+      this.elementForm(l, sx, e);
+      if (next) this.prolong(out.space, l, e, next, true);
+      this.collectOutputs(l, e);
+      next = e;
+    }
+  }
+
+  /**
+   * Lower part, top-down: d_l = P_in d_{l−1} (+ level-l inputs after the level-l outputs have
+   * been evaluated), kept on the input single-scale indices meeting a level-l output.
+   */
+  lower(): void {
+    const { b, inp, out } = this;
+    let prev: Region | null = null;
+    for (let l = 0; l <= out.tree.maxLevel; l++) {
+      const d = region(b, out.meetingSet(inp.space, l), ssWidth(inp.space));
+      if (prev) {
+        this.prolong(inp.space, l - 1, prev, d, false);
+        const o = region(b, out.stencilSet(l), ssWidth(out.space));
+        this.elementForm(l, d, o);
+        this.collectOutputs(l, o);
+      }
+      if (l < out.tree.maxLevel) this.expandInputs(l, d);
+      prev = d;
+    }
+  }
+}
+
+/**
+ * Applies the level-restricted Galerkin matrix C[i][j] = ∫_0^T q_i·p_j (with the derivatives
+ * of the form) between the functions of an input tree (p) and an output tree (q), by the
+ * linear-time algorithms of DESIGN §3.3. Forms: `mass` ∫ q p, `derivIn` ∫ q p′, `derivOut`
+ * ∫ q′ p, `stiffness` ∫ q′ p′ (derivatives of test functions are taken piecewise).
+ * Built once per (form, trees, part, T); `apply` does not allocate.
+ *
+ * @example
+ * ```ts
+ * import { TemporalTree, TreeOperatorPlan } from 'chronomesh';
+ * const sigma = TemporalTree.full('trial', 3), psi = TemporalTree.full('test', 3);
+ * const D = new TreeOperatorPlan('derivIn', sigma, psi, 'full', 2.0); // ∫ ψ ∂t σ on (0, 2)
+ * const x = new Float64Array(sigma.functionCount).fill(1), y = new Float64Array(psi.functionCount);
+ * D.apply(x, y);
+ * ```
+ */
+export class TreeOperatorPlan {
+  readonly form: TemporalForm;
+  readonly inTree: TemporalTree;
+  readonly outTree: TemporalTree;
+  readonly part: LevelPart;
+  readonly T: number;
+  private readonly program: SparseProgram;
+  private work: Float64Array;
+  private workBatch = 1;
+
+  constructor(form: TemporalForm, inTree: TemporalTree, outTree: TemporalTree, part: LevelPart, T = 1) {
+    if (!FORMS.includes(form)) {
+      throw new InvalidArgumentError(`form must be one of ${FORMS.join(', ')}; received ${describeValue(form)}`, {
+        field: 'form', expected: FORMS.join(' | '), received: form,
+      });
+    }
+    if (!PARTS.includes(part)) {
+      throw new InvalidArgumentError(`part must be one of ${PARTS.join(', ')}; received ${describeValue(part)}`, {
+        field: 'part', expected: PARTS.join(' | '), received: part,
+      });
+    }
+    if (!(inTree instanceof TemporalTree)) {
+      throw new InvalidArgumentError(`inTree must be a TemporalTree; received ${describeValue(inTree)}`, { field: 'inTree', received: inTree });
+    }
+    if (!(outTree instanceof TemporalTree)) {
+      throw new InvalidArgumentError(`outTree must be a TemporalTree; received ${describeValue(outTree)}`, { field: 'outTree', received: outTree });
+    }
+    checkT(T);
+    this.form = form;
+    this.inTree = inTree;
+    this.outTree = outTree;
+    this.part = part;
+    this.T = T;
+    const b = new ProgramBuilder();
+    const c = new PlanCompiler(b, form, inTree, outTree, T);
+    if (part !== 'upper') c.lower();
+    if (part !== 'lower') c.upper();
+    this.program = b.finish();
+    this.work = new Float64Array(this.program.workSize);
+  }
+
+  /** Number of stored matrix entries of the compiled program (a measure of its cost). */
+  get entryCount(): number {
+    return this.program.col.length;
+  }
+
+  /**
+   * y[i·batch + b] = Σ_j C[i][j] x[j·batch + b] for every output function i and column b;
+   * overwrites y. Allocation-free (the scratch buffer grows once for a larger batch).
+   *
+   * @example
+   * ```ts
+   * import { TemporalTree, TreeOperatorPlan } from 'chronomesh';
+   * const t = TemporalTree.full('trial', 2);
+   * const M = new TreeOperatorPlan('mass', t, t, 'full');
+   * const x = new Float64Array(2 * t.functionCount).fill(1), y = new Float64Array(2 * t.functionCount);
+   * M.apply(x, y, 2); // two columns at once
+   * ```
+   */
+  apply(x: Float64Array, y: Float64Array, batch = 1): void {
+    if (!Number.isInteger(batch) || batch < 1) {
+      throw new InvalidArgumentError(`batch must be an integer ≥ 1; received ${describeValue(batch)}`, {
+        field: 'batch', expected: 'integer ≥ 1', received: batch,
+      });
+    }
+    const nIn = this.inTree.functionCount * batch;
+    const nOut = this.outTree.functionCount * batch;
+    if (!(x instanceof Float64Array) || x.length < nIn) {
+      throw new InvalidArgumentError(`x must be a Float64Array of length ≥ ${nIn} (input functions × batch); received ${describeValue(x)}`, {
+        field: 'x', expected: `Float64Array, length ≥ ${nIn}`, received: x instanceof Float64Array ? x.length : x,
+      });
+    }
+    if (!(y instanceof Float64Array) || y.length < nOut) {
+      throw new InvalidArgumentError(`y must be a Float64Array of length ≥ ${nOut} (output functions × batch); received ${describeValue(y)}`, {
+        field: 'y', expected: `Float64Array, length ≥ ${nOut}`, received: y instanceof Float64Array ? y.length : y,
+      });
+    }
+    if (batch > this.workBatch) {
+      this.work = new Float64Array(this.program.workSize * batch);
+      this.workBatch = batch;
+    }
+    const need = this.program.workSize * batch;
+    this.work.fill(0, 0, need);
+    y.fill(0, 0, nOut);
+    runProgram(this.program, x, this.work, y, batch);
+  }
+}

@@ -1,0 +1,181 @@
+/**
+ * Independent dense reference for the temporal bases (DESIGN §3): every basis function is
+ * evaluated pointwise straight from its defining formula, and pairs are integrated by
+ * composite Gauss–Legendre quadrature on the finest dyadic mesh of the pair, only over the
+ * intervals where both functions live. Nothing here uses src/time's single-scale machinery.
+ * Reused by the space-time tests.
+ */
+import type { LevelPart, TemporalBasisKind, TemporalForm } from '../../src/time/index';
+
+/**
+ * 3-point Gauss–Legendre rule on [−1, 1]: Abramowitz & Stegun, Handbook of Mathematical
+ * Functions (1964), Table 25.4, n = 3: x = 0, ±0.774596669241483377035853079956;
+ * w = 0.888888888888888888888888888889, 0.555555555555555555555555555556.
+ * Exact for degree 5; the integrands here are of degree ≤ 2 on each interval.
+ */
+export const GAUSS3_NODES = [-0.774596669241483377035853079956, 0, 0.774596669241483377035853079956];
+export const GAUSS3_WEIGHTS = [0.555555555555555555555555555556, 0.888888888888888888888888888889, 0.555555555555555555555555555556];
+
+export interface NodeRef {
+  level: number;
+  index: number;
+}
+
+/**
+ * A point s = (i + v)·2^{-m} of (0, 1), kept as (m, i, v) so that s·2^l − j can be formed
+ * without cancellation even at level 52 next to s = 1.
+ */
+interface Pt {
+  m: number;
+  i: number;
+  v: number;
+}
+
+/** s·2^l − j, exactly up to the rounding of v (l ≤ m). */
+function rel(p: Pt, l: number, j: number): number {
+  const f = 2 ** (l - p.m);
+  return (p.i * f - j) + p.v * f;
+}
+
+/** Hat of the level-l mesh at node j: value and d/ds. */
+function hat(p: Pt, l: number, j: number): [number, number] {
+  const r = rel(p, l, j);
+  if (Math.abs(r) >= 1) return [0, 0];
+  return [1 - Math.abs(r), r > 0 ? -(2 ** l) : 2 ** l];
+}
+
+/** Unnormalised function on (0,1) and its derivative (DESIGN §3.1 and §3.2 formulas). */
+function rawBasis(kind: TemporalBasisKind, l: number, k: number, slot: number, p: Pt): [number, number] {
+  if (kind === 'trial') {
+    if (l === 0) {
+      const s = rel(p, 0, 0);
+      return k === 0 ? [1 - s, -1] : [s, 1];
+    }
+    // ŝ_{l,k} = φ_{l,2k+1} − w_L φ_{l−1,k} − w_R φ_{l−1,k+1}; w = 1/2 at the coarse nodes 0 and 1, else 1/4
+    const last = 2 ** (l - 1);
+    const wL = k === 0 ? 0.5 : 0.25;
+    const wR = k + 1 === last ? 0.5 : 0.25;
+    const a = hat(p, l, 2 * k + 1);
+    const b = hat(p, l - 1, k);
+    const c = hat(p, l - 1, k + 1);
+    return [a[0] - wL * b[0] - wR * c[0], a[1] - wL * b[1] - wR * c[1]];
+  }
+  if (l === 0) {
+    const s = rel(p, 0, 0);
+    return slot === 0 ? [1, 0] : [Math.sqrt(3) * (2 * s - 1), 2 * Math.sqrt(3)];
+  }
+  // J = I_{l−1,k}, u = 2(s − left(J))/|J| − 1 ∈ [−1, 1]
+  const r = rel(p, l - 1, k);
+  if (r <= 0 || r >= 1) return [0, 0];
+  const J = 2 ** -(l - 1);
+  const u = 2 * r - 1;
+  const dudS = 2 / J;
+  const sg = u > 0 ? 1 : -1;
+  if (slot === 0) {
+    const c = Math.sqrt(12 / J);
+    return [c * (Math.abs(u) - 0.5), c * sg * dudS];
+  }
+  const c = Math.sqrt(4 / J);
+  return [c * (sg - 1.5 * u), c * -1.5 * dudS];
+}
+
+/** Support of a node as level-l numerators (DESIGN §3.1, §3.2). */
+export function referenceSupport(kind: TemporalBasisKind, l: number, k: number): [number, number] {
+  if (l === 0) return [0, 1];
+  if (kind === 'trial') return [Math.max(2 * k - 2, 0), Math.min(2 * k + 4, 2 ** l)];
+  return [2 * k, 2 * k + 2];
+}
+
+/** Composite Gauss quadrature of f over the level-m intervals [i0, i1) of (0,1). */
+function integrate(m: number, i0: number, i1: number, f: (p: Pt) => number): number {
+  let s = 0;
+  for (let i = i0; i < i1; i++) {
+    for (let g = 0; g < 3; g++) {
+      s += GAUSS3_WEIGHTS[g]! * 0.5 * f({ m, i, v: 0.5 * (1 + GAUSS3_NODES[g]!) });
+    }
+  }
+  return s * 2 ** -m;
+}
+
+const normCache = new Map<string, number>();
+
+/** ‖ŝ‖_{L2(0,1)} by quadrature on the function's own level. */
+function rawNorm(kind: TemporalBasisKind, l: number, k: number, slot: number): number {
+  if (kind === 'test') return 1; // the formulas are normalised already (the tests check it)
+  const key = `${l},${k}`;
+  let v = normCache.get(key);
+  if (v === undefined) {
+    const [lo, hi] = referenceSupport(kind, l, k);
+    v = Math.sqrt(integrate(l, lo, hi, (p) => rawBasis(kind, l, k, slot, p)[0] ** 2));
+    normCache.set(key, v);
+  }
+  return v;
+}
+
+/** Normalised basis function on (0,1): value and d/ds. */
+function basisRef(kind: TemporalBasisKind, l: number, k: number, slot: number, p: Pt): [number, number] {
+  const [a, b] = rawBasis(kind, l, k, slot, p);
+  const n = rawNorm(kind, l, k, slot);
+  return [a / n, b / n];
+}
+
+/**
+ * Value and derivative of a basis function at t ∈ (0, T) by the DESIGN formulas,
+ * b(t) = T^{-1/2} b̂(t/T). At breakpoints a one-sided value is returned.
+ */
+export function referenceValue(kind: TemporalBasisKind, l: number, k: number, slot: number, t: number, T = 1): { value: number; derivative: number } {
+  const m = 52;
+  const x = (t / T) * 2 ** m;
+  const i = Math.min(Math.floor(x), 2 ** m - 1);
+  const [a, b] = basisRef(kind, l, k, slot, { m, i, v: x - i });
+  return { value: a / Math.sqrt(T), derivative: b / (T * Math.sqrt(T)) };
+}
+
+function fpn(kind: TemporalBasisKind): number {
+  return kind === 'trial' ? 1 : 2;
+}
+
+/**
+ * Dense matrix C[i][j] = ∫_0^T q_i^{(dq)} p_j^{(dp)} dt of a form between output functions q
+ * (rows, coefficient order: node n, slot s → row fpn·n + s) and input functions p (columns),
+ * restricted to the level pairs of `part` (lower |q| > |p|, upper |q| ≤ |p|).
+ */
+export function denseTemporalMatrix(
+  form: TemporalForm,
+  outKind: TemporalBasisKind,
+  outNodes: NodeRef[],
+  inKind: TemporalBasisKind,
+  inNodes: NodeRef[],
+  T: number,
+  part: LevelPart = 'full',
+): number[][] {
+  const dq = form === 'derivOut' || form === 'stiffness' ? 1 : 0;
+  const dp = form === 'derivIn' || form === 'stiffness' ? 1 : 0;
+  const fo = fpn(outKind);
+  const fi = fpn(inKind);
+  const C: number[][] = Array.from({ length: outNodes.length * fo }, () => new Array<number>(inNodes.length * fi).fill(0));
+  outNodes.forEach((q, a) => {
+    const [qlo, qhi] = referenceSupport(outKind, q.level, q.index);
+    inNodes.forEach((p, b) => {
+      if (part === 'lower' && !(q.level > p.level)) return;
+      if (part === 'upper' && !(q.level <= p.level)) return;
+      const [plo, phi] = referenceSupport(inKind, p.level, p.index);
+      const m = Math.max(q.level, p.level);
+      const lo = Math.max(qlo * 2 ** (m - q.level), plo * 2 ** (m - p.level));
+      const hi = Math.min(qhi * 2 ** (m - q.level), phi * 2 ** (m - p.level));
+      if (hi <= lo) return;
+      for (let sq = 0; sq < fo; sq++) {
+        for (let sp = 0; sp < fi; sp++) {
+          // ∫_0^T b_q b_p dt with b(t) = T^{-1/2} b̂(t/T): dt = T ds, each derivative brings 1/T
+          const v = integrate(m, lo, hi, (pt) => {
+            const u = basisRef(outKind, q.level, q.index, sq, pt)[dq]!;
+            const w = basisRef(inKind, p.level, p.index, sp, pt)[dp]!;
+            return (u / Math.sqrt(T)) * (w / Math.sqrt(T));
+          });
+          C[a * fo + sq]![b * fi + sp] = (T * v) / T ** (dq + dp);
+        }
+      }
+    });
+  });
+  return C;
+}
