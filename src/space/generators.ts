@@ -58,17 +58,25 @@ function gridTriangulation(
   x0: number, x1: number, y0: number, y1: number, nx: number, ny: number,
   keep: (i: number, j: number) => boolean,
 ): { points: Float64Array; triangles: Int32Array } {
+  // Points are numbered row by row (x fastest) among the used ones.
   const id = new Int32Array((nx + 1) * (ny + 1)).fill(-1);
+  for (let j = 0; j < ny; j++) {
+    for (let i = 0; i < nx; i++) {
+      if (!keep(i, j)) continue;
+      for (const g of [j * (nx + 1) + i, j * (nx + 1) + i + 1, (j + 1) * (nx + 1) + i, (j + 1) * (nx + 1) + i + 1]) id[g] = 0;
+    }
+  }
   const pts: number[] = [];
-  const tris: number[] = [];
-  const vid = (i: number, j: number): number => {
-    const g = j * (nx + 1) + i;
-    if (id[g]! < 0) {
+  for (let j = 0; j <= ny; j++) {
+    for (let i = 0; i <= nx; i++) {
+      const g = j * (nx + 1) + i;
+      if (id[g]! < 0) continue;
       id[g] = pts.length / 2;
       pts.push(i === nx ? x1 : x0 + ((x1 - x0) * i) / nx, j === ny ? y1 : y0 + ((y1 - y0) * j) / ny);
     }
-    return id[g]!;
-  };
+  }
+  const vid = (i: number, j: number): number => id[j * (nx + 1) + i]!;
+  const tris: number[] = [];
   for (let j = 0; j < ny; j++) {
     for (let i = 0; i < nx; i++) {
       if (!keep(i, j)) continue;
