@@ -263,15 +263,22 @@ export class SpatialDomain {
     }
     const n = this.markClosure(set, field);
     const fr = this.forest.vFree;
+    for (let i = 0; i < set.length; i++) {
+      if (!fr[set[i]!]) {
+        this.unmark(n);
+        throw new InvalidIndexSetError(`${field}[${i}] = ${set[i]} is a Dirichlet vertex (it carries no unknown)`, {
+          field: `${field}[${i}]`,
+          expected: 'free vertices only',
+          received: set[i],
+        });
+      }
+    }
     let free = 0;
     for (let k = 0; k < n; k++) if (fr[this.work[k]!]) free++;
     if (free !== set.length) {
-      // Find the culprit: a Dirichlet vertex in the set, or a missing godparent.
+      // Find the culprit: a free vertex of the closure that the set lacks.
       const inSet = new Set<number>(set);
       let msg = '';
-      for (let i = 0; i < set.length && !msg; i++) {
-        if (!fr[set[i]!]) msg = `${field}[${i}] = ${set[i]} is a Dirichlet vertex (it carries no unknown)`;
-      }
       for (let k = 0; k < n && !msg; k++) {
         const v = this.work[k]!;
         if (fr[v] && !inSet.has(v)) msg = `${field} is not closed: free vertex ${v} (an initial vertex or a godparent of a member) is missing`;
