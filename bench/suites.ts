@@ -3,7 +3,8 @@ import type { BenchCase } from './harness';
 import { timeCases } from './time';
 import { spaceCases } from './space';
 import { spaceMultigridCases } from './space-multigrid';
+import { spacetimeCases } from './spacetime';
 
 export type Suite = (quick: boolean) => BenchCase[];
 
-export const suites: Suite[] = [timeCases, spaceCases, spaceMultigridCases];
+export const suites: Suite[] = [timeCases, spaceCases, spaceMultigridCases, spacetimeCases];

@@ -15,3 +15,6 @@ export {
 
 export * from './time/index';
 export * from './space/index';
+export * from './spacetime/index';
+export * from './system/index';
+export * from './output/index';

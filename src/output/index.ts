@@ -1,0 +1,2 @@
+/** Public exports of the output module (re-exported by src/index.ts). */
+export { SpaceTimeSolution, type TimeSlice } from './space-time-solution';

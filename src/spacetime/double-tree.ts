@@ -1,0 +1,210 @@
+/**
+ * Double trees: space-time index sets (DESIGN.md §5.1).
+ *
+ * A double tree Λ is a set of pairs (λ, ν) — λ a temporal node, ν a free
+ * spatial vertex — closed under temporal parents in the first slot and under
+ * spatial godparents in the second. Storage is temporal-major: the temporal
+ * projection as a {@link TemporalTree}, and for every temporal node an
+ * interned sorted fibre of vertex ids. Coefficients of node i occupy one
+ * contiguous block; for a test-type (Ψ) set the block holds the two functions
+ * of the node one after the other. Fibres may be empty (intermediate sets of
+ * the tensor apply share the temporal projection of Λ_in or Λ_out).
+ */
+import { InvalidArgumentError, InvalidIndexSetError } from '../errors';
+import { TemporalTree, nodeParents, type TemporalBasisKind } from '../time/index';
+import type { SpatialDomain } from '../space/index';
+import { FibrePool, isSortedSubset, unionSorted } from './fibre-pool';
+
+
+export class DoubleTree {
+  /** Temporal basis of the first slot: `'trial'` (Σ, for Λ) or `'test'` (Ψ, for Λ_Y). */
+  readonly kind: TemporalBasisKind;
+  /** Temporal projection. */
+  readonly tree: TemporalTree;
+  /** Pool the fibres are interned in (shared by all sets of one problem). */
+  readonly pool: FibrePool;
+  /** Fibre id of each temporal node. */
+  readonly nodeFibre: Int32Array;
+  /** Fibre id of each temporal function (test nodes have two functions). */
+  readonly functionFibre: Int32Array;
+  /** Coefficient block of temporal function f is [functionOffset[f], functionOffset[f + 1]). */
+  readonly functionOffset: Int32Array;
+  /** Number of coefficients (unknowns). */
+  readonly size: number;
+
+  constructor(kind: TemporalBasisKind, tree: TemporalTree, nodeFibre: Int32Array, pool: FibrePool) {
+    if (tree.kind !== kind) throw new InvalidArgumentError(`temporal tree is of kind '${tree.kind}', expected '${kind}'`, { field: 'tree' });
+    if (nodeFibre.length !== tree.size) {
+      throw new InvalidArgumentError(`nodeFibre has length ${nodeFibre.length}, expected ${tree.size} (one per temporal node)`, { field: 'nodeFibre' });
+    }
+    this.kind = kind;
+    this.tree = tree;
+    this.pool = pool;
+    this.nodeFibre = nodeFibre;
+    const fpn = kind === 'test' ? 2 : 1;
+    const nf = tree.size * fpn;
+    this.functionFibre = new Int32Array(nf);
+    this.functionOffset = new Int32Array(nf + 1);
+    let off = 0;
+    for (let f = 0; f < nf; f++) {
+      const id = nodeFibre[fpn === 2 ? f >> 1 : f]!;
+      this.functionFibre[f] = id;
+      this.functionOffset[f] = off;
+      off += pool.get(id).length;
+    }
+    this.functionOffset[nf] = off;
+    this.size = off;
+  }
+
+  /** Number of temporal functions (`tree.functionCount`). */
+  get functionCount(): number {
+    return this.functionFibre.length;
+  }
+
+  /** The fibre (sorted free vertex ids) of temporal node `i`. */
+  fibre(i: number): Int32Array {
+    return this.pool.get(this.nodeFibre[i]!);
+  }
+
+  /** Builds a double tree from one fibre per temporal node of `tree`. */
+  static fromNodeFibres(kind: TemporalBasisKind, tree: TemporalTree, fibres: Int32Array[], pool: FibrePool): DoubleTree {
+    const ids = new Int32Array(tree.size);
+    for (let i = 0; i < tree.size; i++) ids[i] = pool.intern(fibres[i]!);
+    return new DoubleTree(kind, tree, ids, pool);
+  }
+
+  /**
+   * All pairs with `timeWeight·|λ| + ℓ_x(ν) ≤ L`: `timeWeight = 1` gives the
+   * sparse grid, and {@link DoubleTree.fullGrid} the full grid.
+   */
+  static sparseGrid(domain: SpatialDomain, L: number, pool: FibrePool = new FibrePool()): DoubleTree {
+    checkLevel(L, 'L');
+    const tree = TemporalTree.full('trial', L);
+    const byLevel: Int32Array[] = [];
+    for (let l = 0; l <= L; l++) byLevel.push(domain.uniformSet(L - l));
+    const fibres = Array.from({ length: tree.size }, (_, i) => byLevel[tree.level[i]!]!);
+    return DoubleTree.fromNodeFibres('trial', tree, fibres, pool);
+  }
+
+  /** All pairs with |λ| ≤ Lt and ℓ_x(ν) ≤ Lx (tensor-product full grid). */
+  static fullGrid(domain: SpatialDomain, Lt: number, Lx: number = Lt, pool: FibrePool = new FibrePool()): DoubleTree {
+    checkLevel(Lt, 'Lt');
+    checkLevel(Lx, 'Lx');
+    const tree = TemporalTree.full('trial', Lt);
+    const set = domain.uniformSet(Lx);
+    return DoubleTree.fromNodeFibres('trial', tree, Array.from({ length: tree.size }, () => set), pool);
+  }
+
+  /**
+   * A trial double tree from user pairs `(level, index, vertex)`. With
+   * `close: true` the smallest double tree containing the pairs is returned
+   * (Dirichlet vertices met on the way are dropped); otherwise the set must
+   * already be closed and a missing parent is reported by name.
+   */
+  static fromPairs(
+    domain: SpatialDomain,
+    pairs: { levels: ArrayLike<number>; indices: ArrayLike<number>; vertices: ArrayLike<number> },
+    opts: { close?: boolean; pool?: FibrePool } = {},
+  ): DoubleTree {
+    const { levels, indices, vertices } = pairs;
+    const n = levels.length;
+    if (indices.length !== n || vertices.length !== n) {
+      throw new InvalidArgumentError(`pairs.levels, pairs.indices and pairs.vertices must have equal lengths (got ${n}, ${indices.length}, ${vertices.length})`, { field: 'pairs' });
+    }
+    const nv = domain.vertexCount;
+    for (let p = 0; p < n; p++) {
+      const v = vertices[p]!;
+      if (!Number.isInteger(v) || v < 0 || v >= nv) {
+        throw new InvalidArgumentError(`pairs.vertices[${p}] = ${v} is not a vertex id in [0, ${nv})`, { field: `pairs.vertices[${p}]`, received: v });
+      }
+      if (!domain.isFree(v)) {
+        throw new InvalidArgumentError(`pairs.vertices[${p}] = ${v} is a Dirichlet vertex and carries no unknown`, { field: `pairs.vertices[${p}]`, received: v });
+      }
+    }
+    const close = opts.close ?? false;
+    const pool = opts.pool ?? new FibrePool();
+    // Temporal projection (validated by TemporalTree: levels/indices in range; closed unless `close`).
+    const tree = TemporalTree.fromNodes('trial', levels, indices, { close });
+    const lists: number[][] = Array.from({ length: tree.size }, () => []);
+    for (let p = 0; p < n; p++) lists[tree.find(levels[p]!, indices[p]!)]!.push(vertices[p]!);
+    const own = lists.map((l) => Int32Array.from(new Set(l)).sort());
+    const par = new Float64Array(4);
+    const fibres: Int32Array[] = new Array(tree.size);
+    if (close) {
+      // Deepest level first: F_λ = close(own pairs ∪ children's fibres), then hand F_λ to the parents.
+      const acc: Int32Array[][] = own.map((o) => [o]);
+      for (let i = tree.size - 1; i >= 0; i--) {
+        const f = domain.close(unionSorted(acc[i]!));
+        fibres[i] = f;
+        const np = nodeParents('trial', tree.level[i]!, tree.index[i]!, par);
+        for (let q = 0; q < np; q++) acc[tree.find(par[2 * q]!, par[2 * q + 1]!)]!.push(f);
+      }
+    } else {
+      for (let i = 0; i < tree.size; i++) {
+        const f = own[i]!;
+        const l = tree.level[i]!;
+        const k = tree.index[i]!;
+        const closed = domain.close(f);
+        if (closed.length !== f.length) {
+          const v = firstMissing(closed, f);
+          throw new InvalidIndexSetError(
+            `pair (level ${l}, index ${k}, vertex ${v}) is missing: the spatial fibre of temporal node (${l}, ${k}) is not closed under godparents`,
+            { field: 'pairs', received: v },
+          );
+        }
+        const np = nodeParents('trial', l, k, par);
+        for (let q = 0; q < np; q++) {
+          const pl = par[2 * q]!;
+          const pk = par[2 * q + 1]!;
+          const pf = own[tree.find(pl, pk)]!;
+          if (!isSortedSubset(f, pf)) {
+            const v = firstMissing(f, pf);
+            throw new InvalidIndexSetError(
+              `pair (level ${pl}, index ${pk}, vertex ${v}) is missing: it is the temporal parent of pair (level ${l}, index ${k}, vertex ${v})`,
+              { field: 'pairs', received: v },
+            );
+          }
+        }
+        fibres[i] = f;
+      }
+    }
+    return DoubleTree.fromNodeFibres('trial', tree, fibres, pool);
+  }
+
+  /** The pairs of the set as parallel arrays (for inspection and export). */
+  pairs(): { levels: Int32Array; indices: Float64Array; vertices: Int32Array; slots: Int32Array } {
+    const levels = new Int32Array(this.size);
+    const indices = new Float64Array(this.size);
+    const vertices = new Int32Array(this.size);
+    const slots = new Int32Array(this.size);
+    const fpn = this.kind === 'test' ? 2 : 1;
+    for (let f = 0; f < this.functionCount; f++) {
+      const node = fpn === 2 ? f >> 1 : f;
+      const fib = this.pool.get(this.functionFibre[f]!);
+      const o = this.functionOffset[f]!;
+      for (let p = 0; p < fib.length; p++) {
+        levels[o + p] = this.tree.level[node]!;
+        indices[o + p] = this.tree.index[node]!;
+        vertices[o + p] = fib[p]!;
+        slots[o + p] = fpn === 2 ? f & 1 : 0;
+      }
+    }
+    return { levels, indices, vertices, slots };
+  }
+}
+
+function checkLevel(L: number, field: string): void {
+  if (!Number.isInteger(L) || L < 0 || L > 40) {
+    throw new InvalidArgumentError(`${field} = ${L} must be an integer level in [0, 40]`, { field, expected: 'integer in [0, 40]', received: L });
+  }
+}
+
+/** First element of sorted `a` that is not in sorted `b`. */
+function firstMissing(a: Int32Array, b: Int32Array): number {
+  let j = 0;
+  for (let i = 0; i < a.length; i++) {
+    while (j < b.length && b[j]! < a[i]!) j++;
+    if (j >= b.length || b[j] !== a[i]) return a[i]!;
+  }
+  return -1;
+}

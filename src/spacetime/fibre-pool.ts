@@ -1,0 +1,95 @@
+/**
+ * Interning of spatial fibres (sorted Int32Array of free vertex ids).
+ *
+ * Every double tree of one problem (Λ, Λ_Y, the intermediate sets of the
+ * tensor apply) draws its fibres from one pool, so that identical fibres are
+ * one object with one small integer id. Spatial operator plans are then
+ * cached per pair of fibre ids (a sparse grid has only L + 1 distinct fibres).
+ */
+
+export class FibrePool {
+  private readonly byHash = new Map<number, number[]>();
+  private readonly byRef = new WeakMap<Int32Array, number>();
+  /** The distinct fibres; a fibre's id is its position here. */
+  readonly fibres: Int32Array[] = [];
+
+  /** Returns the id of a fibre with the content of `set` (which must be sorted ascending). */
+  intern(set: Int32Array): number {
+    const known = this.byRef.get(set);
+    if (known !== undefined) return known;
+    const h = hashInts(set);
+    let bucket = this.byHash.get(h);
+    if (bucket === undefined) {
+      bucket = [];
+      this.byHash.set(h, bucket);
+    }
+    for (const id of bucket) {
+      if (sameInts(this.fibres[id]!, set)) {
+        this.byRef.set(set, id);
+        return id;
+      }
+    }
+    const id = this.fibres.length;
+    this.fibres.push(set);
+    bucket.push(id);
+    this.byRef.set(set, id);
+    return id;
+  }
+
+  get(id: number): Int32Array {
+    return this.fibres[id]!;
+  }
+}
+
+function hashInts(a: Int32Array): number {
+  let h = 0x811c9dc5 ^ a.length;
+  for (let i = 0; i < a.length; i++) {
+    h ^= a[i]!;
+    h = Math.imul(h, 0x01000193);
+  }
+  return h >>> 0;
+}
+
+function sameInts(a: Int32Array, b: Int32Array): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
+}
+
+/** Sorted union of several sorted Int32Arrays (k-way merge by repeated pairwise merge). */
+export function unionSorted(sets: Int32Array[]): Int32Array {
+  if (sets.length === 0) return new Int32Array(0);
+  let acc = sets[0]!;
+  for (let s = 1; s < sets.length; s++) acc = mergeTwo(acc, sets[s]!);
+  return acc;
+}
+
+function mergeTwo(a: Int32Array, b: Int32Array): Int32Array {
+  if (a === b || b.length === 0) return a;
+  if (a.length === 0) return b;
+  const out = new Int32Array(a.length + b.length);
+  let i = 0;
+  let j = 0;
+  let n = 0;
+  while (i < a.length && j < b.length) {
+    const x = a[i]!;
+    const y = b[j]!;
+    if (x < y) { out[n++] = x; i++; }
+    else if (y < x) { out[n++] = y; j++; }
+    else { out[n++] = x; i++; j++; }
+  }
+  while (i < a.length) out[n++] = a[i++]!;
+  while (j < b.length) out[n++] = b[j++]!;
+  return n === out.length ? out : out.slice(0, n);
+}
+
+/** True if every element of sorted `sub` is in sorted `sup`. */
+export function isSortedSubset(sub: Int32Array, sup: Int32Array): boolean {
+  let j = 0;
+  for (let i = 0; i < sub.length; i++) {
+    const x = sub[i]!;
+    while (j < sup.length && sup[j]! < x) j++;
+    if (j >= sup.length || sup[j] !== x) return false;
+  }
+  return true;
+}

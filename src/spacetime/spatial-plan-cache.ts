@@ -1,0 +1,32 @@
+/**
+ * Cache of spatial operator plans per (input fibre, output fibre) pair of one
+ * fibre pool, so that identical spatial applications share one plan.
+ */
+import { SpatialOperatorPlan, type SpatialDomain } from '../space/index';
+import type { FibrePool } from './fibre-pool';
+
+export class SpatialPlanCache {
+  readonly domain: SpatialDomain;
+  readonly pool: FibrePool;
+  private readonly plans = new Map<number, SpatialOperatorPlan>();
+
+  constructor(domain: SpatialDomain, pool: FibrePool) {
+    this.domain = domain;
+    this.pool = pool;
+  }
+
+  /** The plan from fibre `inId` to fibre `outId` (built on first use). */
+  get(inId: number, outId: number): SpatialOperatorPlan {
+    const key = inId * 0x200000 + outId;
+    let p = this.plans.get(key);
+    if (p === undefined) {
+      p = new SpatialOperatorPlan(this.domain, this.pool.get(inId), this.pool.get(outId));
+      this.plans.set(key, p);
+    }
+    return p;
+  }
+
+  get size(): number {
+    return this.plans.size;
+  }
+}

@@ -1,0 +1,201 @@
+/**
+ * The time-direction pass (C_t ⊗ I) between two double trees (DESIGN.md §5.2).
+ *
+ * For every spatial vertex ν the pass applies the one-dimensional tree
+ * operator from the temporal fibre Λ_in(·, ν) to Λ_out(·, ν). Vertices whose
+ * pair of temporal fibres has the same shape form one group and are processed
+ * together as one batched 1D apply: the plan stores, per group, the 1D plans
+ * and the gather/scatter offsets into the flat coefficient vectors, so that
+ * an application is a sequence of passes over typed arrays.
+ */
+import { TemporalTree, TreeOperatorPlan, type LevelPart, type TemporalForm } from '../time/index';
+import type { DoubleTree } from './double-tree';
+
+/** Per-vertex temporal fibres of a double tree: node positions and coefficient offsets (slot 0). */
+interface VertexFibres {
+  start: Int32Array; // by vertex id, length maxVertex + 2
+  node: Int32Array;
+  offset: Int32Array; // offset of (node, vertex) for slot 0; slot 1 adds the fibre length
+  fibreLen: Int32Array;
+}
+
+function vertexFibres(dt: DoubleTree, vertexBound: number): VertexFibres {
+  const { tree } = dt;
+  const fpn = dt.kind === 'test' ? 2 : 1;
+  const start = new Int32Array(vertexBound + 2);
+  let total = 0;
+  for (let i = 0; i < tree.size; i++) {
+    const f = dt.fibre(i);
+    total += f.length;
+    for (let p = 0; p < f.length; p++) start[f[p]! + 2]!++;
+  }
+  for (let v = 2; v < start.length; v++) start[v]! += start[v - 1]!;
+  const node = new Int32Array(total);
+  const offset = new Int32Array(total);
+  const fibreLen = new Int32Array(total);
+  for (let i = 0; i < tree.size; i++) {
+    const f = dt.fibre(i);
+    const base = dt.functionOffset[fpn * i]!;
+    for (let p = 0; p < f.length; p++) {
+      const slot = start[f[p]! + 1]!++;
+      node[slot] = i;
+      offset[slot] = base + p;
+      fibreLen[slot] = f.length;
+    }
+  }
+  return { start, node, offset, fibreLen };
+}
+
+function maxVertex(dt: DoubleTree): number {
+  let m = -1;
+  for (let i = 0; i < dt.tree.size; i++) {
+    const f = dt.fibre(i);
+    if (f.length > 0 && f[f.length - 1]! > m) m = f[f.length - 1]!;
+  }
+  return m;
+}
+
+interface Group {
+  batch: number;
+  plans: TreeOperatorPlan[]; // one per form
+  inFunctions: number;
+  outFunctions: number;
+  gatherStart: number; // into gather (inFunctions * batch entries)
+  scatterStart: number; // into scatter (outFunctions * batch entries)
+}
+
+/** Reusable plan for y_f = (C_f ⊗ I) x with C_f one of several temporal forms. */
+export class TemporalPassPlan {
+  readonly forms: readonly TemporalForm[];
+  private readonly groups: Group[] = [];
+  private readonly gather: Int32Array;
+  private readonly scatter: Int32Array;
+  private readonly bufIn: Float64Array;
+  private readonly bufOut: Float64Array;
+  private readonly bufAcc: Float64Array;
+  readonly inSize: number;
+  readonly outSize: number;
+
+  constructor(forms: readonly TemporalForm[], input: DoubleTree, output: DoubleTree, part: LevelPart, T: number) {
+    this.forms = forms;
+    this.inSize = input.size;
+    this.outSize = output.size;
+    const vb = Math.max(maxVertex(input), maxVertex(output)) + 1;
+    const vin = vertexFibres(input, vb);
+    const vout = vertexFibres(output, vb);
+    const fin = input.kind === 'test' ? 2 : 1;
+    const fout = output.kind === 'test' ? 2 : 1;
+    // Group vertices by the shape of their (input, output) temporal fibres.
+    const byKey = new Map<string, number[]>();
+    for (let v = 0; v < vb; v++) {
+      const a0 = vin.start[v]!, a1 = vin.start[v + 1]!;
+      const b0 = vout.start[v]!, b1 = vout.start[v + 1]!;
+      if (a0 === a1 || b0 === b1) continue;
+      let key = '';
+      for (let s = a0; s < a1; s++) key += vin.node[s]! + ',';
+      key += '|';
+      for (let s = b0; s < b1; s++) key += vout.node[s]! + ',';
+      let g = byKey.get(key);
+      if (g === undefined) byKey.set(key, (g = []));
+      g.push(v);
+    }
+    let nGather = 0;
+    let nScatter = 0;
+    let maxIn = 0;
+    let maxOut = 0;
+    const specs: { vertices: number[]; group: Group }[] = [];
+    for (const vertices of byKey.values()) {
+      const v0 = vertices[0]!;
+      const inNodes = vin.node.subarray(vin.start[v0]!, vin.start[v0 + 1]!);
+      const outNodes = vout.node.subarray(vout.start[v0]!, vout.start[v0 + 1]!);
+      const inTree = subTree(input.tree, inNodes);
+      const outTree = subTree(output.tree, outNodes);
+      const plans = forms.map((f) => new TreeOperatorPlan(f, inTree, outTree, part, T));
+      const batch = vertices.length;
+      const group: Group = {
+        batch, plans,
+        inFunctions: inTree.functionCount, outFunctions: outTree.functionCount,
+        gatherStart: nGather, scatterStart: nScatter,
+      };
+      nGather += group.inFunctions * batch;
+      nScatter += group.outFunctions * batch;
+      maxIn = Math.max(maxIn, group.inFunctions * batch);
+      maxOut = Math.max(maxOut, group.outFunctions * batch);
+      specs.push({ vertices, group });
+      this.groups.push(group);
+    }
+    this.gather = new Int32Array(nGather);
+    this.scatter = new Int32Array(nScatter);
+    for (const { vertices, group } of specs) {
+      fillOffsets(this.gather, group.gatherStart, vertices, vin, fin);
+      fillOffsets(this.scatter, group.scatterStart, vertices, vout, fout);
+    }
+    this.bufIn = new Float64Array(maxIn);
+    this.bufOut = new Float64Array(maxOut);
+    this.bufAcc = new Float64Array(maxOut);
+  }
+
+  /** Number of vertex groups (distinct temporal fibre shapes). */
+  get groupCount(): number {
+    return this.groups.length;
+  }
+
+  /** ys[f] = (C_f ⊗ I) x for every form f (overwrites each ys[f]). */
+  applyEach(x: Float64Array, ys: Float64Array[]): void {
+    for (const y of ys) y.fill(0, 0, this.outSize);
+    const { gather, scatter, bufIn, bufOut } = this;
+    for (const g of this.groups) {
+      const nIn = g.inFunctions * g.batch;
+      const nOut = g.outFunctions * g.batch;
+      for (let k = 0, o = g.gatherStart; k < nIn; k++, o++) bufIn[k] = x[gather[o]!]!;
+      for (let f = 0; f < g.plans.length; f++) {
+        g.plans[f]!.apply(bufIn, bufOut, g.batch);
+        const y = ys[f]!;
+        for (let k = 0, o = g.scatterStart; k < nOut; k++, o++) y[scatter[o]!] = bufOut[k]!;
+      }
+    }
+  }
+
+  /** y (+)= Σ_f (C_f ⊗ I) xs[f]; overwrites y unless `accumulate`. */
+  applySummed(xs: Float64Array[], y: Float64Array, accumulate: boolean): void {
+    if (!accumulate) y.fill(0, 0, this.outSize);
+    const { gather, scatter, bufIn, bufOut, bufAcc } = this;
+    for (const g of this.groups) {
+      const nIn = g.inFunctions * g.batch;
+      const nOut = g.outFunctions * g.batch;
+      for (let f = 0; f < g.plans.length; f++) {
+        const x = xs[f]!;
+        for (let k = 0, o = g.gatherStart; k < nIn; k++, o++) bufIn[k] = x[gather[o]!]!;
+        g.plans[f]!.apply(bufIn, f === 0 ? bufAcc : bufOut, g.batch);
+        if (f > 0) for (let k = 0; k < nOut; k++) bufAcc[k]! += bufOut[k]!;
+      }
+      for (let k = 0, o = g.scatterStart; k < nOut; k++, o++) y[scatter[o]!]! += bufAcc[k]!;
+    }
+  }
+}
+
+/** The temporal tree formed by the given (ascending) node positions of `tree`. */
+function subTree(tree: TemporalTree, nodes: Int32Array): TemporalTree {
+  const levels = new Int32Array(nodes.length);
+  const indices = new Float64Array(nodes.length);
+  for (let j = 0; j < nodes.length; j++) {
+    levels[j] = tree.level[nodes[j]!]!;
+    indices[j] = tree.index[nodes[j]!]!;
+  }
+  return TemporalTree.fromNodes(tree.kind, levels, indices);
+}
+
+/** Offsets of (temporal function j, vertex b) in batch layout j * batch + b. */
+function fillOffsets(dst: Int32Array, start: number, vertices: number[], vf: VertexFibres, fpn: number): void {
+  const batch = vertices.length;
+  for (let b = 0; b < batch; b++) {
+    const v = vertices[b]!;
+    const s0 = vf.start[v]!;
+    const s1 = vf.start[v + 1]!;
+    for (let s = s0; s < s1; s++) {
+      const j = (s - s0) * fpn;
+      dst[start + j * batch + b] = vf.offset[s]!;
+      if (fpn === 2) dst[start + (j + 1) * batch + b] = vf.offset[s]! + vf.fibreLen[s]!;
+    }
+  }
+}

@@ -1,0 +1,85 @@
+/**
+ * Linear-time application of C = C_M ⊗ M_x + C_A ⊗ A_x from Λ_in to Λ_out by
+ * the unidirectional principle (DESIGN.md §5.2).
+ *
+ * Each temporal factor splits by levels into L (output strictly finer) and
+ * U (output not finer). With the intermediate double trees
+ *   Θ(μ,·) = ∪{Λ_in(λ,·) : |λ| = |μ|,     supp λ ∩ supp μ of positive length},  μ ∈ π_t(Λ_out)
+ *   Σ(λ,·) = ∪{Λ_out(μ,·) : |μ| = |λ| + 1, supp μ ∩ supp λ of positive length},  λ ∈ π_t(Λ_in)
+ * the result on Λ_out is exactly
+ *   y = (I ⊗ C_x)_{Λout←Θ} (U ⊗ I)_{Θ←Λin} x + (L ⊗ I)_{Λout←Σ} (I ⊗ C_x)_{Σ←Λin} x.
+ *
+ * Why this is exact (nested supports, DESIGN.md §3.1): an entry U[μ,λ] ≠ 0
+ * needs |λ| ≥ |μ| and overlapping supports; the ancestor λ' of λ at level |μ|
+ * has a larger support, so it overlaps μ too, and it carries every vertex ν
+ * of λ (Λ_in is a double tree) — hence ν ∈ Θ(μ,·) and the time-first pass
+ * sees every term. Likewise L[μ,λ] ≠ 0 needs |μ| > |λ|; the ancestor μ' of μ
+ * at level |λ| + 1 overlaps λ and carries every vertex of μ, so the
+ * space-first pass has produced the spatial result on all of Λ_out(μ,·).
+ * Both intermediate sets are double trees whose temporal fibres are trees,
+ * by the same ancestor argument.
+ */
+import type { TemporalForm } from '../time/index';
+import type { LinearOperator } from '../system/linear-operator';
+import { DoubleTree } from './double-tree';
+import { overlapUnionFibres } from './overlap-unions';
+import { SpatialPassPlan } from './spatial-pass';
+import type { SpatialPlanCache } from './spatial-plan-cache';
+import { TemporalPassPlan } from './temporal-pass';
+
+export class TensorOperatorPlan implements LinearOperator {
+  readonly input: DoubleTree;
+  readonly inSize: number;
+  readonly outSize: number;
+  readonly output: DoubleTree;
+  /** Θ: time-first intermediate set (temporal projection of Λ_out). */
+  readonly timeFirstSet: DoubleTree;
+  /** Σ: space-first intermediate set (temporal projection of Λ_in). */
+  readonly spaceFirstSet: DoubleTree;
+  private readonly upperTime: TemporalPassPlan;
+  private readonly upperSpace: SpatialPassPlan;
+  private readonly lowerSpace: SpatialPassPlan;
+  private readonly lowerTime: TemporalPassPlan;
+  private readonly zM: Float64Array;
+  private readonly zA: Float64Array;
+  private readonly wM: Float64Array;
+  private readonly wA: Float64Array;
+  private readonly zPair: Float64Array[];
+  private readonly wPair: Float64Array[];
+
+  /**
+   * @param massForm temporal form paired with the spatial mass M_x
+   * @param stiffForm temporal form paired with the spatial stiffness A_x
+   */
+  constructor(massForm: TemporalForm, stiffForm: TemporalForm, input: DoubleTree, output: DoubleTree, cache: SpatialPlanCache, T: number) {
+    this.input = input;
+    this.output = output;
+    this.inSize = input.size;
+    this.outSize = output.size;
+    const theta = DoubleTree.fromNodeFibres(output.kind, output.tree, overlapUnionFibres(output.tree, input, 0), input.pool);
+    const sigma = DoubleTree.fromNodeFibres(input.kind, input.tree, overlapUnionFibres(input.tree, output, 1), input.pool);
+    this.timeFirstSet = theta;
+    this.spaceFirstSet = sigma;
+    const forms = [massForm, stiffForm] as const;
+    this.upperTime = new TemporalPassPlan(forms, input, theta, 'upper', T);
+    this.upperSpace = new SpatialPassPlan(theta, output, cache);
+    this.lowerSpace = new SpatialPassPlan(input, sigma, cache);
+    this.lowerTime = new TemporalPassPlan(forms, sigma, output, 'lower', T);
+    this.zM = new Float64Array(theta.size);
+    this.zA = new Float64Array(theta.size);
+    this.wM = new Float64Array(sigma.size);
+    this.wA = new Float64Array(sigma.size);
+    this.zPair = [this.zM, this.zA];
+    this.wPair = [this.wM, this.wA];
+  }
+
+  /** y = C x on Λ_out (overwrites y; x has `input.size`, y `output.size` entries). */
+  apply(x: Float64Array, y: Float64Array): void {
+    const { zM, zA, wM, wA } = this;
+    this.upperTime.applyEach(x, this.zPair);
+    this.upperSpace.applySum(zM, zA, y);
+    this.lowerSpace.applySplit(x, wM, wA);
+    this.lowerTime.applySummed(this.wPair, y, true);
+  }
+
+}

@@ -1,0 +1,125 @@
+/**
+ * Approximate inverses of (A_x + α M_x) on one spatial fibre, in hierarchical
+ * coordinates (DESIGN.md §4.3, §6): either the multilevel V-cycle of the
+ * spatial module or, for small problems and tests, an exact dense Cholesky
+ * solve (ml-matrix) of the hierarchical matrix.
+ */
+import { CholeskyDecomposition, Matrix } from 'ml-matrix';
+import { InvalidArgumentError } from '../errors';
+import type { SpatialDomain } from '../space/index';
+import type { LeafMesh } from '../space/leaf-mesh';
+import { MultilevelPreconditioner } from '../space/multigrid/index';
+import type { FibrePool } from '../spacetime/fibre-pool';
+import type { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
+
+/** How the spatial inverses inside K_Y and K_X are realised. */
+export type InnerSolver =
+  | { kind: 'multigrid'; cycles?: number }
+  | { kind: 'exact' };
+
+/** z[zOff..] ≈ (A + αM)⁻¹ r[rOff..] on one fibre. */
+export interface FibreInverse {
+  apply(r: Float64Array, rOff: number, z: Float64Array, zOff: number, alpha: number): void;
+}
+
+class MultigridFibreInverse implements FibreInverse {
+  private readonly local: Int32Array;
+  private readonly rLoc: Float64Array;
+  private readonly zLoc: Float64Array;
+  constructor(mesh: LeafMesh, fibre: Int32Array, private readonly mg: MultilevelPreconditioner) {
+    this.local = localIndices(mesh, fibre);
+    this.rLoc = new Float64Array(mesh.vertexCount);
+    this.zLoc = new Float64Array(mesh.vertexCount);
+  }
+  apply(r: Float64Array, rOff: number, z: Float64Array, zOff: number, alpha: number): void {
+    const { local, rLoc, zLoc } = this;
+    rLoc.fill(0);
+    for (let p = 0; p < local.length; p++) rLoc[local[p]!] = r[rOff + p]!;
+    this.mg.applyHierarchical(rLoc, zLoc, alpha);
+    for (let p = 0; p < local.length; p++) z[zOff + p] = zLoc[local[p]!]!;
+  }
+}
+
+class ExactFibreInverse implements FibreInverse {
+  private readonly factors = new Map<number, CholeskyDecomposition>();
+  private readonly rhs: Matrix;
+  constructor(private readonly M: Matrix, private readonly A: Matrix) {
+    this.rhs = new Matrix(M.rows, 1);
+  }
+  apply(r: Float64Array, rOff: number, z: Float64Array, zOff: number, alpha: number): void {
+    const n = this.M.rows;
+    let chol = this.factors.get(alpha);
+    if (chol === undefined) {
+      const K = Matrix.add(this.A, Matrix.mul(this.M, alpha));
+      // The fast plans are symmetric only up to rounding; ml-matrix's Cholesky wants exact symmetry.
+      chol = new CholeskyDecomposition(Matrix.add(K, K.transpose()).mul(0.5));
+      if (!chol.isPositiveDefinite()) throw new InvalidArgumentError(`spatial operator A + ${alpha}·M is not positive definite on this fibre`, { field: 'alpha', received: alpha });
+      this.factors.set(alpha, chol);
+    }
+    for (let i = 0; i < n; i++) this.rhs.set(i, 0, r[rOff + i]!);
+    const sol = chol.solve(this.rhs);
+    for (let i = 0; i < n; i++) z[zOff + i] = sol.get(i, 0);
+  }
+}
+
+/** Local leaf-mesh index of every fibre vertex (the fibre's free vertices are exactly the mesh's). */
+function localIndices(mesh: LeafMesh, fibre: Int32Array): Int32Array {
+  const byGlobal = new Map<number, number>();
+  for (let i = 0; i < mesh.vertexCount; i++) byGlobal.set(mesh.globalId[i]!, i);
+  const out = new Int32Array(fibre.length);
+  for (let p = 0; p < fibre.length; p++) {
+    const i = byGlobal.get(fibre[p]!);
+    if (i === undefined) throw new InvalidArgumentError(`vertex ${fibre[p]} of the fibre is not a vertex of its leaf mesh`, { field: 'fibre' });
+    out[p] = i;
+  }
+  return out;
+}
+
+/** Dense hierarchical M and A on a fibre, by applying the fast spatial plan to unit vectors. */
+export function denseFibreMatrices(cache: SpatialPlanCache, fibreId: number): { M: Matrix; A: Matrix } {
+  const n = cache.pool.get(fibreId).length;
+  const plan = cache.get(fibreId, fibreId);
+  const M = new Matrix(n, n);
+  const A = new Matrix(n, n);
+  const e = new Float64Array(n);
+  const ym = new Float64Array(n);
+  const ya = new Float64Array(n);
+  for (let j = 0; j < n; j++) {
+    e.fill(0);
+    e[j] = 1;
+    plan.applySplit(e, 0, ym, 0, ya, 0);
+    for (let i = 0; i < n; i++) {
+      M.set(i, j, ym[i]!);
+      A.set(i, j, ya[i]!);
+    }
+  }
+  return { M, A };
+}
+
+/** One {@link FibreInverse} per fibre id, built on first use. */
+export class FibreInverseCache {
+  private readonly items = new Map<number, FibreInverse>();
+  constructor(
+    private readonly domain: SpatialDomain,
+    private readonly pool: FibrePool,
+    private readonly plans: SpatialPlanCache,
+    readonly solver: InnerSolver,
+  ) {}
+
+  get(fibreId: number): FibreInverse {
+    let item = this.items.get(fibreId);
+    if (item === undefined) {
+      if (this.solver.kind === 'exact') {
+        const { M, A } = denseFibreMatrices(this.plans, fibreId);
+        item = new ExactFibreInverse(M, A);
+      } else {
+        const fibre = this.pool.get(fibreId);
+        const mesh = this.domain.leafMesh(fibre);
+        const mg = new MultilevelPreconditioner(mesh, { cycles: this.solver.cycles ?? 1 });
+        item = new MultigridFibreInverse(mesh, fibre, mg);
+      }
+      this.items.set(fibreId, item);
+    }
+    return item;
+  }
+}

@@ -1,0 +1,98 @@
+/**
+ * The assembled-nothing space-time system of one problem on one trial index
+ * set Λ (DESIGN.md §6): test set Λ_Y, operators B, Bᵀ, K_Y, G, the Schur
+ * complement S, the preconditioner K_X and the right-hand side b.
+ */
+import { InvalidArgumentError } from '../errors';
+import { DoubleTree } from '../spacetime/double-tree';
+import { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
+import { TensorOperatorPlan } from '../spacetime/tensor-apply';
+import { testIndexSet } from '../spacetime/test-index-set';
+import { SpaceTimeSolution } from '../output/space-time-solution';
+import { FibreInverseCache, type InnerSolver } from './fibre-inverse';
+import type { HeatProblem } from './heat-problem';
+import { InitialTraceOperator } from './initial-trace';
+import { pcg, type PcgOptions, type PcgResult } from './pcg';
+import { initialLoad, sourceLoad } from './right-hand-side';
+import { SchurOperator } from './schur-operator';
+import { TestPreconditioner } from './test-preconditioner';
+import { TrialPreconditioner } from './trial-preconditioner';
+
+/** Options of {@link SpaceTimeSystem}. */
+export interface SpaceTimeSystemOptions {
+  /** Spatial inverses inside K_Y and K_X: V-cycles (default, 1 cycle) or exact dense solves (small problems). */
+  inner?: InnerSolver;
+  /** Separate choice for K_X (defaults to `inner`). */
+  preconditionerInner?: InnerSolver;
+}
+
+/**
+ * The space-time system S u = b on a trial double tree Λ.
+ *
+ * @example
+ * ```ts
+ * import { DoubleTree, HeatProblem, SpaceTimeSystem, intervalDomain } from 'chronomesh';
+ * const domain = intervalDomain(0, 1, 2);
+ * const problem = new HeatProblem({ domain, T: 1, initial: () => 1 });
+ * const system = new SpaceTimeSystem(problem, DoubleTree.sparseGrid(domain, 4));
+ * const { solution, pcg } = system.solve({ relTol: 1e-6 });
+ * console.log(pcg.iterations, solution.evaluate(0.1, [0.5])[0]);
+ * ```
+ */
+export class SpaceTimeSystem {
+  readonly problem: HeatProblem;
+  readonly trialSet: DoubleTree;
+  readonly testSet: DoubleTree;
+  readonly plans: SpatialPlanCache;
+  readonly B: TensorOperatorPlan;
+  readonly Bt: TensorOperatorPlan;
+  readonly KY: TestPreconditioner;
+  readonly G: InitialTraceOperator;
+  readonly S: SchurOperator;
+  readonly KX: TrialPreconditioner;
+
+  constructor(problem: HeatProblem, trialSet: DoubleTree, opts: SpaceTimeSystemOptions = {}) {
+    if (!(trialSet instanceof DoubleTree) || trialSet.kind !== 'trial') {
+      throw new InvalidArgumentError('trialSet must be a trial DoubleTree (e.g. DoubleTree.sparseGrid)', { field: 'trialSet' });
+    }
+    if (trialSet.size === 0) throw new InvalidArgumentError('trialSet is empty', { field: 'trialSet' });
+    const T = problem.T;
+    this.problem = problem;
+    this.trialSet = trialSet;
+    this.testSet = testIndexSet(trialSet);
+    this.plans = new SpatialPlanCache(problem.domain, trialSet.pool);
+    const inner = opts.inner ?? { kind: 'multigrid' };
+    const inverses = new FibreInverseCache(problem.domain, trialSet.pool, this.plans, inner);
+    const pInner = opts.preconditionerInner ?? inner;
+    const pInverses = pInner === inner ? inverses : new FibreInverseCache(problem.domain, trialSet.pool, this.plans, pInner);
+    this.B = new TensorOperatorPlan('derivIn', 'mass', trialSet, this.testSet, this.plans, T);
+    this.Bt = new TensorOperatorPlan('derivOut', 'mass', this.testSet, trialSet, this.plans, T);
+    this.KY = new TestPreconditioner(this.testSet, inverses);
+    this.G = new InitialTraceOperator(trialSet, this.plans, T);
+    this.S = new SchurOperator(this.B, this.Bt, this.KY, this.G);
+    this.KX = new TrialPreconditioner(trialSet, pInverses, this.plans, T);
+  }
+
+  /** Number of unknowns (#Λ). */
+  get size(): number {
+    return this.trialSet.size;
+  }
+
+  /** b = Bᵀ K_Y ℓ_f + g ⊗ ℓ_0. */
+  rightHandSide(): Float64Array {
+    const lf = sourceLoad(this.problem, this.testSet);
+    const v = new Float64Array(this.testSet.size);
+    this.KY.apply(lf, v);
+    const b = new Float64Array(this.trialSet.size);
+    this.Bt.apply(v, b);
+    this.G.addTraced(initialLoad(this.problem, this.G.traceFibre), b, 1);
+    return b;
+  }
+
+  /** Solves S u = b by PCG with K_X (defaults: relTol 1e-8, max 500 iterations). */
+  solve(opts: Omit<PcgOptions, 'preconditioner'> & { rightHandSide?: Float64Array } = {}): { solution: SpaceTimeSolution; pcg: PcgResult } {
+    const b = opts.rightHandSide ?? this.rightHandSide();
+    const result = pcg(this.S, b, { maxIterations: 500, ...opts, preconditioner: this.KX });
+    return { solution: new SpaceTimeSolution(this.problem.domain, this.trialSet, result.solution, this.problem.T), pcg: result };
+  }
+}

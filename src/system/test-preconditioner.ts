@@ -1,0 +1,36 @@
+/**
+ * K_Y: block-diagonal approximation of A_Y⁻¹ = (I ⊗ A_x)⁻¹ on the test index
+ * set (DESIGN.md §6). Ψ is L2-orthonormal, so A_Y is block diagonal over the
+ * test functions and each block is the spatial A_x on the function's fibre.
+ */
+import type { DoubleTree } from '../spacetime/double-tree';
+import type { FibreInverse, FibreInverseCache } from './fibre-inverse';
+import type { LinearOperator } from './linear-operator';
+
+export class TestPreconditioner implements LinearOperator {
+  readonly inSize: number;
+  readonly outSize: number;
+  private readonly blocks: FibreInverse[];
+  private readonly offsets: Int32Array;
+  private readonly lengths: Int32Array;
+
+  constructor(testSet: DoubleTree, inverses: FibreInverseCache) {
+    this.inSize = this.outSize = testSet.size;
+    const nf = testSet.functionCount;
+    this.blocks = new Array(nf);
+    this.offsets = testSet.functionOffset;
+    this.lengths = new Int32Array(nf);
+    for (let f = 0; f < nf; f++) {
+      this.lengths[f] = testSet.functionOffset[f + 1]! - testSet.functionOffset[f]!;
+      this.blocks[f] = inverses.get(testSet.functionFibre[f]!);
+    }
+  }
+
+  apply(r: Float64Array, z: Float64Array): void {
+    const { blocks, offsets, lengths } = this;
+    for (let f = 0; f < blocks.length; f++) {
+      if (lengths[f] === 0) continue;
+      blocks[f]!.apply(r, offsets[f]!, z, offsets[f]!, 0);
+    }
+  }
+}

@@ -1,0 +1,47 @@
+/** Seeded random double trees on 1D and 2D domains for the oracle tests. */
+import { intervalDomain, rectangleDomain, lShapeDomain, type SpatialDomain } from '../../src/space/index';
+import { DoubleTree } from '../../src/spacetime/double-tree';
+import { FibrePool } from '../../src/spacetime/fibre-pool';
+
+export type TreeShape = 'uniform' | 'sparse' | 'graded-start' | 'graded-end' | 'random';
+
+export function smallDomain(dim: 1 | 2, variant = 0): SpatialDomain {
+  if (dim === 1) return intervalDomain(0, 1, 2, { kappa: (x) => (x < 0.5 ? 1 : 2.5), reaction: 0.5 });
+  return variant === 0 ? rectangleDomain(0, 1, 0, 1, 2, 2, { kappa: (x, y) => (x + y < 1 ? 1 : 3) }) : lShapeDomain(1);
+}
+
+/**
+ * A random closed trial double tree. Temporal nodes are drawn according to
+ * `shape`; spatial vertices from a mildly refined vertex set; then closed.
+ */
+export function randomDoubleTree(domain: SpatialDomain, shape: TreeShape, rand: () => number, pool = new FibrePool()): DoubleTree {
+  if (shape === 'uniform') return DoubleTree.fullGrid(domain, 2, domain.dim === 1 ? 2 : 1, pool);
+  if (shape === 'sparse') return DoubleTree.sparseGrid(domain, domain.dim === 1 ? 4 : 3, pool);
+  const spaceLevel = domain.dim === 1 ? 3 : 2;
+  let candidates = domain.uniformSet(spaceLevel);
+  if (domain.dim === 2) {
+    const graded = domain.refineTowards(candidates, [0.25, 0.25], 4);
+    candidates = graded;
+  }
+  const levels: number[] = [];
+  const indices: number[] = [];
+  const vertices: number[] = [];
+  const count = domain.dim === 1 ? 14 : 10;
+  for (let p = 0; p < count; p++) {
+    let l: number;
+    let k: number;
+    if (shape === 'random') {
+      l = Math.floor(rand() * 6);
+      k = l === 0 ? Math.floor(rand() * 2) : Math.floor(rand() * 2 ** (l - 1));
+    } else {
+      l = 1 + Math.floor(rand() * 9);
+      const width = Math.min(2 ** (l - 1), 2);
+      const j = Math.floor(rand() * width);
+      k = shape === 'graded-start' ? j : 2 ** (l - 1) - 1 - j;
+    }
+    levels.push(l);
+    indices.push(k);
+    vertices.push(candidates[Math.floor(rand() * candidates.length)]!);
+  }
+  return DoubleTree.fromPairs(domain, { levels, indices, vertices }, { close: true, pool });
+}

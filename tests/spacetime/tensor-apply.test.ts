@@ -1,0 +1,71 @@
+/**
+ * The unidirectional tensor apply against dense assembly (DESIGN.md §5.2),
+ * and the test index set against its defining formula (§5.1).
+ */
+import { describe, expect, it } from 'vitest';
+import { nodeSupport } from '../../src/time/index';
+import { SpatialPlanCache } from '../../src/spacetime/spatial-plan-cache';
+import { TensorOperatorPlan } from '../../src/spacetime/tensor-apply';
+import { testIndexSet } from '../../src/spacetime/test-index-set';
+import { randomDoubleTree, smallDomain, type TreeShape } from './fixtures';
+import { denseTensorOperator, matVec, randomVector, relativeError, seededRandom, labels } from './reference';
+
+const shapes: TreeShape[] = ['uniform', 'sparse', 'graded-start', 'graded-end', 'random'];
+const T = 1.7;
+
+describe.each([1, 2] as const)('tensor-product apply, d = %i', (dim) => {
+  it.each(shapes)('B and Bᵀ equal dense assembly on %s double trees (rel. error ≤ 1e-12)', (shape) => {
+    for (let seed = 1; seed <= (shape === 'uniform' || shape === 'sparse' ? 1 : 3); seed++) {
+      const rand = seededRandom(1000 * dim + seed);
+      const domain = smallDomain(dim, seed % 2);
+      const trial = randomDoubleTree(domain, shape, rand);
+      const test = testIndexSet(trial);
+      const cache = new SpatialPlanCache(domain, trial.pool);
+      const B = new TensorOperatorPlan('derivIn', 'mass', trial, test, cache, T);
+      const Bt = new TensorOperatorPlan('derivOut', 'mass', test, trial, cache, T);
+      const Bd = denseTensorOperator(domain, 'derivIn', 'mass', trial, test, T);
+      const Btd = denseTensorOperator(domain, 'derivOut', 'mass', test, trial, T);
+      // The dense transpose identity is itself a check of the dense temporal reference.
+      expect(relativeError(Btd.to1DArray(), Bd.transpose().to1DArray())).toBeLessThan(1e-13);
+      const x = randomVector(trial.size, rand);
+      const y = new Float64Array(test.size);
+      B.apply(x, y);
+      expect(relativeError(y, matVec(Bd, x))).toBeLessThan(1e-12);
+      const v = randomVector(test.size, rand);
+      const w = new Float64Array(trial.size);
+      Bt.apply(v, w);
+      expect(relativeError(w, matVec(Btd, v))).toBeLessThan(1e-12);
+      // Intermediate sets stay proportional to the input and output (linear cost, §5.2).
+      const io = trial.size + test.size;
+      expect(B.timeFirstSet.size + B.spaceFirstSet.size).toBeLessThan(4 * io);
+    }
+  });
+
+  it('the test index set is the one defined pair by pair', () => {
+    const rand = seededRandom(77 + dim);
+    const domain = smallDomain(dim);
+    const trial = randomDoubleTree(domain, 'random', rand);
+    const test = testIndexSet(trial);
+    const expected = new Set<string>();
+    const s = new Float64Array(2);
+    const tl = labels(trial);
+    for (const { fn, vertex } of tl) {
+      const l = trial.tree.level[fn]!;
+      nodeSupport('trial', l, trial.tree.index[fn]!, s);
+      const a = s[0]! * 2 ** -l;
+      const b = s[1]! * 2 ** -l;
+      for (let m = 0; m <= l; m++) {
+        const count = m === 0 ? 1 : 2 ** (m - 1);
+        for (let j = 0; j < count; j++) {
+          const lo = m === 0 ? 0 : j * 2 ** -(m - 1);
+          const hi = m === 0 ? 1 : (j + 1) * 2 ** -(m - 1);
+          if (Math.min(hi, b) - Math.max(lo, a) > 0) expected.add(`${m}:${j}:${vertex}`);
+        }
+      }
+    }
+    const got = new Set<string>();
+    const ll = labels(test);
+    for (const { fn, vertex } of ll) got.add(`${test.tree.level[fn >> 1]}:${test.tree.index[fn >> 1]}:${vertex}`);
+    expect([...got].sort()).toEqual([...expected].sort());
+  });
+});
