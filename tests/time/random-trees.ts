@@ -33,7 +33,7 @@ export function sparseTree(kind: TemporalBasisKind, maxLevel: number, n: number,
 
 /**
  * Graded tree: on every level ≤ maxLevel the `perLevel` nodes nearest t = 0 (side 0) or t = T
- * (side 1), plus a few random nodes, closed.
+ * (side 1), plus now and then one a few places further in, closed.
  */
 export function gradedTree(kind: TemporalBasisKind, maxLevel: number, side: 0 | 1, perLevel: number, seed: number): TemporalTree {
   const r = rng(seed);
@@ -46,8 +46,9 @@ export function gradedTree(kind: TemporalBasisKind, maxLevel: number, side: 0 | 
       ks.push(side === 0 ? j : w - 1 - j);
     }
     if (r() < 0.3) {
+      const j = Math.min(w - 1, perLevel + Math.floor(r() * 3));
       ls.push(l);
-      ks.push(Math.floor(r() * w));
+      ks.push(side === 0 ? j : w - 1 - j);
     }
   }
   return TemporalTree.fromNodes(kind, ls, ks, { close: true });

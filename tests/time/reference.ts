@@ -22,8 +22,8 @@ export interface NodeRef {
 }
 
 /**
- * A point s = (i + v)·2^{-m} of (0, 1), kept as (m, i, v) so that s·2^l − j can be formed
- * without cancellation even at level 52 next to s = 1.
+ * A point s = (i + v)·2^{-m} of (0, 1), kept as (m, i, v) so that the element of every
+ * coarser level and the position inside it are exact even at level 52 next to s = 1.
  */
 interface Pt {
   m: number;
@@ -31,26 +31,28 @@ interface Pt {
   v: number;
 }
 
-/** s·2^l − j, exactly up to the rounding of v (l ≤ m). */
-function rel(p: Pt, l: number, j: number): number {
-  const f = 2 ** (l - p.m);
-  return (p.i * f - j) + p.v * f;
+/**
+ * The level-l element e containing p and the local coordinate w = s·2^l − e ∈ [0, 1), formed
+ * from integers so that no cancellation occurs (l ≤ m).
+ */
+function locate(p: Pt, l: number): [number, number] {
+  const f = 2 ** (p.m - l);
+  const e = Math.floor(p.i / f);
+  return [e, (p.i - e * f + p.v) / f];
 }
 
 /** Hat of the level-l mesh at node j: value and d/ds. */
 function hat(p: Pt, l: number, j: number): [number, number] {
-  const r = rel(p, l, j);
-  if (Math.abs(r) >= 1) return [0, 0];
-  return [1 - Math.abs(r), r > 0 ? -(2 ** l) : 2 ** l];
+  const [e, w] = locate(p, l);
+  if (e === j - 1) return [w, 2 ** l];
+  if (e === j) return [1 - w, -(2 ** l)];
+  return [0, 0];
 }
 
 /** Unnormalised function on (0,1) and its derivative (DESIGN §3.1 and §3.2 formulas). */
 function rawBasis(kind: TemporalBasisKind, l: number, k: number, slot: number, p: Pt): [number, number] {
   if (kind === 'trial') {
-    if (l === 0) {
-      const s = rel(p, 0, 0);
-      return k === 0 ? [1 - s, -1] : [s, 1];
-    }
+    if (l === 0) return hat(p, 0, k);
     // ŝ_{l,k} = φ_{l,2k+1} − w_L φ_{l−1,k} − w_R φ_{l−1,k+1}; w = 1/2 at the coarse nodes 0 and 1, else 1/4
     const last = 2 ** (l - 1);
     const wL = k === 0 ? 0.5 : 0.25;
@@ -61,12 +63,12 @@ function rawBasis(kind: TemporalBasisKind, l: number, k: number, slot: number, p
     return [a[0] - wL * b[0] - wR * c[0], a[1] - wL * b[1] - wR * c[1]];
   }
   if (l === 0) {
-    const s = rel(p, 0, 0);
+    const s = locate(p, 0)[1];
     return slot === 0 ? [1, 0] : [Math.sqrt(3) * (2 * s - 1), 2 * Math.sqrt(3)];
   }
   // J = I_{l−1,k}, u = 2(s − left(J))/|J| − 1 ∈ [−1, 1]
-  const r = rel(p, l - 1, k);
-  if (r <= 0 || r >= 1) return [0, 0];
+  const [e, r] = locate(p, l - 1);
+  if (e !== k) return [0, 0];
   const J = 2 ** -(l - 1);
   const u = 2 * r - 1;
   const dudS = 2 / J;
@@ -135,25 +137,27 @@ function fpn(kind: TemporalBasisKind): number {
   return kind === 'trial' ? 1 : 2;
 }
 
+const ALL_FORMS: TemporalForm[] = ['mass', 'derivIn', 'derivOut', 'stiffness'];
+
 /**
- * Dense matrix C[i][j] = ∫_0^T q_i^{(dq)} p_j^{(dp)} dt of a form between output functions q
- * (rows, coefficient order: node n, slot s → row fpn·n + s) and input functions p (columns),
- * restricted to the level pairs of `part` (lower |q| > |p|, upper |q| ≤ |p|).
+ * Dense matrices C[i][j] = ∫_0^T q_i^{(dq)} p_j^{(dp)} dt of all four forms at once (one pass of
+ * point evaluations), between output functions q (rows, coefficient order: node n, slot s →
+ * row fpn·n + s) and input functions p (columns), restricted to the level pairs of `part`
+ * (lower |q| > |p|, upper |q| ≤ |p|).
  */
-export function denseTemporalMatrix(
-  form: TemporalForm,
+export function denseTemporalForms(
   outKind: TemporalBasisKind,
   outNodes: NodeRef[],
   inKind: TemporalBasisKind,
   inNodes: NodeRef[],
   T: number,
   part: LevelPart = 'full',
-): number[][] {
-  const dq = form === 'derivOut' || form === 'stiffness' ? 1 : 0;
-  const dp = form === 'derivIn' || form === 'stiffness' ? 1 : 0;
+): Record<TemporalForm, number[][]> {
   const fo = fpn(outKind);
   const fi = fpn(inKind);
-  const C: number[][] = Array.from({ length: outNodes.length * fo }, () => new Array<number>(inNodes.length * fi).fill(0));
+  const mk = () => Array.from({ length: outNodes.length * fo }, () => new Array<number>(inNodes.length * fi).fill(0));
+  const res = { mass: mk(), derivIn: mk(), derivOut: mk(), stiffness: mk() };
+  const acc = [0, 0, 0, 0];
   outNodes.forEach((q, a) => {
     const [qlo, qhi] = referenceSupport(outKind, q.level, q.index);
     inNodes.forEach((p, b) => {
@@ -166,16 +170,53 @@ export function denseTemporalMatrix(
       if (hi <= lo) return;
       for (let sq = 0; sq < fo; sq++) {
         for (let sp = 0; sp < fi; sp++) {
-          // ∫_0^T b_q b_p dt with b(t) = T^{-1/2} b̂(t/T): dt = T ds, each derivative brings 1/T
-          const v = integrate(m, lo, hi, (pt) => {
-            const u = basisRef(outKind, q.level, q.index, sq, pt)[dq]!;
-            const w = basisRef(inKind, p.level, p.index, sp, pt)[dp]!;
-            return (u / Math.sqrt(T)) * (w / Math.sqrt(T));
+          acc.fill(0);
+          for (let i = lo; i < hi; i++) {
+            for (let g = 0; g < 3; g++) {
+              const pt = { m, i, v: 0.5 * (1 + GAUSS3_NODES[g]!) };
+              const u = basisRef(outKind, q.level, q.index, sq, pt);
+              const w = basisRef(inKind, p.level, p.index, sp, pt);
+              const wt = GAUSS3_WEIGHTS[g]! * 0.5 * 2 ** -m;
+              acc[0] += wt * u[0] * w[0];
+              acc[1] += wt * u[0] * w[1];
+              acc[2] += wt * u[1] * w[0];
+              acc[3] += wt * u[1] * w[1];
+            }
+          }
+          // On (0, T): b(t) = T^{-1/2} b̂(t/T), dt = T ds, and each derivative brings 1/T.
+          ALL_FORMS.forEach((f, n) => {
+            const nd = (n & 1) + (n >> 1);
+            res[f][a * fo + sq]![b * fi + sp] = acc[n]! / T ** nd;
           });
-          C[a * fo + sq]![b * fi + sp] = (T * v) / T ** (dq + dp);
         }
       }
     });
   });
-  return C;
+  return res;
+}
+
+/** One form of {@link denseTemporalForms}. */
+export function denseTemporalMatrix(
+  form: TemporalForm,
+  outKind: TemporalBasisKind,
+  outNodes: NodeRef[],
+  inKind: TemporalBasisKind,
+  inNodes: NodeRef[],
+  T: number,
+  part: LevelPart = 'full',
+): number[][] {
+  return denseTemporalForms(outKind, outNodes, inKind, inNodes, T, part)[form];
+}
+
+/** ‖b̂^{(d)}‖ mapped to (0, T) (d = 1: piecewise derivative), by the same quadrature. */
+export function referenceNorm(kind: TemporalBasisKind, l: number, k: number, slot: number, d: 0 | 1, T = 1): number {
+  const [lo, hi] = referenceSupport(kind, l, k);
+  const v = integrate(l, lo, hi, (p) => basisRef(kind, l, k, slot, p)[d] ** 2);
+  return Math.sqrt(v) / T ** d;
+}
+
+/** ∫_0^1 s^power b̂(s) ds by the same quadrature (moments). */
+export function referenceMoment(kind: TemporalBasisKind, l: number, k: number, slot: number, power: number): number {
+  const [lo, hi] = referenceSupport(kind, l, k);
+  return integrate(l, lo, hi, (p) => locate(p, 0)[1] ** power * basisRef(kind, l, k, slot, p)[0]);
 }
