@@ -32,7 +32,7 @@ export function nodalValues(domain: SpatialDomain, set: Int32Array, coeffs: Floa
   checkCoeffs(set, coeffs);
   const mesh = domain.leafMesh(set);
   const values = new Float64Array(mesh.vertexCount);
-  const loc = localIndices(mesh, set);
+  const loc = localIndices(domain, mesh, set);
   for (let i = 0; i < set.length; i++) values[loc[i]!] = coeffs[i]!;
   hierarchicalToNodal(mesh, values);
   return { mesh, values };

@@ -72,7 +72,7 @@ export function loadVector(domain: SpatialDomain, set: Int32Array, f: (x: number
   const r = new Float64Array(mesh.vertexCount);
   nodalLoad(mesh, f, r);
   hierarchicalToNodalTransposed(mesh, r);
-  const loc = localIndices(mesh, set);
+  const loc = localIndices(domain, mesh, set);
   for (let i = 0; i < set.length; i++) {
     const v = r[loc[i]!]!;
     if (!Number.isFinite(v)) {

@@ -25,21 +25,12 @@ export function unionSorted(a: Int32Array, b: Int32Array): Int32Array {
   return n === a.length ? a : out.slice(0, n);
 }
 
-/** Local leaf-mesh index of every member of `set` (all must be vertices of `mesh`). */
-export function localIndices(mesh: LeafMesh, set: Int32Array): Int32Array {
-  // Both lists are available sorted by global id after one sort of the mesh's ids.
-  const n = mesh.vertexCount;
-  const order = new Int32Array(n);
-  for (let i = 0; i < n; i++) order[i] = i;
-  const g = mesh.globalId;
-  order.sort((p, q) => g[p]! - g[q]!);
+/** Local leaf-mesh index of every member of `set` (all must be vertices of `mesh`); linear time. */
+export function localIndices(domain: SpatialDomain, mesh: LeafMesh, set: Int32Array): Int32Array {
+  const local = domain.beginMeshQuery(mesh);
   const out = new Int32Array(set.length);
-  let k = 0;
-  for (let i = 0; i < set.length; i++) {
-    const v = set[i]!;
-    while (k < n && g[order[k]!]! < v) k++;
-    out[i] = order[k]!;
-  }
+  for (let i = 0; i < set.length; i++) out[i] = local[set[i]!]!;
+  domain.endMeshQuery(mesh);
   return out;
 }
 
@@ -79,8 +70,8 @@ export class SpatialOperatorPlan {
     this.outSet = outSet;
     const union = unionSorted(inSet, outSet);
     this.mesh = domain.leafMesh(union); // validates: both closed ⇒ union closed
-    this.inLocal = localIndices(this.mesh, inSet);
-    this.outLocal = inSet === outSet ? this.inLocal : localIndices(this.mesh, outSet);
+    this.inLocal = localIndices(domain, this.mesh, inSet);
+    this.outLocal = inSet === outSet ? this.inLocal : localIndices(domain, this.mesh, outSet);
     this.rec = elementRecords(this.mesh);
     const n = this.mesh.vertexCount;
     this.u = new Float64Array(n);
