@@ -13,6 +13,7 @@ import {
   prolongStencil,
   referenceElementMass,
   representationSpace,
+  localCount,
   ssElements,
   ssRangeMeeting,
   ssWidth,
@@ -75,19 +76,6 @@ class Side {
     }
     return u.values();
   }
-
-  /** Single-scale indices used by the expansions of this side's level-l nodes. */
-  stencilSet(l: number): Float64Array {
-    const t = this.tree;
-    const u = new RangeUnion();
-    for (let p = t.levelStart[l]!; p < t.levelStart[l + 1]!; p++) {
-      for (let s = 0; s < this.fpn; s++) {
-        const n = this.stencil(this.kind, l, t.index[p]!, s, stIdx, stComp, stW);
-        if (n > 0) u.push(stIdx[0]!, stIdx[n - 1]!); // stencil indices are consecutive and increasing
-      }
-    }
-    return u.values();
-  }
 }
 
 function region(b: ProgramBuilder, vals: Float64Array, width: 1 | 2): Region {
@@ -103,6 +91,7 @@ class PlanCompiler {
   private readonly inp: Side;
   private readonly out: Side;
   private readonly nd: number;
+  private readonly acc = new SlotAccumulator();
   constructor(
     private readonly b: ProgramBuilder,
     form: TemporalForm,
@@ -136,26 +125,67 @@ class PlanCompiler {
     b.endStep();
   }
 
-  /** Region `to` (output space, level l) += B_l · region `from` (input space, level l). */
-  private elementForm(l: number, from: Region, to: Region): void {
-    const { b, E } = this;
-    const si = this.inp.space;
+  /** Region E (output space, level l) += B_l S_l x: the level-l inputs through the element form, fused. */
+  private inputsThroughForm(l: number, R: Region): void {
+    const { b, inp, E, acc } = this;
+    const t = inp.tree;
+    if (l > t.maxLevel) return;
+    const si = inp.space;
     const so = this.out.space;
+    const nlo = localCount(so);
     const scale = elementScale(so, si, this.nd, l, this.T);
-    const cur = new SortedCursor(to.vals);
-    b.beginStep(SRC_WORK, DST_WORK, to.base, regionEnd(to));
-    for (let q = 0; q < from.vals.length; q++) {
-      const idx = from.vals[q]!;
-      for (let c = 0; c < from.width; c++) {
-        const ne = ssElements(si, l, idx, c, elem, loc);
-        for (let a = 0; a < ne; a++) {
-          for (let fo = 0; fo < 2; fo++) {
-            const w = E[2 * fo + loc[a]!]!;
-            if (w === 0) continue;
-            const t = cur.find(elementFunctionIdx(so, elem[a]!, fo));
-            if (t >= 0) b.add(from.base + q * from.width + c, to.base + t * to.width + elementFunctionComp(so, fo), w * scale);
+    const cur = new SortedCursor(R.vals);
+    b.beginStep(SRC_X, DST_WORK, R.base, regionEnd(R));
+    for (let p = t.levelStart[l]!; p < t.levelStart[l + 1]!; p++) {
+      for (let s = 0; s < inp.fpn; s++) {
+        const n = inp.stencil(inp.kind, l, t.index[p]!, s, stIdx, stComp, stW);
+        acc.clear();
+        for (let e = 0; e < n; e++) {
+          const ne = ssElements(si, l, stIdx[e]!, stComp[e]!, elem, loc);
+          for (let a = 0; a < ne; a++) {
+            for (let fo = 0; fo < nlo; fo++) {
+              const w = E[2 * fo + loc[a]!]!;
+              if (w === 0) continue;
+              const q = cur.find(elementFunctionIdx(so, elem[a]!, fo));
+              if (q >= 0) acc.add(R.base + q * R.width + elementFunctionComp(so, fo), stW[e]! * w * scale);
+            }
           }
         }
+        for (let e = 0; e < acc.n; e++) b.add(p * inp.fpn + s, acc.slot[e]!, acc.w[e]!);
+      }
+    }
+    b.endStep();
+  }
+
+  /** y (level-l outputs) += C_l B_l d: the element form read off by the output expansions, fused. */
+  private outputsThroughForm(l: number, R: Region): void {
+    const { b, out, E, acc } = this;
+    const t = out.tree;
+    const p0 = t.levelStart[l]!;
+    const p1 = t.levelStart[l + 1]!;
+    if (p0 === p1) return;
+    const si = this.inp.space;
+    const so = out.space;
+    const nli = localCount(si);
+    const scale = elementScale(so, si, this.nd, l, this.T);
+    const cur = new SortedCursor(R.vals);
+    b.beginStep(SRC_WORK, DST_Y, p0 * out.fpn, p1 * out.fpn);
+    for (let p = p0; p < p1; p++) {
+      for (let s = 0; s < out.fpn; s++) {
+        const n = out.stencil(out.kind, l, t.index[p]!, s, stIdx, stComp, stW);
+        acc.clear();
+        for (let e = 0; e < n; e++) {
+          const ne = ssElements(so, l, stIdx[e]!, stComp[e]!, elem, loc);
+          for (let a = 0; a < ne; a++) {
+            for (let fi = 0; fi < nli; fi++) {
+              const w = E[2 * loc[a]! + fi]!;
+              if (w === 0) continue;
+              const q = cur.find(elementFunctionIdx(si, elem[a]!, fi));
+              if (q >= 0) acc.add(R.base + q * R.width + elementFunctionComp(si, fi), stW[e]! * w * scale);
+            }
+          }
+        }
+        for (let e = 0; e < acc.n; e++) b.add(acc.slot[e]!, p * out.fpn + s, acc.w[e]!);
       }
     }
     b.endStep();
@@ -214,9 +244,7 @@ class PlanCompiler {
     let next: Region | null = null;
     for (let l = inp.tree.maxLevel; l >= 0; l--) {
       const e = region(b, inp.meetingSet(out.space, l), ssWidth(out.space));
-      const sx = region(b, inp.stencilSet(l), ssWidth(inp.space));
-      this.expandInputs(l, sx);
-      this.elementForm(l, sx, e);
+      this.inputsThroughForm(l, e);
       if (next) this.prolong(out.space, l, e, next, true);
       this.collectOutputs(l, e);
       next = e;
@@ -225,7 +253,8 @@ class PlanCompiler {
 
   /**
    * Lower part, top-down: d_l = P_in d_{l−1} (+ level-l inputs after the level-l outputs have
-   * been evaluated), kept on the input single-scale indices meeting a level-l output.
+   * been evaluated as c_μ · B_l d_l), kept on the input single-scale indices meeting a level-l
+   * output (by nestedness those are all that finer outputs need).
    */
   lower(): void {
     const { b, inp, out } = this;
@@ -234,13 +263,31 @@ class PlanCompiler {
       const d = region(b, out.meetingSet(inp.space, l), ssWidth(inp.space));
       if (prev) {
         this.prolong(inp.space, l - 1, prev, d, false);
-        const o = region(b, out.stencilSet(l), ssWidth(out.space));
-        this.elementForm(l, d, o);
-        this.collectOutputs(l, o);
+        this.outputsThroughForm(l, d);
       }
       if (l < out.tree.maxLevel) this.expandInputs(l, d);
       prev = d;
     }
+  }
+}
+
+/** Merges (slot, weight) contributions of one function before they go into the program. */
+class SlotAccumulator {
+  readonly slot = new Int32Array(32);
+  readonly w = new Float64Array(32);
+  n = 0;
+  clear(): void {
+    this.n = 0;
+  }
+  add(slot: number, w: number): void {
+    for (let e = 0; e < this.n; e++) {
+      if (this.slot[e] === slot) {
+        this.w[e] += w;
+        return;
+      }
+    }
+    this.slot[this.n] = slot;
+    this.w[this.n++] = w;
   }
 }
 

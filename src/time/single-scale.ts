@@ -2,12 +2,12 @@
  * Single-scale spaces per level (DESIGN §3.1–3.3): refinement relations and
  * element-local forms on the level-l mesh, intervals I_{l,i} = [i h, (i+1) h], h = 2^{-l}.
  *
- * Two single-scale spaces, addressed by (idx, comp):
+ * Three single-scale spaces, addressed by (idx, comp):
  * - 'hat' (continuous P1, where trial functions live): the hat φ_{l,j} at node j ∈ [0, 2^l]
  *   (idx = j, comp = 0), value 1 at its node;
- * - 'leg' (discontinuous P1, where test functions and all derivatives live): the
- *   L2-orthonormal Legendre pair on interval i ∈ [0, 2^l)
- *   (idx = i, comp 0: 2^{l/2}, comp 1: 2^{l/2} √3 (2v − 1), v = 2^l s − i).
+ * - 'leg' (discontinuous P1, where test functions live): the L2-orthonormal Legendre pair on
+ *   interval i ∈ [0, 2^l) (idx = i, comp 0: 2^{l/2}, comp 1: 2^{l/2} √3 (2v − 1), v = 2^l s − i);
+ * - 'p0' (piecewise constants, where all derivatives live): comp 0 of 'leg' alone.
  *
  * A form ∫ q^{(dq)} p^{(dp)} is evaluated as the L2 pairing of the representations of q^{(dq)}
  * and p^{(dp)}: a derivative is represented directly in 'leg' (piecewise constants), never by
@@ -19,7 +19,7 @@ import { POW2, SQRT_POW2, type TemporalBasisKind } from './levels';
 export type TemporalForm = 'mass' | 'derivIn' | 'derivOut' | 'stiffness';
 
 /** A single-scale space of one level. */
-export type SingleScaleSpace = 'hat' | 'leg';
+export type SingleScaleSpace = 'hat' | 'leg' | 'p0';
 
 const SQRT3 = Math.sqrt(3);
 
@@ -39,18 +39,24 @@ export function derivOrders(form: TemporalForm): [0 | 1, 0 | 1] {
 
 /** Space holding the functions of a basis (d = 0) or their (piecewise) derivatives (d = 1). */
 export function representationSpace(kind: TemporalBasisKind, d: 0 | 1): SingleScaleSpace {
-  return kind === 'trial' && d === 0 ? 'hat' : 'leg';
+  if (d === 1) return 'p0';
+  return kind === 'trial' ? 'hat' : 'leg';
 }
 
-/** Single-scale functions per index: 1 (hats) or 2 (Legendre pair). */
+/** Single-scale functions per index: 1 (hat, p0) or 2 (Legendre pair). */
 export function ssWidth(space: SingleScaleSpace): 1 | 2 {
-  return space === 'hat' ? 1 : 2;
+  return space === 'leg' ? 2 : 1;
+}
+
+/** Local shape functions per element: 2 (hat, leg) or 1 (p0). */
+export function localCount(space: SingleScaleSpace): 1 | 2 {
+  return space === 'p0' ? 1 : 2;
 }
 
 /**
  * Local shape function f ∈ {0,1} on the reference element v ∈ [0,1], before level scaling:
- * hat: 1 − v, v; leg: 1, √3(2v − 1). Level-l functions are these times 2^{l·a},
- * a = 0 (hat) or 1/2 (leg); d/ds brings a further 2^l.
+ * hat: 1 − v, v; leg and p0: 1, √3(2v − 1). Level-l functions are these times 2^{l·a},
+ * a = 0 (hat) or 1/2 (leg, p0); d/ds brings a further 2^l.
  */
 export function shapeValue(space: SingleScaleSpace, f: number, v: number): number {
   if (space === 'hat') return f === 0 ? 1 - v : v;
@@ -69,8 +75,8 @@ const GL2_NODES = [0.5 - 0.5 / SQRT3, 0.5 + 0.5 / SQRT3];
 /** Reference element mass matrix E[2·o + i] = ∫_0^1 shape_o(out) shape_i(in) dv. */
 export function referenceElementMass(outSpace: SingleScaleSpace, inSpace: SingleScaleSpace): Float64Array {
   const E = new Float64Array(4);
-  for (let o = 0; o < 2; o++) {
-    for (let i = 0; i < 2; i++) {
+  for (let o = 0; o < localCount(outSpace); o++) {
+    for (let i = 0; i < localCount(inSpace); i++) {
       let s = 0;
       for (const v of GL2_NODES) s += 0.5 * shapeValue(outSpace, o, v) * shapeValue(inSpace, i, v);
       E[2 * o + i] = Math.abs(s) < 1e-15 ? 0 : s;
@@ -81,12 +87,12 @@ export function referenceElementMass(outSpace: SingleScaleSpace, inSpace: Single
 
 /**
  * Factor turning the reference element mass matrix into the level-l one on (0, T) for a form
- * with nd derivatives: h^{1 + a_out + a_in} · T^{−nd}, h = 2^{-l}, a = 0 (hat) / −1/2 (leg)
+ * with nd derivatives: h^{1 + a_out + a_in} · T^{−nd}, h = 2^{-l}, a = 0 (hat) / −1/2 (leg, p0)
  * (DESIGN §3: ∫_I b1 ∂t b2 = T^{-1} ∫_0^1 b̂1 b̂2'). The 2^l of each derivative is already in
  * the derivative expansions.
  */
 export function elementScale(outSpace: SingleScaleSpace, inSpace: SingleScaleSpace, nd: number, level: number, T: number): number {
-  const halves = 2 - (outSpace === 'leg' ? 1 : 0) - (inSpace === 'leg' ? 1 : 0); // exponent of h, in halves
+  const halves = 2 - (outSpace === 'hat' ? 0 : 1) - (inSpace === 'hat' ? 0 : 1); // exponent of h, in halves
   const lvl = halves === 0 ? 1 : 1 / SQRT_POW2[level]! ** halves;
   return nd === 0 ? lvl : lvl / T ** nd;
 }
@@ -95,7 +101,7 @@ export function elementScale(outSpace: SingleScaleSpace, inSpace: SingleScaleSpa
  * Refinement: the level-l single-scale function (idx, comp) as a combination of level-(l+1) ones.
  * Writes entries into outIdx/outComp/outW and returns their count (≤ 4).
  * hat: φ_{l,j} = ½ φ_{l+1,2j−1} + φ_{l+1,2j} + ½ φ_{l+1,2j+1} (terms outside [0, 2^{l+1}] dropped);
- * leg: Legendre pair of I_{l,i} restricted to its halves I_{l+1,2i}, I_{l+1,2i+1}.
+ * leg, p0: Legendre pair (constant) of I_{l,i} restricted to its halves I_{l+1,2i}, I_{l+1,2i+1}.
  */
 export function prolongStencil(
   space: SingleScaleSpace,
@@ -121,7 +127,7 @@ export function prolongStencil(
   }
   const r = Math.SQRT1_2;
   const L = 2 * idx;
-  if (comp === 0) {
+  if (comp === 0) { // leg comp 0 and p0
     outIdx[0] = L; outComp[0] = 0; outW[0] = r;
     outIdx[1] = L + 1; outComp[1] = 0; outW[1] = r;
     return 2;
@@ -139,7 +145,7 @@ export function prolongStencil(
  * local shape number there. Returns the count (1 or 2).
  */
 export function ssElements(space: SingleScaleSpace, level: number, idx: number, comp: number, outElem: Float64Array, outLocal: Int32Array): number {
-  if (space === 'leg') {
+  if (space !== 'hat') {
     outElem[0] = idx;
     outLocal[0] = comp;
     return 1;

@@ -152,6 +152,33 @@ export class ProgramBuilder {
   }
 }
 
+/** Rows [r0, r1) of one step, one column. */
+function gather1(src: Float64Array, dst: Float64Array, rowDst: Int32Array, rowPtr: Int32Array, col: Int32Array, weight: Float64Array, r0: number, r1: number): void {
+  let q = rowPtr[r0]!;
+  for (let r = r0; r < r1; r++) {
+    const q1 = rowPtr[r + 1]!;
+    let acc = 0;
+    for (; q < q1; q++) acc += weight[q]! * src[col[q]!]!;
+    dst[rowDst[r]!] += acc;
+  }
+}
+
+/** Rows [r0, r1) of one step, `batch` interleaved columns. */
+function gatherBatch(
+  src: Float64Array, dst: Float64Array, rowDst: Int32Array, rowPtr: Int32Array, col: Int32Array, weight: Float64Array,
+  r0: number, r1: number, batch: number,
+): void {
+  for (let r = r0; r < r1; r++) {
+    const d = rowDst[r]! * batch;
+    const q1 = rowPtr[r + 1]!;
+    for (let q = rowPtr[r]!; q < q1; q++) {
+      const w = weight[q]!;
+      const c = col[q]! * batch;
+      for (let b = 0; b < batch; b++) dst[d + b] += w * src[c + b]!;
+    }
+  }
+}
+
 /**
  * Runs the program: `work` must hold ≥ workSize·batch zeros on entry, y is accumulated into
  * (the caller zeroes it). Slot s of column b lives at s·batch + b in x, work and y.
@@ -162,24 +189,7 @@ export function runProgram(p: SparseProgram, x: Float64Array, work: Float64Array
   for (let s = 0; s < ns; s++) {
     const src = stepSrc[s] === SRC_X ? x : work;
     const dst = stepDst[s] === DST_Y ? y : work;
-    const r1 = stepRow[s + 1]!;
-    if (batch === 1) {
-      for (let r = stepRow[s]!; r < r1; r++) {
-        let acc = 0;
-        const q1 = rowPtr[r + 1]!;
-        for (let q = rowPtr[r]!; q < q1; q++) acc += weight[q]! * src[col[q]!]!;
-        dst[rowDst[r]!]! += acc;
-      }
-    } else {
-      for (let r = stepRow[s]!; r < r1; r++) {
-        const d = rowDst[r]! * batch;
-        const q1 = rowPtr[r + 1]!;
-        for (let q = rowPtr[r]!; q < q1; q++) {
-          const w = weight[q]!;
-          const c = col[q]! * batch;
-          for (let b = 0; b < batch; b++) dst[d + b]! += w * src[c + b]!;
-        }
-      }
-    }
+    if (batch === 1) gather1(src, dst, rowDst, rowPtr, col, weight, stepRow[s]!, stepRow[s + 1]!);
+    else gatherBatch(src, dst, rowDst, rowPtr, col, weight, stepRow[s]!, stepRow[s + 1]!, batch);
   }
 }
