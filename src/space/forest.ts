@@ -9,6 +9,13 @@
  * first when its refinement edge differs (the usual recursive completion). Neighbour pointers are
  * kept between leaves only. A vertex records its interpolation parents (a, b), its godparents
  * (newest vertices of the one or two elements bisected at it) and its generation.
+ *
+ * Shape classes (2D): the P1 stiffness of a triangle depends only on its shape up to translation,
+ * rotation and scaling, with the vertex order kept. Each element stores a class id; a class is the
+ * complex number z = (v2 − v0)/(v1 − v0). Children of class z have classes (z − ½)/z for (c, a, m)
+ * and 1/(2(1 − z)) for (b, c, m), so classes of descendants follow without touching coordinates
+ * (robust at any depth), and newest-vertex bisection produces only finitely many of them. Element
+ * measures are exact: |child| = |parent| / 2.
  */
 import { InvalidMeshError } from '../errors';
 import { DIRICHLET_EDGE, INSULATED_EDGE, type InitialMesh } from './initial-mesh';
@@ -40,6 +47,16 @@ export class BisectionForest {
   eMid: Int32Array; // midpoint of the refinement edge, −1 if not bisected
   eGen: Int32Array;
   eMat: Int32Array;
+  eShape: Int32Array; // 2D: shape class
+
+  /** Measure (area / length) of each initial element. */
+  readonly initialMeasure: Float64Array;
+  /** Shape classes: canonical third vertex z (2 per class), child classes (2 per class, −1 unknown). */
+  shapeZ: number[] = [];
+  shapeChild: number[] = [];
+  /** Unit-κ stiffness of each class: k00 k01 k02 k11 k12 k22. */
+  shapeK: number[] = [];
+  private shapeIndex = new Map<string, number>();
 
   constructor(init: InitialMesh) {
     this.dim = init.dim;
@@ -66,6 +83,8 @@ export class BisectionForest {
     this.eMid = new Int32Array(ec);
     this.eGen = new Int32Array(ec);
     this.eMat = new Int32Array(ec);
+    this.eShape = new Int32Array(d === 2 ? ec : 0);
+    this.initialMeasure = new Float64Array(neInit);
     this.vCoord.set(init.coords);
     for (let i = 0; i < nvInit; i++) {
       this.vParentA[i] = this.vParentB[i] = this.vGod0[i] = this.vGod1[i] = -1;
@@ -78,8 +97,57 @@ export class BisectionForest {
       this.eChild[e] = -1;
       this.eMid[e] = -1;
       this.eMat[e] = e;
+      const ev = init.elements, c = init.coords;
+      if (d === 1) this.initialMeasure[e] = Math.abs(c[ev[2 * e + 1]!]! - c[ev[2 * e]!]!);
+      else {
+        const p = ev[3 * e]!, q = ev[3 * e + 1]!, r = ev[3 * e + 2]!;
+        const ax = c[2 * q]! - c[2 * p]!, ay = c[2 * q + 1]! - c[2 * p + 1]!;
+        const bx = c[2 * r]! - c[2 * p]!, by = c[2 * r + 1]! - c[2 * p + 1]!;
+        this.initialMeasure[e] = 0.5 * (ax * by - ay * bx);
+        // z = (v2 − v0) / (v1 − v0)
+        const den = ax * ax + ay * ay;
+        this.eShape[e] = this.shapeOf((bx * ax + by * ay) / den, (by * ax - bx * ay) / den);
+      }
     }
     this.elementCount = neInit;
+  }
+
+  /** Class id of the canonical shape z = x + iy (registered on first use). */
+  private shapeOf(x: number, y: number): number {
+    const key = `${Math.round(x * 2 ** 40)},${Math.round(y * 2 ** 40)}`;
+    let id = this.shapeIndex.get(key);
+    if (id === undefined) {
+      id = this.shapeZ.length / 2;
+      this.shapeIndex.set(key, id);
+      this.shapeZ.push(x, y);
+      this.shapeChild.push(-1, -1);
+      // triangle (0, 0), (1, 0), (x, y): b = (−y, y, 0), c = (x − 1, −x, 1), 4|T| = 2y
+      const b0 = -y, b1 = y, c0 = x - 1, c1 = -x, s = 1 / (2 * y);
+      this.shapeK.push(s * (b0 * b0 + c0 * c0), s * (b0 * b1 + c0 * c1), s * c0, s * (b1 * b1 + c1 * c1), s * c1, s);
+    }
+    return id;
+  }
+
+  /** Class of child k (0: (c, a, m), 1: (b, c, m)) of an element of class `shape`. */
+  childShape(shape: number, k: number): number {
+    const known = this.shapeChild[2 * shape + k]!;
+    if (known >= 0) return known;
+    const x = this.shapeZ[2 * shape]!, y = this.shapeZ[2 * shape + 1]!;
+    let cx: number, cy: number;
+    if (k === 0) {
+      // (z − ½) / z
+      const den = x * x + y * y;
+      cx = ((x - 0.5) * x + y * y) / den;
+      cy = (y * x - (x - 0.5) * y) / den;
+    } else {
+      // 1 / (2 (1 − z))
+      const ux = 2 * (1 - x), uy = -2 * y, den = ux * ux + uy * uy;
+      cx = ux / den;
+      cy = -uy / den;
+    }
+    const id = this.shapeOf(cx, cy);
+    this.shapeChild[2 * shape + k] = id;
+    return id;
   }
 
   /** Vertex capacity (all per-vertex scratch arrays elsewhere must be at least this long). */
@@ -116,6 +184,7 @@ export class BisectionForest {
     this.eMid = g(this.eMid, cap);
     this.eGen = g(this.eGen, cap);
     this.eMat = g(this.eMat, cap);
+    if (this.dim === 2) this.eShape = g(this.eShape, cap);
   }
 
   private newVertex(a: number, b: number, gen: number, god0: number, god1: number, free: number): number {
@@ -154,6 +223,9 @@ export class BisectionForest {
       ev[f * nv + 3] = d0;
       ev[f * nv + 4] = d1;
       ev[f * nv + 5] = d2;
+      const sh = this.eShape[e]!;
+      this.eShape[f] = this.childShape(sh, 0);
+      this.eShape[f + 1] = this.childShape(sh, 1);
     } else {
       ev[f * nv + 2] = d0;
       ev[f * nv + 3] = d1;

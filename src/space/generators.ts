@@ -122,7 +122,7 @@ export function rectangleDomain(x0: number, x1: number, y0: number, y1: number, 
  * @example
  * ```ts
  * import { lShapeDomain } from 'chronomesh';
- * console.log(lShapeDomain(1).initialFreeVertices().length); // 1 (the origin)
+ * console.log(lShapeDomain(2).initialFreeVertices().length); // 5 (the re-entrant corner lies on the boundary)
  * ```
  */
 export function lShapeDomain(n = 1, opts?: DomainOptions): SpatialDomain {

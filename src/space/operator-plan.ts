@@ -5,7 +5,7 @@
  */
 import { InvalidArgumentError, describeValue } from '../errors';
 import type { SpatialDomain } from './domain';
-import { applyElementsNodal, applyElementsNodalSplit, applyElementsNodalSum, elementRecords } from './element-matrices';
+import { applyElementsNodal, applyElementsNodalSplit, applyElementsNodalSum, elementTables, type ElementTables } from './element-matrices';
 import { hierarchicalToNodal, hierarchicalToNodalTransposed } from './hierarchical';
 import type { LeafMesh } from './leaf-mesh';
 
@@ -58,7 +58,7 @@ export class SpatialOperatorPlan {
   /** Local mesh index of each input / output vertex. */
   readonly inLocal: Int32Array;
   readonly outLocal: Int32Array;
-  private readonly rec: Float64Array;
+  private readonly rec: ElementTables;
   private readonly u: Float64Array;
   private readonly u2: Float64Array;
   private readonly r: Float64Array;
@@ -69,10 +69,11 @@ export class SpatialOperatorPlan {
     this.inSet = inSet;
     this.outSet = outSet;
     const union = unionSorted(inSet, outSet);
-    this.mesh = domain.leafMesh(union); // validates: both closed ⇒ union closed
+    const mesh = domain.leafMesh(union); // validates: both closed ⇒ union closed
+    this.mesh = mesh;
     this.inLocal = localIndices(domain, this.mesh, inSet);
     this.outLocal = inSet === outSet ? this.inLocal : localIndices(domain, this.mesh, outSet);
-    this.rec = elementRecords(this.mesh);
+    this.rec = elementTables(domain.forest, mesh);
     const n = this.mesh.vertexCount;
     this.u = new Float64Array(n);
     this.u2 = new Float64Array(n);
@@ -109,7 +110,7 @@ export class SpatialOperatorPlan {
     this.check(y, yOff, this.outSet.length, 'y');
     this.scatterForward(x, xOff, this.u);
     this.r.fill(0);
-    applyElementsNodal(this.mesh, this.rec, this.u, this.r, massWeight, stiffWeight);
+    applyElementsNodal(this.rec, this.u, this.r, massWeight, stiffWeight);
     this.gatherBack(this.r, y, yOff);
   }
 
@@ -121,7 +122,7 @@ export class SpatialOperatorPlan {
     this.scatterForward(x, xOff, this.u);
     this.r.fill(0);
     this.r2.fill(0);
-    applyElementsNodalSplit(this.mesh, this.rec, this.u, this.r, this.r2);
+    applyElementsNodalSplit(this.rec, this.u, this.r, this.r2);
     this.gatherBack(this.r, yM, yMOff);
     this.gatherBack(this.r2, yA, yAOff);
   }
@@ -134,7 +135,7 @@ export class SpatialOperatorPlan {
     this.scatterForward(xM, xMOff, this.u);
     this.scatterForward(xA, xAOff, this.u2);
     this.r.fill(0);
-    applyElementsNodalSum(this.mesh, this.rec, this.u, this.u2, this.r);
+    applyElementsNodalSum(this.rec, this.u, this.u2, this.r);
     this.gatherBack(this.r, y, yOff);
   }
 }
