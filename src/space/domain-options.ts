@@ -1,6 +1,15 @@
 /** Options shared by all spatial domain constructors (DESIGN.md §1, §4.1). */
 
-/** A coefficient given as one constant, one value per initial element, or a function sampled at element centroids. */
+/**
+ * A coefficient given as one constant, one value per initial element, or a function sampled at
+ * the centroids of the initial elements.
+ *
+ * @example
+ * ```ts
+ * import { rectangleDomain } from 'chronomesh';
+ * const layered = rectangleDomain(0, 2, 0, 1, 2, 1, { kappa: (x) => (x < 1 ? 1 : 10) });
+ * ```
+ */
 export type Coefficient = number | ArrayLike<number> | ((x: number, y: number) => number);
 
 /**
@@ -8,6 +17,13 @@ export type Coefficient = number | ArrayLike<number> | ((x: number, y: number) =
  *
  * κ and c are constant on each element of the initial mesh (sampled at its centroid when a
  * function is given), so material interfaces must lie on initial-mesh edges.
+ *
+ * @example
+ * ```ts
+ * import { lShapeDomain } from 'chronomesh';
+ * // insulated top edge y = 1, Dirichlet elsewhere, with a reaction term
+ * const dom = lShapeDomain(2, { kappa: 0.5, reaction: 1, insulated: (_mx, my) => my > 0.999 });
+ * ```
  */
 export interface DomainOptions {
   /** Diffusion coefficient κ > 0 (default 1). */
