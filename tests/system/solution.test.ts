@@ -1,0 +1,47 @@
+/** Point evaluation and time slices of space-time solutions agree with each other and with the coefficients. */
+import { describe, expect, it } from 'vitest';
+import { DoubleTree, HeatProblem, SpaceTimeSolution, SpaceTimeSystem, evaluateTemporal, evaluateAt, rectangleDomain } from '../../src/index';
+import { seededRandom } from '../spacetime/reference';
+
+describe('space-time solution output', () => {
+  const domain = rectangleDomain(0, 2, 0, 1, 2, 1);
+  const set = DoubleTree.sparseGrid(domain, 3);
+  const rand = seededRandom(4);
+  const coeffs = Float64Array.from({ length: set.size }, () => rand() - 0.5);
+  const T = 3;
+  const u = new SpaceTimeSolution(domain, set, coeffs, T);
+
+  it('evaluate(t, x) equals the direct double sum Σ u_λν σ_λ(t) φ_ν(x)', () => {
+    const pts = [0.3, 0.4, 1.7, 0.2, 1, 0.5];
+    for (const t of [0, 0.4, 1.5, 2.99, 3]) {
+      const got = u.evaluate(t, pts);
+      const want = new Float64Array(3);
+      for (let i = 0; i < set.tree.size; i++) {
+        const s = evaluateTemporal('trial', set.tree.level[i]!, set.tree.index[i]!, 0, t, T).value;
+        if (s === 0) continue;
+        const fib = set.fibre(i);
+        const o = set.functionOffset[i]!;
+        const v = evaluateAt(domain, fib, coeffs.subarray(o, o + fib.length), pts);
+        for (let p = 0; p < 3; p++) want[p]! += s * v[p]!;
+      }
+      for (let p = 0; p < 3; p++) expect(got[p]).toBeCloseTo(want[p]!, 12);
+    }
+  });
+
+  it('slice(t) nodal values agree with point evaluation at the mesh vertices', () => {
+    const s = u.slice(1.2);
+    const v = u.evaluate(1.2, s.mesh.coords);
+    for (let i = 0; i < s.mesh.vertexCount; i++) expect(s.values[i]).toBeCloseTo(v[i]!, 12);
+  });
+
+  it('rejects times outside [0, T] and coefficient vectors of the wrong length', () => {
+    expect(() => u.evaluate(-0.1, [0.5, 0.5])).toThrow(/time t = -0.1 is outside \[0, 3\]/);
+    expect(() => new SpaceTimeSolution(domain, set, new Float64Array(3), T)).toThrow(/coefficients has length 3/);
+  });
+
+  it('a solved system exposes its solution through solve()', () => {
+    const sys = new SpaceTimeSystem(new HeatProblem({ domain, T, initial: (x) => x * (2 - x) }), set);
+    const { solution } = sys.solve({ relTol: 1e-6 });
+    expect(solution.trialSet).toBe(set);
+  });
+});
