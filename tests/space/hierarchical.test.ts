@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import {
   hierarchicalToNodal, hierarchicalToNodalTransposed, nodalToHierarchical, nodalToHierarchicalTransposed,
 } from '../../src/space/hierarchical';
-import { intervalDomain, lShapeDomain, rectangleDomain, type SpatialDomain } from '../../src/space/index';
+import { intervalDomain, lShapeDomain, rectangleDomain, triangulatedDomain, type SpatialDomain } from '../../src/space/index';
 import { denseTransform } from './reference';
 import { growForest, matVec, randomClosedSubset, randomVector, relErr, rng } from './random-sets';
 
@@ -13,6 +13,8 @@ const cases: [string, () => SpatialDomain][] = [
   ['interval', () => intervalDomain(0, 1, 2)],
   ['square', () => rectangleDomain(0, 1, 0, 1, 2, 2)],
   ['L-shape', () => lShapeDomain(1, { insulated: (x) => x < -0.99 })],
+  // non-matching longest-edge labelling (edge [2, 3] is the refinement edge of one neighbour only)
+  ['unstructured', () => triangulatedDomain([0, 0, 2, 0, 3, 1, 1.2, 0.9, 0, 2, 2.5, 2.4], [[0, 1, 3], [1, 2, 3], [0, 3, 4], [3, 2, 5], [3, 5, 4]])],
 ];
 
 describe('hierarchical transforms', () => {

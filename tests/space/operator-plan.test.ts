@@ -51,6 +51,26 @@ describe('SpatialOperatorPlan vs dense reference', () => {
     });
   }
 
+  it('deep grading (60 generations toward a corner, 50 levels in 1D) stays exact', () => {
+    // dyadic coordinates keep the reference's geometry exact at this depth
+    const r = rng(2024);
+    for (const dom of [rectangleDomain(0, 1, 0, 1, 1, 1, { reaction: 3 }), intervalDomain(0, 1, 1, { reaction: 3 })]) {
+      const base = dom.uniformSet(1);
+      const deep = dom.refineTowards(base, dom.dim === 2 ? [0, 0] : [0], dom.dim === 2 ? 60 : 50);
+      let maxGen = 0;
+      for (const v of deep) maxGen = Math.max(maxGen, dom.generation(v));
+      expect(maxGen).toBeGreaterThanOrEqual(dom.dim === 2 ? 58 : 50);
+      const sOut = randomClosedSubset(dom, deep, r, 0.5);
+      const { M, A } = denseSpatialMatrices(dom, deep, sOut);
+      const plan = new SpatialOperatorPlan(dom, deep, sOut);
+      const x = randomVector(r, deep.length);
+      const yM = new Float64Array(sOut.length), yA = new Float64Array(sOut.length);
+      plan.applySplit(x, 0, yM, 0, yA, 0);
+      expect(relErr(yM, matVec(M, x))).toBeLessThan(1e-12);
+      expect(relErr(yA, matVec(A, x))).toBeLessThan(1e-12);
+    }
+  });
+
   it('a copy of the same set behaves like the same array', () => {
     const dom = rectangleDomain(0, 1, 0, 1, 2, 2);
     const s = dom.uniformSet(2);
