@@ -8,8 +8,6 @@ import type { InitialMesh } from './initial-mesh';
 import type { LeafMesh } from './leaf-mesh';
 import { segmentMeetsElement } from './geometry';
 
-const GEN_SHIFT = 2147483648; // 2^31: sort key generation·2^31 + id
-
 /**
  * A spatial domain Ω with its lazily grown bisection forest. Build one with
  * {@link intervalDomain}, {@link triangulatedDomain}, {@link rectangleDomain}, {@link lShapeDomain}
@@ -486,23 +484,29 @@ export class SpatialDomain {
     const n = this.markSet(set, 'set');
     const f = this.forest;
     const d = this.dim;
-    const keys = new Float64Array(n);
+    // order (generation, id): bucket by generation, then sort each bucket
+    let maxG = 0;
+    for (let k = 0; k < n; k++) {
+      const g = f.vGen[this.work[k]!]!;
+      if (g > maxG) maxG = g;
+    }
+    const start = new Int32Array(maxG + 2);
+    for (let k = 0; k < n; k++) start[f.vGen[this.work[k]!]! + 1]!++;
+    for (let g = 0; g <= maxG; g++) start[g + 1] = start[g + 1]! + start[g]!;
+    const globalId = new Int32Array(n);
+    const fill = start.slice(0, maxG + 1);
     for (let k = 0; k < n; k++) {
       const v = this.work[k]!;
-      keys[k] = f.vGen[v]! * GEN_SHIFT + v;
+      globalId[fill[f.vGen[v]!]!++] = v;
     }
-    keys.sort();
-    const globalId = new Int32Array(n);
+    for (let g = 0; g <= maxG; g++) globalId.subarray(start[g]!, start[g + 1]!).sort();
     const generation = new Int32Array(n);
     const coords = new Float64Array(n * d);
     const isFree = new Uint8Array(n);
     const local = this.localIdx;
     for (let i = 0; i < n; i++) {
-      const key = keys[i]!;
-      const g = Math.floor(key / GEN_SHIFT);
-      const v = key - g * GEN_SHIFT;
-      globalId[i] = v;
-      generation[i] = g;
+      const v = globalId[i]!;
+      generation[i] = f.vGen[v]!;
       local[v] = i;
       for (let k = 0; k < d; k++) coords[i * d + k] = f.vCoord[v * d + k]!;
       isFree[i] = f.vFree[v]!;
