@@ -5,20 +5,37 @@
  * its PCG history against a closed-form solution, a 2D solve on a
  * non-convex domain, and the cost of one operator application.
  */
-import { DoubleTree, HeatProblem, SpaceTimeSystem, intervalDomain, lShapeDomain, measureOperatorCost } from '../index';
+import { mkdirSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import {
+  DoubleTree, HeatProblem, SpaceTimeSystem, convergencePlotSvg, intervalDomain, lShapeDomain, measureOperatorCost,
+  probeTableCsv, sliceToVtu, spaceTimeErrors, vtkCollection, type SpaceTimeSolution,
+} from '../index';
 import { rieszConditionNumbers } from './riesz';
 
-const HELP = `usage: chronomesh-demo [--quick] [--help]
+const HELP = `usage: chronomesh-demo [--quick] [--out DIR] [--help]
 
-Runs the built-in example scenarios and prints their results.
-  --quick   smaller problems (a few seconds in all)
-  --help    this text`;
+Runs the built-in example scenarios, prints their results and writes
+time slices (VTK XML .vtu + .pvd), probe tables (CSV), a convergence
+study (JSON + SVG plot) into DIR.
+  --quick     smaller problems (a few seconds in all)
+  --out DIR   output folder (default: out)
+  --help      this text`;
 
-function parseArgs(argv: string[]): { quick: boolean } {
+function parseArgs(argv: string[]): { quick: boolean; out: string } {
   let quick = false;
-  for (const a of argv) {
+  let out = 'out';
+  for (let i = 0; i < argv.length; i++) {
+    const a = argv[i]!;
     if (a === '--quick') quick = true;
-    else if (a === '--help' || a === '-h') {
+    else if (a === '--out') {
+      const v = argv[++i];
+      if (!v) {
+        console.error(`chronomesh-demo: --out needs a folder name\n\n${HELP}`);
+        process.exit(2);
+      }
+      out = v;
+    } else if (a === '--help' || a === '-h') {
       console.log(HELP);
       process.exit(0);
     } else {
@@ -26,7 +43,24 @@ function parseArgs(argv: string[]): { quick: boolean } {
       process.exit(2);
     }
   }
-  return { quick };
+  return { quick, out };
+}
+
+const written: string[] = [];
+function save(dir: string, name: string, content: string): void {
+  mkdirSync(dir, { recursive: true });
+  writeFileSync(join(dir, name), content);
+  written.push(join(dir, name));
+}
+
+/** Writes slices at the given times as .vtu files plus a .pvd collection. */
+function saveSlices(dir: string, base: string, solution: SpaceTimeSolution, times: number[]): void {
+  const entries = times.map((t, i) => {
+    const file = `${base}-${String(i).padStart(4, '0')}.vtu`;
+    save(dir, file, sliceToVtu(solution.slice(t), 'temperature'));
+    return { t, file };
+  });
+  save(dir, `${base}.pvd`, vtkCollection(entries));
 }
 
 function heading(s: string): void {
@@ -49,7 +83,7 @@ function basisConstants(quick: boolean): void {
   }
 }
 
-function rodCooling(quick: boolean): void {
+function rodCooling(quick: boolean, out: string): void {
   heading('Rod cooling: u0 = 1 on (0,1), ends held at 0 (boundary-incompatible data)');
   const domain = intervalDomain(0, 1, 2);
   const problem = new HeatProblem({ domain, T: 1, initial: () => 1 });
@@ -74,9 +108,12 @@ function rodCooling(quick: boolean): void {
       console.log(`  ${t.toFixed(2).padStart(4)}  ${x.toFixed(2)}  ${v[i]!.toFixed(6)}   ${ref.toFixed(6)}        ${Math.abs(v[i]! - ref).toExponential(2)}`);
     });
   }
+  const times = Array.from({ length: 21 }, (_, i) => (i / 20) ** 2);
+  saveSlices(out, 'rod', solution, times);
+  save(out, 'rod-probes.csv', probeTableCsv(solution, times, [[0.1], [0.5]]));
 }
 
-function bracketHotSpot(quick: boolean): void {
+function bracketHotSpot(quick: boolean, out: string): void {
   heading('L-shaped bracket: starts at 1, edges at 0, hot spot switched on at t = 0.25');
   const domain = lShapeDomain(1);
   const hot = (t: number, x: number, y: number) => (t >= 0.25 ? 40 * Math.exp(-((x + 0.5) ** 2 + (y - 0.5) ** 2) / 0.02) : 0);
@@ -91,6 +128,41 @@ function bracketHotSpot(quick: boolean): void {
     const v = solution.evaluate(t, [-0.5, 0.5, 0.5, 0.5, -0.5, -0.5]);
     console.log(`  ${t.toFixed(2).padStart(4)}   ${v[0]!.toFixed(4).padStart(10)}            ${v[1]!.toFixed(4).padStart(8)}      ${v[2]!.toFixed(4).padStart(8)}`);
   }
+  const times = Array.from({ length: 11 }, (_, i) => i / 10);
+  saveSlices(out, 'bracket', solution, times);
+  save(out, 'bracket-probes.csv', probeTableCsv(solution, times, [[-0.5, 0.5], [0.5, 0.5], [-0.5, -0.5]]));
+}
+
+/** Smooth manufactured solution u = (1 + t²) sin(πx) on (0,1): L2(H¹) error of sparse and full grids. */
+function convergenceStudy(quick: boolean, out: string): void {
+  heading('Convergence study: u = (1 + t²) sin(πx), L2(0,1; H¹) error');
+  const PI = Math.PI;
+  const domain = intervalDomain(0, 1, 2);
+  const problem = new HeatProblem({
+    domain, T: 1, initial: (x) => Math.sin(PI * x),
+    source: [{ time: (t) => 2 * t + PI * PI * (1 + t * t), space: (x) => Math.sin(PI * x) }],
+  });
+  const exact = {
+    value: (t: number, x: number) => (1 + t * t) * Math.sin(PI * x),
+    gradient: (t: number, x: number, _y: number, g: Float64Array) => { g[0] = (1 + t * t) * PI * Math.cos(PI * x); },
+  };
+  const study: Record<string, { level: number; unknowns: number; error: number; iterations: number }[]> = { sparse: [], full: [] };
+  console.log('  grid    L   unknowns   L2(H1) error   PCG its');
+  for (const grid of ['sparse', 'full'] as const) {
+    const levels = grid === 'sparse' ? (quick ? [3, 4, 5] : [3, 4, 5, 6, 7, 8]) : quick ? [2, 3] : [2, 3, 4, 5];
+    for (const L of levels) {
+      const set = grid === 'sparse' ? DoubleTree.sparseGrid(domain, L) : DoubleTree.fullGrid(domain, L, L);
+      const { solution, pcg } = new SpaceTimeSystem(problem, set).solve({ relTol: 1e-10 });
+      const e = spaceTimeErrors(solution, exact).gradientL2;
+      study[grid]!.push({ level: L, unknowns: set.size, error: e, iterations: pcg.iterations });
+      console.log(`  ${grid.padEnd(6)} ${String(L).padStart(3)} ${String(set.size).padStart(10)}   ${e.toExponential(3).padStart(12)}   ${String(pcg.iterations).padStart(7)}`);
+    }
+  }
+  save(out, 'convergence.json', JSON.stringify(study, null, 2) + '\n');
+  save(out, 'convergence.svg', convergencePlotSvg(
+    Object.entries(study).map(([label, rows]) => ({ label: `${label} grids`, points: rows.map((r) => [r.unknowns, r.error] as [number, number]) })),
+    { title: 'heat equation on (0,1): smooth solution', yLabel: 'L2(H1) error', referenceSlopes: [-0.5, -1] },
+  ));
 }
 
 function operatorCosts(quick: boolean): void {
@@ -104,9 +176,13 @@ function operatorCosts(quick: boolean): void {
   }
 }
 
-const { quick } = parseArgs(process.argv.slice(2));
-console.log('chronomesh demo — space-time adaptive-ready solver for parabolic problems');
+const { quick, out } = parseArgs(process.argv.slice(2));
+console.log('chronomesh demo — space-time solver for parabolic problems');
 basisConstants(quick);
-rodCooling(quick);
-bracketHotSpot(quick);
+rodCooling(quick, out);
+bracketHotSpot(quick, out);
+convergenceStudy(quick, out);
 operatorCosts(quick);
+heading(`Files written (${written.length})`);
+for (const f of written.filter((f) => !/-\d{4}\.vtu$/.test(f))) console.log(`  ${f}`);
+console.log(`  … and ${written.filter((f) => /-\d{4}\.vtu$/.test(f)).length} .vtu slice files listed in the .pvd collections`);

@@ -1,3 +1,6 @@
 /** Public exports of the output module (re-exported by src/index.ts). */
 export { SpaceTimeSolution, type TimeSlice } from './space-time-solution';
 export { spaceTimeErrors, type KnownSolution, type SpaceTimeErrors } from './error-norms';
+export { sliceToVtu, vtkCollection } from './vtk';
+export { spatialIntegral, probeTableCsv } from './probes';
+export { convergencePlotSvg, type PlotSeries, type PlotOptions } from './svg-plot';
