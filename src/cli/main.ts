@@ -9,7 +9,7 @@ import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import {
   DoubleTree, HeatProblem, SpaceTimeSystem, convergencePlotSvg, intervalDomain, lShapeDomain, measureOperatorCost,
-  probeTableCsv, sliceToVtu, spaceTimeErrors, vtkCollection, type SpaceTimeSolution,
+  probeTableCsv, sliceToSvg, sliceToVtu, spaceTimeErrors, vtkCollection, type SpaceTimeSolution,
 } from '../index';
 import { rieszConditionNumbers } from './riesz';
 
@@ -110,6 +110,7 @@ function rodCooling(quick: boolean, out: string): void {
   }
   const times = Array.from({ length: 21 }, (_, i) => (i / 20) ** 2);
   saveSlices(out, 'rod', solution, times);
+  save(out, 'rod-t0.02.svg', sliceToSvg(solution.slice(0.02), { title: 'rod, temperature at t = 0.02' }));
   save(out, 'rod-probes.csv', probeTableCsv(solution, times, [[0.1], [0.5]]));
 }
 
@@ -130,6 +131,7 @@ function bracketHotSpot(quick: boolean, out: string): void {
   }
   const times = Array.from({ length: 11 }, (_, i) => i / 10);
   saveSlices(out, 'bracket', solution, times);
+  for (const t of [0.05, 0.5]) save(out, `bracket-t${t}.svg`, sliceToSvg(solution.slice(t), { title: `L-shaped bracket, temperature at t = ${t}`, range: [0, 1] }));
   save(out, 'bracket-probes.csv', probeTableCsv(solution, times, [[-0.5, 0.5], [0.5, 0.5], [-0.5, -0.5]]));
 }
 

@@ -4,3 +4,4 @@ export { spaceTimeErrors, type KnownSolution, type SpaceTimeErrors } from './err
 export { sliceToVtu, vtkCollection } from './vtk';
 export { spatialIntegral, probeTableCsv } from './probes';
 export { convergencePlotSvg, type PlotSeries, type PlotOptions } from './svg-plot';
+export { sliceToSvg, type SliceSvgOptions } from './svg-slice';
