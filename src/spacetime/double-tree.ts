@@ -121,52 +121,82 @@ export class DoubleTree {
         throw new InvalidArgumentError(`pairs.vertices[${p}] = ${v} is a Dirichlet vertex and carries no unknown`, { field: `pairs.vertices[${p}]`, received: v });
       }
     }
+    // Group the pairs by temporal node; duplicates are merged by fromNodeSets.
+    const byNode = new Map<string, { l: number; k: number; v: number[] }>();
+    for (let p = 0; p < n; p++) {
+      const key = `${levels[p]}:${indices[p]}`;
+      let e = byNode.get(key);
+      if (!e) byNode.set(key, (e = { l: levels[p]!, k: indices[p]!, v: [] }));
+      e.v.push(vertices[p]!);
+    }
+    const groups = [...byNode.values()];
+    return DoubleTree.fromNodeSets(
+      domain,
+      groups.map((g) => g.l),
+      groups.map((g) => g.k),
+      groups.map((g) => Int32Array.from(new Set(g.v)).sort()),
+      opts,
+    );
+  }
+
+  /**
+   * A trial double tree from one sorted free-vertex set per temporal node
+   * (nodes may repeat; their sets are merged). With `close: true` the result
+   * is the smallest double tree containing all pairs; otherwise the pairs must
+   * already form one, and a missing pair is reported by name.
+   */
+  static fromNodeSets(
+    domain: SpatialDomain,
+    levels: ArrayLike<number>,
+    indices: ArrayLike<number>,
+    sets: Int32Array[],
+    opts: { close?: boolean; pool?: FibrePool } = {},
+  ): DoubleTree {
     const close = opts.close ?? false;
     const pool = opts.pool ?? new FibrePool();
     // Temporal projection (validated by TemporalTree: levels/indices in range; closed unless `close`).
     const tree = TemporalTree.fromNodes('trial', levels, indices, { close });
-    const lists: number[][] = Array.from({ length: tree.size }, () => []);
-    for (let p = 0; p < n; p++) lists[tree.find(levels[p]!, indices[p]!)]!.push(vertices[p]!);
-    const own = lists.map((l) => Int32Array.from(new Set(l)).sort());
+    const parts: Int32Array[][] = Array.from({ length: tree.size }, () => []);
+    for (let e = 0; e < sets.length; e++) parts[tree.find(levels[e]!, indices[e]!)]!.push(sets[e]!);
     const par = new Float64Array(4);
     const fibres: Int32Array[] = new Array(tree.size);
     if (close) {
       // Deepest level first: F_λ = close(own pairs ∪ children's fibres), then hand F_λ to the parents.
-      const acc: Int32Array[][] = own.map((o) => [o]);
       for (let i = tree.size - 1; i >= 0; i--) {
-        const f = domain.close(unionSorted(acc[i]!));
+        const f = domain.close(unionSorted(parts[i]!));
         fibres[i] = f;
         const np = nodeParents('trial', tree.level[i]!, tree.index[i]!, par);
-        for (let q = 0; q < np; q++) acc[tree.find(par[2 * q]!, par[2 * q + 1]!)]!.push(f);
+        for (let q = 0; q < np; q++) parts[tree.find(par[2 * q]!, par[2 * q + 1]!)]!.push(f);
       }
-    } else {
-      for (let i = 0; i < tree.size; i++) {
-        const f = own[i]!;
-        const l = tree.level[i]!;
-        const k = tree.index[i]!;
-        const closed = domain.close(f);
-        if (closed.length !== f.length) {
-          const v = firstMissing(closed, f);
+      return DoubleTree.fromNodeFibres('trial', tree, fibres, pool);
+    }
+    const own = parts.map(unionSorted);
+    for (let i = 0; i < tree.size; i++) {
+      const f = own[i]!;
+      const l = tree.level[i]!;
+      const k = tree.index[i]!;
+      const closed = domain.close(f);
+      if (closed.length !== f.length) {
+        const v = firstMissing(closed, f);
+        throw new InvalidIndexSetError(
+          `pair (level ${l}, index ${k}, vertex ${v}) is missing: the spatial fibre of temporal node (${l}, ${k}) is not closed under godparents`,
+          { field: 'pairs', received: v },
+        );
+      }
+      const np = nodeParents('trial', l, k, par);
+      for (let q = 0; q < np; q++) {
+        const pl = par[2 * q]!;
+        const pk = par[2 * q + 1]!;
+        const pf = own[tree.find(pl, pk)]!;
+        if (!isSortedSubset(f, pf)) {
+          const v = firstMissing(f, pf);
           throw new InvalidIndexSetError(
-            `pair (level ${l}, index ${k}, vertex ${v}) is missing: the spatial fibre of temporal node (${l}, ${k}) is not closed under godparents`,
+            `pair (level ${pl}, index ${pk}, vertex ${v}) is missing: it is the temporal parent of pair (level ${l}, index ${k}, vertex ${v})`,
             { field: 'pairs', received: v },
           );
         }
-        const np = nodeParents('trial', l, k, par);
-        for (let q = 0; q < np; q++) {
-          const pl = par[2 * q]!;
-          const pk = par[2 * q + 1]!;
-          const pf = own[tree.find(pl, pk)]!;
-          if (!isSortedSubset(f, pf)) {
-            const v = firstMissing(f, pf);
-            throw new InvalidIndexSetError(
-              `pair (level ${pl}, index ${pk}, vertex ${v}) is missing: it is the temporal parent of pair (level ${l}, index ${k}, vertex ${v})`,
-              { field: 'pairs', received: v },
-            );
-          }
-        }
-        fibres[i] = f;
       }
+      fibres[i] = f;
     }
     return DoubleTree.fromNodeFibres('trial', tree, fibres, pool);
   }
