@@ -66,8 +66,8 @@ export function checkLevel(level: unknown, field = 'level'): asserts level is nu
 }
 
 /** Validates a (level, index) pair of the given basis; `where` is appended to the message (e.g. " (nodes[3])"). */
-export function checkNode(kind: TemporalBasisKind, level: unknown, index: unknown, where = '', field = 'index'): void {
-  checkLevel(level, where ? `level${where}` : 'level');
+export function checkNode(kind: TemporalBasisKind, level: unknown, index: unknown, where = '', field = 'index', levelField = 'level'): void {
+  checkLevel(level, levelField + where);
   const n = nodesOnLevel(kind, level);
   if (typeof index !== 'number' || !Number.isInteger(index) || index < 0 || index >= n) {
     throw new InvalidArgumentError(

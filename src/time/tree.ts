@@ -81,7 +81,7 @@ export class TemporalTree {
     const n = levels.length;
     const count = new Int32Array(MAX_TEMPORAL_LEVEL + 1);
     for (let i = 0; i < n; i++) {
-      checkNode(kind, levels[i], indices[i], `[${i}]`, 'indices');
+      checkNode(kind, levels[i], indices[i], `[${i}]`, 'indices', 'levels');
       count[levels[i]!]!++;
     }
     // Bucket by level, sort each bucket numerically, remove duplicates.
