@@ -18,3 +18,4 @@ export * from './space/index';
 export * from './spacetime/index';
 export * from './system/index';
 export * from './output/index';
+export * from './adapt/index';

@@ -20,6 +20,8 @@ export type InnerSolver =
 /** z[zOff..] ≈ (A + αM)⁻¹ r[rOff..] on one fibre. */
 export interface FibreInverse {
   apply(r: Float64Array, rOff: number, z: Float64Array, zOff: number, alpha: number): void;
+  /** Diagonals of the hierarchical A and M on the fibre, in fibre order (used by the estimator). */
+  diagonals(): { A: Float64Array; M: Float64Array };
 }
 
 class MultigridFibreInverse implements FibreInverse {
@@ -37,6 +39,10 @@ class MultigridFibreInverse implements FibreInverse {
     for (let p = 0; p < local.length; p++) rLoc[local[p]!] = r[rOff + p]!;
     this.mg.applyHierarchical(rLoc, zLoc, alpha);
     for (let p = 0; p < local.length; p++) z[zOff + p] = zLoc[local[p]!]!;
+  }
+  diagonals(): { A: Float64Array; M: Float64Array } {
+    const d = this.mg.hierarchicalDiagonals();
+    return { A: Float64Array.from(this.local, (i) => d.A[i]!), M: Float64Array.from(this.local, (i) => d.M[i]!) };
   }
 }
 
@@ -59,6 +65,10 @@ class ExactFibreInverse implements FibreInverse {
     for (let i = 0; i < n; i++) this.rhs.set(i, 0, r[rOff + i]!);
     const sol = chol.solve(this.rhs);
     for (let i = 0; i < n; i++) z[zOff + i] = sol.get(i, 0);
+  }
+  diagonals(): { A: Float64Array; M: Float64Array } {
+    const n = this.M.rows;
+    return { A: Float64Array.from({ length: n }, (_, i) => this.A.get(i, i)), M: Float64Array.from({ length: n }, (_, i) => this.M.get(i, i)) };
   }
 }
 

@@ -50,6 +50,7 @@ export class SpaceTimeSystem {
   readonly G: InitialTraceOperator;
   readonly S: SchurOperator;
   readonly KX: TrialPreconditioner;
+  private readonly inverses: FibreInverseCache;
 
   constructor(problem: HeatProblem, trialSet: DoubleTree, opts: SpaceTimeSystemOptions = {}) {
     if (!(trialSet instanceof DoubleTree) || trialSet.kind !== 'trial') {
@@ -63,6 +64,7 @@ export class SpaceTimeSystem {
     this.plans = new SpatialPlanCache(problem.domain, trialSet.pool);
     const inner = opts.inner ?? { kind: 'multigrid' };
     const inverses = new FibreInverseCache(problem.domain, trialSet.pool, this.plans, inner);
+    this.inverses = inverses;
     const pInner = opts.preconditionerInner ?? inner;
     const pInverses = pInner === inner ? inverses : new FibreInverseCache(problem.domain, trialSet.pool, this.plans, pInner);
     this.B = new TensorOperatorPlan('derivIn', 'mass', trialSet, this.testSet, this.plans, T);
@@ -71,6 +73,11 @@ export class SpaceTimeSystem {
     this.G = new InitialTraceOperator(trialSet, this.plans, T);
     this.S = new SchurOperator(this.B, this.Bt, this.KY, this.G);
     this.KX = new TrialPreconditioner(trialSet, pInverses, this.plans, T);
+  }
+
+  /** Diagonals of the hierarchical spatial A and M on a fibre of the pool (fibre order). */
+  fibreDiagonals(fibreId: number): { A: Float64Array; M: Float64Array } {
+    return this.inverses.get(fibreId).diagonals();
   }
 
   /** Number of unknowns (#Λ). */

@@ -95,6 +95,33 @@ export class MultilevelPreconditioner {
     this.corr = this.cycles > 1 ? new Float64Array(n) : null;
   }
 
+  /**
+   * Diagonals of the stiffness A (with reaction) and mass M in hierarchical
+   * coordinates, per local vertex (0 on Dirichlet vertices). The hierarchical
+   * hat of a generation-g vertex is its nodal hat on mesh_g, so its diagonal
+   * entry is the one of the Galerkin matrix A_g saved for the smoother of level g.
+   */
+  hierarchicalDiagonals(): { A: Float64Array; M: Float64Array } {
+    const h = this.h;
+    const gen = this.mesh.generation;
+    const A = new Float64Array(this.vertexCount);
+    const M = new Float64Array(this.vertexCount);
+    for (let g = 1; g < h.levels; g++) {
+      for (let k = h.setBegin[g]!; k < h.setEnd[g]!; k++) {
+        const v = h.setVerts[k]!;
+        if (gen[v] !== g) continue;
+        A[v] = h.rowDiag[2 * k]!;
+        M[v] = h.rowDiag[2 * k + 1]!;
+      }
+    }
+    for (let i = 0; i < h.coarseVerts.length; i++) {
+      const v = h.coarseVerts[i]!;
+      A[v] = h.coarseDiag[2 * i]!;
+      M[v] = h.coarseDiag[2 * i + 1]!;
+    }
+    return { A, M };
+  }
+
   private checkArgs(r: Float64Array, z: Float64Array, alpha: number): void {
     const n = this.vertexCount;
     if (!(r instanceof Float64Array) || r.length !== n) {

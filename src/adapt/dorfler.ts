@@ -1,0 +1,59 @@
+/**
+ * Dörfler (bulk) marking in linear time (DESIGN.md §7): a set M of
+ * candidates with Σ_M η² ≥ θ² Σ η², of size at most about twice the minimal
+ * one, found by binning the η² by powers of two instead of sorting.
+ */
+import { InvalidArgumentError } from '../errors';
+
+const BINS = 64;
+
+/**
+ * Indices of the marked entries of `eta2` (squared indicators; entries ≤ 0 are never marked).
+ *
+ * @example
+ * ```ts
+ * import { dorflerMark } from 'chronomesh';
+ * dorflerMark(Float64Array.of(1, 100, 4, 0.01), 0.5); // Int32Array [1]
+ * ```
+ */
+export function dorflerMark(eta2: Float64Array, theta: number): Int32Array {
+  if (!(theta > 0 && theta < 1)) throw new InvalidArgumentError(`Dörfler parameter theta = ${theta} must lie in (0, 1)`, { field: 'theta', expected: '(0, 1)', received: theta });
+  let total = 0;
+  let max = 0;
+  for (let i = 0; i < eta2.length; i++) {
+    const e = eta2[i]!;
+    if (!(e >= 0)) throw new InvalidArgumentError(`indicator ${i} is ${e}; expected a finite number ≥ 0`, { field: `eta2[${i}]`, received: e });
+    if (e > 0) {
+      total += e;
+      if (e > max) max = e;
+    }
+  }
+  if (total === 0) return new Int32Array(0);
+  // Bin b holds η² in (max·2^{-(b+1)}, max·2^{-b}]; the last bin collects everything smaller.
+  const bin = new Uint8Array(eta2.length);
+  const sum = new Float64Array(BINS);
+  for (let i = 0; i < eta2.length; i++) {
+    const e = eta2[i]!;
+    if (e <= 0) { bin[i] = 255; continue; }
+    const b = Math.min(BINS - 1, Math.floor(Math.log2(max / e)));
+    bin[i] = b;
+    sum[b]! += e;
+  }
+  const target = theta * theta * total;
+  let acc = 0;
+  let lastBin = 0;
+  for (; lastBin < BINS; lastBin++) {
+    if (acc + sum[lastBin]! >= target) break;
+    acc += sum[lastBin]!;
+  }
+  // Take all of bins < lastBin, and from lastBin only as many as needed (any order: within a factor 2).
+  const out: number[] = [];
+  for (let i = 0; i < eta2.length; i++) if (bin[i]! < lastBin) out.push(i);
+  for (let i = 0; i < eta2.length && acc < target; i++) {
+    if (bin[i] === lastBin) {
+      out.push(i);
+      acc += eta2[i]!;
+    }
+  }
+  return Int32Array.from(out).sort();
+}

@@ -1,0 +1,40 @@
+/**
+ * Moving coefficient vectors between nested double trees Λ ⊆ Λ̲. Hierarchical
+ * hats and temporal wavelets do not depend on the set they belong to, so the
+ * same function has the same coefficients in both sets (zero on Λ̲ \ Λ).
+ */
+import { InvalidIndexSetError } from '../errors';
+import type { DoubleTree } from '../spacetime/double-tree';
+import { positionsIn } from '../system/initial-trace';
+
+/** For every coefficient of `small`, its position in `large` (which must contain `small`). */
+export function embeddingMap(small: DoubleTree, large: DoubleTree): Int32Array {
+  const map = new Int32Array(small.size);
+  const fpn = small.kind === 'test' ? 2 : 1;
+  for (let i = 0; i < small.tree.size; i++) {
+    const l = small.tree.level[i]!;
+    const k = small.tree.index[i]!;
+    const j = large.tree.find(l, k);
+    const fs = small.fibre(i);
+    if (fs.length === 0) continue;
+    if (j < 0) throw new InvalidIndexSetError(`temporal node (${l}, ${k}) of the smaller set is missing from the larger one`, { field: 'large' });
+    const fl = large.fibre(j);
+    const pos = positionsIn(fs, fl);
+    for (let p = 0; p < pos.length; p++) {
+      if (fl[pos[p]!] !== fs[p]) throw new InvalidIndexSetError(`pair (level ${l}, index ${k}, vertex ${fs[p]}) is missing from the larger set`, { field: 'large' });
+    }
+    for (let s = 0; s < fpn; s++) {
+      const a = small.functionOffset[fpn * i + s]!;
+      const b = large.functionOffset[fpn * j + s]!;
+      for (let p = 0; p < pos.length; p++) map[a + p] = b + pos[p]!;
+    }
+  }
+  return map;
+}
+
+/** x on `large` with the coefficients of `small` placed by `map` and zeros elsewhere. */
+export function prolongCoefficients(map: Int32Array, x: Float64Array, largeSize: number): Float64Array {
+  const out = new Float64Array(largeSize);
+  for (let p = 0; p < map.length; p++) out[map[p]!] = x[p]!;
+  return out;
+}

@@ -1,0 +1,55 @@
+/**
+ * Residual a-posteriori estimator (DESIGN.md §7). With Λ̲ the enlargement
+ * of Λ and ũ the current solution extended by zero,
+ *   r = b̲ − S̲ ũ  on Λ̲,    η_i = |r_i| / √d_i  for i = (λ, ν) ∈ Λ̲ \ Λ,
+ *   d_i = (A_x)_{νν} + α_λ² (M_x)_{νν}² / (A_x)_{νν}   (X-norm² of σ_λ ⊗ φ_ν up to constants),
+ * and E = (Σ η_i²)^{1/2}. Under the saturation assumption E is reliable and efficient.
+ */
+import { derivativeNorms } from '../time/index';
+import type { DoubleTree } from '../spacetime/double-tree';
+import type { SpaceTimeSystem } from '../system/space-time-system';
+import { embeddingMap, prolongCoefficients } from './embedding';
+
+/** Result of {@link residualIndicators}. */
+export interface ResidualIndicators {
+  /** η_i² for every coefficient of Λ̲ (0 on Λ itself). */
+  eta2: Float64Array;
+  /** E = (Σ η²)^{1/2}. */
+  estimate: number;
+  /** Positions of Λ's coefficients inside Λ̲. */
+  embedding: Int32Array;
+}
+
+/**
+ * Squared indicators on the enlarged set of `enlarged` (a system built on Λ̲ ⊇ Λ)
+ * for the solution `u` on Λ.
+ */
+export function residualIndicators(enlarged: SpaceTimeSystem, set: DoubleTree, u: Float64Array, b?: Float64Array): ResidualIndicators {
+  const big = enlarged.trialSet;
+  const map = embeddingMap(set, big);
+  const ut = prolongCoefficients(map, u, big.size);
+  const r = b ? Float64Array.from(b) : enlarged.rightHandSide();
+  const su = new Float64Array(big.size);
+  enlarged.S.apply(ut, su);
+  for (let i = 0; i < r.length; i++) r[i]! -= su[i]!;
+  const inSmall = new Uint8Array(big.size);
+  for (let p = 0; p < map.length; p++) inSmall[map[p]!] = 1;
+  const alpha = derivativeNorms(big.tree, enlarged.problem.T);
+  const eta2 = new Float64Array(big.size);
+  let total = 0;
+  for (let f = 0; f < big.functionCount; f++) {
+    const o = big.functionOffset[f]!;
+    const n = big.functionOffset[f + 1]! - o;
+    if (n === 0) continue;
+    const { A, M } = enlarged.fibreDiagonals(big.functionFibre[f]!);
+    const a2 = alpha[f]! * alpha[f]!;
+    for (let p = 0; p < n; p++) {
+      if (inSmall[o + p]) continue;
+      const d = A[p]! + (a2 * M[p]! * M[p]!) / A[p]!;
+      const e = (r[o + p]! * r[o + p]!) / d;
+      eta2[o + p] = e;
+      total += e;
+    }
+  }
+  return { eta2, estimate: Math.sqrt(total), embedding: map };
+}

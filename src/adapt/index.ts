@@ -1,0 +1,7 @@
+/** Public exports of the adaptivity module (re-exported by src/index.ts). */
+export { solveAdaptive, type AdaptiveOptions, type AdaptiveResult, type AdaptiveStep } from './adaptive-solver';
+export { enlargeDoubleTree } from './enlargement';
+export { residualIndicators, type ResidualIndicators } from './estimator';
+export { dorflerMark } from './dorfler';
+export { refineDoubleTree } from './refine';
+export { embeddingMap, prolongCoefficients } from './embedding';

@@ -1,0 +1,33 @@
+/**
+ * Refinement step of the adaptive loop (DESIGN.md §7): Λ ← closure(Λ ∪ M)
+ * for marked pairs M of the enlarged set.
+ */
+import type { SpatialDomain } from '../space/index';
+import { DoubleTree } from '../spacetime/double-tree';
+
+/** closure(Λ ∪ {pairs of Λ̲ at the given coefficient positions}). */
+export function refineDoubleTree(domain: SpatialDomain, set: DoubleTree, enlarged: DoubleTree, marked: Int32Array): DoubleTree {
+  const levels: number[] = [];
+  const indices: number[] = [];
+  const sets: Int32Array[] = [];
+  for (let i = 0; i < set.tree.size; i++) {
+    if (set.fibre(i).length === 0) continue;
+    levels.push(set.tree.level[i]!);
+    indices.push(set.tree.index[i]!);
+    sets.push(set.fibre(i));
+  }
+  // Marked positions are sorted, and coefficients are stored node by node, so one sweep groups them.
+  let m = 0;
+  for (let f = 0; f < enlarged.functionCount && m < marked.length; f++) {
+    const o = enlarged.functionOffset[f]!;
+    const e = enlarged.functionOffset[f + 1]!;
+    const fib = enlarged.pool.get(enlarged.functionFibre[f]!);
+    const vs: number[] = [];
+    while (m < marked.length && marked[m]! < e) vs.push(fib[marked[m++]! - o]!);
+    if (vs.length === 0) continue;
+    levels.push(enlarged.tree.level[f]!);
+    indices.push(enlarged.tree.index[f]!);
+    sets.push(Int32Array.from(vs));
+  }
+  return DoubleTree.fromNodeSets(domain, levels, indices, sets, { close: true, pool: set.pool });
+}

@@ -1,0 +1,27 @@
+/** Hierarchical diagonals used by the estimator: V-cycle hierarchy vs the independent dense reference. */
+import { describe, expect, it } from 'vitest';
+import { intervalDomain, lShapeDomain, rectangleDomain } from '../../src/index';
+import { MultilevelPreconditioner } from '../../src/space/multigrid/index';
+import { denseSpatialMatrices } from '../space/reference';
+
+describe('hierarchical diagonals', () => {
+  it.each([
+    ['interval with variable κ and reaction', () => intervalDomain(0, 2, 3, { kappa: (x) => 1 + x, reaction: 0.7 })],
+    ['square, graded', () => rectangleDomain(0, 1, 0, 1, 2, 2, { kappa: (x, y) => (x + y < 1 ? 1 : 4), reaction: 1 })],
+    ['L-shape', () => lShapeDomain(1)],
+  ] as const)('%s', (_name, make) => {
+    const domain = make();
+    let set = domain.uniformSet(2);
+    if (domain.dim === 2) set = domain.refineTowards(set, [0.1, 0.1], 5);
+    const mesh = domain.leafMesh(set);
+    const d = new MultilevelPreconditioner(mesh).hierarchicalDiagonals();
+    const { M, A } = denseSpatialMatrices(domain, set, set);
+    const pos = new Map<number, number>();
+    for (let i = 0; i < mesh.vertexCount; i++) pos.set(mesh.globalId[i]!, i);
+    set.forEach((v, p) => {
+      const i = pos.get(v)!;
+      expect(d.A[i]).toBeCloseTo(A[p]![p]!, 10);
+      expect(d.M[i]).toBeCloseTo(M[p]![p]!, 12);
+    });
+  });
+});
