@@ -203,15 +203,18 @@ export class BisectionFixture {
   }
 
   private contains(v: number[], px: number, py: number): boolean {
-    const eps = 1e-14;
+    // tolerances relative to the cell size: graded cells get as small as 2^-60
     if (this.dim === 1) {
       const lo = Math.min(this.x[v[0]!]!, this.x[v[1]!]!);
       const hi = Math.max(this.x[v[0]!]!, this.x[v[1]!]!);
+      const eps = 1e-12 * (hi - lo);
       return px >= lo - eps && px <= hi + eps;
     }
     const orient = (i: number, j: number): number =>
       (this.x[j]! - this.x[i]!) * (py - this.y[i]!) - (this.y[j]! - this.y[i]!) * (px - this.x[i]!);
-    return orient(v[0]!, v[1]!) >= -eps && orient(v[1]!, v[2]!) >= -eps && orient(v[2]!, v[0]!) >= -eps;
+    const [a, b, c] = [v[0]!, v[1]!, v[2]!];
+    const eps = -1e-12 * Math.abs((this.x[b]! - this.x[a]!) * (this.y[c]! - this.y[a]!) - (this.y[b]! - this.y[a]!) * (this.x[c]! - this.x[a]!));
+    return orient(a, b) >= eps && orient(b, c) >= eps && orient(c, a) >= eps;
   }
 
   /** Leaf mesh of the vertices of generation ≤ cap (default: all). */
