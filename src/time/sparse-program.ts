@@ -48,27 +48,28 @@ export interface SparseProgram {
   readonly workSize: number;
   readonly stepSrc: Uint8Array;
   readonly stepDst: Uint8Array;
-  /** Rows of step s are [stepRow[s], stepRow[s+1]). */
+  /** Rows of step s are [stepRow[s], stepRow[s+1]), its entries start at stepEntry[s]. */
   readonly stepRow: Int32Array;
-  /** Destination slot of each row. */
+  readonly stepEntry: Int32Array;
+  /** Destination slot and number of entries (≤ 255) of each row; entries follow row by row. */
   readonly rowDst: Int32Array;
-  /** Entries of row r are [rowPtr[r], rowPtr[r+1]). */
-  readonly rowPtr: Int32Array;
+  readonly rowLen: Uint8Array;
   readonly col: Int32Array;
   readonly weight: Float64Array;
 }
 
 /**
  * Collects steps. Entries of one step may come in any order; `endStep` sorts them by
- * destination (counting sort, linear) and drops empty rows.
+ * destination (counting sort, linear), drops empty rows and splits rows longer than 255.
  */
 export class ProgramBuilder {
   workSize = 0;
   private readonly stepSrc = new GrowI32();
   private readonly stepDst = new GrowI32();
   private readonly stepRow = new GrowI32();
+  private readonly stepEntry = new GrowI32();
   private readonly rowDst = new GrowI32();
-  private readonly rowPtr = new GrowI32();
+  private readonly rowLen = new GrowI32();
   private readonly col = new GrowI32();
   private readonly weight = new GrowF64();
   // entries of the open step
@@ -82,7 +83,7 @@ export class ProgramBuilder {
 
   constructor() {
     this.stepRow.push(0);
-    this.rowPtr.push(0);
+    this.stepEntry.push(0);
   }
 
   /** Reserves n scratch slots; returns the first. */
@@ -124,18 +125,21 @@ export class ProgramBuilder {
     const ts = this.tSrc.data;
     const tw = this.tW.data;
     for (let r = 0; r < nr; r++) {
-      if (cnt[r + 1] === cnt[r]) continue;
-      this.rowDst.push(this.lo + r);
-      for (let q = cnt[r]!; q < cnt[r + 1]!; q++) {
-        const e = order[q]!;
-        this.col.push(ts[e]!);
-        this.weight.push(tw[e]!);
+      for (let q0 = cnt[r]!; q0 < cnt[r + 1]!; q0 += 255) {
+        const q1 = Math.min(q0 + 255, cnt[r + 1]!);
+        this.rowDst.push(this.lo + r);
+        this.rowLen.push(q1 - q0);
+        for (let q = q0; q < q1; q++) {
+          const e = order[q]!;
+          this.col.push(ts[e]!);
+          this.weight.push(tw[e]!);
+        }
       }
-      this.rowPtr.push(this.col.length);
     }
     this.stepSrc.push(this.src);
     this.stepDst.push(this.dst);
     this.stepRow.push(this.rowDst.length);
+    this.stepEntry.push(this.col.length);
   }
 
   finish(): SparseProgram {
@@ -144,19 +148,22 @@ export class ProgramBuilder {
       stepSrc: Uint8Array.from(this.stepSrc.toArray()),
       stepDst: Uint8Array.from(this.stepDst.toArray()),
       stepRow: this.stepRow.toArray(),
+      stepEntry: this.stepEntry.toArray(),
       rowDst: this.rowDst.toArray(),
-      rowPtr: this.rowPtr.toArray(),
+      rowLen: Uint8Array.from(this.rowLen.toArray()),
       col: this.col.toArray(),
       weight: this.weight.toArray(),
     };
   }
 }
 
-/** Rows [r0, r1) of one step, one column. */
-function gather1(src: Float64Array, dst: Float64Array, rowDst: Int32Array, rowPtr: Int32Array, col: Int32Array, weight: Float64Array, r0: number, r1: number): void {
-  let q = rowPtr[r0]!;
+/** Rows [r0, r1) of one step with entries from q, one column. */
+function gather1(
+  src: Float64Array, dst: Float64Array, rowDst: Int32Array, rowLen: Uint8Array, col: Int32Array, weight: Float64Array,
+  r0: number, r1: number, q: number,
+): void {
   for (let r = r0; r < r1; r++) {
-    const q1 = rowPtr[r + 1]!;
+    const q1 = q + rowLen[r]!;
     let acc = 0;
     for (; q < q1; q++) acc += weight[q]! * src[col[q]!]!;
     dst[rowDst[r]!] += acc;
@@ -164,14 +171,12 @@ function gather1(src: Float64Array, dst: Float64Array, rowDst: Int32Array, rowPt
 }
 
 /** Rows [r0, r1) of one step, `batch` interleaved columns. */
-function gatherBatch(
-  src: Float64Array, dst: Float64Array, rowDst: Int32Array, rowPtr: Int32Array, col: Int32Array, weight: Float64Array,
-  r0: number, r1: number, batch: number,
-): void {
+function gatherBatch(p: SparseProgram, src: Float64Array, dst: Float64Array, r0: number, r1: number, q: number, batch: number): void {
+  const { rowDst, rowLen, col, weight } = p;
   for (let r = r0; r < r1; r++) {
     const d = rowDst[r]! * batch;
-    const q1 = rowPtr[r + 1]!;
-    for (let q = rowPtr[r]!; q < q1; q++) {
+    const q1 = q + rowLen[r]!;
+    for (; q < q1; q++) {
       const w = weight[q]!;
       const c = col[q]! * batch;
       for (let b = 0; b < batch; b++) dst[d + b] += w * src[c + b]!;
@@ -184,12 +189,15 @@ function gatherBatch(
  * (the caller zeroes it). Slot s of column b lives at s·batch + b in x, work and y.
  */
 export function runProgram(p: SparseProgram, x: Float64Array, work: Float64Array, y: Float64Array, batch: number): void {
-  const { stepSrc, stepDst, stepRow, rowDst, rowPtr, col, weight } = p;
+  const { stepSrc, stepDst, stepRow, stepEntry, rowDst, rowLen, col, weight } = p;
   const ns = stepSrc.length;
   for (let s = 0; s < ns; s++) {
     const src = stepSrc[s] === SRC_X ? x : work;
     const dst = stepDst[s] === DST_Y ? y : work;
-    if (batch === 1) gather1(src, dst, rowDst, rowPtr, col, weight, stepRow[s]!, stepRow[s + 1]!);
-    else gatherBatch(src, dst, rowDst, rowPtr, col, weight, stepRow[s]!, stepRow[s + 1]!, batch);
+    const r0 = stepRow[s]!;
+    const r1 = stepRow[s + 1]!;
+    const q = stepEntry[s]!;
+    if (batch === 1) gather1(src, dst, rowDst, rowLen, col, weight, r0, r1, q);
+    else gatherBatch(p, src, dst, r0, r1, q, batch);
   }
 }
