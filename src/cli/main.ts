@@ -9,7 +9,8 @@ import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import {
   DoubleTree, HeatProblem, SpaceTimeSystem, convergencePlotSvg, intervalDomain, lShapeDomain, measureOperatorCost,
-  probeTableCsv, sliceToSvg, sliceToVtu, spaceTimeErrors, vtkCollection, type SpaceTimeSolution,
+  enlargeDoubleTree, probeTableCsv, residualIndicators, sliceToSvg, sliceToVtu, solveAdaptive, spaceTimeErrors, vtkCollection,
+  type SpaceTimeSolution,
 } from '../index';
 import { rieszConditionNumbers } from './riesz';
 
@@ -167,6 +168,38 @@ function convergenceStudy(quick: boolean, out: string): void {
   ));
 }
 
+/** Adaptive vs sparse grids on the rod with incompatible data: estimator against unknowns. */
+function adaptiveRod(quick: boolean, out: string): void {
+  heading('Adaptive loop on the rod (u0 = 1, ends at 0): estimator vs unknowns');
+  const domain = intervalDomain(0, 1, 2);
+  const problem = new HeatProblem({ domain, T: 1, initial: () => 1 });
+  const t0 = performance.now();
+  const res = solveAdaptive(problem, { maxUnknowns: quick ? 1500 : 15000, maxSteps: 200, theta: 0.5 });
+  const h = res.history;
+  console.log(`${h.length} steps in ${((performance.now() - t0) / 1000).toFixed(1)} s, stopped by: ${res.stopReason}`);
+  console.log('  step   unknowns    estimator   PCG its   deepest time level');
+  for (let i = 0; i < h.length; i += Math.max(1, Math.floor(h.length / 12))) {
+    const x = h[i]!;
+    console.log(`  ${String(x.step).padStart(4)} ${String(x.unknowns).padStart(10)}   ${x.estimate.toExponential(3)}   ${String(x.pcgIterations).padStart(7)}   ${String(x.maxTimeLevel).padStart(18)}`);
+  }
+  const sparse: { unknowns: number; estimate: number }[] = [];
+  for (let L = 3; L <= (quick ? 7 : 10); L++) {
+    const set = DoubleTree.sparseGrid(domain, L);
+    const { pcg } = new SpaceTimeSystem(problem, set).solve({ relTol: 1e-8 });
+    const e = residualIndicators(new SpaceTimeSystem(problem, enlargeDoubleTree(domain, set)), set, pcg.solution).estimate;
+    sparse.push({ unknowns: set.size, estimate: e });
+  }
+  const rate = (a: { unknowns: number; estimate: number }, b: { unknowns: number; estimate: number }) =>
+    Math.log(a.estimate / b.estimate) / Math.log(b.unknowns / a.unknowns);
+  const a0 = h.find((x) => x.unknowns >= 200) ?? h[0]!;
+  console.log(`estimator rate: adaptive ${rate(a0, h[h.length - 1]!).toFixed(2)}, sparse grids ${rate(sparse[0]!, sparse[sparse.length - 1]!).toFixed(2)}`);
+  save(out, 'adaptive-rod.json', JSON.stringify({ adaptive: h, sparse }, null, 2) + '\n');
+  save(out, 'adaptive-rod.svg', convergencePlotSvg([
+    { label: 'adaptive', points: h.map((x) => [x.unknowns, x.estimate] as [number, number]) },
+    { label: 'sparse grids', points: sparse.map((x) => [x.unknowns, x.estimate] as [number, number]) },
+  ], { title: 'rod with u0 = 1: residual estimator', yLabel: 'estimator E', referenceSlopes: [-1] }));
+}
+
 function operatorCosts(quick: boolean): void {
   heading('Cost of one operator application (ns per unknown, median)');
   console.log('   d   L   unknowns        S        B      K_X   PCG its (1e-6)');
@@ -184,6 +217,7 @@ basisConstants(quick);
 rodCooling(quick, out);
 bracketHotSpot(quick, out);
 convergenceStudy(quick, out);
+adaptiveRod(quick, out);
 operatorCosts(quick);
 heading(`Files written (${written.length})`);
 for (const f of written.filter((f) => !/-\d{4}\.vtu$/.test(f))) console.log(`  ${f}`);
