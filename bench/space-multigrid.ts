@@ -1,6 +1,102 @@
-/** Benchmark cases of the spatial multilevel preconditioner (`space.vcycle*` rows). */
-import type { BenchCase } from './harness';
+/**
+ * Benchmark cases of the spatial multilevel preconditioner (`space.vcycle*` rows),
+ * cost per leaf-mesh vertex.
+ *
+ * uniform: unit square split into 2 × 2 cells (8 triangles), all vertices up to a
+ *          generation G ≈ log2(size / 4) (so the V-cycle has G + 1 levels).
+ * graded:  unit square 2 × 2, every element bisected while its diameter exceeds H·r
+ *          (r = distance of its centroid to the corner (0, 0)), down to 40 generations
+ *          at the corner; H calibrated so that the set has ≈ size free vertices.
+ * `space.vcycle.*` times one application z = V r (α = 16); `space.vcycle-setup.*` times
+ * the constructor (assembly, Galerkin hierarchy, coarse ordering; the α-dependent coarse
+ * factor is built on the first application and is not part of it).
+ */
+import type { BenchCase, BenchInstance } from './harness';
+import { rectangleDomain } from '../src/space/index';
+import type { LeafMesh } from '../src/space/leaf-mesh';
+import { MultilevelPreconditioner } from '../src/space/multigrid/index';
 
-export function spaceMultigridCases(_quick: boolean): BenchCase[] {
-  return [];
+type Kind = 'uniform' | 'graded';
+
+const cache = new Map<string, LeafMesh>();
+
+function mergeSorted(a: Int32Array, b: Int32Array): Int32Array {
+  const out = new Int32Array(a.length + b.length);
+  out.set(a);
+  out.set(b, a.length);
+  return out.sort();
+}
+
+function uniformMesh(size: number): LeafMesh {
+  const dom = rectangleDomain(0, 1, 0, 1, 2, 2);
+  const G = Math.max(1, Math.round(Math.log2(size / 4)));
+  let set = dom.uniformSet(G >> 1);
+  if (G & 1) set = mergeSorted(set, dom.refineAll(set));
+  return dom.leafMesh(set);
+}
+
+function gradedMesh(size: number): LeafMesh {
+  const make = (H: number): { dom: ReturnType<typeof rectangleDomain>; set: Int32Array } => {
+    const dom = rectangleDomain(0, 1, 0, 1, 2, 2);
+    return { dom, set: dom.adaptedSet((x, y) => H * Math.hypot(x, y), 40) };
+  };
+  let H = 0.5;
+  let p = make(H);
+  for (let it = 0; it < 4 && Math.abs(p.set.length / size - 1) > 0.1; it++) {
+    H *= Math.sqrt(p.set.length / size);
+    p = make(H);
+  }
+  return p.dom.leafMesh(p.set);
+}
+
+function mesh(kind: Kind, size: number): LeafMesh {
+  const key = `${kind}:${size}`;
+  let m = cache.get(key);
+  if (!m) {
+    m = kind === 'uniform' ? uniformMesh(size) : gradedMesh(size);
+    cache.clear(); // one mesh at a time
+    cache.set(key, m);
+  }
+  return m;
+}
+
+function randomVector(n: number): Float64Array {
+  const x = new Float64Array(n);
+  let s = 12345;
+  for (let i = 0; i < n; i++) {
+    s = (s * 1103515245 + 12345) % 2147483648;
+    x[i] = s / 2147483648 - 0.5;
+  }
+  return x;
+}
+
+function applyInstance(kind: Kind, size: number): BenchInstance {
+  const m = mesh(kind, size);
+  const pre = new MultilevelPreconditioner(m);
+  const r = randomVector(m.vertexCount);
+  const z = new Float64Array(m.vertexCount);
+  pre.applyNodal(r, z, 16); // builds the coarse factor for this α
+  return { units: m.vertexCount, run: () => pre.applyNodal(r, z, 16), extra: { levels: pre.levels } };
+}
+
+function setupInstance(kind: Kind, size: number): BenchInstance {
+  const m = mesh(kind, size);
+  let levels = 0;
+  return {
+    units: m.vertexCount,
+    run: () => void (levels = new MultilevelPreconditioner(m).levels),
+    get extra() { return { levels }; },
+  };
+}
+
+export function spaceMultigridCases(quick: boolean): BenchCase[] {
+  const sizes = quick ? [1e3, 1e4] : [1e3, 1e4, 1e5, 1e6];
+  const out: BenchCase[] = [];
+  for (const kind of ['uniform', 'graded'] as const) {
+    out.push({ component: `space.vcycle.${kind}`, sizes, setup: (s) => applyInstance(kind, s) });
+  }
+  for (const kind of ['uniform', 'graded'] as const) {
+    out.push({ component: `space.vcycle-setup.${kind}`, sizes, setup: (s) => setupInstance(kind, s) });
+  }
+  return out;
 }
