@@ -6,6 +6,7 @@
  * one object with one small integer id. Spatial operator plans are then
  * cached per pair of fibre ids (a sparse grid has only L + 1 distinct fibres).
  */
+import { unionSorted as unionTwo } from '../space/operator-plan';
 
 export class FibrePool {
   private readonly byHash = new Map<number, number[]>();
@@ -60,27 +61,8 @@ function sameInts(a: Int32Array, b: Int32Array): boolean {
 export function unionSorted(sets: Int32Array[]): Int32Array {
   if (sets.length === 0) return new Int32Array(0);
   let acc = sets[0]!;
-  for (let s = 1; s < sets.length; s++) acc = mergeTwo(acc, sets[s]!);
+  for (let s = 1; s < sets.length; s++) acc = unionTwo(acc, sets[s]!);
   return acc;
-}
-
-function mergeTwo(a: Int32Array, b: Int32Array): Int32Array {
-  if (a === b || b.length === 0) return a;
-  if (a.length === 0) return b;
-  const out = new Int32Array(a.length + b.length);
-  let i = 0;
-  let j = 0;
-  let n = 0;
-  while (i < a.length && j < b.length) {
-    const x = a[i]!;
-    const y = b[j]!;
-    if (x < y) { out[n++] = x; i++; }
-    else if (y < x) { out[n++] = y; j++; }
-    else { out[n++] = x; i++; j++; }
-  }
-  while (i < a.length) out[n++] = a[i++]!;
-  while (j < b.length) out[n++] = b[j++]!;
-  return n === out.length ? out : out.slice(0, n);
 }
 
 /** True if every element of sorted `sub` is in sorted `sup`. */

@@ -9,6 +9,7 @@ import { InvalidArgumentError } from '../errors';
 import type { SpatialDomain } from '../space/index';
 import type { LeafMesh } from '../space/leaf-mesh';
 import { MultilevelPreconditioner } from '../space/multigrid/index';
+import { localIndices } from '../space/operator-plan';
 import type { FibrePool } from '../spacetime/fibre-pool';
 import type { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 
@@ -28,8 +29,8 @@ class MultigridFibreInverse implements FibreInverse {
   private readonly local: Int32Array;
   private readonly rLoc: Float64Array;
   private readonly zLoc: Float64Array;
-  constructor(mesh: LeafMesh, fibre: Int32Array, private readonly mg: MultilevelPreconditioner) {
-    this.local = localIndices(mesh, fibre);
+  constructor(domain: SpatialDomain, mesh: LeafMesh, fibre: Int32Array, private readonly mg: MultilevelPreconditioner) {
+    this.local = localIndices(domain, mesh, fibre);
     this.rLoc = new Float64Array(mesh.vertexCount);
     this.zLoc = new Float64Array(mesh.vertexCount);
   }
@@ -70,19 +71,6 @@ class ExactFibreInverse implements FibreInverse {
     const n = this.M.rows;
     return { A: Float64Array.from({ length: n }, (_, i) => this.A.get(i, i)), M: Float64Array.from({ length: n }, (_, i) => this.M.get(i, i)) };
   }
-}
-
-/** Local leaf-mesh index of every fibre vertex (the fibre's free vertices are exactly the mesh's). */
-function localIndices(mesh: LeafMesh, fibre: Int32Array): Int32Array {
-  const byGlobal = new Map<number, number>();
-  for (let i = 0; i < mesh.vertexCount; i++) byGlobal.set(mesh.globalId[i]!, i);
-  const out = new Int32Array(fibre.length);
-  for (let p = 0; p < fibre.length; p++) {
-    const i = byGlobal.get(fibre[p]!);
-    if (i === undefined) throw new InvalidArgumentError(`vertex ${fibre[p]} of the fibre is not a vertex of its leaf mesh`, { field: 'fibre' });
-    out[p] = i;
-  }
-  return out;
 }
 
 /** Dense hierarchical M and A on a fibre, by applying the fast spatial plan to unit vectors. */
@@ -126,7 +114,7 @@ export class FibreInverseCache {
         const fibre = this.pool.get(fibreId);
         const mesh = this.domain.leafMesh(fibre);
         const mg = new MultilevelPreconditioner(mesh, { cycles: this.solver.cycles ?? 1 });
-        item = new MultigridFibreInverse(mesh, fibre, mg);
+        item = new MultigridFibreInverse(this.domain, mesh, fibre, mg);
       }
       this.items.set(fibreId, item);
     }
