@@ -75,40 +75,44 @@ function assemble2d(mesh: LeafMesh, rows: PairedRows): void {
   const el = mesh.elements;
   const xy = mesh.coords;
   const free = mesh.isFree;
-  const loc = [0, 0, 0];
-  const b = [0, 0, 0];
-  const g = [0, 0, 0];
+  const mats = mesh.elementMaterial;
+  const kap = mesh.kappa;
+  const rea = mesh.reaction;
+  const diag = rows.diag;
   for (let e = 0; e < mesh.elementCount; e++) {
-    for (let i = 0; i < 3; i++) loc[i] = el[3 * e + i]!;
-    for (let i = 0; i < 3; i++) {
-      const p = loc[(i + 1) % 3]!;
-      const q = loc[(i + 2) % 3]!;
-      b[i] = xy[2 * p + 1]! - xy[2 * q + 1]!;
-      g[i] = xy[2 * q]! - xy[2 * p]!;
-    }
+    const v0 = el[3 * e]!;
+    const v1 = el[3 * e + 1]!;
+    const v2 = el[3 * e + 2]!;
+    const x0 = xy[2 * v0]!, y0 = xy[2 * v0 + 1]!;
+    const x1 = xy[2 * v1]!, y1 = xy[2 * v1 + 1]!;
+    const x2 = xy[2 * v2]!, y2 = xy[2 * v2 + 1]!;
+    const b0 = y1 - y2, b1 = y2 - y0, b2 = y0 - y1;
+    const c0 = x2 - x1, c1 = x0 - x2, c2 = x1 - x0;
     // 2|T| = b_0 c_1 − b_1 c_0 (signed; counter-clockwise gives > 0)
-    const twiceArea = Math.abs(b[0]! * g[1]! - b[1]! * g[0]!);
-    if (!(twiceArea > 0) || !Number.isFinite(twiceArea)) throw degenerate(e, twiceArea / 2);
-    const area = twiceArea / 2;
-    const mat = mesh.elementMaterial[e]!;
-    const kappa = mesh.kappa[mat]!;
-    const c = mesh.reaction[mat]!;
-    const sk = kappa / (4 * area);
-    for (let i = 0; i < 3; i++) {
-      const vi = loc[i]!;
-      if (!free[vi]) continue;
-      for (let j = 0; j < 3; j++) {
-        const vj = loc[j]!;
-        if (!free[vj]) continue;
-        const mass = (area / 12) * (i === j ? 2 : 1);
-        const stiff = sk * (b[i]! * b[j]! + g[i]! * g[j]!);
-        if (i === j) {
-          rows.diag[2 * vi] = rows.diag[2 * vi]! + stiff + c * mass;
-          rows.diag[2 * vi + 1] = rows.diag[2 * vi + 1]! + mass;
-        } else {
-          rows.add(vi, vj, stiff + c * mass, mass);
-        }
-      }
+    const area = 0.5 * Math.abs(b0 * c1 - b1 * c0);
+    if (!(area > 0) || !Number.isFinite(area)) throw degenerate(e, area);
+    const mat = mats[e]!;
+    const sk = kap[mat]! / (4 * area);
+    const c = rea[mat]!;
+    const mo = area / 12; // off-diagonal mass; diagonal 2·mo
+    const f0 = free[v0]!, f1 = free[v1]!, f2 = free[v2]!;
+    if (f0) {
+      diag[2 * v0] = diag[2 * v0]! + sk * (b0 * b0 + c0 * c0) + 2 * c * mo;
+      diag[2 * v0 + 1] = diag[2 * v0 + 1]! + 2 * mo;
     }
+    if (f1) {
+      diag[2 * v1] = diag[2 * v1]! + sk * (b1 * b1 + c1 * c1) + 2 * c * mo;
+      diag[2 * v1 + 1] = diag[2 * v1 + 1]! + 2 * mo;
+    }
+    if (f2) {
+      diag[2 * v2] = diag[2 * v2]! + sk * (b2 * b2 + c2 * c2) + 2 * c * mo;
+      diag[2 * v2 + 1] = diag[2 * v2 + 1]! + 2 * mo;
+    }
+    const k01 = sk * (b0 * b1 + c0 * c1) + c * mo;
+    const k12 = sk * (b1 * b2 + c1 * c2) + c * mo;
+    const k20 = sk * (b2 * b0 + c2 * c0) + c * mo;
+    if (f0 && f1) { rows.add(v0, v1, k01, mo); rows.add(v1, v0, k01, mo); }
+    if (f1 && f2) { rows.add(v1, v2, k12, mo); rows.add(v2, v1, k12, mo); }
+    if (f2 && f0) { rows.add(v2, v0, k20, mo); rows.add(v0, v2, k20, mo); }
   }
 }

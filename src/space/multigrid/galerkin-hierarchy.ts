@@ -63,8 +63,12 @@ export function copyPairedRows(rows: PairedRows): PairedCsr {
   for (let i = 0; i < n; i++) {
     const s = rows.start[i]!;
     const l = rows.len[i]!;
-    cols.set(rows.cols.subarray(s, s + l), ptr[i]!);
-    vals.set(rows.vals.subarray(2 * s, 2 * (s + l)), 2 * ptr[i]!);
+    const o = ptr[i]!;
+    for (let t = 0; t < l; t++) {
+      cols[o + t] = rows.cols[s + t]!;
+      vals[2 * (o + t)] = rows.vals[2 * (s + t)]!;
+      vals[2 * (o + t) + 1] = rows.vals[2 * (s + t) + 1]!;
+    }
   }
   return { ptr, cols, vals, diag: rows.diag.slice() };
 }
@@ -137,8 +141,13 @@ export function buildHierarchy(mesh: LeafMesh, rows: PairedRows): LevelHierarchy
       }
       rowPtr[k] = used;
       const s = rows.start[v]!;
-      rowCols.set(rows.cols.subarray(s, s + l), used);
-      rowVals.set(rows.vals.subarray(2 * s, 2 * (s + l)), 2 * used);
+      const rc = rows.cols;
+      const rv = rows.vals;
+      for (let t = 0; t < l; t++) {
+        rowCols[used + t] = rc[s + t]!;
+        rowVals[2 * (used + t)] = rv[2 * (s + t)]!;
+        rowVals[2 * (used + t) + 1] = rv[2 * (s + t) + 1]!;
+      }
       used += l;
       rowDiag[2 * k] = rows.diag[2 * v]!;
       rowDiag[2 * k + 1] = rows.diag[2 * v + 1]!;
@@ -174,7 +183,7 @@ export function buildHierarchy(mesh: LeafMesh, rows: PairedRows): LevelHierarchy
     coarseDiag[2 * i + 1] = rows.diag[2 * v + 1]!;
   }
   return {
-    levels, levelStart, setBegin, setEnd, setVerts, rowPtr, rowCols: rowCols.slice(0, used), rowVals: rowVals.slice(0, 2 * used),
+    levels, levelStart, setBegin, setEnd, setVerts, rowPtr, rowCols: rowCols.subarray(0, used), rowVals: rowVals.subarray(0, 2 * used),
     rowDiag, coarseVerts, coarsePtr, coarseCols, coarseVals, coarseDiag,
   };
 }
