@@ -25,7 +25,16 @@ import { CoarseSolver } from './coarse-solver';
 import { buildHierarchy, copyPairedRows, type LevelHierarchy, type PairedCsr } from './galerkin-hierarchy';
 import { validateLeafMesh } from './validate-leaf-mesh';
 
-/** Options of {@link MultilevelPreconditioner}. */
+/**
+ * Options of {@link MultilevelPreconditioner}.
+ *
+ * @example
+ * ```ts
+ * import { rectangleDomain, MultilevelPreconditioner } from 'chronomesh';
+ * const dom = rectangleDomain(0, 1, 0, 1, 2, 2);
+ * const pre = new MultilevelPreconditioner(dom.leafMesh(dom.uniformSet(3)), { cycles: 2, smoothingSteps: 1 });
+ * ```
+ */
 export interface MultilevelOptions {
   /** Number of V-cycles per application (default 1); more cycles give a closer approximation. */
   cycles?: number;
@@ -42,17 +51,24 @@ function checkCount(name: string, v: number | undefined, dflt: number): number {
 }
 
 /**
- * Multilevel preconditioner for A + αM on the leaf mesh of a closed vertex set:
- * a local multiplicative V-cycle over the vertex generations with symmetric
- * Gauss–Seidel smoothing and an exact coarse solve. Setup and application cost
- * are linear in the number of vertices; α may change from one call to the next.
+ * Multilevel preconditioner for A + αM on the leaf mesh of a closed vertex set
+ * (A: stiffness with κ plus the reaction c·mass, M: mass): a local
+ * multiplicative V-cycle over the vertex generations with Gauss–Seidel smoothing
+ * (forward before, backward after the coarse correction) and an exact coarse
+ * solve. Symmetric positive definite for every α ≥ 0; setup and application
+ * cost are linear in the number of vertices; α may change from one call to the
+ * next without new setup (the coarse factor of each new α is computed once and
+ * cached, so only the first call with a given α allocates).
  *
  * @example
  * ```ts
- * const pre = new MultilevelPreconditioner(mesh);      // mesh: a LeafMesh
+ * import { rectangleDomain, MultilevelPreconditioner } from 'chronomesh';
+ * const dom = rectangleDomain(0, 1, 0, 1, 2, 2);
+ * const mesh = dom.leafMesh(dom.uniformSet(3));
+ * const pre = new MultilevelPreconditioner(mesh);
  * const r = new Float64Array(mesh.vertexCount).fill(1);
  * const z = new Float64Array(mesh.vertexCount);
- * pre.applyNodal(r, z, 16);                           // z ≈ (A + 16 M)⁻¹ r
+ * pre.applyNodal(r, z, 16); // z ≈ (A + 16 M)⁻¹ r
  * ```
  */
 export class MultilevelPreconditioner {

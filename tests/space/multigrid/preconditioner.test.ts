@@ -207,3 +207,18 @@ describe('MultilevelPreconditioner: errors', () => {
     expect(z.every(Number.isFinite)).toBe(true);
   });
 });
+
+describe('MultilevelPreconditioner: TSDoc example', () => {
+  it('runs as written (with src imports)', async () => {
+    const { rectangleDomain } = await import('../../../src/space/index');
+    const dom = rectangleDomain(0, 1, 0, 1, 2, 2);
+    const mesh = dom.leafMesh(dom.uniformSet(3));
+    const pre = new MultilevelPreconditioner(mesh);
+    const r = new Float64Array(mesh.vertexCount).fill(1);
+    const z = new Float64Array(mesh.vertexCount);
+    pre.applyNodal(r, z, 16);
+    expect(z.every(Number.isFinite)).toBe(true);
+    expect(Math.max(...z)).toBeGreaterThan(0);
+    expect(new MultilevelPreconditioner(mesh, { cycles: 2, smoothingSteps: 1 }).levels).toBe(pre.levels);
+  });
+});
