@@ -5,6 +5,12 @@
  *   d = 1: κ/h [[1,−1],[−1,1]],  mass h/6 [[2,1],[1,2]];
  *   d = 2: κ (b_i b_j + c_i c_j) / (4|T|),  mass |T|/12 (1 + δ_ij),
  * with b_i = y_{i+1} − y_{i+2}, c_i = x_{i+2} − x_{i+1} (indices mod 3).
+ * Element sizes are exact rather than coordinate differences: a leaf of
+ * generation k (the largest generation among its vertices) has 2^−k times the
+ * length/area of its initial element (each bisection halves it), and the initial
+ * size is measured on the shallowest leaf of that initial element. This keeps
+ * deep meshes near non-dyadic points (ulp(x) ≫ h) assemblable in d = 1; in d = 2
+ * only the shape factors b_i, c_i come from coordinates.
  * Dirichlet vertices get no entries (their rows stay empty). The mesh must
  * have passed `validateLeafMesh` (indices, materials, coefficients).
  */
@@ -26,9 +32,46 @@ export function assemblePair(mesh: LeafMesh): PairedRows {
   }
   for (let v = 0; v < n; v++) if (free[v]) capacity[v] = capacity[v]! + 2;
   const rows = new PairedRows(n, capacity);
-  if (mesh.dim === 1) assemble1d(mesh, rows);
-  else assemble2d(mesh, rows);
+  const sizes = exactSizes(mesh);
+  if (mesh.dim === 1) assemble1d(mesh, rows, sizes);
+  else assemble2d(mesh, rows, sizes);
   return rows;
+}
+
+/** Exact length (d = 1) or area (d = 2) of every leaf element, see the file comment. */
+function exactSizes(mesh: LeafMesh): Float64Array {
+  const ne = mesh.elementCount;
+  const nv = mesh.dim + 1;
+  const el = mesh.elements;
+  const gen = mesh.generation;
+  const x = mesh.coords;
+  const nr = mesh.kappa.length;
+  const rootGen = new Int32Array(nr).fill(0x7fffffff);
+  const rootElem = new Int32Array(nr).fill(-1);
+  const elemGen = new Int32Array(ne);
+  for (let e = 0; e < ne; e++) {
+    let k = 0;
+    for (let i = 0; i < nv; i++) k = Math.max(k, gen[el[nv * e + i]!]!);
+    elemGen[e] = k;
+    const r = mesh.elementMaterial[e]!;
+    if (k < rootGen[r]!) { rootGen[r] = k; rootElem[r] = e; }
+  }
+  const rootSize = new Float64Array(nr);
+  for (let r = 0; r < nr; r++) {
+    const e = rootElem[r]!;
+    if (e < 0) continue;
+    let size: number;
+    if (mesh.dim === 1) size = Math.abs(x[el[2 * e + 1]!]! - x[el[2 * e]!]!);
+    else {
+      const p0 = el[3 * e]!, p1 = el[3 * e + 1]!, p2 = el[3 * e + 2]!;
+      size = 0.5 * Math.abs((x[2 * p1]! - x[2 * p0]!) * (x[2 * p2 + 1]! - x[2 * p0 + 1]!) - (x[2 * p2]! - x[2 * p0]!) * (x[2 * p1 + 1]! - x[2 * p0 + 1]!));
+    }
+    if (!(size > 0) || !Number.isFinite(size)) throw degenerate(e, size);
+    rootSize[r] = size * 2 ** rootGen[r]!;
+  }
+  const sizes = new Float64Array(ne);
+  for (let e = 0; e < ne; e++) sizes[e] = rootSize[mesh.elementMaterial[e]!]! * 2 ** -elemGen[e]!;
+  return sizes;
 }
 
 function degenerate(e: number, size: number): InvalidMeshError {
@@ -37,16 +80,14 @@ function degenerate(e: number, size: number): InvalidMeshError {
   });
 }
 
-function assemble1d(mesh: LeafMesh, rows: PairedRows): void {
+function assemble1d(mesh: LeafMesh, rows: PairedRows, sizes: Float64Array): void {
   const el = mesh.elements;
-  const x = mesh.coords;
   const free = mesh.isFree;
   const loc = [0, 0];
   for (let e = 0; e < mesh.elementCount; e++) {
     const v0 = el[2 * e]!;
     const v1 = el[2 * e + 1]!;
-    const h = Math.abs(x[v1]! - x[v0]!);
-    if (!(h > 0) || !Number.isFinite(h)) throw degenerate(e, h);
+    const h = sizes[e]!;
     const mat = mesh.elementMaterial[e]!;
     const kappa = mesh.kappa[mat]!;
     const c = mesh.reaction[mat]!;
@@ -71,7 +112,7 @@ function assemble1d(mesh: LeafMesh, rows: PairedRows): void {
   }
 }
 
-function assemble2d(mesh: LeafMesh, rows: PairedRows): void {
+function assemble2d(mesh: LeafMesh, rows: PairedRows, sizes: Float64Array): void {
   const el = mesh.elements;
   const xy = mesh.coords;
   const free = mesh.isFree;
@@ -88,9 +129,9 @@ function assemble2d(mesh: LeafMesh, rows: PairedRows): void {
     const x2 = xy[2 * v2]!, y2 = xy[2 * v2 + 1]!;
     const b0 = y1 - y2, b1 = y2 - y0, b2 = y0 - y1;
     const c0 = x2 - x1, c1 = x0 - x2, c2 = x1 - x0;
-    // 2|T| = b_0 c_1 − b_1 c_0 (signed; counter-clockwise gives > 0)
-    const area = 0.5 * Math.abs(b0 * c1 - b1 * c0);
-    if (!(area > 0) || !Number.isFinite(area)) throw degenerate(e, area);
+    // 2|T| = b_0 c_1 − b_1 c_0 from coordinates; a vanishing value means the coordinates no longer resolve T
+    if (!(Math.abs(b0 * c1 - b1 * c0) > 0)) throw degenerate(e, 0.5 * Math.abs(b0 * c1 - b1 * c0));
+    const area = sizes[e]!;
     const mat = mats[e]!;
     const sk = kap[mat]! / (4 * area);
     const c = rea[mat]!;

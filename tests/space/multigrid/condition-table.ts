@@ -48,9 +48,9 @@ function uniform1d(level: number): LeafMesh {
   return dom.leafMesh(dom.uniformSet(level));
 }
 
-function graded1d(level: number): LeafMesh {
+function graded1d(level: number, generations: number): LeafMesh {
   const dom = intervalDomain(0, 1, 2, { insulated: [[2]] });
-  return dom.leafMesh(dom.refineTowards(dom.uniformSet(level), [1 / 3], 40));
+  return dom.leafMesh(dom.refineTowards(dom.uniformSet(level), [1 / 3], generations));
 }
 
 const rows: [string, () => LeafMesh][] = quick
@@ -58,8 +58,8 @@ const rows: [string, () => LeafMesh][] = quick
   : [
       ['1d uniform L=10', () => uniform1d(10)],
       ['1d uniform L=19', () => uniform1d(19)],
-      ['1d graded to x=1/3, +40 gen, L=4', () => graded1d(4)],
-      ['1d graded to x=1/3, +40 gen, L=19', () => graded1d(19)],
+      ['1d graded to x=1/3, L=4 then +40 gen', () => graded1d(4, 40)],
+      ['1d graded to x=1/3, L=19 then +20 gen', () => graded1d(19, 20)],
       ['2d uniform G=10', () => uniform2d(10)],
       ['2d uniform G=14', () => uniform2d(14)],
       ['2d uniform G=18', () => uniform2d(18)],

@@ -75,6 +75,18 @@ describe('P1 assembly of the fine matrices', () => {
     }
   });
 
+  it('uses exact element sizes 2^−k·h_0, not coordinate differences (1D, 50 generations toward x = 1/3)', () => {
+    // near 1/3, ulp(1/3) = 2^−54 while h = 2^−50/3: coordinate differences would be off by tens of percent
+    const mesh = BisectionFixture.interval([0, 1 / 3, 1], { left: true, right: true }).gradeTowardPoint(50, 1 / 3).leafMesh();
+    const rows = assemblePair(mesh);
+    const v = 1; // the initial vertex 1/3 (local order: initial vertices first)
+    expect(mesh.coords[v]).toBe(1 / 3);
+    const hl = (1 / 3) * 2 ** -50;
+    const hr = (2 / 3) * 2 ** -50;
+    expect(rows.diag[2 * v]! / (1 / hl + 1 / hr) - 1).toBeCloseTo(0, 13);
+    expect(rows.diag[2 * v + 1]! / ((2 * (hl + hr)) / 6) - 1).toBeCloseTo(0, 13);
+  });
+
   it.each(meshes)('equals the independent dense assembly (%s)', (_name, mk) => {
     const mesh = mk().leafMesh();
     const csr = copyPairedRows(assemblePair(mesh));

@@ -40,6 +40,10 @@ const cases: [string, () => { dom: SpatialDomain; sets: Int32Array[] }][] = [
     const dom = intervalDomain(0, 1, 2, { insulated: [[2]] });
     return { dom, sets: [dom.refineTowards(dom.uniformSet(2), [0.5], 40), dom.refineTowards(dom.uniformSet(6), [0.5], 40)] };
   }],
+  ['interval, 44 generations toward the non-dyadic node x = 1/3', () => {
+    const dom = intervalDomain(0, 1, 3);
+    return { dom, sets: [dom.refineTowards(dom.uniformSet(2), [1 / 3], 24), dom.refineTowards(dom.uniformSet(2), [1 / 3], 44)] };
+  }],
   ['rectangle, uniform', () => {
     const dom = rectangleDomain(0, 2, 0, 1, 2, 1);
     return { dom, sets: [dom.uniformSet(3), dom.uniformSet(5)] };
