@@ -81,8 +81,13 @@ export class TemporalTree {
     const n = levels.length;
     const count = new Int32Array(MAX_TEMPORAL_LEVEL + 1);
     for (let i = 0; i < n; i++) {
-      checkNode(kind, levels[i], indices[i], `[${i}]`, 'indices', 'levels');
-      count[levels[i]!]!++;
+      const l = levels[i]!;
+      const k = indices[i]!;
+      // fast path; the full check (and its message) only when something is off
+      if (!(Number.isInteger(l) && l >= 0 && l <= MAX_TEMPORAL_LEVEL && Number.isInteger(k) && k >= 0 && k < nodesOnLevel(kind, l))) {
+        checkNode(kind, l, k, `[${i}]`, 'indices', 'levels');
+      }
+      count[l]!++;
     }
     // Bucket by level, sort each bucket numerically, remove duplicates.
     const buckets: Float64Array[] = [];
