@@ -19,8 +19,9 @@ export interface ErrorDetails {
  *
  * @example
  * ```ts
- * import { ChronomeshError, TemporalBasis } from 'chronomesh';
- * try { new TemporalBasis('trial', -1); } catch (e) { if (e instanceof ChronomeshError) console.log(e.code); }
+ * import { ChronomeshError, HeatProblem, intervalDomain } from 'chronomesh';
+ * try { new HeatProblem({ domain: intervalDomain(0, 1, 2), T: -1 }); }
+ * catch (e) { if (e instanceof ChronomeshError) console.log(e.code, e.field); } // invalid-argument T
  * ```
  */
 export class ChronomeshError extends Error {
