@@ -1,17 +1,9 @@
 /** Seeded random domains and closed vertex sets for the spatial tests. */
 import type { SpatialDomain } from '../../src/space/index';
 
-/** Small deterministic PRNG (mulberry32). */
-export function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { rng } from '../helpers/random';
+
+export { rng };
 
 /** A random point of the bounding box [x0, x1] × [y0, y1]. */
 function randomPoint(r: () => number, dim: 1 | 2, box: number[]): number[] {

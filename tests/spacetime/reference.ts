@@ -4,6 +4,7 @@
  * functions, textbook element matrices) — no fast kernel is involved.
  */
 import { Matrix } from 'ml-matrix';
+import { rng } from '../helpers/random';
 import type { TemporalForm } from '../../src/time/index';
 import type { SpatialDomain } from '../../src/space/index';
 import type { DoubleTree } from '../../src/spacetime/double-tree';
@@ -121,16 +122,8 @@ export function relativeError(a: ArrayLike<number>, b: ArrayLike<number>): numbe
   return Math.sqrt(num) / Math.max(Math.sqrt(den), 1e-300);
 }
 
-export function seededRandom(seed: number): () => number {
-  let s = seed >>> 0;
-  return () => {
-    s = (s + 0x6d2b79f5) >>> 0;
-    let t = s;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** Seeded random numbers for test inputs (shared helper). */
+export const seededRandom = rng;
 
 export function randomVector(n: number, rand: () => number): Float64Array {
   return Float64Array.from({ length: n }, () => 2 * rand() - 1);

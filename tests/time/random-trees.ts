@@ -2,17 +2,9 @@
 import { TemporalTree, type TemporalBasisKind } from '../../src/time/index';
 import type { NodeRef } from './reference';
 
-/** Mulberry32 PRNG: small, seeded, good enough for test inputs (common practice). */
-export function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { rng } from '../helpers/random';
+
+export { rng };
 
 function width(kind: TemporalBasisKind, l: number): number {
   return l === 0 ? (kind === 'trial' ? 2 : 1) : 2 ** (l - 1);
