@@ -1,6 +1,5 @@
 /** Seeded random domains and closed vertex sets for the spatial tests. */
 import type { SpatialDomain } from '../../src/space/index';
-
 import { rng } from '../helpers/random';
 
 export { rng };

@@ -1,7 +1,6 @@
 /** Seeded random temporal trees for the tests (uniform, sparse, graded towards t = 0 or t = T). */
 import { TemporalTree, type TemporalBasisKind } from '../../src/time/index';
 import type { NodeRef } from './reference';
-
 import { rng } from '../helpers/random';
 
 export { rng };
