@@ -190,38 +190,73 @@ export function buildHierarchy(mesh: LeafMesh, rows: PairedRows): LevelHierarchy
 
 /**
  * Eliminates vertex m with free parents p, q (−1 if Dirichlet) by the midpoint
- * prolongation: K ← Eᵀ K E restricted to the remaining vertices.
+ * prolongation: K ← Eᵀ K E restricted to the remaining vertices, i.e.
+ * K[x,j] += ½K[m,j] for x ∈ {p, q}, both triangles, K[x,y] += ¼K[m,m] for x, y ∈ {p, q},
+ * and row/column m removed.
  */
 function eliminate(rows: PairedRows, m: number, p: number, q: number): void {
   const s = rows.start[m]!;
   const l = rows.len[m]!;
+  let kmp = 0, mmp = 0, kmq = 0, mmq = 0;
   for (let t = 0; t < l; t++) {
     // the pool arrays may be reallocated by add(); read them afresh
     const j = rows.cols[s + t]!;
     const k = rows.vals[2 * (s + t)]!;
     const mm = rows.vals[2 * (s + t) + 1]!;
-    if (p >= 0) spread(rows, p, j, k, mm);
-    if (q >= 0) spread(rows, q, j, k, mm);
+    if (j === p) { kmp = k; mmp = mm; continue; }
+    if (j === q) { kmq = k; mmq = mm; continue; }
+    if (p >= 0) rows.add(p, j, 0.5 * k, 0.5 * mm);
+    if (q >= 0) rows.add(q, j, 0.5 * k, 0.5 * mm);
+    redirect(rows, j, m, p, q, 0.5 * k, 0.5 * mm);
   }
   const dk = 0.25 * rows.diag[2 * m]!;
   const dm = 0.25 * rows.diag[2 * m + 1]!;
-  if (p >= 0) addDiag(rows, p, dk, dm);
-  if (q >= 0) addDiag(rows, q, dk, dm);
-  if (p >= 0 && q >= 0) {
-    rows.add(p, q, dk, dm);
-    rows.add(q, p, dk, dm);
-  }
-  for (let t = 0; t < l; t++) rows.remove(rows.cols[s + t]!, m);
+  // K[p,p] += ½K[m,p] + ½K[p,m] + ¼K[m,m]; K[p,q] += ½K[m,q] + ½K[p,m] + ¼K[m,m]
+  if (p >= 0) addDiag(rows, p, kmp + dk, mmp + dm);
+  if (q >= 0) addDiag(rows, q, kmq + dk, mmq + dm);
+  const kpq = 0.5 * (kmp + kmq) + dk;
+  const mpq = 0.5 * (mmp + mmq) + dm;
+  if (p >= 0) redirect(rows, p, m, q, -1, kpq, mpq);
+  if (q >= 0) redirect(rows, q, m, p, -1, kpq, mpq);
   rows.len[m] = 0;
 }
 
-/** Adds ½K[m,j] to K[p,j] and K[j,p] (for j = p: K[m,p] to the diagonal). */
-function spread(rows: PairedRows, p: number, j: number, k: number, mm: number): void {
-  if (j === p) addDiag(rows, p, k, mm);
-  else {
-    rows.add(p, j, 0.5 * k, 0.5 * mm);
-    rows.add(j, p, 0.5 * k, 0.5 * mm);
+/**
+ * In row j: adds (k, mm) to the entries of columns x and y (each if ≥ 0) and
+ * removes column m, reusing m's slot for a missing x or y. One scan of the row.
+ */
+function redirect(rows: PairedRows, j: number, m: number, x: number, y: number, k: number, mm: number): void {
+  const cols = rows.cols;
+  const vals = rows.vals;
+  const s = rows.start[j]!;
+  const e = s + rows.len[j]!;
+  let sx = -1, sy = -1, sm = -1;
+  for (let t = s; t < e; t++) {
+    const c = cols[t]!;
+    if (c === x) sx = t;
+    else if (c === y) sy = t;
+    else if (c === m) sm = t;
   }
+  let addX = false, addY = false;
+  if (x >= 0) {
+    if (sx >= 0) { vals[2 * sx] = vals[2 * sx]! + k; vals[2 * sx + 1] = vals[2 * sx + 1]! + mm; }
+    else if (sm >= 0) { cols[sm] = x; vals[2 * sm] = k; vals[2 * sm + 1] = mm; sm = -1; }
+    else addX = true;
+  }
+  if (y >= 0) {
+    if (sy >= 0) { vals[2 * sy] = vals[2 * sy]! + k; vals[2 * sy + 1] = vals[2 * sy + 1]! + mm; }
+    else if (sm >= 0) { cols[sm] = y; vals[2 * sm] = k; vals[2 * sm + 1] = mm; sm = -1; }
+    else addY = true;
+  }
+  if (sm >= 0) {
+    const last = e - 1;
+    cols[sm] = cols[last]!;
+    vals[2 * sm] = vals[2 * last]!;
+    vals[2 * sm + 1] = vals[2 * last + 1]!;
+    rows.len[j] = rows.len[j]! - 1;
+  }
+  if (addX) rows.add(j, x, k, mm);
+  if (addY) rows.add(j, y, k, mm);
 }
 
 function addDiag(rows: PairedRows, p: number, k: number, mm: number): void {
