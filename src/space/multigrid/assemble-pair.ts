@@ -49,11 +49,15 @@ function exactSizes(mesh: LeafMesh): Float64Array {
   const rootGen = new Int32Array(nr).fill(0x7fffffff);
   const rootElem = new Int32Array(nr).fill(-1);
   const elemGen = new Int32Array(ne);
+  const mats0 = mesh.elementMaterial;
   for (let e = 0; e < ne; e++) {
     let k = 0;
-    for (let i = 0; i < nv; i++) k = Math.max(k, gen[el[nv * e + i]!]!);
+    for (let i = 0; i < nv; i++) {
+      const g = gen[el[nv * e + i]!]!;
+      if (g > k) k = g;
+    }
     elemGen[e] = k;
-    const r = mesh.elementMaterial[e]!;
+    const r = mats0[e]!;
     if (k < rootGen[r]!) { rootGen[r] = k; rootElem[r] = e; }
   }
   const rootSize = new Float64Array(nr);
@@ -69,8 +73,12 @@ function exactSizes(mesh: LeafMesh): Float64Array {
     if (!(size > 0) || !Number.isFinite(size)) throw degenerate(e, size);
     rootSize[r] = size * 2 ** rootGen[r]!;
   }
+  const maxGen = gen[mesh.vertexCount - 1]!;
+  const halvings = new Float64Array(maxGen + 1);
+  for (let k = 0; k <= maxGen; k++) halvings[k] = 2 ** -k;
   const sizes = new Float64Array(ne);
-  for (let e = 0; e < ne; e++) sizes[e] = rootSize[mesh.elementMaterial[e]!]! * 2 ** -elemGen[e]!;
+  const mats = mesh.elementMaterial;
+  for (let e = 0; e < ne; e++) sizes[e] = rootSize[mats[e]!]! * halvings[elemGen[e]!]!;
   return sizes;
 }
 
