@@ -12,8 +12,8 @@
  *    parents of generation-g vertices.
  *  - bottom: y = (A_0 + αM_0)⁻¹ r_0 exactly.
  *  - up (g = 1 … G): y ← P_g y (midpoint values at the generation-g vertices),
- *    residual on S_g is ρ_g − A_g y (the saved down-correction e enters through
- *    ρ_g), then y += e and backward Gauss–Seidel on S_g.
+ *    backward Gauss–Seidel on S_g with residual ρ_g − A_g y (the saved
+ *    down-correction e enters through ρ_g), then y += e.
  * With backward sweeps after the coarse correction mirroring the forward sweeps
  * before it and Galerkin coarse matrices, the cycle is a symmetric operator.
  */
@@ -272,30 +272,22 @@ export class MultilevelPreconditioner {
       for (let m = levelStart[g]!; m < levelStart[g + 1]!; m++) {
         y[m] = free[m] ? 0.5 * (y[pa[m]!]! + y[pb[m]!]!) : 0;
       }
+      // Backward Gauss–Seidel in gather form on y' = y − e_pre: the current residual at v is
+      // r_g[v] − (A_g y)_v = ρ_g[v] − (A_g y')_v, since ρ_g = r_g − A_g e_pre.
       const k0 = setBegin[g]!;
       const k1 = setEnd[g]!;
-      for (let k = k0; k < k1; k++) {
-        const v = verts[k]!;
-        let s = rho[k]! - (diag[2 * k]! + alpha * diag[2 * k + 1]!) * y[v]!;
-        for (let t = rowPtr[k]!; t < rowPtr[k + 1]!; t++) s -= (vals[2 * t]! + alpha * vals[2 * t + 1]!) * y[cols[t]!]!;
-        res[v] = s;
-      }
-      for (let k = k0; k < k1; k++) {
-        const v = verts[k]!;
-        y[v] = y[v]! + epre[k]!;
-      }
       for (let sweep = 0; sweep < nu; sweep++) {
         for (let k = k1 - 1; k >= k0; k--) {
           const v = verts[k]!;
           const d = diag[2 * k]! + alpha * diag[2 * k + 1]!;
-          const delta = res[v]! / d;
-          y[v] = y[v]! + delta;
-          res[v] = 0;
-          for (let t = rowPtr[k]!; t < rowPtr[k + 1]!; t++) {
-            const j = cols[t]!;
-            res[j] = res[j]! - (vals[2 * t]! + alpha * vals[2 * t + 1]!) * delta;
-          }
+          let s = rho[k]! - d * y[v]!;
+          for (let t = rowPtr[k]!; t < rowPtr[k + 1]!; t++) s -= (vals[2 * t]! + alpha * vals[2 * t + 1]!) * y[cols[t]!]!;
+          y[v] = y[v]! + s / d;
         }
+      }
+      for (let k = k0; k < k1; k++) {
+        const v = verts[k]!;
+        y[v] = y[v]! + epre[k]!;
       }
     }
   }
