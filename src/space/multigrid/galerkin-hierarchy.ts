@@ -182,8 +182,9 @@ export function buildHierarchy(mesh: LeafMesh, rows: PairedRows): LevelHierarchy
     coarseDiag[2 * i] = rows.diag[2 * v]!;
     coarseDiag[2 * i + 1] = rows.diag[2 * v + 1]!;
   }
+  const trim = used < 0.85 * cap; // release over-allocated snapshot storage
   return {
-    levels, levelStart, setBegin, setEnd, setVerts, rowPtr, rowCols: rowCols.subarray(0, used), rowVals: rowVals.subarray(0, 2 * used),
+    levels, levelStart, setBegin, setEnd, setVerts, rowPtr, rowCols: trim ? rowCols.slice(0, used) : rowCols.subarray(0, used), rowVals: trim ? rowVals.slice(0, 2 * used) : rowVals.subarray(0, 2 * used),
     rowDiag, coarseVerts, coarsePtr, coarseCols, coarseVals, coarseDiag,
   };
 }
