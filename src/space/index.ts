@@ -6,3 +6,4 @@ export { SpatialOperatorPlan } from './operator-plan';
 export { loadVector } from './load';
 export { evaluateAt, nodalValues } from './evaluate';
 export type { LeafMesh } from './leaf-mesh';
+export { MultilevelPreconditioner, type MultilevelOptions } from './multigrid/index';
