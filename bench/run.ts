@@ -1,18 +1,27 @@
 /**
- * Benchmark entry point: `npm run bench -- [--json] [--quick] [prefix ...]`.
+ * Benchmark entry point: `npm run -s bench -- [--json] [--quick] [--out FILE] [prefix ...]`.
  *
  * Positional arguments are component-name prefixes (`time.`, `space.stiffness`, …)
  * selecting which rows run. `--json` prints one JSON document
- * `{"rows":[{"component","size","nsPerUnit",...}]}`; otherwise a table.
+ * `{"rows":[{"component","size","nsPerUnit",...}]}` as the last line of stdout
+ * (npm's own banner precedes it unless npm runs with `-s`); otherwise a table.
+ * `--out FILE` also writes the JSON document to FILE.
  * `--quick` uses smaller sizes (for smoke testing the harness).
  */
+import { writeFileSync } from 'node:fs';
 import { runCases, type BenchCase, type BenchRow } from './harness';
 import { suites } from './suites';
 
 const args = process.argv.slice(2);
 const json = args.includes('--json');
 const quick = args.includes('--quick');
-const prefixes = args.filter((a) => !a.startsWith('--'));
+const outAt = args.indexOf('--out');
+const outFile = outAt >= 0 ? args[outAt + 1] : undefined;
+if (outAt >= 0 && !outFile) {
+  console.error('bench: --out needs a file name');
+  process.exit(2);
+}
+const prefixes = args.filter((a, i) => !a.startsWith('--') && (outAt < 0 || i !== outAt + 1));
 
 const cases: BenchCase[] = suites.flatMap((s) => s(quick));
 const rows: BenchRow[] = [];
@@ -27,3 +36,4 @@ runCases(cases, prefixes, opts, (r) => {
   }
 });
 if (json) console.log(JSON.stringify({ rows }));
+if (outFile) writeFileSync(outFile, JSON.stringify({ rows }, null, 1) + '\n');
