@@ -40,28 +40,54 @@ export class ChronomeshError extends Error {
   }
 }
 
-/** An argument is out of range, of the wrong length, or not finite. */
+/** An argument is out of range, of the wrong length, or not finite. *
+ * @example
+ * ```ts
+ * import { InvalidArgumentError, pcg } from 'chronomesh';
+ * const S = { inSize: 2, outSize: 2, apply: (x: Float64Array, y: Float64Array) => y.set(x) };
+ * try { pcg(S, new Float64Array(3)); } catch (e) { console.log(e instanceof InvalidArgumentError, (e as InvalidArgumentError).field); } // true 'b'
+ * ```
+ */
 export class InvalidArgumentError extends ChronomeshError {
   constructor(message: string, details: ErrorDetails = {}) {
     super('invalid-argument', message, details);
   }
 }
 
-/** A temporal tree or space-time index set is not closed (a parent is missing) or malformed. */
+/** A temporal tree or space-time index set is not closed (a parent is missing) or malformed. *
+ * @example
+ * ```ts
+ * import { InvalidIndexSetError, TemporalTree } from 'chronomesh';
+ * try { TemporalTree.fromNodes('trial', [3], [0]); } catch (e) { console.log(e instanceof InvalidIndexSetError); } // true: parents missing
+ * ```
+ */
 export class InvalidIndexSetError extends ChronomeshError {
   constructor(message: string, details: ErrorDetails = {}) {
     super('invalid-index-set', message, details);
   }
 }
 
-/** A mesh, its boundary description or its coefficients are invalid. */
+/** A mesh, its boundary description or its coefficients are invalid. *
+ * @example
+ * ```ts
+ * import { InvalidMeshError, triangulatedDomain } from 'chronomesh';
+ * try { triangulatedDomain([0, 0, 1, 0, 2, 0], [[0, 1, 2]]); } catch (e) { console.log(e instanceof InvalidMeshError); } // true: zero area
+ * ```
+ */
 export class InvalidMeshError extends ChronomeshError {
   constructor(message: string, details: ErrorDetails = {}) {
     super('invalid-mesh', message, details);
   }
 }
 
-/** An iterative solver broke down (e.g. non-positive curvature in CG). */
+/** An iterative solver broke down (e.g. non-positive curvature in CG). *
+ * @example
+ * ```ts
+ * import { SolverBreakdownError, pcg } from 'chronomesh';
+ * const S = { inSize: 1, outSize: 1, apply: (x: Float64Array, y: Float64Array) => { y[0] = -x[0]!; } };
+ * try { pcg(S, Float64Array.of(1)); } catch (e) { console.log(e instanceof SolverBreakdownError); } // true
+ * ```
+ */
 export class SolverBreakdownError extends ChronomeshError {
   constructor(message: string, details: ErrorDetails = {}) {
     super('solver-breakdown', message, details);

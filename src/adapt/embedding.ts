@@ -7,7 +7,17 @@ import { InvalidIndexSetError } from '../errors';
 import type { DoubleTree } from '../spacetime/double-tree';
 import { positionsIn } from '../system/initial-trace';
 
-/** For every coefficient of `small`, its position in `large` (which must contain `small`). */
+/** For every coefficient of `small`, its position in `large` (which must contain `small`). *
+ * @example
+ * ```ts
+ * import { DoubleTree, embeddingMap, enlargeDoubleTree, intervalDomain, prolongCoefficients } from 'chronomesh';
+ * const domain = intervalDomain(0, 1, 2);
+ * const small = DoubleTree.sparseGrid(domain, 2);
+ * const big = enlargeDoubleTree(domain, small);
+ * const x = prolongCoefficients(embeddingMap(small, big), new Float64Array(small.size).fill(1), big.size);
+ * console.log(x.length === big.size);
+ * ```
+ */
 export function embeddingMap(small: DoubleTree, large: DoubleTree): Int32Array {
   const map = new Int32Array(small.size);
   const fpn = small.kind === 'test' ? 2 : 1;
@@ -32,7 +42,13 @@ export function embeddingMap(small: DoubleTree, large: DoubleTree): Int32Array {
   return map;
 }
 
-/** x on `large` with the coefficients of `small` placed by `map` and zeros elsewhere. */
+/** x on `large` with the coefficients of `small` placed by `map` and zeros elsewhere. *
+ * @example
+ * ```ts
+ * import { prolongCoefficients } from 'chronomesh';
+ * console.log(prolongCoefficients(Int32Array.of(0, 2), Float64Array.of(5, 7), 3)); // [5, 0, 7]
+ * ```
+ */
 export function prolongCoefficients(map: Int32Array, x: Float64Array, largeSize: number): Float64Array {
   const out = new Float64Array(largeSize);
   for (let p = 0; p < map.length; p++) out[map[p]!] = x[p]!;

@@ -8,7 +8,15 @@ import type { SpatialDomain } from '../space/index';
 import { DoubleTree } from '../spacetime/double-tree';
 import { unionSorted } from '../spacetime/fibre-pool';
 
-/** Λ̲ ⊇ Λ, sharing Λ's fibre pool. Grows the domain's bisection forest. */
+/** Λ̲ ⊇ Λ, sharing Λ's fibre pool. Grows the domain's bisection forest. *
+ * @example
+ * ```ts
+ * import { DoubleTree, enlargeDoubleTree, rectangleDomain } from 'chronomesh';
+ * const domain = rectangleDomain(0, 1, 0, 1, 2, 2);
+ * const set = DoubleTree.sparseGrid(domain, 2);
+ * console.log(set.size, enlargeDoubleTree(domain, set).size);
+ * ```
+ */
 export function enlargeDoubleTree(domain: SpatialDomain, set: DoubleTree): DoubleTree {
   const { tree } = set;
   const levels: number[] = [];

@@ -23,6 +23,17 @@ export interface ResidualIndicators {
 /**
  * Squared indicators on the enlarged set of `enlarged` (a system built on Λ̲ ⊇ Λ)
  * for the solution `u` on Λ.
+ *
+ * @example
+ * ```ts
+ * import { DoubleTree, HeatProblem, SpaceTimeSystem, enlargeDoubleTree, intervalDomain, residualIndicators } from 'chronomesh';
+ * const domain = intervalDomain(0, 1, 2);
+ * const problem = new HeatProblem({ domain, T: 1, initial: () => 1 });
+ * const set = DoubleTree.sparseGrid(domain, 4);
+ * const { pcg } = new SpaceTimeSystem(problem, set).solve();
+ * const ind = residualIndicators(new SpaceTimeSystem(problem, enlargeDoubleTree(domain, set)), set, pcg.solution);
+ * console.log(ind.estimate);
+ * ```
  */
 export function residualIndicators(enlarged: SpaceTimeSystem, set: DoubleTree, u: Float64Array, b?: Float64Array): ResidualIndicators {
   const big = enlarged.trialSet;

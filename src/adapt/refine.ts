@@ -5,7 +5,18 @@
 import type { SpatialDomain } from '../space/index';
 import { DoubleTree } from '../spacetime/double-tree';
 
-/** closure(Λ ∪ {pairs of Λ̲ at the given coefficient positions}). */
+/** closure(Λ ∪ {pairs of Λ̲ at the given coefficient positions}). *
+ * @example
+ * ```ts
+ * import { DoubleTree, dorflerMark, enlargeDoubleTree, intervalDomain, refineDoubleTree } from 'chronomesh';
+ * const domain = intervalDomain(0, 1, 2);
+ * const set = DoubleTree.sparseGrid(domain, 2);
+ * const big = enlargeDoubleTree(domain, set);
+ * const eta2 = new Float64Array(big.size).map((_, i) => 1 / (1 + i)); // stand-in indicators
+ * const next = refineDoubleTree(domain, set, big, dorflerMark(eta2, 0.5));
+ * console.log(set.size, next.size);
+ * ```
+ */
 export function refineDoubleTree(domain: SpatialDomain, set: DoubleTree, enlarged: DoubleTree, marked: Int32Array): DoubleTree {
   const levels: number[] = [];
   const indices: number[] = [];

@@ -37,11 +37,11 @@ export interface SpaceTimeErrors {
  * ```ts
  * import { DoubleTree, HeatProblem, SpaceTimeSystem, intervalDomain, spaceTimeErrors } from 'chronomesh';
  * const domain = intervalDomain(0, 1, 2);
- * const u = (t: number, x: number) => Math.exp(-Math.PI ** 2 * t) * Math.sin(Math.PI * x);
+ * const u = (t: number, x: number) => Math.exp(-(Math.PI ** 2) * t) * Math.sin(Math.PI * x);
  * const sys = new SpaceTimeSystem(new HeatProblem({ domain, T: 1, initial: (x) => u(0, x) }), DoubleTree.sparseGrid(domain, 5));
  * const e = spaceTimeErrors(sys.solve().solution, {
  *   value: (t, x) => u(t, x),
- *   gradient: (t, x, _y, g) => { g[0] = Math.PI * Math.exp(-Math.PI ** 2 * t) * Math.cos(Math.PI * x); },
+ *   gradient: (t, x, _y, g) => { g[0] = Math.PI * Math.exp(-(Math.PI ** 2) * t) * Math.cos(Math.PI * x); },
  * });
  * console.log(e.gradientL2);
  * ```

@@ -5,7 +5,15 @@
 import { InvalidArgumentError } from '../errors';
 import type { SpaceTimeSolution } from './space-time-solution';
 
-/** ∫_Ω u(t, ·) dx, exact for the piecewise-linear slice (vertex rule per element). */
+/** ∫_Ω u(t, ·) dx, exact for the piecewise-linear slice (vertex rule per element). *
+ * @example
+ * ```ts
+ * import { DoubleTree, HeatProblem, SpaceTimeSystem, intervalDomain, spatialIntegral } from 'chronomesh';
+ * const domain = intervalDomain(0, 1, 2);
+ * const { solution } = new SpaceTimeSystem(new HeatProblem({ domain, T: 1, initial: () => 1 }), DoubleTree.sparseGrid(domain, 4)).solve();
+ * console.log(spatialIntegral(solution, 0.1)); // heat left in the rod at t = 0.1
+ * ```
+ */
 export function spatialIntegral(solution: SpaceTimeSolution, t: number): number {
   const { mesh, values } = solution.slice(t);
   const k = mesh.dim + 1;

@@ -22,6 +22,17 @@ export interface TimeSlice {
   values: Float64Array;
 }
 
+/**
+ * A discrete space-time function on a trial double tree: point values and time slices.
+ *
+ * @example
+ * ```ts
+ * import { DoubleTree, HeatProblem, SpaceTimeSystem, intervalDomain } from 'chronomesh';
+ * const domain = intervalDomain(0, 1, 2);
+ * const { solution } = new SpaceTimeSystem(new HeatProblem({ domain, T: 1, initial: () => 1 }), DoubleTree.sparseGrid(domain, 5)).solve();
+ * console.log(solution.evaluate(0.1, [0.25, 0.5]), solution.slice(0.1).values.length);
+ * ```
+ */
 export class SpaceTimeSolution {
   constructor(
     readonly domain: SpatialDomain,

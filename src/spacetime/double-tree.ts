@@ -16,6 +16,19 @@ import type { SpatialDomain } from '../space/index';
 import { FibrePool, isSortedSubset, unionSorted } from './fibre-pool';
 
 
+/**
+ * A space-time index set (double tree) with temporal-major storage; see the module comment.
+ *
+ * @example
+ * ```ts
+ * import { DoubleTree, rectangleDomain } from 'chronomesh';
+ * const domain = rectangleDomain(0, 1, 0, 1, 2, 2);
+ * const sparse = DoubleTree.sparseGrid(domain, 3);          // |λ| + ℓx(ν) ≤ 3
+ * const v = domain.uniformSet(1)[0]!;
+ * const local = DoubleTree.fromPairs(domain, { levels: [6], indices: [0], vertices: [v] }, { close: true });
+ * console.log(sparse.size, local.size, local.tree.maxLevel); // local: level 6 near t = 0 plus its ancestors
+ * ```
+ */
 export class DoubleTree {
   /** Temporal basis of the first slot: `'trial'` (Σ, for Λ) or `'test'` (Ψ, for Λ_Y). */
   readonly kind: TemporalBasisKind;

@@ -8,6 +8,18 @@
  */
 import { unionSorted as unionTwo } from '../space/operator-plan';
 
+/**
+ * Interns sorted vertex sets so that equal fibres share one id (and one cached spatial plan).
+ *
+ * @example
+ * ```ts
+ * import { FibrePool } from 'chronomesh';
+ * const pool = new FibrePool();
+ * const a = pool.intern(Int32Array.of(1, 4, 7));
+ * const b = pool.intern(Int32Array.of(1, 4, 7)); // same content → same id
+ * console.log(a === b); // true
+ * ```
+ */
 export class FibrePool {
   private readonly byHash = new Map<number, number[]>();
   private readonly byRef = new WeakMap<Int32Array, number>();

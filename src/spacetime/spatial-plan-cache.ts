@@ -5,6 +5,19 @@
 import { SpatialOperatorPlan, type SpatialDomain } from '../space/index';
 import type { FibrePool } from './fibre-pool';
 
+/**
+ * Spatial operator plans per (input fibre, output fibre) pair, built on first use.
+ *
+ * @example
+ * ```ts
+ * import { DoubleTree, SpatialPlanCache, intervalDomain } from 'chronomesh';
+ * const domain = intervalDomain(0, 1, 2);
+ * const set = DoubleTree.sparseGrid(domain, 3);
+ * const cache = new SpatialPlanCache(domain, set.pool);
+ * const id = set.nodeFibre[0]!;
+ * console.log(cache.get(id, id) === cache.get(id, id)); // true: built once
+ * ```
+ */
 export class SpatialPlanCache {
   readonly domain: SpatialDomain;
   readonly pool: FibrePool;

@@ -27,6 +27,20 @@ import { SpatialPassPlan } from './spatial-pass';
 import type { SpatialPlanCache } from './spatial-plan-cache';
 import { TemporalPassPlan } from './temporal-pass';
 
+/**
+ * Reusable plan for C_M ⊗ M_x + C_A ⊗ A_x from one double tree to another (module comment: why it is exact).
+ *
+ * @example
+ * ```ts
+ * import { DoubleTree, SpatialPlanCache, TensorOperatorPlan, intervalDomain, testIndexSet } from 'chronomesh';
+ * const domain = intervalDomain(0, 1, 2);
+ * const trial = DoubleTree.sparseGrid(domain, 4);
+ * const test = testIndexSet(trial);
+ * const B = new TensorOperatorPlan('derivIn', 'mass', trial, test, new SpatialPlanCache(domain, trial.pool), 1);
+ * const y = new Float64Array(test.size);
+ * B.apply(new Float64Array(trial.size).fill(1), y); // y = (D ⊗ M + N ⊗ A) x
+ * ```
+ */
 export class TensorOperatorPlan implements LinearOperator {
   readonly input: DoubleTree;
   readonly inSize: number;

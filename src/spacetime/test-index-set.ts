@@ -9,7 +9,16 @@ import { TemporalTree } from '../time/index';
 import { DoubleTree } from './double-tree';
 import { overlapUnionFibres } from './overlap-unions';
 
-/** Builds Λ_Y for a trial double tree `trial`, sharing its fibre pool. */
+/** Builds Λ_Y for a trial double tree `trial`, sharing its fibre pool. *
+ * @example
+ * ```ts
+ * import { DoubleTree, intervalDomain, testIndexSet } from 'chronomesh';
+ * const domain = intervalDomain(0, 1, 2);
+ * const trial = DoubleTree.sparseGrid(domain, 3);
+ * const test = testIndexSet(trial);
+ * console.log(trial.size, test.size, test.kind); // test: 'test'
+ * ```
+ */
 export function testIndexSet(trial: DoubleTree): DoubleTree {
   const tree = trial.tree;
   const levels: number[] = [];

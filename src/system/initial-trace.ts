@@ -15,6 +15,19 @@ import { unionSorted } from '../spacetime/fibre-pool';
 import type { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import type { LinearOperator } from './linear-operator';
 
+/**
+ * G = (g gᵀ) ⊗ M_x on a trial double tree, applied with one spatial mass product.
+ *
+ * @example
+ * ```ts
+ * import { DoubleTree, HeatProblem, SpaceTimeSystem, intervalDomain } from 'chronomesh';
+ * const domain = intervalDomain(0, 1, 2);
+ * const system = new SpaceTimeSystem(new HeatProblem({ domain, T: 1 }), DoubleTree.sparseGrid(domain, 3));
+ * const n = system.size;
+ * const out = new Float64Array(n);
+ * system.G.apply(new Float64Array(n).fill(1), out);
+ * ```
+ */
 export class InitialTraceOperator implements LinearOperator {
   readonly inSize: number;
   readonly outSize: number;

@@ -8,6 +8,19 @@ import type { TensorOperatorPlan } from '../spacetime/tensor-apply';
 import type { InitialTraceOperator } from './initial-trace';
 import type { LinearOperator } from './linear-operator';
 
+/**
+ * S = Bᵀ K_Y B + G as one operator with `apply(x, out)`.
+ *
+ * @example
+ * ```ts
+ * import { DoubleTree, HeatProblem, SpaceTimeSystem, intervalDomain } from 'chronomesh';
+ * const domain = intervalDomain(0, 1, 2);
+ * const system = new SpaceTimeSystem(new HeatProblem({ domain, T: 1 }), DoubleTree.sparseGrid(domain, 3));
+ * const n = system.size;
+ * const out = new Float64Array(n);
+ * system.S.apply(new Float64Array(n).fill(1), out);
+ * ```
+ */
 export class SchurOperator implements LinearOperator {
   readonly inSize: number;
   readonly outSize: number;

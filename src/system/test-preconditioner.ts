@@ -7,6 +7,19 @@ import type { DoubleTree } from '../spacetime/double-tree';
 import type { FibreInverse, FibreInverseCache } from './fibre-inverse';
 import type { LinearOperator } from './linear-operator';
 
+/**
+ * K_Y ≈ (I ⊗ A_x)⁻¹ on the test index set, one spatial inverse per test function.
+ *
+ * @example
+ * ```ts
+ * import { DoubleTree, HeatProblem, SpaceTimeSystem, intervalDomain } from 'chronomesh';
+ * const domain = intervalDomain(0, 1, 2);
+ * const system = new SpaceTimeSystem(new HeatProblem({ domain, T: 1 }), DoubleTree.sparseGrid(domain, 3));
+ * const n = system.testSet.size;
+ * const out = new Float64Array(n);
+ * system.KY.apply(new Float64Array(n).fill(1), out);
+ * ```
+ */
 export class TestPreconditioner implements LinearOperator {
   readonly inSize: number;
   readonly outSize: number;

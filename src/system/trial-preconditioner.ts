@@ -12,6 +12,19 @@ import type { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import type { FibreInverse, FibreInverseCache } from './fibre-inverse';
 import type { LinearOperator } from './linear-operator';
 
+/**
+ * K_X, the block-diagonal preconditioner of the Schur complement.
+ *
+ * @example
+ * ```ts
+ * import { DoubleTree, HeatProblem, SpaceTimeSystem, intervalDomain } from 'chronomesh';
+ * const domain = intervalDomain(0, 1, 2);
+ * const system = new SpaceTimeSystem(new HeatProblem({ domain, T: 1 }), DoubleTree.sparseGrid(domain, 3));
+ * const n = system.size;
+ * const out = new Float64Array(n);
+ * system.KX.apply(new Float64Array(n).fill(1), out);
+ * ```
+ */
 export class TrialPreconditioner implements LinearOperator {
   readonly inSize: number;
   readonly outSize: number;
