@@ -90,8 +90,11 @@ export class DoubleTree {
    * All pairs with `timeWeight·|λ| + ℓ_x(ν) ≤ L`: `timeWeight = 1` gives the
    * sparse grid, and {@link DoubleTree.fullGrid} the full grid.
    */
-  static sparseGrid(domain: SpatialDomain, L: number, pool: FibrePool = new FibrePool()): DoubleTree {
+  static sparseGrid(domain: SpatialDomain, L: number, pool: FibrePool = new FibrePool(), maxUnknowns = DEFAULT_MAX_UNKNOWNS): DoubleTree {
     checkLevel(L, 'L');
+    let estimate = 0;
+    for (let l = 0; l <= L; l++) estimate += temporalCount(l) * spatialEstimate(domain, L - l);
+    checkSize(estimate, maxUnknowns, `sparse grid of level ${L}`);
     const tree = TemporalTree.full('trial', L);
     const byLevel: Int32Array[] = [];
     for (let l = 0; l <= L; l++) byLevel.push(domain.uniformSet(L - l));
@@ -100,9 +103,10 @@ export class DoubleTree {
   }
 
   /** All pairs with |λ| ≤ Lt and ℓ_x(ν) ≤ Lx (tensor-product full grid). */
-  static fullGrid(domain: SpatialDomain, Lt: number, Lx: number = Lt, pool: FibrePool = new FibrePool()): DoubleTree {
+  static fullGrid(domain: SpatialDomain, Lt: number, Lx: number = Lt, pool: FibrePool = new FibrePool(), maxUnknowns = DEFAULT_MAX_UNKNOWNS): DoubleTree {
     checkLevel(Lt, 'Lt');
     checkLevel(Lx, 'Lx');
+    checkSize(2 ** Lt * spatialEstimate(domain, Lx), maxUnknowns, `full grid of levels (${Lt}, ${Lx})`);
     const tree = TemporalTree.full('trial', Lt);
     const set = domain.uniformSet(Lx);
     return DoubleTree.fromNodeFibres('trial', tree, Array.from({ length: tree.size }, () => set), pool);
@@ -233,6 +237,27 @@ export class DoubleTree {
       }
     }
     return { levels, indices, vertices, slots };
+  }
+}
+
+/** Uniform grids larger than this are refused unless a larger `maxUnknowns` is passed (memory guard). */
+const DEFAULT_MAX_UNKNOWNS = 5e7;
+
+function temporalCount(level: number): number {
+  return level === 0 ? 2 : 2 ** (level - 1);
+}
+
+/** About how many vertices uniform level `level` has: h halves per level, so ×2^d per level. */
+function spatialEstimate(domain: SpatialDomain, level: number): number {
+  return Math.max(1, domain.initialVertexCount) * 2 ** (domain.dim * level);
+}
+
+function checkSize(estimate: number, maxUnknowns: number, what: string): void {
+  if (estimate > maxUnknowns) {
+    throw new InvalidArgumentError(
+      `${what} would have about ${estimate.toExponential(1)} unknowns, more than maxUnknowns = ${maxUnknowns}; choose a lower level or pass a larger maxUnknowns`,
+      { field: 'maxUnknowns', expected: `≥ ${estimate.toExponential(1)}`, received: maxUnknowns },
+    );
   }
 }
 

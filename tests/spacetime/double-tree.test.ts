@@ -96,6 +96,9 @@ describe('double trees', () => {
     const dirichlet = Array.from({ length: domain.vertexCount }, (_, v) => v).find((v) => !domain.isFree(v))!;
     expect(() => DoubleTree.fromPairs(domain, { levels: [0], indices: [0], vertices: [dirichlet] })).toThrow(/Dirichlet vertex/);
     expect(() => DoubleTree.sparseGrid(domain, 2.5)).toThrow(/integer level/);
+    // A level that would not fit in memory is refused up front instead of exhausting it.
+    expect(() => DoubleTree.sparseGrid(rectangleDomain(0, 1, 0, 1, 2, 2), 20)).toThrow(/would have about .* unknowns, more than maxUnknowns/);
+    expect(() => DoubleTree.fullGrid(domain, 25, 25)).toThrow(/full grid of levels \(25, 25\)/);
     expect(() => new DoubleTree('trial', TemporalTree.full('trial', 1), new Int32Array(1), DoubleTree.sparseGrid(domain, 0).pool)).toThrow(/nodeFibre has length/);
   });
 });
