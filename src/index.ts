@@ -19,3 +19,4 @@ export * from './spacetime/index';
 export * from './system/index';
 export * from './output/index';
 export * from './adapt/index';
+export { solve, type SolveResult } from './solve';

@@ -7,6 +7,7 @@
  * their fibre functions combine on the union of their fibres by adding
  * coefficients.
  */
+import ndarray from 'ndarray';
 import { InvalidArgumentError } from '../errors';
 import { evaluateTemporal } from '../time/index';
 import { evaluateAt, nodalValues, type SpatialDomain } from '../space/index';
@@ -74,8 +75,46 @@ export class SpaceTimeSolution {
   /** u(t, x) at the given points (`[x0, x1, …]` in 1D, `[x0, y0, x1, y1, …]` in 2D). */
   evaluate(t: number, points: ArrayLike<number>): Float64Array {
     const { set, coeffs } = this.spatialCoefficients(t);
-    if (set.length === 0) return new Float64Array(points.length / this.domain.dim);
     return evaluateAt(this.domain, set, coeffs, points);
+  }
+
+  /**
+   * u on a tensor grid of times and coordinates, as an ndarray view over one
+   * Float64Array: shape [times, xs] in 1D and [times, xs, ys] in 2D, so
+   * `grid.get(k, i, j)` = u(times[k], xs[i], ys[j]). Points outside Ω get
+   * `outside` (default NaN), so a bounding-box grid of a non-convex domain works.
+   *
+   * @example
+   * ```ts
+   * import { DoubleTree, HeatProblem, SpaceTimeSystem, lShapeDomain } from 'chronomesh';
+   * const domain = lShapeDomain(1);
+   * const { solution } = new SpaceTimeSystem(new HeatProblem({ domain, T: 1, initial: () => 1 }), DoubleTree.sparseGrid(domain, 3)).solve();
+   * const g = solution.sampleGrid([0.01, 0.1], [-0.5, 0.5], [-0.5, 0.5]);
+   * console.log(g.shape, g.get(1, 0, 1), g.get(1, 1, 0)); // [2, 2, 2], a value, NaN (outside the L)
+   * ```
+   */
+  sampleGrid(times: ArrayLike<number>, xs: ArrayLike<number>, ys?: ArrayLike<number>, opts: { outside?: number } = {}): ndarray.NdArray<Float64Array> {
+    const d = this.domain.dim;
+    if (d === 2 && ys === undefined) throw new InvalidArgumentError('a 2D solution needs both xs and ys', { field: 'ys' });
+    if (d === 1 && ys !== undefined) throw new InvalidArgumentError('a 1D solution takes no ys', { field: 'ys' });
+    const nx = xs.length;
+    const ny = ys ? ys.length : 1;
+    const pts = new Float64Array(nx * ny * d);
+    for (let i = 0; i < nx; i++) {
+      for (let j = 0; j < ny; j++) {
+        const p = i * ny + j;
+        pts[d * p] = xs[i]!;
+        if (d === 2) pts[d * p + 1] = ys![j]!;
+      }
+    }
+    const data = new Float64Array(times.length * nx * ny);
+    const outside = opts.outside ?? NaN;
+    for (let k = 0; k < times.length; k++) {
+      const { set, coeffs } = this.spatialCoefficients(times[k]!);
+      const view = data.subarray(k * nx * ny, (k + 1) * nx * ny);
+      evaluateAt(this.domain, set, coeffs, pts, view, { outside });
+    }
+    return ndarray(data, d === 1 ? [times.length, nx] : [times.length, nx, ny]);
   }
 
   /** Nodal values of u(t, ·) on its leaf mesh. */

@@ -42,7 +42,8 @@ export function nodalValues(domain: SpatialDomain, set: Int32Array, coeffs: Floa
  * Values at `points` (flat: x0, x1, … in 1D; x0, y0, x1, y1, … in 2D) of the finite element function
  * with hierarchical coefficients `coeffs` on `set`. Each point is located by a bucket search over
  * the initial elements and a descent of the bisection forest (O(depth) per point). Points outside
- * Ω (beyond a relative tolerance of 1e-10) raise an InvalidArgumentError naming the point.
+ * Ω (beyond a relative tolerance of 1e-10) raise an InvalidArgumentError naming the point, unless
+ * `opts.outside` is given: then they get that value (e.g. NaN for sampling a bounding-box grid).
  *
  * @example
  * ```ts
@@ -52,7 +53,14 @@ export function nodalValues(domain: SpatialDomain, set: Int32Array, coeffs: Floa
  * console.log(evaluateAt(dom, set, Float64Array.of(1), [0.25])[0]); // 0.5
  * ```
  */
-export function evaluateAt(domain: SpatialDomain, set: Int32Array, coeffs: Float64Array, points: ArrayLike<number>, out?: Float64Array): Float64Array {
+export function evaluateAt(
+  domain: SpatialDomain,
+  set: Int32Array,
+  coeffs: Float64Array,
+  points: ArrayLike<number>,
+  out?: Float64Array,
+  opts: { outside?: number } = {},
+): Float64Array {
   const d = domain.dim;
   if (points === null || typeof points !== 'object' || points.length % d !== 0) {
     throw new InvalidArgumentError(`points must be a flat array of ${d === 1 ? 'x' : 'x, y'} values`, {
@@ -73,6 +81,10 @@ export function evaluateAt(domain: SpatialDomain, set: Int32Array, coeffs: Float
     for (let p = 0; p < np; p++) {
       const x = points[p * d]!, y = d === 2 ? points[p * d + 1]! : 0;
       const e = Number.isFinite(x) && Number.isFinite(y) ? domain.locateLeaf(x, y) : -1;
+      if (e < 0 && opts.outside !== undefined) {
+        res[p] = opts.outside;
+        continue;
+      }
       if (e < 0) {
         throw new InvalidArgumentError(`points[${p}] = (${d === 1 ? x : `${x}, ${y}`}) lies outside the domain`, {
           field: `points[${p}]`,

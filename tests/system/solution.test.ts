@@ -45,3 +45,24 @@ describe('space-time solution output', () => {
     expect(solution.trialSet).toBe(set);
   });
 });
+
+describe('grid sampling (ndarray view)', () => {
+  it('sampleGrid agrees with evaluate, shapes [t, x, y], NaN outside a non-convex domain', async () => {
+    const { lShapeDomain } = await import('../../src/index');
+    const domain = lShapeDomain(1);
+    const set = DoubleTree.sparseGrid(domain, 2);
+    const rand = seededRandom(8);
+    const u = new SpaceTimeSolution(domain, set, Float64Array.from({ length: set.size }, () => rand()), 1);
+    const ts = [0, 0.3, 1];
+    const xs = [-0.9, -0.2, 0.6];
+    const ys = [-0.7, 0.4];
+    const g = u.sampleGrid(ts, xs, ys);
+    expect(g.shape).toEqual([3, 3, 2]);
+    for (let k = 0; k < 3; k++) for (let i = 0; i < 3; i++) for (let j = 0; j < 2; j++) {
+      const inside = !(xs[i]! > 0 && ys[j]! < 0); // (−1,1)² minus [0,1]×[−1,0]
+      if (inside) expect(g.get(k, i, j)).toBeCloseTo(u.evaluate(ts[k]!, [xs[i]!, ys[j]!])[0]!, 12);
+      else expect(Number.isNaN(g.get(k, i, j))).toBe(true);
+    }
+    expect(() => u.sampleGrid([0], [0])).toThrow(/needs both xs and ys/);
+  });
+});

@@ -1,0 +1,77 @@
+/**
+ * The friendly one-call entry point: `solve(problem, …)` with the index set
+ * chosen by the second argument. Dispatch is by runtime type
+ * (typed-function), so a wrong argument gets one clear typed error instead
+ * of failing somewhere inside.
+ */
+import typed from 'typed-function';
+import { InvalidArgumentError } from './errors';
+import { solveAdaptive, type AdaptiveOptions, type AdaptiveStep } from './adapt/adaptive-solver';
+import { SpaceTimeSolution } from './output/space-time-solution';
+import { DoubleTree } from './spacetime/double-tree';
+import { HeatProblem } from './system/heat-problem';
+import type { PcgResult } from './system/pcg';
+import { SpaceTimeSystem } from './system/space-time-system';
+
+/** Result of {@link solve}: the solution, its index set, and the PCG result or the adaptive history. */
+export interface SolveResult {
+  solution: SpaceTimeSolution;
+  set: DoubleTree;
+  /** PCG result for a fixed index set; null after an adaptive solve. */
+  pcg: PcgResult | null;
+  /** The adaptive history; null for a fixed index set. */
+  history: AdaptiveStep[] | null;
+}
+
+const t = typed.create();
+t.addType({ name: 'HeatProblem', test: (x) => x instanceof HeatProblem });
+t.addType({ name: 'DoubleTree', test: (x) => x instanceof DoubleTree });
+
+function onSet(problem: HeatProblem, set: DoubleTree): SolveResult {
+  const { solution, pcg } = new SpaceTimeSystem(problem, set).solve({ relTol: 1e-8 });
+  return { solution, set, pcg, history: null };
+}
+
+function adaptive(problem: HeatProblem, opts: AdaptiveOptions): SolveResult {
+  const r = solveAdaptive(problem, opts);
+  return { solution: r.solution, set: r.set, pcg: null, history: r.history };
+}
+
+const dispatch = t<(...args: unknown[]) => SolveResult>('solve', {
+  HeatProblem: (p: HeatProblem) => adaptive(p, {}),
+  'HeatProblem, Object': (p: HeatProblem, o: AdaptiveOptions) => adaptive(p, o),
+  'HeatProblem, number': (p: HeatProblem, level: number) => onSet(p, DoubleTree.sparseGrid(p.domain, level)),
+  'HeatProblem, DoubleTree': (p: HeatProblem, set: DoubleTree) => onSet(p, set),
+});
+
+/**
+ * Solves a heat problem:
+ * - `solve(problem)` / `solve(problem, options)`: adaptively (see {@link solveAdaptive});
+ * - `solve(problem, L)`: on the sparse grid of level L;
+ * - `solve(problem, set)`: on the given trial double tree.
+ *
+ * @example
+ * ```ts
+ * import { HeatProblem, intervalDomain, solve } from 'chronomesh';
+ * const problem = new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 1, initial: () => 1 });
+ * const fixed = solve(problem, 6);                          // sparse grid, level 6
+ * const adapted = solve(problem, { maxUnknowns: 1000 });    // adaptive
+ * console.log(fixed.pcg?.iterations, adapted.history?.length, adapted.solution.evaluate(0.05, [0.5]));
+ * ```
+ */
+export function solve(problem: HeatProblem, how?: number | DoubleTree | AdaptiveOptions): SolveResult {
+  try {
+    return how === undefined ? dispatch(problem) : dispatch(problem, how);
+  } catch (e) {
+    const data = (e as { data?: { category?: string; index?: number; actual?: string[]; expected?: string[] } }).data;
+    if (e instanceof TypeError && data?.category) {
+      const i = data.index ?? 0;
+      throw new InvalidArgumentError(
+        `solve: argument ${i + 1} should be ${i === 0 ? 'a HeatProblem' : 'a sparse-grid level (number), a DoubleTree or an options object'}` +
+          (data.actual ? `, received ${data.actual.join(', ')}` : ''),
+        { field: i === 0 ? 'problem' : 'how', expected: (data.expected ?? []).join(' | ') },
+      );
+    }
+    throw e;
+  }
+}
