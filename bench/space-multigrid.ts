@@ -15,8 +15,8 @@ import type { BenchCase, BenchInstance } from './harness';
 import { rectangleDomain } from '../src/space/index';
 import type { LeafMesh } from '../src/space/leaf-mesh';
 import { MultilevelPreconditioner } from '../src/space/multigrid/index';
+import { gradedProblem, randomVector, type Kind } from './space-problems';
 
-type Kind = 'uniform' | 'graded';
 
 const cache = new Map<string, LeafMesh>();
 
@@ -36,16 +36,7 @@ function uniformMesh(size: number): LeafMesh {
 }
 
 function gradedMesh(size: number): LeafMesh {
-  const make = (H: number): { dom: ReturnType<typeof rectangleDomain>; set: Int32Array } => {
-    const dom = rectangleDomain(0, 1, 0, 1, 2, 2);
-    return { dom, set: dom.adaptedSet((x, y) => H * Math.hypot(x, y), 40) };
-  };
-  let H = 0.5;
-  let p = make(H);
-  for (let it = 0; it < 4 && Math.abs(p.set.length / size - 1) > 0.1; it++) {
-    H *= Math.sqrt(p.set.length / size);
-    p = make(H);
-  }
+  const p = gradedProblem(size);
   return p.dom.leafMesh(p.set);
 }
 
@@ -60,15 +51,6 @@ function mesh(kind: Kind, size: number): LeafMesh {
   return m;
 }
 
-function randomVector(n: number): Float64Array {
-  const x = new Float64Array(n);
-  let s = 12345;
-  for (let i = 0; i < n; i++) {
-    s = (s * 1103515245 + 12345) % 2147483648;
-    x[i] = s / 2147483648 - 0.5;
-  }
-  return x;
-}
 
 function applyInstance(kind: Kind, size: number): BenchInstance {
   const m = mesh(kind, size);

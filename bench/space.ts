@@ -7,15 +7,10 @@
  *          so that the set has ≈ size free vertices.
  */
 import type { BenchCase, BenchInstance } from './harness';
-import { SpatialOperatorPlan, rectangleDomain, loadVector, type SpatialDomain } from '../src/space/index';
+import { SpatialOperatorPlan, rectangleDomain, loadVector } from '../src/space/index';
+import { gradedProblem, randomVector, type Kind, type Problem } from './space-problems';
 import { hierarchicalToNodal, hierarchicalToNodalTransposed } from '../src/space/hierarchical';
 
-type Kind = 'uniform' | 'graded';
-
-interface Problem {
-  dom: SpatialDomain;
-  set: Int32Array;
-}
 
 const cache = new Map<string, Problem>();
 
@@ -25,19 +20,6 @@ function uniformProblem(size: number): Problem {
   return { dom, set: dom.uniformSet(3) };
 }
 
-function gradedProblem(size: number): Problem {
-  const make = (H: number): Problem => {
-    const dom = rectangleDomain(0, 1, 0, 1, 2, 2);
-    return { dom, set: dom.adaptedSet((x, y) => H * Math.hypot(x, y), 40) };
-  };
-  let H = 0.5;
-  let p = make(H);
-  for (let it = 0; it < 3 && Math.abs(p.set.length / size - 1) > 0.1; it++) {
-    H *= Math.sqrt(p.set.length / size);
-    p = make(H);
-  }
-  return p;
-}
 
 function problem(kind: Kind, size: number): Problem {
   const key = `${kind}:${size}`;
@@ -50,15 +32,6 @@ function problem(kind: Kind, size: number): Problem {
   return p;
 }
 
-function randomVector(n: number): Float64Array {
-  const x = new Float64Array(n);
-  let s = 12345;
-  for (let i = 0; i < n; i++) {
-    s = (s * 1103515245 + 12345) % 2147483648;
-    x[i] = s / 2147483648 - 0.5;
-  }
-  return x;
-}
 
 type Op = 'stiffness' | 'mass' | 'split' | 'transform' | 'leafmesh' | 'plan' | 'load';
 

@@ -6,6 +6,7 @@
  */
 import { CholeskyDecomposition, EigenvalueDecomposition, Matrix, inverse } from 'ml-matrix';
 import type { LeafMesh } from '../../../src/space/leaf-mesh';
+import { rng as uniform01 } from '../../helpers/random';
 
 export function freeIndices(mesh: LeafMesh): number[] {
   const out: number[] = [];
@@ -123,16 +124,10 @@ export function denseSpectrum(V: Matrix, K: Matrix): { min: number; max: number 
   return { min: Math.min(...ev), max: Math.max(...ev) };
 }
 
-/** Deterministic pseudo-random numbers in (−1, 1) (mulberry32). */
+/** Deterministic pseudo-random numbers in (−1, 1) (the shared mulberry32 helper, rescaled). */
 export function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return (((t ^ (t >>> 14)) >>> 0) / 4294967296) * 2 - 1;
-  };
+  const r = uniform01(seed);
+  return () => 2 * r() - 1;
 }
 
 export function randomVector(mesh: LeafMesh, seed: number): Float64Array {
