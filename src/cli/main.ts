@@ -16,9 +16,10 @@ import { rieszConditionNumbers } from './riesz';
 
 const HELP = `usage: chronomesh-demo [--quick] [--out DIR] [--help]
 
-Runs the built-in example scenarios, prints their results and writes
-time slices (VTK XML .vtu + .pvd), probe tables (CSV), a convergence
-study (JSON + SVG plot) into DIR.
+Runs the built-in example scenarios (a cooling rod, an L-shaped bracket
+with a hot spot, a convergence study, adaptive runs, operator costs),
+prints their results and writes time slices (VTK XML .vtu + .pvd, SVG
+pictures), probe tables (CSV) and histories (JSON + SVG plots) into DIR.
   --quick     smaller problems (a few seconds in all)
   --out DIR   output folder (default: out)
   --help      this text`;
