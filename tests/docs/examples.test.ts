@@ -32,7 +32,17 @@ function examples(): Example[] {
   return out;
 }
 
-const all = examples();
+/** The ```ts blocks of the README, which users copy first. */
+function readmeExamples(): Example[] {
+  const text = readFileSync(join(root, 'README.md'), 'utf8');
+  const out: Example[] = [];
+  const re = /```ts\n([\s\S]*?)```/g;
+  let m: RegExpExecArray | null;
+  while ((m = re.exec(text))) out.push({ file: 'README.md', line: text.slice(0, m.index).split('\n').length, code: m[1]! });
+  return out;
+}
+
+const all = [...examples(), ...readmeExamples()];
 
 describe('TSDoc examples', () => {
   it('there are examples to run', () => expect(all.length).toBeGreaterThan(30));
