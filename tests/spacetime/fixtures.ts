@@ -5,9 +5,16 @@ import { FibrePool } from '../../src/spacetime/fibre-pool';
 
 export type TreeShape = 'uniform' | 'sparse' | 'graded-start' | 'graded-end' | 'random';
 
+/** Small test domains: variant 0 has a κ jump, 1 is the L-shape (2D), 2 has an insulated part and reaction. */
 export function smallDomain(dim: 1 | 2, variant = 0): SpatialDomain {
-  if (dim === 1) return intervalDomain(0, 1, 2, { kappa: (x) => (x < 0.5 ? 1 : 2.5), reaction: 0.5 });
-  return variant === 0 ? rectangleDomain(0, 1, 0, 1, 2, 2, { kappa: (x, y) => (x + y < 1 ? 1 : 3) }) : lShapeDomain(1);
+  if (dim === 1) {
+    return variant === 2
+      ? intervalDomain(0, 2, 3, { insulated: (x) => x > 1.5, reaction: 0.3, kappa: (x) => 1 + x })
+      : intervalDomain(0, 1, 2, { kappa: (x) => (x < 0.5 ? 1 : 2.5), reaction: 0.5 });
+  }
+  if (variant === 1) return lShapeDomain(1);
+  if (variant === 2) return rectangleDomain(0, 2, 0, 1, 2, 1, { insulated: (mx) => mx < 1e-9, reaction: 1 });
+  return rectangleDomain(0, 1, 0, 1, 2, 2, { kappa: (x, y) => (x + y < 1 ? 1 : 3) });
 }
 
 /**
