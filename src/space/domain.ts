@@ -352,6 +352,22 @@ export class SpatialDomain {
   }
 
   /**
+   * Adds freshly created bisection midpoints to the marked work list (after the forest grew)
+   * and closes it; returns the new work-list length.
+   */
+  private addMidpoints(mids: number[], n: number): number {
+    this.syncScratch();
+    const start = n;
+    for (const m of mids) {
+      if (!(this.mark[m]! & 1)) {
+        this.mark[m] = 1;
+        this.work[n++] = m;
+      }
+    }
+    return this.closeWorkList(start, n);
+  }
+
+  /**
    * Free vertices created by one bisection of every leaf element of the leaf mesh of `set`
    * (sorted; only ids not already in `set`). `set` ∪ result is closed.
    */
@@ -361,15 +377,8 @@ export class SpatialDomain {
     const leaves = this.leafBuf.slice(0, nl);
     const mids: number[] = [];
     for (let i = 0; i < nl; i++) mids.push(this.forest.bisect(leaves[i]!));
-    this.syncScratch();
     const start = n;
-    for (const m of mids) {
-      if (!(this.mark[m]! & 1)) {
-        this.mark[m] = 1;
-        this.work[n++] = m;
-      }
-    }
-    n = this.closeWorkList(start, n);
+    n = this.addMidpoints(mids, n);
     const fr = this.forest.vFree;
     const out: number[] = [];
     for (let k = start; k < n; k++) if (fr[this.work[k]!]) out.push(this.work[k]!);
@@ -415,16 +424,7 @@ export class SpatialDomain {
           if (segmentMeetsElement(f, c + 1, q)) sp = this.pushStack(sp, c + 1);
         } else hits.push(e);
       }
-      const mids = hits.map((e) => f.bisect(e));
-      this.syncScratch();
-      const start = n;
-      for (const m of mids) {
-        if (!(this.mark[m]! & 1)) {
-          this.mark[m] = 1;
-          this.work[n++] = m;
-        }
-      }
-      n = this.closeWorkList(start, n);
+      n = this.addMidpoints(hits.map((e) => f.bisect(e)), n);
     }
     const out = this.freeSorted(n);
     this.unmark(n);
