@@ -5,7 +5,7 @@
  */
 import { InvalidIndexSetError } from '../errors';
 import type { DoubleTree } from '../spacetime/double-tree';
-import { positionsIn } from '../system/initial-trace';
+import { positionsIn } from '../spacetime/fibre-pool';
 
 /** For every coefficient of `small`, its position in `large` (which must contain `small`). *
  * @example

@@ -13,8 +13,7 @@ import { evaluateTemporal } from '../time/index';
 import { evaluateAt, nodalValues, type SpatialDomain } from '../space/index';
 import type { LeafMesh } from '../space/leaf-mesh';
 import type { DoubleTree } from '../spacetime/double-tree';
-import { unionSorted } from '../spacetime/fibre-pool';
-import { positionsIn } from '../system/initial-trace';
+import { positionsIn, unionSorted } from '../spacetime/fibre-pool';
 
 /** Nodal values of u(t, ·) on the leaf mesh of the union of the fibres active at t. */
 export interface TimeSlice {

@@ -87,3 +87,14 @@ export function isSortedSubset(sub: Int32Array, sup: Int32Array): boolean {
   }
   return true;
 }
+
+/** Position of every element of sorted `sub` in sorted `sup` (sub ⊆ sup). */
+export function positionsIn(sub: Int32Array, sup: Int32Array): Int32Array {
+  const out = new Int32Array(sub.length);
+  let j = 0;
+  for (let i = 0; i < sub.length; i++) {
+    while (sup[j]! < sub[i]!) j++;
+    out[i] = j;
+  }
+  return out;
+}

@@ -11,7 +11,7 @@
 import { traceVector } from '../time/index';
 import type { SpatialOperatorPlan } from '../space/index';
 import type { DoubleTree } from '../spacetime/double-tree';
-import { unionSorted } from '../spacetime/fibre-pool';
+import { positionsIn, unionSorted } from '../spacetime/fibre-pool';
 import type { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import type { LinearOperator } from './linear-operator';
 
@@ -89,15 +89,4 @@ export class InitialTraceOperator implements LinearOperator {
       for (let p = 0; p < map.length; p++) y[o + p]! += gt * u[map[p]!]!;
     }
   }
-}
-
-/** Position of every element of sorted `sub` in sorted `sup` (sub ⊆ sup). */
-export function positionsIn(sub: Int32Array, sup: Int32Array): Int32Array {
-  const out = new Int32Array(sub.length);
-  let j = 0;
-  for (let i = 0; i < sub.length; i++) {
-    while (sup[j]! < sub[i]!) j++;
-    out[i] = j;
-  }
-  return out;
 }
