@@ -42,6 +42,11 @@ class GrowI32 {
   }
 }
 
+// Scratch of ProgramBuilder.endStep, shared by all builders and grown on demand.
+let sortCnt = new Int32Array(256);
+let sortFill = new Int32Array(256);
+let sortOrder = new Int32Array(256);
+
 /** Compiled program; see {@link runProgram}. */
 export interface SparseProgram {
   /** Scratch slots needed per batch column. */
@@ -115,19 +120,28 @@ export class ProgramBuilder {
     const m = this.tW.length;
     if (m === 0) return;
     const nr = this.hi - this.lo;
-    const cnt = new Int32Array(nr + 1);
+    // Counting sort by destination into shared scratch (plan building is synchronous).
+    if (sortCnt.length < nr + 1) sortCnt = new Int32Array(2 * (nr + 1));
+    if (sortFill.length < nr) sortFill = new Int32Array(2 * nr);
+    if (sortOrder.length < m) sortOrder = new Int32Array(2 * m);
+    const cnt = sortCnt;
+    const fill = sortFill;
+    const order = sortOrder;
+    cnt.fill(0, 0, nr + 1);
     const td = this.tDst.data;
-    for (let e = 0; e < m; e++) cnt[td[e]! - this.lo + 1]!++;
-    for (let r = 0; r < nr; r++) cnt[r + 1]! += cnt[r]!;
-    const order = new Int32Array(m);
-    const fill = cnt.slice(0, nr);
-    for (let e = 0; e < m; e++) order[fill[td[e]! - this.lo]!++] = e;
+    const lo = this.lo;
+    for (let e = 0; e < m; e++) cnt[td[e]! - lo + 1]!++;
+    for (let r = 0; r < nr; r++) {
+      cnt[r + 1]! += cnt[r]!;
+      fill[r] = cnt[r]!;
+    }
+    for (let e = 0; e < m; e++) order[fill[td[e]! - lo]!++] = e;
     const ts = this.tSrc.data;
     const tw = this.tW.data;
     for (let r = 0; r < nr; r++) {
       for (let q0 = cnt[r]!; q0 < cnt[r + 1]!; q0 += 255) {
         const q1 = Math.min(q0 + 255, cnt[r + 1]!);
-        this.rowDst.push(this.lo + r);
+        this.rowDst.push(lo + r);
         this.rowLen.push(q1 - q0);
         for (let q = q0; q < q1; q++) {
           const e = order[q]!;
