@@ -49,8 +49,9 @@ export class SpaceTimeSystem {
   readonly KY: TestPreconditioner;
   readonly G: InitialTraceOperator;
   readonly S: SchurOperator;
-  readonly KX: TrialPreconditioner;
   private readonly inverses: FibreInverseCache;
+  private readonly pInverses: FibreInverseCache;
+  private kx: TrialPreconditioner | null = null;
 
   constructor(problem: HeatProblem, trialSet: DoubleTree, opts: SpaceTimeSystemOptions = {}) {
     if (!(trialSet instanceof DoubleTree) || trialSet.kind !== 'trial') {
@@ -66,13 +67,18 @@ export class SpaceTimeSystem {
     const inverses = new FibreInverseCache(problem.domain, trialSet.pool, this.plans, inner);
     this.inverses = inverses;
     const pInner = opts.preconditionerInner ?? inner;
-    const pInverses = pInner === inner ? inverses : new FibreInverseCache(problem.domain, trialSet.pool, this.plans, pInner);
+    this.pInverses = pInner === inner ? inverses : new FibreInverseCache(problem.domain, trialSet.pool, this.plans, pInner);
     this.B = new TensorOperatorPlan('derivIn', 'mass', trialSet, this.testSet, this.plans, T);
     this.Bt = new TensorOperatorPlan('derivOut', 'mass', this.testSet, trialSet, this.plans, T);
     this.KY = new TestPreconditioner(this.testSet, inverses);
     this.G = new InitialTraceOperator(trialSet, this.plans, T);
     this.S = new SchurOperator(this.B, this.Bt, this.KY, this.G);
-    this.KX = new TrialPreconditioner(trialSet, pInverses, this.plans, T);
+  }
+
+  /** The preconditioner K_X, built on first use (an estimator-only system never needs it). */
+  get KX(): TrialPreconditioner {
+    if (this.kx === null) this.kx = new TrialPreconditioner(this.trialSet, this.pInverses, this.plans, this.problem.T);
+    return this.kx;
   }
 
   /** Diagonals of the hierarchical spatial A and M on a fibre of the pool (fibre order). */
