@@ -2,6 +2,6 @@
 export { SpaceTimeSolution, type TimeSlice } from './space-time-solution';
 export { spaceTimeErrors, type KnownSolution, type SpaceTimeErrors } from './error-norms';
 export { sliceToVtu, vtkCollection } from './vtk';
-export { spatialIntegral, probeTableCsv } from './probes';
+export { spatialIntegral, regionIntegral, probeTableCsv } from './probes';
 export { convergencePlotSvg, type PlotSeries, type PlotOptions } from './svg-plot';
 export { sliceToSvg, type SliceSvgOptions } from './svg-slice';

@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import {
   DoubleTree, HeatProblem, InvalidArgumentError, SpaceTimeSystem, convergencePlotSvg, probeTableCsv, rectangleDomain,
-  sliceToVtu, spatialIntegral, vtkCollection,
+  sliceToVtu, spatialIntegral, regionIntegral, vtkCollection,
 } from '../../src/index';
 
 // u = 1 + t solves the insulated problem with reaction c and source 1 + c(1 + t) exactly (see exactness.test.ts).
@@ -16,6 +16,14 @@ const { solution } = new SpaceTimeSystem(
 describe('exports', () => {
   it('spatial integral equals area × (1 + t) for the exactly reproduced solution', () => {
     for (const t of [0, 0.25, 1]) expect(spatialIntegral(solution, t)).toBeCloseTo(2 * (1 + t), 8);
+  });
+
+  it('region integrals: the left half and the top-right quarter hold their share of u = 1 + t', () => {
+    for (const t of [0, 0.6]) {
+      expect(regionIntegral(solution, t, (x) => x < 1)).toBeCloseTo(1 + t, 8);
+      expect(regionIntegral(solution, t, (x, y) => x > 1 && y > 0.5)).toBeCloseTo(0.5 * (1 + t), 8);
+    }
+    expect(() => regionIntegral(solution, 0, 3 as never)).toThrow(/predicate/);
   });
 
   it('VTK XML slice has consistent counts and one value per point', () => {
