@@ -10,7 +10,7 @@ import { TensorOperatorPlan } from '../spacetime/tensor-apply';
 import { testIndexSet } from '../spacetime/test-index-set';
 import { SpaceTimeSolution } from '../output/space-time-solution';
 import { FibreInverseCache, type InnerSolver } from './fibre-inverse';
-import type { HeatProblem } from './heat-problem';
+import { HeatProblem, type HeatProblemSpec } from './heat-problem';
 import { InitialTraceOperator } from './initial-trace';
 import { pcg, type PcgOptions, type PcgResult } from './pcg';
 import { initialLoad, sourceLoad } from './right-hand-side';
@@ -91,14 +91,18 @@ export class SpaceTimeSystem {
     return this.trialSet.size;
   }
 
-  /** b = Bᵀ K_Y ℓ_f + g ⊗ ℓ_0. */
-  rightHandSide(): Float64Array {
-    const lf = sourceLoad(this.problem, this.testSet);
+  /**
+   * b = Bᵀ K_Y ℓ_f + g ⊗ ℓ_0 for the system's own data, or for other data on the same domain and
+   * interval (many right-hand sides with one operator: control, estimation, uncertainty studies).
+   */
+  rightHandSide(data?: Pick<HeatProblemSpec, 'initial' | 'source'>): Float64Array {
+    const problem = data ? new HeatProblem({ domain: this.problem.domain, T: this.problem.T, ...data }) : this.problem;
+    const lf = sourceLoad(problem, this.testSet);
     const v = new Float64Array(this.testSet.size);
     this.KY.apply(lf, v);
     const b = new Float64Array(this.trialSet.size);
     this.Bt.apply(v, b);
-    this.G.addTraced(initialLoad(this.problem, this.G.traceFibre), b, 1);
+    this.G.addTraced(initialLoad(problem, this.G.traceFibre), b, 1);
     return b;
   }
 

@@ -66,3 +66,20 @@ describe('grid sampling (ndarray view)', () => {
     expect(() => u.sampleGrid([0], [0])).toThrow(/needs both xs and ys/);
   });
 });
+
+describe('many right-hand sides on one operator', () => {
+  it('rightHandSide(data) is linear in the data and matches a system built for that data', () => {
+    const domain = rectangleDomain(0, 1, 0, 1, 2, 2);
+    const set = DoubleTree.sparseGrid(domain, 3);
+    const sys = new SpaceTimeSystem(new HeatProblem({ domain, T: 2 }), set);
+    const f1 = (t: number, x: number, y: number) => t * x * y;
+    const f2 = (_t: number, x: number) => Math.cos(3 * x);
+    const u0 = (x: number, y: number) => x + y * y;
+    const b1 = sys.rightHandSide({ source: f1 });
+    const b2 = sys.rightHandSide({ source: f2, initial: u0 });
+    const b12 = sys.rightHandSide({ source: (t, x, y) => f1(t, x, y) + f2(t, x), initial: u0 });
+    for (let i = 0; i < b12.length; i++) expect(b12[i]).toBeCloseTo(b1[i]! + b2[i]!, 12);
+    const direct = new SpaceTimeSystem(new HeatProblem({ domain, T: 2, source: f2, initial: u0 }), set).rightHandSide();
+    for (let i = 0; i < direct.length; i++) expect(b2[i]).toBeCloseTo(direct[i]!, 12);
+  });
+});
