@@ -90,4 +90,17 @@ describe('adaptive loop', () => {
     expect(sparseRate).toBeLessThan(0.25);
     for (let i = 1; i < h.length; i++) expect(h[i]!.unknowns).toBeGreaterThan(h[i - 1]!.unknowns);
   }, 120_000);
+
+  it('d = 2 square, u0 ≡ 1: the adaptive set beats the sparse grid of the same size by the estimator', () => {
+    const domain = rectangleDomain(0, 1, 0, 1, 2, 2);
+    const problem = new HeatProblem({ domain, T: 1, initial: () => 1 });
+    const set5 = DoubleTree.sparseGrid(domain, 5);
+    const { pcg } = new SpaceTimeSystem(problem, set5).solve({ relTol: 1e-8 });
+    const sparseE = residualIndicators(new SpaceTimeSystem(problem, enlargeDoubleTree(domain, set5)), set5, pcg.solution).estimate;
+    const res = solveAdaptive(problem, { maxUnknowns: set5.size, maxSteps: 200 });
+    const last = res.history[res.history.length - 1]!;
+    console.log(`d = 2: adaptive E = ${last.estimate.toFixed(4)} at N = ${last.unknowns}; sparse grid L = 5: E = ${sparseE.toFixed(4)} at N = ${set5.size}`);
+    expect(last.unknowns).toBeLessThanOrEqual(set5.size);
+    expect(last.estimate).toBeLessThan(0.5 * sparseE);
+  }, 120_000);
 });
