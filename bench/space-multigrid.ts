@@ -12,27 +12,17 @@
  * factor is built on the first application and is not part of it).
  */
 import type { BenchCase, BenchInstance } from './harness';
-import { rectangleDomain } from '../src/space/index';
 import type { LeafMesh } from '../src/space/leaf-mesh';
 import { MultilevelPreconditioner } from '../src/space/multigrid/index';
-import { gradedProblem, randomVector, type Kind } from './space-problems';
+import { gradedProblem, randomVector, uniformGenerationProblem, type Kind } from './space-problems';
 
 
 const cache = new Map<string, LeafMesh>();
 
-function mergeSorted(a: Int32Array, b: Int32Array): Int32Array {
-  const out = new Int32Array(a.length + b.length);
-  out.set(a);
-  out.set(b, a.length);
-  return out.sort();
-}
 
 function uniformMesh(size: number): LeafMesh {
-  const dom = rectangleDomain(0, 1, 0, 1, 2, 2);
-  const G = Math.max(1, Math.round(Math.log2(size / 4)));
-  let set = dom.uniformSet(G >> 1);
-  if (G & 1) set = mergeSorted(set, dom.refineAll(set));
-  return dom.leafMesh(set);
+  const p = uniformGenerationProblem(Math.max(1, Math.round(Math.log2(size / 4))));
+  return p.dom.leafMesh(p.set);
 }
 
 function gradedMesh(size: number): LeafMesh {

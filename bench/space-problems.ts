@@ -1,5 +1,6 @@
 /** Problem builders shared by the spatial bench suites. */
 import { rectangleDomain, type SpatialDomain } from '../src/space/index';
+import { unionSorted } from '../src/space/operator-plan';
 
 export type Kind = 'uniform' | 'graded';
 
@@ -36,4 +37,12 @@ export function randomVector(n: number): Float64Array {
     x[i] = s / 2147483648 - 0.5;
   }
   return x;
+}
+
+/** Unit square 2 × 2 with every vertex up to generation G (odd G: one more bisection of every leaf). */
+export function uniformGenerationProblem(G: number): Problem {
+  const dom = rectangleDomain(0, 1, 0, 1, 2, 2);
+  let set = dom.uniformSet(G >> 1);
+  if (G & 1) set = unionSorted(set, dom.refineAll(set));
+  return { dom, set };
 }

@@ -8,22 +8,15 @@ import { intervalDomain, rectangleDomain, type SpatialDomain } from '../../../sr
 import type { LeafMesh } from '../../../src/space/leaf-mesh';
 import { MultilevelPreconditioner } from '../../../src/space/multigrid/index';
 import { makeOperator, pcg, randomVector } from './reference';
+import { uniformGenerationProblem } from '../../../bench/space-problems';
 
 const ALPHAS = [0, 1, 1e2, 1e4, 1e6, 1e8];
 const quick = process.argv.includes('--quick');
 
-function union(a: Int32Array, b: Int32Array): Int32Array {
-  const o = new Int32Array(a.length + b.length);
-  o.set(a);
-  o.set(b, a.length);
-  return o.sort();
-}
 
 function uniform2d(G: number): LeafMesh {
-  const dom = rectangleDomain(0, 1, 0, 1, 2, 2);
-  let set = dom.uniformSet(G >> 1);
-  if (G & 1) set = union(set, dom.refineAll(set));
-  return dom.leafMesh(set);
+  const p = uniformGenerationProblem(G);
+  return p.dom.leafMesh(p.set);
 }
 
 function graded2d(size: number): LeafMesh {
