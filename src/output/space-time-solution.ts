@@ -8,6 +8,7 @@
  * coefficients.
  */
 import ndarray from 'ndarray';
+import type { GridView } from './grid-view';
 import { InvalidArgumentError } from '../errors';
 import { evaluateTemporal } from '../time/index';
 import { evaluateAt, nodalValues, type SpatialDomain } from '../space/index';
@@ -78,8 +79,8 @@ export class SpaceTimeSolution {
   }
 
   /**
-   * u on a tensor grid of times and coordinates, as an ndarray view over one
-   * Float64Array: shape [times, xs] in 1D and [times, xs, ys] in 2D, so
+   * u on a tensor grid of times and coordinates, as a {@link GridView} (an
+   * ndarray view at run time) over one Float64Array: shape [times, xs] in 1D and [times, xs, ys] in 2D, so
    * `grid.get(k, i, j)` = u(times[k], xs[i], ys[j]). Points outside Ω get
    * `outside` (default NaN), so a bounding-box grid of a non-convex domain works.
    *
@@ -92,7 +93,7 @@ export class SpaceTimeSolution {
    * console.log(g.shape, g.get(1, 0, 1), g.get(1, 1, 0)); // [2, 2, 2], a value, NaN (outside the L)
    * ```
    */
-  sampleGrid(times: ArrayLike<number>, xs: ArrayLike<number>, ys?: ArrayLike<number>, opts: { outside?: number } = {}): ndarray.NdArray<Float64Array> {
+  sampleGrid(times: ArrayLike<number>, xs: ArrayLike<number>, ys?: ArrayLike<number>, opts: { outside?: number } = {}): GridView {
     const d = this.domain.dim;
     if (d === 2 && ys === undefined) throw new InvalidArgumentError('a 2D solution needs both xs and ys', { field: 'ys' });
     if (d === 1 && ys !== undefined) throw new InvalidArgumentError('a 1D solution takes no ys', { field: 'ys' });
