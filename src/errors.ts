@@ -94,6 +94,30 @@ export class SolverBreakdownError extends ChronomeshError {
   }
 }
 
+/**
+ * A request would need more memory (or work) than the resource budget allows; the message states
+ * the estimate and the budget, and `estimateBytes` / `budgetBytes` carry them. Raised before
+ * anything large is allocated. See {@link setMemoryBudget}.
+ *
+ * @example
+ * ```ts
+ * import { ResourceLimitError, rectangleDomain } from 'chronomesh';
+ * try { rectangleDomain(0, 1, 0, 1, 2, 2).uniformSet(40); }
+ * catch (e) { if (e instanceof ResourceLimitError) console.log(e.field, e.estimateBytes > e.budgetBytes); } // level true
+ * ```
+ */
+export class ResourceLimitError extends ChronomeshError {
+  /** Estimated memory of the request, bytes. */
+  readonly estimateBytes: number;
+  /** The budget in force, bytes. */
+  readonly budgetBytes: number;
+  constructor(message: string, estimateBytes: number, budgetBytes: number, details: ErrorDetails = {}) {
+    super('resource-limit', message, details);
+    this.estimateBytes = estimateBytes;
+    this.budgetBytes = budgetBytes;
+  }
+}
+
 /** Formats a value for an error message without dumping large arrays. */
 export function describeValue(v: unknown): string {
   if (typeof v === 'number') return Number.isNaN(v) ? 'NaN' : String(v);

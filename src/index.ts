@@ -10,6 +10,7 @@ export {
   InvalidIndexSetError,
   InvalidMeshError,
   SolverBreakdownError,
+  ResourceLimitError,
   type ErrorDetails,
 } from './errors';
 
@@ -20,3 +21,4 @@ export * from './system/index';
 export * from './output/index';
 export * from './adapt/index';
 export { solve, type SolveResult } from './solve';
+export { memoryBudget, setMemoryBudget } from './validation/budget';

@@ -8,7 +8,10 @@ import typed from 'typed-function';
 import { InvalidArgumentError } from './errors';
 import { solveAdaptive, type AdaptiveOptions, type AdaptiveStep } from './adapt/adaptive-solver';
 import { SpaceTimeSolution } from './output/space-time-solution';
-import { DoubleTree } from './spacetime/double-tree';
+import { validateAdaptiveOptions } from './adapt/adaptive-options';
+import { DoubleTree, sparseGridUnknownEstimate } from './spacetime/double-tree';
+import { checkSetOnDomain } from './spacetime/set-checks';
+import { BYTES_PER_SYSTEM_UNKNOWN, checkInteger, checkMemory } from './validation/index';
 import { HeatProblem } from './system/heat-problem';
 import type { PcgResult } from './system/pcg';
 import { SpaceTimeSystem } from './system/space-time-system';
@@ -28,11 +31,21 @@ t.addType({ name: 'HeatProblem', test: (x) => x instanceof HeatProblem });
 t.addType({ name: 'DoubleTree', test: (x) => x instanceof DoubleTree });
 
 function onSet(problem: HeatProblem, set: DoubleTree): SolveResult {
+  checkSetOnDomain(set, problem.domain, 'how');
+  checkMemory(set.size * BYTES_PER_SYSTEM_UNKNOWN, `the space-time system on ${set.size} unknowns`, 'how', 'choose a smaller index set');
   const { solution, pcg } = new SpaceTimeSystem(problem, set).solve({ relTol: 1e-8 });
   return { solution, set, pcg, history: null };
 }
 
+function onLevel(problem: HeatProblem, level: number): SolveResult {
+  checkInteger(level, 'how', 0, 40);
+  const unknowns = sparseGridUnknownEstimate(problem.domain, level);
+  checkMemory(unknowns * BYTES_PER_SYSTEM_UNKNOWN, `the sparse grid of level ${level} (about ${unknowns.toExponential(1)} unknowns) with its space-time system`, 'how', 'choose a lower level');
+  return onSet(problem, DoubleTree.sparseGrid(problem.domain, level));
+}
+
 function adaptive(problem: HeatProblem, opts: AdaptiveOptions): SolveResult {
+  validateAdaptiveOptions(opts, problem, 'how');
   const r = solveAdaptive(problem, opts);
   return { solution: r.solution, set: r.set, pcg: null, history: r.history };
 }
@@ -40,7 +53,7 @@ function adaptive(problem: HeatProblem, opts: AdaptiveOptions): SolveResult {
 const dispatch = t<(...args: unknown[]) => SolveResult>('solve', {
   HeatProblem: (p: HeatProblem) => adaptive(p, {}),
   'HeatProblem, Object': (p: HeatProblem, o: AdaptiveOptions) => adaptive(p, o),
-  'HeatProblem, number': (p: HeatProblem, level: number) => onSet(p, DoubleTree.sparseGrid(p.domain, level)),
+  'HeatProblem, number': onLevel,
   'HeatProblem, DoubleTree': (p: HeatProblem, set: DoubleTree) => onSet(p, set),
 });
 

@@ -9,10 +9,12 @@
  * the degree-5 triangle rule / 3-point Gauss rule on the leaf mesh of each slice.
  */
 import { InvalidArgumentError } from '../errors';
+import { checkCallbackResult, checkFunction, checkInstance, checkObject, checkOptions } from '../validation/index';
+import { SpaceTimeSolution as SolutionClass } from './space-time-solution';
 import { nodeSupport } from '../time/index';
 import { TRIANGLE_POINTS, TRIANGLE_WEIGHTS, INTERVAL_POINTS, INTERVAL_WEIGHTS } from '../space/quadrature';
 import { gaussLegendre01 } from '../system/gauss-legendre';
-import type { SpaceTimeSolution } from './space-time-solution';
+type SpaceTimeSolution = SolutionClass;
 
 /** A known solution: value and spatial gradient (writes `dim` components into `grad`). */
 export interface KnownSolution {
@@ -47,8 +49,15 @@ export interface SpaceTimeErrors {
  * ```
  */
 export function spaceTimeErrors(solution: SpaceTimeSolution, exact: KnownSolution, opts: { timePoints?: number } = {}): SpaceTimeErrors {
-  const nq = opts.timePoints ?? 3;
-  if (!Number.isInteger(nq) || nq < 1 || nq > 20) throw new InvalidArgumentError(`timePoints = ${nq} must be an integer in [1, 20]`, { field: 'timePoints' });
+  checkInstance(solution, SolutionClass, 'solution', 'a SpaceTimeSolution');
+  const ex = checkObject(exact, 'exact', 'a known solution { value(t, x, y), gradient(t, x, y, grad) }');
+  checkFunction(ex.value, 'exact.value', 'a function (t, x, y) => number');
+  checkFunction(ex.gradient, 'exact.gradient', 'a function (t, x, y, grad) => void writing the spatial gradient');
+  const o = checkOptions<{ timePoints?: number }>(opts, 'opts', ['timePoints']);
+  const nq = o.timePoints ?? 3;
+  if (typeof nq !== 'number' || !Number.isInteger(nq) || nq < 1 || nq > 20) {
+    throw new InvalidArgumentError(`opts.timePoints = ${String(nq)} must be an integer in [1, 20]`, { field: 'opts.timePoints', expected: 'an integer in [1, 20]', received: nq });
+  }
   const T = solution.T;
   const breaks = temporalBreakpoints(solution);
   const { nodes, weights } = gaussLegendre01(nq);
@@ -83,10 +92,23 @@ function temporalBreakpoints(solution: SpaceTimeSolution): number[] {
   return [...pts].sort((p, q) => p - q);
 }
 
+/**
+ * Gradient of the known solution into grad[0..dim) and its value into grad[2]; a non-finite
+ * value or gradient component is reported with the point it was asked at.
+ */
+function exactAt(exact: KnownSolution, t: number, x: number, y: number, grad: Float64Array, dim: number): void {
+  grad[0] = grad[1] = NaN;
+  exact.gradient(t, x, y, grad);
+  for (let k = 0; k < dim; k++) {
+    if (!Number.isFinite(grad[k]!)) checkCallbackResult(grad[k], 'exact.gradient', [t, x, y]);
+  }
+  grad[2] = checkCallbackResult(exact.value(t, x, y), 'exact.value', [t, x, y]);
+}
+
 function sliceErrors(solution: SpaceTimeSolution, exact: KnownSolution, t: number): { g2: number; v2: number } {
   const { mesh, values } = solution.slice(t);
   const dim = mesh.dim;
-  const grad = new Float64Array(2);
+  const grad = new Float64Array(3);
   let g2 = 0;
   let v2 = 0;
   const { elements, coords } = mesh;
@@ -102,10 +124,10 @@ function sliceErrors(solution: SpaceTimeSolution, exact: KnownSolution, t: numbe
         const l0 = INTERVAL_POINTS[2 * q]!;
         const l1 = INTERVAL_POINTS[2 * q + 1]!;
         const x = l0 * x0 + l1 * x1;
-        exact.gradient(t, x, 0, grad);
+        exactAt(exact, t, x, 0, grad, 1);
         const w = len * INTERVAL_WEIGHTS[q]!;
         g2 += w * (grad[0]! - du) ** 2;
-        v2 += w * (exact.value(t, x, 0) - (l0 * values[i0]! + l1 * values[i1]!)) ** 2;
+        v2 += w * (grad[2]! - (l0 * values[i0]! + l1 * values[i1]!)) ** 2;
       }
     }
     return { g2, v2 };
@@ -127,10 +149,10 @@ function sliceErrors(solution: SpaceTimeSolution, exact: KnownSolution, t: numbe
       const l0 = TRIANGLE_POINTS[3 * q]!, l1 = TRIANGLE_POINTS[3 * q + 1]!, l2 = TRIANGLE_POINTS[3 * q + 2]!;
       const x = l0 * x0 + l1 * x1 + l2 * x2;
       const y = l0 * y0 + l1 * y1 + l2 * y2;
-      exact.gradient(t, x, y, grad);
+      exactAt(exact, t, x, y, grad, 2);
       const w = area * TRIANGLE_WEIGHTS[q]!;
       g2 += w * ((grad[0]! - gx) ** 2 + (grad[1]! - gy) ** 2);
-      v2 += w * (exact.value(t, x, y) - (l0 * u0 + l1 * u1 + l2 * u2)) ** 2;
+      v2 += w * (grad[2]! - (l0 * u0 + l1 * u1 + l2 * u2)) ** 2;
     }
   }
   return { g2, v2 };

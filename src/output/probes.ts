@@ -4,7 +4,8 @@
  */
 import { InvalidArgumentError } from '../errors';
 import { INTERVAL_POINTS, INTERVAL_WEIGHTS, TRIANGLE_POINTS, TRIANGLE_WEIGHTS } from '../space/quadrature';
-import type { SpaceTimeSolution } from './space-time-solution';
+import { SpaceTimeSolution } from './space-time-solution';
+import { checkFunction, checkInstance, checkNumberArray } from '../validation/index';
 
 /** ∫_Ω u(t, ·) dx, exact for the piecewise-linear slice (vertex rule per element). *
  * @example
@@ -34,7 +35,8 @@ export function spatialIntegral(solution: SpaceTimeSolution, t: number): number 
  * ```
  */
 export function regionIntegral(solution: SpaceTimeSolution, t: number, inside: (x: number, y: number) => boolean): number {
-  if (typeof inside !== 'function') throw new InvalidArgumentError('inside must be a predicate (x, y) => boolean', { field: 'inside' });
+  checkInstance(solution, SpaceTimeSolution, 'solution', 'a SpaceTimeSolution');
+  checkFunction(inside, 'inside', 'a predicate (x, y) => boolean');
   const { mesh, values } = solution.slice(t);
   const c = mesh.coords;
   const el = mesh.elements;
@@ -75,9 +77,13 @@ export function regionIntegral(solution: SpaceTimeSolution, t: number, inside: (
  * ```
  */
 export function probeTableCsv(solution: SpaceTimeSolution, times: number[], probes: number[][]): string {
+  checkInstance(solution, SpaceTimeSolution, 'solution', 'a SpaceTimeSolution');
   const d = solution.domain.dim;
+  checkNumberArray(times, 'times', { maxLength: 1e6 });
+  if (!Array.isArray(probes)) checkNumberArray(probes, 'probes');
   probes.forEach((p, i) => {
-    if (p.length !== d) throw new InvalidArgumentError(`probes[${i}] has ${p.length} coordinates, expected ${d}`, { field: `probes[${i}]` });
+    checkNumberArray(p, `probes[${i}]`);
+    if (p.length !== d) throw new InvalidArgumentError(`probes[${i}] has ${p.length} coordinates, expected ${d}`, { field: `probes[${i}]`, expected: `${d} coordinates`, received: p.length });
   });
   const flat = probes.flat();
   const header = ['t', 'integral', ...probes.map((p) => `u(${p.join(' ')})`)];

@@ -11,10 +11,12 @@ import ndarray from 'ndarray';
 import type { GridView } from './grid-view';
 import { InvalidArgumentError } from '../errors';
 import { evaluateTemporal } from '../time/index';
-import { evaluateAt, nodalValues, type SpatialDomain } from '../space/index';
+import { SpatialDomain, evaluateAt, nodalValues } from '../space/index';
+import { checkSetOnDomain } from '../spacetime/set-checks';
 import type { LeafMesh } from '../space/leaf-mesh';
 import type { DoubleTree } from '../spacetime/double-tree';
 import { positionsIn, unionSorted } from '../spacetime/fibre-pool';
+import { checkFloat64Array, checkInstance, checkMemory, checkNumber, checkNumberArray, checkOptions } from '../validation/index';
 
 /** Nodal values of u(t, ·) on the leaf mesh of the union of the fibres active at t. */
 export interface TimeSlice {
@@ -41,14 +43,15 @@ export class SpaceTimeSolution {
     readonly coefficients: Float64Array,
     readonly T: number,
   ) {
-    if (coefficients.length !== trialSet.size) {
-      throw new InvalidArgumentError(`coefficients has length ${coefficients.length}, expected ${trialSet.size}`, { field: 'coefficients' });
-    }
+    checkInstance(domain, SpatialDomain, 'domain', 'a SpatialDomain');
+    checkSetOnDomain(trialSet, domain, 'trialSet');
+    checkFloat64Array(coefficients, 'coefficients', { length: trialSet.size, finite: true });
+    checkNumber(T, 'T', { min: 0, minOpen: true });
   }
 
   /** Hierarchical coefficients of u(t, ·) on the union of the active fibres. */
   spatialCoefficients(t: number): { set: Int32Array; coeffs: Float64Array } {
-    if (!Number.isFinite(t) || t < 0 || t > this.T) {
+    if (typeof t !== 'number' || !Number.isFinite(t) || t < 0 || t > this.T) {
       throw new InvalidArgumentError(`time t = ${t} is outside [0, ${this.T}]`, { field: 't', expected: `[0, ${this.T}]`, received: t });
     }
     const { tree } = this.trialSet;
@@ -97,8 +100,19 @@ export class SpaceTimeSolution {
     const d = this.domain.dim;
     if (d === 2 && ys === undefined) throw new InvalidArgumentError('a 2D solution needs both xs and ys', { field: 'ys' });
     if (d === 1 && ys !== undefined) throw new InvalidArgumentError('a 1D solution takes no ys', { field: 'ys' });
+    checkNumberArray(times, 'times');
+    checkNumberArray(xs, 'xs');
+    if (ys !== undefined) checkNumberArray(ys, 'ys');
+    const o = checkOptions<{ outside?: number }>(opts, 'opts', ['outside']);
+    if (o.outside !== undefined && typeof o.outside !== 'number') checkNumber(o.outside, 'opts.outside');
     const nx = xs.length;
     const ny = ys ? ys.length : 1;
+    const cells = times.length * nx * ny;
+    checkMemory(8 * (cells + nx * ny * d), `sampleGrid of ${times.length} × ${nx}${d === 2 ? ` × ${ny}` : ''} values`, times.length >= nx && times.length >= ny ? 'times' : nx >= ny ? 'xs' : 'ys', 'sample fewer points');
+    for (let k = 0; k < times.length; k++) {
+      const t = times[k]!;
+      if (t < 0 || t > this.T) throw new InvalidArgumentError(`times[${k}] = ${t} is outside [0, ${this.T}]`, { field: `times[${k}]`, expected: `[0, ${this.T}]`, received: t });
+    }
     const pts = new Float64Array(nx * ny * d);
     for (let i = 0; i < nx; i++) {
       for (let j = 0; j < ny; j++) {

@@ -4,6 +4,9 @@
  * anchored at the first point of the first series, decade grid lines.
  */
 import { InvalidArgumentError } from '../errors';
+import { checkNumber, checkNumberArray, checkObject, checkOptions, checkString } from '../validation/index';
+
+const PLOT_KEYS: Record<keyof Required<PlotOptions>, true> = { title: true, xLabel: true, yLabel: true, referenceSlopes: true, width: true, height: true };
 
 /** One curve of a {@link convergencePlotSvg}. */
 export interface PlotSeries {
@@ -36,16 +39,36 @@ const COLORS = ['#1f77b4', '#d62728', '#2ca02c', '#9467bd', '#ff7f0e', '#17becf'
  * ```
  */
 export function convergencePlotSvg(series: PlotSeries[], opts: PlotOptions = {}): string {
+  if (!Array.isArray(series)) checkObject(series, 'series', 'an array of { label, points }');
+  series.forEach((s, i) => {
+    checkObject(s, `series[${i}]`, 'a series { label, points: [x, y][] }');
+    checkString(s.label, `series[${i}].label`, 200);
+    if (!Array.isArray(s.points)) checkObject(s.points, `series[${i}].points`, 'an array of [x, y] pairs');
+    s.points.forEach((p, j) => checkNumberArray(p, `series[${i}].points[${j}]`, { length: 2, finite: false }));
+  });
+  const o = checkOptions<PlotOptions>(opts, 'opts', PLOT_KEYS);
+  for (const k of ['title', 'xLabel', 'yLabel'] as const) if (o[k] !== undefined) checkString(o[k], `opts.${k}`, 1000);
+  if (o.width !== undefined) checkNumber(o.width, 'opts.width', { min: 320, max: 20000 });
+  if (o.height !== undefined) checkNumber(o.height, 'opts.height', { min: 200, max: 20000 });
+  if (o.referenceSlopes !== undefined) {
+    checkNumberArray(o.referenceSlopes, 'opts.referenceSlopes', { maxLength: 16 });
+    o.referenceSlopes.forEach((r, i) => checkNumber(r, `opts.referenceSlopes[${i}]`, { min: -20, max: 20 }));
+  }
+  opts = o;
   const W = opts.width ?? 640;
   const H = opts.height ?? 440;
   const m = { l: 78, r: 160, t: 40, b: 56 };
   const all = series.flatMap((s) => s.points);
   if (all.length === 0) throw new InvalidArgumentError('convergencePlotSvg needs at least one point', { field: 'series' });
-  all.forEach(([x, y], i) => {
+  series.forEach((s, i) => s.points.forEach(([x, y], j) => {
     if (!(x > 0 && y > 0 && Number.isFinite(x) && Number.isFinite(y))) {
-      throw new InvalidArgumentError(`plot point ${i} = (${x}, ${y}) must have finite positive coordinates (log–log axes)`, { field: 'series' });
+      throw new InvalidArgumentError(`series[${i}].points[${j}] = (${x}, ${y}) must have finite positive coordinates (log–log axes)`, {
+        field: `series[${i}].points[${j}]`,
+        expected: 'finite x > 0 and y > 0',
+        received: `${x}, ${y}`,
+      });
     }
-  });
+  }));
   const lx = all.map((p) => Math.log10(p[0]));
   const ly = all.map((p) => Math.log10(p[1]));
   const x0 = Math.floor(Math.min(...lx));
@@ -85,12 +108,14 @@ export function convergencePlotSvg(series: PlotSeries[], opts: PlotOptions = {})
     for (const [x, y] of s.points) out.push(`<circle cx="${px(x).toFixed(1)}" cy="${py(y).toFixed(1)}" r="3" fill="${color}"/>`);
     legend(color, s.label, null);
   });
-  const anchor = series[0]!.points[0]!;
+  const anchor = series.find((s) => s.points.length > 0)!.points[0]!;
   const xEnd = 10 ** x1;
   (opts.referenceSlopes ?? []).forEach((slope, i) => {
-    const yEnd = anchor[1] * (xEnd / anchor[0]) ** slope;
+    // In log coordinates (no overflow for steep slopes): log y = log y_a + slope · (log x − log x_a).
+    const lyEnd = Math.log10(anchor[1]) + slope * (x1 - Math.log10(anchor[0]));
+    const yEndPx = H - m.b - ((lyEnd - y0) / (y1 - y0)) * (H - m.t - m.b);
     const dash = DASHES[i % DASHES.length]!;
-    out.push(`<line x1="${px(anchor[0])}" y1="${py(anchor[1])}" x2="${px(xEnd)}" y2="${py(yEnd)}" stroke="#555" stroke-dasharray="${dash}" clip-path="url(#plot)"/>`);
+    out.push(`<line x1="${px(anchor[0])}" y1="${py(anchor[1])}" x2="${px(xEnd)}" y2="${yEndPx}" stroke="#555" stroke-dasharray="${dash}" clip-path="url(#plot)"/>`);
     legend('#555', `slope ${slope}`, dash);
   });
   out.splice(2, 0, `<defs><clipPath id="plot"><rect x="${m.l}" y="${m.t}" width="${W - m.l - m.r}" height="${H - m.t - m.b}"/></clipPath></defs>`);

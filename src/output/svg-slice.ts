@@ -3,7 +3,12 @@
  * map with a colour bar in 2D, a line graph in 1D. For real post-processing
  * use the VTK export.
  */
+import { InvalidArgumentError } from '../errors';
+import { checkNumber, checkNumberArray, checkOptions, checkString } from '../validation/index';
 import type { TimeSlice } from './space-time-solution';
+import { checkSlice } from './slice-checks';
+
+const SLICE_SVG_KEYS: Record<keyof Required<SliceSvgOptions>, true> = { title: true, range: true, width: true };
 
 /** Options of {@link sliceToSvg}. */
 export interface SliceSvgOptions {
@@ -37,6 +42,17 @@ function color(v: number, lo: number, hi: number): string {
  * ```
  */
 export function sliceToSvg(slice: TimeSlice, opts: SliceSvgOptions = {}): string {
+  checkSlice(slice);
+  const o = checkOptions<SliceSvgOptions>(opts, 'opts', SLICE_SVG_KEYS);
+  if (o.title !== undefined) checkString(o.title, 'opts.title', 1000);
+  if (o.width !== undefined) checkNumber(o.width, 'opts.width', { min: 160, max: 20000 });
+  if (o.range !== undefined) {
+    checkNumberArray(o.range, 'opts.range', { length: 2 });
+    if (!(o.range[0] < o.range[1])) {
+      throw new InvalidArgumentError(`opts.range = [${o.range[0]}, ${o.range[1]}] must be increasing (low < high)`, { field: 'opts.range', expected: 'low < high', received: `${o.range[0]}, ${o.range[1]}` });
+    }
+  }
+  opts = o;
   const { mesh, values } = slice;
   const W = opts.width ?? 520;
   let lo = Infinity;

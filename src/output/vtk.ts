@@ -5,6 +5,8 @@
  * them. 1D meshes become VTK lines, 2D meshes triangles.
  */
 import type { TimeSlice } from './space-time-solution';
+import { checkSlice } from './slice-checks';
+import { checkNumber, checkObject, checkString } from '../validation/index';
 
 const VTK_LINE = 3;
 const VTK_TRIANGLE = 5;
@@ -21,6 +23,8 @@ const VTK_TRIANGLE = 5;
  * ```
  */
 export function sliceToVtu(slice: TimeSlice, name = 'u'): string {
+  checkSlice(slice);
+  checkString(name, 'name', 200);
   const { mesh, values } = slice;
   const n = mesh.vertexCount;
   const m = mesh.elementCount;
@@ -74,6 +78,12 @@ export function sliceToVtu(slice: TimeSlice, name = 'u'): string {
  * ```
  */
 export function vtkCollection(entries: { t: number; file: string }[]): string {
+  if (!Array.isArray(entries)) checkObject(entries, 'entries', 'an array of { t, file }');
+  entries.forEach((e, i) => {
+    checkObject(e, `entries[${i}]`, 'an entry { t, file }');
+    checkNumber(e.t, `entries[${i}].t`);
+    checkString(e.file, `entries[${i}].file`, 4096);
+  });
   const rows = entries.map((e) => `    <DataSet timestep="${e.t}" group="" part="0" file="${escapeXml(e.file)}"/>`);
   return ['<?xml version="1.0"?>', '<VTKFile type="Collection" version="1.0" byte_order="LittleEndian">', '  <Collection>', ...rows, '  </Collection>', '</VTKFile>', ''].join('\n');
 }

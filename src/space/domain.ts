@@ -8,6 +8,7 @@ import type { InitialMesh } from './initial-mesh';
 import type { LeafMesh } from './leaf-mesh';
 import { segmentMeetsElement } from './geometry';
 import { InitialLocator } from './initial-locator';
+import { BYTES_PER_FOREST_VERTEX, checkFunction, checkMemory, memoryBudget } from '../validation/index';
 
 /**
  * A spatial domain Ω with its lazily grown bisection forest. Build one with
@@ -311,6 +312,9 @@ export class SpatialDomain {
     }
     const f = this.forest;
     const maxGen = level * this.dim;
+    // NVB halves element measure per generation: about initialElements · 2^maxGen leaves, half as many vertices in 2D.
+    const vertices = f.initialVertexCount + (f.initialElementCount * 2 ** maxGen) / this.dim;
+    checkMemory(vertices * BYTES_PER_FOREST_VERTEX, `the uniform set of level ${level} (about ${vertices.toExponential(1)} vertices)`, 'level', 'choose a lower level');
     const created: number[] = [];
     let sp = 0;
     for (let e = 0; e < f.initialElementCount; e++) sp = this.pushStack(sp, e);
@@ -438,9 +442,7 @@ export class SpatialDomain {
    * for conformity). Handy for graded meshes, e.g. `meshSize = (x, y) => H * Math.hypot(x, y) ** (2 / 3)`.
    */
   adaptedSet(meshSize: (x: number, y: number) => number, maxGeneration: number): Int32Array {
-    if (typeof meshSize !== 'function') {
-      throw new InvalidArgumentError('meshSize must be a function (x, y) => h', { field: 'meshSize', expected: 'function', received: describeValue(meshSize) });
-    }
+    checkFunction(meshSize, 'meshSize', 'a function (x, y) => h');
     if (!Number.isInteger(maxGeneration) || maxGeneration < 0 || maxGeneration > 200) {
       throw new InvalidArgumentError(`maxGeneration must be an integer in [0, 200], received ${describeValue(maxGeneration)}`, {
         field: 'maxGeneration',
@@ -451,11 +453,16 @@ export class SpatialDomain {
     const f = this.forest;
     const d = this.dim, nv = f.nv;
     const created: number[] = [];
+    // The final size is unknown in advance: refuse once the forest would outgrow the memory budget.
+    const maxVertices = memoryBudget() / BYTES_PER_FOREST_VERTEX;
     let sp = 0;
     for (let e = 0; e < f.initialElementCount; e++) sp = this.pushStack(sp, e);
     while (sp > 0) {
       const e = this.stack[--sp]!;
       if (f.eGen[e]! >= maxGeneration) continue;
+      if (f.vertexCount >= maxVertices) {
+        checkMemory(f.vertexCount * BYTES_PER_FOREST_VERTEX * 2, `adaptedSet with maxGeneration ${maxGeneration} (already ${f.vertexCount} vertices, still refining)`, 'meshSize', 'ask for a coarser meshSize or a lower maxGeneration');
+      }
       let cx = 0, cy = 0, diam = 0;
       for (let k = 0; k < nv; k++) {
         const v = f.eVert[e * nv + k]!;
@@ -466,7 +473,15 @@ export class SpatialDomain {
       const a = f.eVert[e * nv]!, b = f.eVert[e * nv + 1]!;
       for (let k = 0; k < d; k++) diam += (f.vCoord[a * d + k]! - f.vCoord[b * d + k]!) ** 2;
       diam = Math.sqrt(diam);
-      if (!(diam > meshSize(cx, cy))) continue;
+      const h: unknown = meshSize(cx, cy);
+      if (typeof h !== 'number' || Number.isNaN(h) || h < 0) {
+        throw new InvalidArgumentError(`meshSize(${cx}, ${cy}) returned ${describeValue(h)}; expected a number ≥ 0 (Infinity: no refinement)`, {
+          field: 'meshSize',
+          expected: 'a number ≥ 0',
+          received: describeValue(h),
+        });
+      }
+      if (!(diam > h)) continue;
       created.push(f.bisect(e));
       const c = f.eChild[e]!;
       sp = this.pushStack(sp, c);

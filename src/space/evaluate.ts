@@ -1,4 +1,5 @@
 /** Point evaluation and nodal values of finite element functions given in hierarchical coordinates. */
+import { checkNumber, checkNumberArray } from '../validation/index';
 import { InvalidArgumentError, describeValue } from '../errors';
 import type { SpatialDomain } from './domain';
 import { hierarchicalToNodal } from './hierarchical';
@@ -62,7 +63,9 @@ export function evaluateAt(
   opts: { outside?: number } = {},
 ): Float64Array {
   const d = domain.dim;
-  if (points === null || typeof points !== 'object' || points.length % d !== 0) {
+  checkNumberArray(points, 'points', { finite: false });
+  if (opts.outside !== undefined && typeof opts.outside !== 'number') checkNumber(opts.outside, 'opts.outside');
+  if (points.length % d !== 0) {
     throw new InvalidArgumentError(`points must be a flat array of ${d === 1 ? 'x' : 'x, y'} values`, {
       field: 'points',
       expected: `length divisible by ${d}`,

@@ -3,6 +3,20 @@ import { InvalidArgumentError, describeValue } from '../errors';
 import type { DomainOptions } from './domain-options';
 import { SpatialDomain } from './domain';
 import { buildIntervalMesh, buildTriangulation } from './initial-mesh';
+import { BYTES_PER_INPUT_CELL, BYTES_PER_INPUT_TRIANGLE, checkMemory, checkOptions } from '../validation/index';
+
+/** Keys of {@link DomainOptions}; the Record type makes a new option a compile error until listed here. */
+const DOMAIN_KEYS: Record<keyof Required<DomainOptions>, true> = { kappa: true, reaction: true, insulated: true };
+
+/** Unknown keys are refused with the nearest valid name; undefined gives the defaults. */
+function domainOptions(opts: unknown): DomainOptions {
+  return checkOptions<DomainOptions>(opts, 'opts', DOMAIN_KEYS);
+}
+
+/** Refuses a generated mesh of `triangles` triangles whose construction would exceed the memory budget. */
+function checkTriangles(triangles: number, what: string, field: string): void {
+  checkMemory(triangles * BYTES_PER_INPUT_TRIANGLE, `${what} (${triangles} triangles)`, field, 'use fewer initial cells and refine adaptively instead');
+}
 
 /**
  * The interval [a, b] split into `cells` equal initial cells (d = 1).
@@ -15,7 +29,9 @@ import { buildIntervalMesh, buildTriangulation } from './initial-mesh';
  * ```
  */
 export function intervalDomain(a: number, b: number, cells: number, opts?: DomainOptions): SpatialDomain {
-  return new SpatialDomain(buildIntervalMesh(a, b, cells, opts));
+  const o = domainOptions(opts);
+  if (typeof cells === 'number' && cells > 0) checkMemory(cells * BYTES_PER_INPUT_CELL, `the interval mesh of ${cells} cells`, 'cells', 'use fewer initial cells and refine adaptively instead');
+  return new SpatialDomain(buildIntervalMesh(a, b, cells, o));
 }
 
 /**
@@ -40,7 +56,10 @@ export function triangulatedDomain(
   triangles: ArrayLike<number> | number[][],
   opts?: DomainOptions,
 ): SpatialDomain {
-  return new SpatialDomain(buildTriangulation(points, triangles, opts));
+  const o = domainOptions(opts);
+  const n = triangles !== null && typeof triangles === 'object' && typeof triangles.length === 'number' ? triangles.length : 0;
+  checkTriangles(Array.isArray((triangles as unknown[])[0]) ? n : n / 3, 'the triangulation', 'triangles');
+  return new SpatialDomain(buildTriangulation(points, triangles, o));
 }
 
 function checkCount(v: number, field: string): void {
@@ -111,6 +130,8 @@ export function rectangleDomain(x0: number, x1: number, y0: number, y1: number, 
   }
   checkCount(nx, 'nx');
   checkCount(ny, 'ny');
+  domainOptions(opts);
+  checkTriangles(2 * nx * ny, `the ${nx} × ${ny} rectangle grid`, nx >= ny ? 'nx' : 'ny');
   const g = gridTriangulation(x0, x1, y0, y1, nx, ny, () => true);
   return triangulatedDomain(g.points, g.triangles, opts);
 }
@@ -127,6 +148,8 @@ export function rectangleDomain(x0: number, x1: number, y0: number, y1: number, 
  */
 export function lShapeDomain(n = 1, opts?: DomainOptions): SpatialDomain {
   checkCount(n, 'n');
+  domainOptions(opts);
+  checkTriangles(6 * n * n, `the L-shape of ${3 * n * n} squares`, 'n');
   const g = gridTriangulation(-1, 1, -1, 1, 2 * n, 2 * n, (i, j) => !(i >= n && j < n));
   return triangulatedDomain(g.points, g.triangles, opts);
 }
@@ -143,6 +166,8 @@ export function lShapeDomain(n = 1, opts?: DomainOptions): SpatialDomain {
  */
 export function squareWithHoleDomain(n = 1, opts?: DomainOptions): SpatialDomain {
   checkCount(n, 'n');
+  domainOptions(opts);
+  checkTriangles(16 * n * n, `the square with a hole of ${8 * n * n} squares`, 'n');
   const m = 3 * n;
   const g = gridTriangulation(-1, 1, -1, 1, m, m, (i, j) => !(i >= n && i < 2 * n && j >= n && j < 2 * n));
   return triangulatedDomain(g.points, g.triangles, opts);

@@ -28,6 +28,14 @@ export interface InitialMesh {
   readonly reoriented: number;
 }
 
+/** An entry of a user array must be a number: numeric strings, null or booleans are refused, not converted. */
+function numberEntry(v: unknown, field: string): number {
+  if (typeof v !== 'number') {
+    throw new InvalidMeshError(`${field} must be a number, received ${describeValue(v)}`, { field, expected: 'a number', received: describeValue(v) });
+  }
+  return v;
+}
+
 function flatten(input: ArrayLike<number> | number[][], width: number, field: string): Float64Array {
   if (input === null || typeof input !== 'object' || typeof (input as ArrayLike<unknown>).length !== 'number') {
     throw new InvalidMeshError(`${field} must be an array of numbers or of ${width}-tuples, received ${describeValue(input)}`, {
@@ -49,7 +57,7 @@ function flatten(input: ArrayLike<number> | number[][], width: number, field: st
           received: describeValue(r),
         });
       }
-      for (let k = 0; k < width; k++) out[i * width + k] = r[k] as number;
+      for (let k = 0; k < width; k++) out[i * width + k] = numberEntry(r[k], `${field}[${i}][${k}]`);
     }
     return out;
   }
@@ -61,7 +69,7 @@ function flatten(input: ArrayLike<number> | number[][], width: number, field: st
     });
   }
   const out = new Float64Array(n);
-  for (let i = 0; i < n; i++) out[i] = Number((input as ArrayLike<number>)[i]);
+  for (let i = 0; i < n; i++) out[i] = numberEntry((input as ArrayLike<unknown>)[i], `${field}[${i}]`);
   return out;
 }
 
@@ -78,8 +86,26 @@ export function sampleCoefficient(
   const expected = strict ? 'a finite number > 0' : 'a finite number ≥ 0';
   if (value === undefined) out.fill(fallback);
   else if (typeof value === 'number') out.fill(value);
+  else if (typeof value !== 'function' && (value === null || typeof value !== 'object')) {
+    throw new InvalidMeshError(`${field} must be a number, an array with one value per initial element, or a function (x, y) => number; received ${describeValue(value)}`, {
+      field,
+      expected: 'number | number[] | (x, y) => number',
+      received: describeValue(value),
+    });
+  }
   else if (typeof value === 'function') {
-    for (let e = 0; e < ne; e++) out[e] = value(centroids[2 * e]!, centroids[2 * e + 1]!);
+    for (let e = 0; e < ne; e++) {
+      const x = centroids[2 * e]!, y = centroids[2 * e + 1]!;
+      const v: unknown = value(x, y);
+      if (typeof v !== 'number' || !Number.isFinite(v) || (strict ? v <= 0 : v < 0)) {
+        throw new InvalidMeshError(`${field}(${x}, ${y}) at the centroid of initial element ${e} returned ${describeValue(v)}; expected ${expected}`, {
+          field: `${field}[${e}]`,
+          expected,
+          received: describeValue(v),
+        });
+      }
+      out[e] = v;
+    }
   } else {
     if (typeof value !== 'object' || value.length !== ne) {
       throw new InvalidMeshError(`${field} must have one value per initial element (${ne}), received ${describeValue(value)}`, {
@@ -88,7 +114,7 @@ export function sampleCoefficient(
         received: describeValue(value),
       });
     }
-    for (let e = 0; e < ne; e++) out[e] = value[e]!;
+    for (let e = 0; e < ne; e++) out[e] = numberEntry(value[e], `${field}[${e}]`);
   }
   for (let e = 0; e < ne; e++) {
     const v = out[e]!;
@@ -176,6 +202,9 @@ export function buildIntervalMesh(a: number, b: number, cells: number, opts: Dom
   return { dim: 1, coords, elements, neighbors: new Int32Array(0), vertexFree, kappa, reaction, reoriented: 0 };
 }
 
+/** Edge bookkeeping uses Maps, which hold at most 2^24 entries; ~1.5 edges per triangle. */
+const MAX_INPUT_TRIANGLES = 10_000_000;
+
 const edgeKey = (i: number, j: number, n: number): number => (i < j ? i * n + j : j * n + i);
 
 /**
@@ -193,6 +222,13 @@ export function buildTriangulation(
   const ne = triF.length / 3;
   if (nv < 3) throw new InvalidMeshError(`points must hold at least 3 points, received ${nv}`, { field: 'points', expected: '≥ 3 points', received: nv });
   if (ne < 1) throw new InvalidMeshError('triangles must hold at least one triangle', { field: 'triangles', expected: '≥ 1 triangle', received: 0 });
+  if (ne > MAX_INPUT_TRIANGLES) {
+    throw new InvalidMeshError(`triangles holds ${ne} triangles; an initial mesh may have at most ${MAX_INPUT_TRIANGLES} (refine adaptively instead)`, {
+      field: 'triangles',
+      expected: `at most ${MAX_INPUT_TRIANGLES} triangles`,
+      received: ne,
+    });
+  }
   for (let i = 0; i < nv; i++) {
     for (let k = 0; k < 2; k++) {
       const c = coords[2 * i + k]!;

@@ -12,7 +12,8 @@
  */
 import { InvalidArgumentError, InvalidIndexSetError } from '../errors';
 import { TemporalTree, nodeParents, type TemporalBasisKind } from '../time/index';
-import type { SpatialDomain } from '../space/index';
+import { SpatialDomain } from '../space/index';
+import { checkInstance, checkNumber, checkNumberArray, checkObject, checkOptions } from '../validation/index';
 import { FibrePool, isSortedSubset, unionSorted } from './fibre-pool';
 
 
@@ -91,9 +92,10 @@ export class DoubleTree {
    * sparse grid, and {@link DoubleTree.fullGrid} the full grid.
    */
   static sparseGrid(domain: SpatialDomain, L: number, pool: FibrePool = new FibrePool(), maxUnknowns = DEFAULT_MAX_UNKNOWNS): DoubleTree {
+    checkDomain(domain);
     checkLevel(L, 'L');
-    let estimate = 0;
-    for (let l = 0; l <= L; l++) estimate += temporalCount(l) * spatialEstimate(domain, L - l);
+    checkNumber(maxUnknowns, 'maxUnknowns', { min: 1 });
+    const estimate = sparseGridUnknownEstimate(domain, L);
     checkSize(estimate, maxUnknowns, `sparse grid of level ${L}`);
     const tree = TemporalTree.full('trial', L);
     const byLevel: Int32Array[] = [];
@@ -104,8 +106,10 @@ export class DoubleTree {
 
   /** All pairs with |λ| ≤ Lt and ℓ_x(ν) ≤ Lx (tensor-product full grid). */
   static fullGrid(domain: SpatialDomain, Lt: number, Lx: number = Lt, pool: FibrePool = new FibrePool(), maxUnknowns = DEFAULT_MAX_UNKNOWNS): DoubleTree {
+    checkDomain(domain);
     checkLevel(Lt, 'Lt');
     checkLevel(Lx, 'Lx');
+    checkNumber(maxUnknowns, 'maxUnknowns', { min: 1 });
     checkSize(2 ** Lt * spatialEstimate(domain, Lx), maxUnknowns, `full grid of levels (${Lt}, ${Lx})`);
     const tree = TemporalTree.full('trial', Lt);
     const set = domain.uniformSet(Lx);
@@ -123,7 +127,13 @@ export class DoubleTree {
     pairs: { levels: ArrayLike<number>; indices: ArrayLike<number>; vertices: ArrayLike<number> },
     opts: { close?: boolean; pool?: FibrePool } = {},
   ): DoubleTree {
+    checkDomain(domain);
+    checkObject(pairs, 'pairs', 'an object { levels, indices, vertices } of equal-length arrays');
     const { levels, indices, vertices } = pairs;
+    checkNumberArray(levels, 'pairs.levels');
+    checkNumberArray(indices, 'pairs.indices');
+    checkNumberArray(vertices, 'pairs.vertices');
+    checkOptions(opts, 'opts', ['close', 'pool']);
     const n = levels.length;
     if (indices.length !== n || vertices.length !== n) {
       throw new InvalidArgumentError(`pairs.levels, pairs.indices and pairs.vertices must have equal lengths (got ${n}, ${indices.length}, ${vertices.length})`, { field: 'pairs' });
@@ -169,6 +179,15 @@ export class DoubleTree {
     sets: Int32Array[],
     opts: { close?: boolean; pool?: FibrePool } = {},
   ): DoubleTree {
+    checkDomain(domain);
+    checkNumberArray(levels, 'levels');
+    checkNumberArray(indices, 'indices');
+    if (!Array.isArray(sets)) checkObject(sets, 'sets', 'an array of Int32Array vertex sets');
+    if (sets.length !== levels.length || indices.length !== levels.length) {
+      throw new InvalidArgumentError(`levels, indices and sets must have equal lengths (got ${levels.length}, ${indices.length}, ${sets.length})`, { field: 'sets', expected: `length ${levels.length}`, received: sets.length });
+    }
+    sets.forEach((s, i) => checkInstance(s, Int32Array, `sets[${i}]`, 'an Int32Array of free vertex ids'));
+    checkOptions(opts, 'opts', ['close', 'pool']);
     const close = opts.close ?? false;
     const pool = opts.pool ?? new FibrePool();
     // Temporal projection (validated by TemporalTree: levels/indices in range; closed unless `close`).
@@ -243,6 +262,13 @@ export class DoubleTree {
 /** Uniform grids larger than this are refused unless a larger `maxUnknowns` is passed (memory guard). */
 const DEFAULT_MAX_UNKNOWNS = 5e7;
 
+/** About how many unknowns the sparse grid of level L on `domain` has (memory estimates before building it). */
+export function sparseGridUnknownEstimate(domain: SpatialDomain, L: number): number {
+  let estimate = 0;
+  for (let l = 0; l <= L; l++) estimate += temporalCount(l) * spatialEstimate(domain, L - l);
+  return estimate;
+}
+
 function temporalCount(level: number): number {
   return level === 0 ? 2 : 2 ** (level - 1);
 }
@@ -259,6 +285,10 @@ function checkSize(estimate: number, maxUnknowns: number, what: string): void {
       { field: 'maxUnknowns', expected: `≥ ${estimate.toExponential(1)}`, received: maxUnknowns },
     );
   }
+}
+
+function checkDomain(domain: unknown): void {
+  checkInstance(domain, SpatialDomain, 'domain', 'a SpatialDomain (from intervalDomain, rectangleDomain, …)');
 }
 
 function checkLevel(L: number, field: string): void {

@@ -3,7 +3,7 @@
  * behind the `spacetime.` benchmark rows, for users who want to know what one
  * application of S, B or K_X costs on their machine before sizing a run.
  */
-import { InvalidArgumentError } from '../errors';
+import { BYTES_PER_SYSTEM_UNKNOWN, checkBoolean, checkInteger, checkMemory, checkNumber, checkObject, checkOneOf, checkOptions } from '../validation/index';
 import { intervalDomain, rectangleDomain } from '../space/index';
 import { DoubleTree } from '../spacetime/double-tree';
 import { HeatProblem } from './heat-problem';
@@ -24,6 +24,10 @@ export interface OperatorCostOptions {
   measurePcg?: boolean;
   pcgTolerance?: number;
 }
+
+const COST_KEYS: Record<keyof Required<OperatorCostOptions>, true> = {
+  dim: true, level: true, grid: true, repetitions: true, measurePcg: true, pcgTolerance: true,
+};
 
 /** Result of {@link measureOperatorCost}; times are medians in nanoseconds per unknown of Λ. */
 export interface OperatorCost {
@@ -48,14 +52,22 @@ export interface OperatorCost {
  * ```
  */
 export function measureOperatorCost(opts: OperatorCostOptions): OperatorCost {
-  const { dim, level } = opts;
-  if (dim !== 1 && dim !== 2) throw new InvalidArgumentError(`dim = ${String(dim)} must be 1 or 2`, { field: 'dim', expected: '1 | 2', received: dim });
-  if (!Number.isInteger(level) || level < 0 || level > 30) {
-    throw new InvalidArgumentError(`level = ${level} must be an integer in [0, 30]`, { field: 'level', expected: 'integer in [0, 30]', received: level });
-  }
-  const reps = opts.repetitions ?? 5;
+  const o = checkObject(opts, 'opts', 'an options object { dim, level, … }') as Partial<OperatorCostOptions>;
+  checkOptions<OperatorCostOptions>(o, 'opts', COST_KEYS);
+  const dim = checkOneOf(o.dim, 'opts.dim', [1, 2] as const);
+  const level = checkInteger(o.level, 'opts.level', 0, 30);
+  const grid = o.grid === undefined ? 'sparse' : checkOneOf(o.grid, 'opts.grid', ['sparse', 'full'] as const);
+  const reps = o.repetitions === undefined ? 5 : checkInteger(o.repetitions, 'opts.repetitions', 1, 1000);
+  if (o.measurePcg !== undefined) checkBoolean(o.measurePcg, 'opts.measurePcg');
+  if (o.pcgTolerance !== undefined) checkNumber(o.pcgTolerance, 'opts.pcgTolerance', { min: 0, max: 1, minOpen: true, maxOpen: true });
+  // Benchmark domains: 3 initial vertices (1D) or 9 (2D); sizes as in DoubleTree.sparseGrid.
+  const nv0 = dim === 1 ? 3 : 9;
+  let unknowns = 0;
+  if (grid === 'full') unknowns = 2 ** level * nv0 * 2 ** (dim * level);
+  else for (let l = 0; l <= level; l++) unknowns += (l === 0 ? 2 : 2 ** (l - 1)) * nv0 * 2 ** (dim * (level - l));
+  checkMemory(unknowns * BYTES_PER_SYSTEM_UNKNOWN, `the ${grid} grid of level ${level} in ${dim}D (about ${unknowns.toExponential(1)} unknowns)`, 'opts.level', 'choose a lower level');
   const t0 = performance.now();
-  const system = benchmarkSystem(dim, level, opts.grid ?? 'sparse');
+  const system = benchmarkSystem(dim, level, grid);
   const setupMs = performance.now() - t0;
   const n = system.size;
   const x = new Float64Array(n).map((_, i) => Math.sin(0.37 * i + 0.1));
@@ -68,8 +80,8 @@ export function measureOperatorCost(opts: OperatorCostOptions): OperatorCost {
     setupMs,
     nsPerUnknown: { schur: time(system.S, y), B: time(system.B, yY), precond: time(system.KX, y) },
   };
-  if (opts.measurePcg) {
-    const r = system.solve({ relTol: opts.pcgTolerance ?? 1e-6, maxIterations: 1000 });
+  if (o.measurePcg) {
+    const r = system.solve({ relTol: o.pcgTolerance ?? 1e-6, maxIterations: 1000 });
     result.pcgIterations = r.pcg.iterations;
   }
   return result;

@@ -60,8 +60,8 @@ describe('coefficient and boundary validation', () => {
   it('non-positive κ, negative c, non-finite values, wrong lengths', () => {
     expectError(() => rectangleDomain(0, 1, 0, 1, 1, 1, { kappa: [1, 0] }), InvalidMeshError, /kappa on initial element 1 must be a finite number > 0, received 0/, 'kappa[1]');
     expectError(() => rectangleDomain(0, 1, 0, 1, 1, 1, { kappa: -2 }), InvalidMeshError, /kappa on initial element 0 must be a finite number > 0, received -2/);
-    expectError(() => rectangleDomain(0, 1, 0, 1, 1, 1, { reaction: (x) => x - 0.5 }), InvalidMeshError, /reaction on initial element 1 must be a finite number ≥ 0, received -/);
-    expectError(() => rectangleDomain(0, 1, 0, 1, 1, 1, { kappa: () => NaN }), InvalidMeshError, /kappa on initial element 0 must be a finite number > 0, received NaN/);
+    expectError(() => rectangleDomain(0, 1, 0, 1, 1, 1, { reaction: (x) => x - 0.5 }), InvalidMeshError, /reaction\(0\.33+, 0\.66+\) at the centroid of initial element 1 returned -0\.16+.*; expected a finite number ≥ 0/);
+    expectError(() => rectangleDomain(0, 1, 0, 1, 1, 1, { kappa: () => NaN }), InvalidMeshError, /kappa\([0-9.]+, [0-9.]+\) at the centroid of initial element 0 returned NaN; expected a finite number > 0/);
     expectError(() => intervalDomain(0, 1, 2, { reaction: [Infinity, 1] }), InvalidMeshError, /reaction on initial element 0 must be a finite number ≥ 0, received Infinity/);
     expectError(() => rectangleDomain(0, 1, 0, 1, 1, 1, { kappa: [1, 2, 3] }), InvalidMeshError, /kappa must have one value per initial element \(2\)/);
   });

@@ -20,6 +20,6 @@ describe('measureOperatorCost', () => {
   });
   it('rejects bad dimensions and levels', () => {
     expect(() => measureOperatorCost({ dim: 3 as never, level: 2 })).toThrow(InvalidArgumentError);
-    expect(() => measureOperatorCost({ dim: 1, level: -1 })).toThrow(/level = -1 must be an integer/);
+    expect(() => measureOperatorCost({ dim: 1, level: -1 })).toThrow(/opts\.level must be an integer in \[0, 30\], received -1/);
   });
 });

@@ -1,0 +1,30 @@
+/**
+ * Validation of the options of {@link solveAdaptive} (before any work): numbers in range,
+ * integers where counts are meant, callbacks that are functions, a starting set from the
+ * problem's own domain, and no unknown keys (a misspelt key is answered with the nearest name).
+ */
+import { checkFunction, checkInteger, checkNumber, checkOptions } from '../validation/index';
+import { checkSetOnDomain } from '../spacetime/set-checks';
+import type { HeatProblem } from '../system/heat-problem';
+import { validateInnerSolver } from '../system/system-options';
+import type { AdaptiveOptions } from './adaptive-solver';
+
+const ADAPTIVE_KEYS: Record<keyof Required<AdaptiveOptions>, true> = {
+  theta: true, tolerance: true, maxUnknowns: true, maxSteps: true, maxSeconds: true,
+  initialSet: true, solverFraction: true, inner: true, onStep: true,
+};
+
+/** Checks `solveAdaptive(problem, opts)`'s options; `undefined` gives `{}`. */
+export function validateAdaptiveOptions(opts: unknown, problem: HeatProblem, field = 'opts'): AdaptiveOptions {
+  const o = checkOptions<AdaptiveOptions>(opts, field, ADAPTIVE_KEYS);
+  if (o.theta !== undefined) checkNumber(o.theta, `${field}.theta`, { min: 0, max: 1, minOpen: true, maxOpen: true });
+  if (o.tolerance !== undefined) checkNumber(o.tolerance, `${field}.tolerance`, { min: 0 });
+  if (o.maxUnknowns !== undefined) checkInteger(o.maxUnknowns, `${field}.maxUnknowns`, 1, 2 ** 31 - 1);
+  if (o.maxSteps !== undefined) checkInteger(o.maxSteps, `${field}.maxSteps`, 1, 1e6);
+  if (o.maxSeconds !== undefined) checkNumber(o.maxSeconds, `${field}.maxSeconds`, { min: 0, minOpen: true, allowInfinity: true });
+  if (o.solverFraction !== undefined) checkNumber(o.solverFraction, `${field}.solverFraction`, { min: 0, max: 1, minOpen: true });
+  if (o.inner !== undefined) validateInnerSolver(o.inner, `${field}.inner`);
+  if (o.onStep !== undefined) checkFunction(o.onStep, `${field}.onStep`, 'a function (step, solution) => boolean | void');
+  if (o.initialSet !== undefined) checkSetOnDomain(o.initialSet, problem.domain, `${field}.initialSet`);
+  return o;
+}
