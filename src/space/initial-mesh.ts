@@ -7,6 +7,7 @@
  */
 import { InvalidArgumentError, InvalidMeshError, describeValue } from '../errors';
 import type { Coefficient, DomainOptions } from './domain-options';
+import { checkNoOverlap } from './mesh-overlap';
 
 /** Neighbour code of a Dirichlet boundary edge. */
 export const DIRICHLET_EDGE = -1;
@@ -399,6 +400,7 @@ export function buildTriangulation(
       received: `${ne - tail} unreachable triangles`,
     });
   }
+  checkNoOverlap(coords, elements, neighbors);
   // Boundary kinds.
   const ins = opts.insulated;
   if (typeof ins === 'function') {
