@@ -118,6 +118,24 @@ export class ResourceLimitError extends ChronomeshError {
   }
 }
 
+/**
+ * A long run was cancelled (its `AbortSignal` fired) or ran out of its time budget before it had
+ * any result to return. `field` names the option that stopped it (`signal` or `maxSeconds`).
+ *
+ * @example
+ * ```ts
+ * import { HeatProblem, RunInterruptedError, intervalDomain, solveAdaptive } from 'chronomesh';
+ * const problem = new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 1, initial: () => 1 });
+ * try { solveAdaptive(problem, { signal: AbortSignal.abort() }); }
+ * catch (e) { console.log(e instanceof RunInterruptedError, (e as RunInterruptedError).field); } // true 'signal'
+ * ```
+ */
+export class RunInterruptedError extends ChronomeshError {
+  constructor(message: string, details: ErrorDetails = {}) {
+    super('interrupted', message, details);
+  }
+}
+
 /** Formats a value for an error message without dumping large arrays. */
 export function describeValue(v: unknown): string {
   if (typeof v === 'number') return Number.isNaN(v) ? 'NaN' : String(v);

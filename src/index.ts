@@ -9,6 +9,7 @@ export {
   InvalidArgumentError,
   InvalidIndexSetError,
   InvalidMeshError,
+  RunInterruptedError,
   SolverBreakdownError,
   ResourceLimitError,
   type ErrorDetails,

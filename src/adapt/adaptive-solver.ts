@@ -1,17 +1,25 @@
 /**
- * The adaptive loop SOLVE → ESTIMATE → MARK → REFINE (DESIGN.md §7), with
- * nested iteration: each PCG starts from the previous solution (zero on new
- * indices) and stops once its algebraic error estimate is a fraction of the
- * current estimator.
+ * The adaptive loop SOLVE → ESTIMATE → MARK → REFINE (docs/adaptivity.md), with nested iteration
+ * and state kept across steps:
+ *   - one pair of spatial caches (operator plans with their leaf meshes, V-cycle hierarchies) for
+ *     the run's fibre pool, shared by Λ, Λ̲ and their test sets step after step; entries not used
+ *     in the last step are released;
+ *   - each PCG starts from the previous solution (zero on new indices) and stops on an estimate of
+ *     its algebraic error in the S-energy norm, compared with a fraction of the estimator E; when the
+ *     fresh E shows the solve was not accurate enough, PCG resumes before E is reported, so no step
+ *     reports an estimator for an unsolved system;
+ *   - the estimator costs one application of B, K_Y and Bᵀ on Λ̲ (no preconditioner on Λ̲).
  */
-import { InvalidArgumentError } from '../errors';
+import { InvalidArgumentError, RunInterruptedError, SolverBreakdownError } from '../errors';
 import { DoubleTree } from '../spacetime/double-tree';
+import { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import { SpaceTimeSolution } from '../output/space-time-solution';
 import type { HeatProblem } from '../system/heat-problem';
-import type { InnerSolver } from '../system/fibre-inverse';
-import { SpaceTimeSystem } from '../system/space-time-system';
+import { FibreInverseCache, type InnerSolver } from '../system/fibre-inverse';
+import { SpaceTimeSystem, type SpatialCaches } from '../system/space-time-system';
+import type { PcgResult } from '../system/pcg';
 import { dorflerMark } from './dorfler';
-import { enlargeDoubleTree } from './enlargement';
+import { enlargeDoubleTree, type EnlargementOptions } from './enlargement';
 import { embeddingMap, prolongCoefficients } from './embedding';
 import { residualIndicators } from './estimator';
 import { refineDoubleTree } from './refine';
@@ -23,13 +31,35 @@ export interface AdaptiveStep {
   unknowns: number;
   /** Estimator E of this step's solution. */
   estimate: number;
+  /** PCG iterations of this step (all resumptions included). */
   pcgIterations: number;
-  /** Deepest temporal level and spatial generation in Λ. */
+  /** Estimated S-energy norm of the algebraic error of the solution (≤ `solverFraction`·E). */
+  algebraicError: number;
+  /** Deepest temporal level in Λ. */
   maxTimeLevel: number;
+  /** Deepest spatial vertex generation in Λ. */
+  maxSpaceGeneration: number;
+  /** Number of distinct spatial vertices used by Λ (the union of its fibres). */
+  spatialVertices: number;
+  /** #Λ̲, the size of the enlarged set the estimator worked on. */
+  enlargedUnknowns: number;
   /** Number of pairs marked for refinement (0 in the last step). */
   marked: number;
-  /** Wall time of this step (solve + estimate + refine), seconds. */
+  /** Wall time of this step (setup + solve + estimate + refine), seconds. */
   seconds: number;
+  /** The same wall time split into its phases, seconds. */
+  timings: { setup: number; solve: number; estimate: number; refine: number };
+}
+
+/** Progress of a running adaptive solve, passed to {@link AdaptiveOptions.onProgress}. */
+export interface AdaptiveProgress {
+  step: number;
+  phase: 'setup' | 'solve' | 'estimate' | 'refine';
+  unknowns: number;
+  /** PCG iteration within the step (solve phase only; 0 otherwise). */
+  iteration: number;
+  /** Seconds since the run started. */
+  elapsed: number;
 }
 
 /** Options of {@link solveAdaptive}. */
@@ -42,16 +72,27 @@ export interface AdaptiveOptions {
   maxUnknowns?: number;
   /** Maximum number of steps (default 40). */
   maxSteps?: number;
-  /** Wall-time budget in seconds (default ∞). */
+  /** Wall-time budget in seconds (default ∞); also checked inside PCG. */
   maxSeconds?: number;
-  /** Starting index set (default: the sparse grid of level 1). */
+  /** Starting index set (default: the sparse grid of level 1, or a finer one if that is empty). */
   initialSet?: DoubleTree;
-  /** PCG stops when its algebraic error estimate is this fraction of E (default 0.1). */
+  /** PCG runs until its estimated S-energy error is at most this fraction of E (default 0.1). */
   solverFraction?: number;
   /** Spatial inner solver for K_Y, K_X. */
   inner?: InnerSolver;
-  /** Called after every step; return `false` to stop. */
+  /** How the candidate set Λ̲ is built (default: h halves in the spatial candidates). */
+  enlargement?: EnlargementOptions;
+  /** Called after every step; return `false` to stop (stop reason `'callback'`). */
   onStep?: (step: AdaptiveStep, solution: SpaceTimeSolution) => boolean | void;
+  /** Called at every phase change and PCG iteration (progress bars, logs). Keep it cheap. */
+  onProgress?: (progress: AdaptiveProgress) => void;
+  /**
+   * Cancels the run: checked at every phase and PCG iteration. The run then returns the last
+   * completed step's result with stop reason `'aborted'` (the step in progress is discarded, never
+   * half-applied). The loop is synchronous, so abort from a callback (`onProgress`, `onStep`) or use
+   * {@link solveAdaptiveAsync}, which lets timers and other events run between steps.
+   */
+  signal?: AbortSignal;
 }
 
 /** Result of {@link solveAdaptive}. */
@@ -59,78 +100,263 @@ export interface AdaptiveResult {
   solution: SpaceTimeSolution;
   set: DoubleTree;
   history: AdaptiveStep[];
-  /** Why the loop stopped. */
-  stopReason: 'tolerance' | 'unknowns' | 'steps' | 'time' | 'callback';
+  /**
+   * Why the loop stopped: `'tolerance'` (E ≤ tolerance), `'unknowns'` (the next set would exceed
+   * maxUnknowns), `'steps'` (maxSteps), `'time'` (maxSeconds; the step in progress is discarded),
+   * `'callback'` (onStep returned false) or `'aborted'` (the signal fired; the step in progress is
+   * discarded).
+   */
+  stopReason: 'tolerance' | 'unknowns' | 'steps' | 'time' | 'callback' | 'aborted';
+}
+
+class Interrupted {
+  constructor(readonly reason: 'aborted' | 'time') {}
+}
+
+interface Validated {
+  theta: number;
+  tol: number;
+  maxUnknowns: number;
+  maxSteps: number;
+  maxSeconds: number;
+  fraction: number;
+}
+
+function validate(opts: AdaptiveOptions): Validated {
+  if (opts === null || typeof opts !== 'object') throw new InvalidArgumentError('options must be an object', { field: 'options', received: String(opts) });
+  const theta = opts.theta ?? 0.5;
+  if (typeof theta !== 'number' || !(theta > 0 && theta < 1)) throw new InvalidArgumentError(`theta = ${String(theta)} must be a number in (0, 1)`, { field: 'theta', expected: '(0, 1)', received: String(theta) });
+  const tol = opts.tolerance ?? 0;
+  const maxUnknowns = opts.maxUnknowns ?? 2e5;
+  const maxSteps = opts.maxSteps ?? 40;
+  const maxSeconds = opts.maxSeconds ?? Infinity;
+  const fraction = opts.solverFraction ?? 0.1;
+  for (const [name, v] of [['tolerance', tol], ['maxUnknowns', maxUnknowns], ['maxSeconds', maxSeconds]] as const) {
+    if (typeof v !== 'number' || !(v >= 0)) throw new InvalidArgumentError(`${name} = ${String(v)} must be a number ≥ 0`, { field: name, expected: 'number ≥ 0', received: String(v) });
+  }
+  if (typeof maxSteps !== 'number' || !Number.isInteger(maxSteps) || maxSteps < 1) throw new InvalidArgumentError(`maxSteps = ${String(maxSteps)} must be an integer ≥ 1`, { field: 'maxSteps', expected: 'integer ≥ 1', received: String(maxSteps) });
+  if (typeof fraction !== 'number' || !(fraction > 0 && fraction <= 1)) throw new InvalidArgumentError(`solverFraction = ${String(fraction)} must be a number in (0, 1]`, { field: 'solverFraction', expected: '(0, 1]', received: String(fraction) });
+  for (const name of ['onStep', 'onProgress'] as const) {
+    if (opts[name] !== undefined && typeof opts[name] !== 'function') throw new InvalidArgumentError(`${name} must be a function`, { field: name, received: typeof opts[name] });
+  }
+  if (opts.initialSet !== undefined && !(opts.initialSet instanceof DoubleTree)) throw new InvalidArgumentError('initialSet must be a DoubleTree', { field: 'initialSet' });
+  return { theta, tol, maxUnknowns, maxSteps, maxSeconds, fraction };
+}
+
+/** The smallest sparse grid with at least one unknown (level 1 unless the mesh is very coarse). */
+function defaultInitialSet(problem: HeatProblem): DoubleTree {
+  for (let L = 1; ; L++) {
+    const set = DoubleTree.sparseGrid(problem.domain, L);
+    if (set.size > 0 || L >= 8) return set;
+  }
+}
+
+function spatialStats(set: DoubleTree, domain: HeatProblem['domain']): { vertices: number; maxGeneration: number } {
+  const seen = new Set<number>();
+  let maxGeneration = 0;
+  for (const f of set.pool.fibres.length > 0 ? uniqueFibres(set) : []) {
+    for (let p = 0; p < f.length; p++) {
+      const v = f[p]!;
+      if (!seen.has(v)) {
+        seen.add(v);
+        const g = domain.generation(v);
+        if (g > maxGeneration) maxGeneration = g;
+      }
+    }
+  }
+  return { vertices: seen.size, maxGeneration };
+}
+
+function uniqueFibres(set: DoubleTree): Int32Array[] {
+  const ids = new Set<number>();
+  for (let i = 0; i < set.tree.size; i++) ids.add(set.nodeFibre[i]!);
+  return [...ids].map((id) => set.pool.get(id));
 }
 
 /**
- * Solves `problem` adaptively.
+ * One adaptive run, advanced step by step (what {@link solveAdaptive} and {@link solveAdaptiveAsync} drive).
+ * @internal
+ */
+class AdaptiveRun {
+  private readonly v: Validated;
+  private readonly caches: SpatialCaches;
+  private readonly start = performance.now();
+  private set: DoubleTree;
+  private u: Float64Array;
+  private lastEstimate = Infinity;
+  private stepNo = 0;
+  readonly history: AdaptiveStep[] = [];
+  private best: { solution: SpaceTimeSolution; set: DoubleTree } | null = null;
+  stopReason: AdaptiveResult['stopReason'] | null = null;
+
+  constructor(private readonly problem: HeatProblem, private readonly opts: AdaptiveOptions) {
+    this.v = validate(opts);
+    this.set = opts.initialSet ?? defaultInitialSet(problem);
+    if (this.set.size === 0) throw new InvalidArgumentError('the initial index set has no unknowns (the mesh has no free vertex at the sparse-grid levels tried)', { field: 'initialSet' });
+    const plans = new SpatialPlanCache(problem.domain, this.set.pool);
+    this.caches = { plans, inverses: new FibreInverseCache(problem.domain, this.set.pool, plans, opts.inner ?? { kind: 'multigrid' }) };
+    this.u = new Float64Array(this.set.size);
+  }
+
+  private elapsed(): number {
+    return (performance.now() - this.start) / 1000;
+  }
+
+  private checkpoint(phase: AdaptiveProgress['phase'], iteration = 0): void {
+    if (this.opts.signal?.aborted) throw new Interrupted('aborted');
+    if (this.elapsed() > this.v.maxSeconds) throw new Interrupted('time');
+    this.opts.onProgress?.({ step: this.stepNo, phase, unknowns: this.set.size, iteration, elapsed: this.elapsed() });
+  }
+
+  /** Performs one step; returns false once the run has stopped. */
+  advance(): boolean {
+    if (this.stopReason) return false;
+    try {
+      this.stepOnce();
+    } catch (e) {
+      if (!(e instanceof Interrupted)) throw e;
+      if (this.best === null) throw new RunInterruptedError(`the adaptive run was ${e.reason === 'aborted' ? 'aborted' : 'out of time (maxSeconds)'} before its first step completed: there is no result to return`, { field: e.reason === 'aborted' ? 'signal' : 'maxSeconds' });
+      this.stopReason = e.reason;
+    }
+    return this.stopReason === null;
+  }
+
+  result(): AdaptiveResult {
+    if (this.best === null || this.stopReason === null) throw new InvalidArgumentError('the run has not finished', { field: 'run' });
+    return { solution: this.best.solution, set: this.best.set, history: this.history, stopReason: this.stopReason };
+  }
+
+  private stepOnce(): void {
+    const { problem, v, caches } = this;
+    const domain = problem.domain;
+    const set = this.set;
+    const t0 = performance.now();
+    caches.plans.advanceEpoch(1);
+    caches.inverses.advanceEpoch(1);
+    this.checkpoint('setup');
+    const system = new SpaceTimeSystem(problem, set, { caches });
+    const b = system.rightHandSide();
+    const t1 = performance.now();
+    // SOLVE: nested iteration from the previous solution, stopped on the S-energy error estimate.
+    let iterations = 0;
+    let solved: PcgResult | null = null;
+    const solveTo = (energyTol: number): void => {
+      this.checkpoint('solve');
+      const r = system.solve({
+        rightHandSide: b,
+        initialGuess: solved ? solved.solution : this.u,
+        relTol: energyTol > 0 ? 1e-14 : 1e-6,
+        energyTol,
+        maxIterations: 500,
+        ...(this.opts.signal ? { signal: this.opts.signal } : {}),
+        onIteration: (p) => this.checkpoint('solve', iterations + p.iteration),
+      });
+      iterations += r.pcg.iterations;
+      if (r.pcg.stopReason === 'aborted') throw new Interrupted('aborted');
+      if (!r.pcg.converged) throw new SolverBreakdownError(`PCG did not reach the requested accuracy (S-energy error ${r.pcg.energyError.toExponential(2)} > ${energyTol.toExponential(2)}) in 500 iterations at step ${this.stepNo} (#Λ = ${set.size})`, { field: 'solverFraction' });
+      solved = r.pcg;
+    };
+    solveTo(Number.isFinite(this.lastEstimate) ? v.fraction * this.lastEstimate : 0);
+    let t2 = performance.now();
+    // ESTIMATE on the enlarged set Λ̲.
+    this.checkpoint('estimate');
+    const bigSet = enlargeDoubleTree(domain, set, this.opts.enlargement);
+    const bigSystem = new SpaceTimeSystem(problem, bigSet, { caches });
+    let ind = residualIndicators(bigSystem, set, solved!.solution);
+    let estimateSeconds = (performance.now() - t2) / 1000;
+    // The solve must be accurate relative to the E it is reported with; resume PCG otherwise.
+    for (let round = 0; round < 4 && !(solved!.energyError <= v.fraction * ind.estimate); round++) {
+      const ts = performance.now();
+      solveTo(v.fraction * ind.estimate);
+      t2 += performance.now() - ts;
+      const te = performance.now();
+      ind = residualIndicators(bigSystem, set, solved!.solution);
+      estimateSeconds += (performance.now() - te) / 1000;
+    }
+    const t3 = performance.now();
+    const uSolved = solved!.solution;
+    const solution = new SpaceTimeSolution(domain, set, uSolved, problem.T);
+    const stats = spatialStats(set, domain);
+    const record: AdaptiveStep = {
+      step: this.stepNo,
+      unknowns: set.size,
+      estimate: ind.estimate,
+      pcgIterations: iterations,
+      algebraicError: solved!.energyError,
+      maxTimeLevel: set.tree.maxLevel,
+      maxSpaceGeneration: stats.maxGeneration,
+      spatialVertices: stats.vertices,
+      enlargedUnknowns: bigSet.size,
+      marked: 0,
+      seconds: 0,
+      timings: { setup: (t1 - t0) / 1000, solve: (t2 - t1) / 1000, estimate: estimateSeconds, refine: 0 },
+    };
+    // MARK and REFINE (or stop).
+    let stop: AdaptiveResult['stopReason'] | null = null;
+    if (ind.estimate <= v.tol) stop = 'tolerance';
+    else if (this.stepNo + 1 >= v.maxSteps) stop = 'steps';
+    else if (this.elapsed() >= v.maxSeconds) stop = 'time';
+    let next: DoubleTree | null = null;
+    if (!stop) {
+      this.checkpoint('refine');
+      const marked = dorflerMark(ind.eta2, v.theta);
+      record.marked = marked.length;
+      next = refineDoubleTree(domain, set, bigSet, marked);
+      if (next.size > v.maxUnknowns) stop = 'unknowns';
+    }
+    const t4 = performance.now();
+    record.timings.refine = (t4 - t3) / 1000;
+    record.seconds = (t4 - t0) / 1000;
+    this.lastEstimate = ind.estimate;
+    this.history.push(record);
+    this.best = { solution, set };
+    if (this.opts.onStep && this.opts.onStep(record, solution) === false) stop = 'callback';
+    if (!stop && this.opts.signal?.aborted) stop = 'aborted';
+    this.stepNo++;
+    if (stop || !next) {
+      this.stopReason = stop ?? 'steps';
+      return;
+    }
+    // Prolong u to the refined set (it lies between Λ and Λ̲).
+    this.u = prolongCoefficients(embeddingMap(set, next), uSolved, next.size);
+    this.set = next;
+  }
+}
+
+/**
+ * Solves `problem` adaptively (SOLVE → ESTIMATE → MARK → REFINE) until a tolerance, budget or
+ * callback stops it; see {@link AdaptiveOptions} and {@link AdaptiveResult} for the stop reasons.
  *
  * @example
  * ```ts
  * import { HeatProblem, intervalDomain, solveAdaptive } from 'chronomesh';
  * const domain = intervalDomain(0, 1, 2);
  * const problem = new HeatProblem({ domain, T: 1, initial: () => 1 });
- * const { history, solution } = solveAdaptive(problem, { maxUnknowns: 2000 });
- * console.log(history.map((h) => [h.unknowns, h.estimate]), solution.evaluate(0.01, [0.5]));
+ * const { history, solution, stopReason } = solveAdaptive(problem, { maxUnknowns: 2000 });
+ * console.log(stopReason, history.map((h) => [h.unknowns, h.estimate]), solution.evaluate(0.01, [0.5]));
  * ```
  */
 export function solveAdaptive(problem: HeatProblem, opts: AdaptiveOptions = {}): AdaptiveResult {
-  const theta = opts.theta ?? 0.5;
-  if (!(theta > 0 && theta < 1)) throw new InvalidArgumentError(`theta = ${theta} must lie in (0, 1)`, { field: 'theta', expected: '(0, 1)', received: theta });
-  const tol = opts.tolerance ?? 0;
-  const maxUnknowns = opts.maxUnknowns ?? 2e5;
-  const maxSteps = opts.maxSteps ?? 40;
-  const maxSeconds = opts.maxSeconds ?? Infinity;
-  const fraction = opts.solverFraction ?? 0.1;
-  for (const [name, v] of [['tolerance', tol], ['maxUnknowns', maxUnknowns], ['maxSteps', maxSteps], ['solverFraction', fraction]] as const) {
-    if (!(v >= 0)) throw new InvalidArgumentError(`${name} = ${v} must be a number ≥ 0`, { field: name, received: v });
-  }
-  const domain = problem.domain;
-  let set = opts.initialSet ?? DoubleTree.sparseGrid(domain, 1);
-  const systemOpts = opts.inner ? { inner: opts.inner } : {};
-  let system = new SpaceTimeSystem(problem, set, systemOpts);
-  let b = system.rightHandSide();
-  let u: Float64Array = new Float64Array(set.size);
-  let lastEstimate = Infinity;
-  const history: AdaptiveStep[] = [];
-  const start = performance.now();
-  for (let step = 0; ; step++) {
-    const t0 = performance.now();
-    const absTol = Number.isFinite(lastEstimate) ? fraction * lastEstimate : 0;
-    const solved = system.solve({ rightHandSide: b, initialGuess: u, relTol: absTol > 0 ? 1e-12 : 1e-6, absTol, maxIterations: 500 });
-    u = solved.pcg.solution;
-    const solution = solved.solution;
-    // ESTIMATE on the enlarged set.
-    const bigSet = enlargeDoubleTree(domain, set);
-    const bigSystem = new SpaceTimeSystem(problem, bigSet, systemOpts);
-    const bigB = bigSystem.rightHandSide();
-    const ind = residualIndicators(bigSystem, set, u, bigB);
-    lastEstimate = ind.estimate;
-    const record: AdaptiveStep = {
-      step, unknowns: set.size, estimate: ind.estimate, pcgIterations: solved.pcg.iterations,
-      maxTimeLevel: set.tree.maxLevel, marked: 0, seconds: 0,
-    };
-    let stop: AdaptiveResult['stopReason'] | null = null;
-    if (ind.estimate <= tol) stop = 'tolerance';
-    else if (step + 1 >= maxSteps) stop = 'steps';
-    else if ((performance.now() - start) / 1000 >= maxSeconds) stop = 'time';
-    let next: DoubleTree | null = null;
-    if (!stop) {
-      // MARK and REFINE.
-      const marked = dorflerMark(ind.eta2, theta);
-      record.marked = marked.length;
-      next = refineDoubleTree(domain, set, bigSet, marked);
-      if (next.size > maxUnknowns) stop = 'unknowns';
-    }
-    record.seconds = (performance.now() - t0) / 1000;
-    history.push(record);
-    if (opts.onStep && opts.onStep(record, solution) === false) stop = 'callback';
-    if (stop || !next) return { solution, set, history, stopReason: stop ?? 'steps' };
-    // Prolong u to the refined set (it lies between Λ and Λ̲) and rebuild the system there.
-    u = prolongCoefficients(embeddingMap(set, next), u, next.size);
-    set = next;
-    system = new SpaceTimeSystem(problem, set, systemOpts);
-    b = system.rightHandSide();
-  }
+  const run = new AdaptiveRun(problem, opts);
+  while (run.advance());
+  return run.result();
+}
+
+/**
+ * {@link solveAdaptive} that yields to the event loop between steps, so that timers, I/O and an
+ * `AbortSignal` fired by them (e.g. `AbortSignal.timeout(ms)`) take effect during a long run.
+ *
+ * @example
+ * ```ts
+ * import { HeatProblem, intervalDomain, solveAdaptiveAsync } from 'chronomesh';
+ * const domain = intervalDomain(0, 1, 2);
+ * const problem = new HeatProblem({ domain, T: 1, initial: () => 1 });
+ * const result = await solveAdaptiveAsync(problem, { maxUnknowns: 1e7, signal: AbortSignal.timeout(2000) });
+ * console.log(result.stopReason, result.history.length); // 'aborted' after about two seconds (or earlier limits)
+ * ```
+ */
+export async function solveAdaptiveAsync(problem: HeatProblem, opts: AdaptiveOptions = {}): Promise<AdaptiveResult> {
+  const run = new AdaptiveRun(problem, opts);
+  while (run.advance()) await new Promise<void>((resolve) => setTimeout(resolve, 0));
+  return run.result();
 }

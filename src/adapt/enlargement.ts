@@ -1,12 +1,27 @@
 /**
- * The enlarged index set Λ̲ of DESIGN.md §7: for every (λ, ν) ∈ Λ add
- * (child(λ), ν) for the temporal children of λ, and (λ, ν′) for the vertices
- * ν′ of one bisection of every leaf element of the fibre mesh of λ; then close.
+ * The enlarged index set Λ̲ of the adaptive loop (docs/adaptivity.md §2): for every temporal
+ * node λ of Λ add
+ *   - (child(λ), ν) for the temporal children of λ and every ν in the fibre of λ, and
+ *   - (λ, ν′) for the free vertices ν′ of the *interior refinement* of the fibre mesh of λ:
+ *     every leaf bisected `dim` times (the mesh size halves) and further where that created only
+ *     Dirichlet midpoints (see SpatialDomain.refineInterior);
+ * then close. A node whose fibre is empty (no unknowns yet — e.g. a coarse mesh without free
+ * initial vertices) gets the interior refinement of the initial mesh as candidates, so that
+ * every temporal node can receive its first spatial unknowns.
  */
 import { nodeChildren } from '../time/index';
 import type { SpatialDomain } from '../space/index';
 import { DoubleTree } from '../spacetime/double-tree';
 import { unionSorted } from '../spacetime/fibre-pool';
+
+/** Options of {@link enlargeDoubleTree}. */
+export interface EnlargementOptions {
+  /**
+   * Generations of bisection of every leaf in the spatial candidates (default: the dimension,
+   * so that h halves in 2D as in 1D).
+   */
+  spatialGenerations?: number;
+}
 
 /** Λ̲ ⊇ Λ, sharing Λ's fibre pool. Grows the domain's bisection forest. *
  * @example
@@ -17,24 +32,36 @@ import { unionSorted } from '../spacetime/fibre-pool';
  * console.log(set.size, enlargeDoubleTree(domain, set).size);
  * ```
  */
-export function enlargeDoubleTree(domain: SpatialDomain, set: DoubleTree): DoubleTree {
+export function enlargeDoubleTree(domain: SpatialDomain, set: DoubleTree, opts: EnlargementOptions = {}): DoubleTree {
+  const generations = opts.spatialGenerations ?? domain.dim;
   const { tree } = set;
   const levels: number[] = [];
   const indices: number[] = [];
   const sets: Int32Array[] = [];
-  const refined = new Map<number, Int32Array>();
+  // Refinements per fibre id (fibres repeat across temporal nodes: a sparse grid has L + 1).
+  const refined: (Int32Array | undefined)[] = [];
+  const empty = new Int32Array(0);
+  let refinedEmpty: Int32Array | null = null;
   const ch = new Float64Array(4);
   for (let i = 0; i < tree.size; i++) {
     const id = set.nodeFibre[i]!;
     const f = set.pool.get(id);
-    if (f.length === 0) continue;
-    let g = refined.get(id);
-    if (g === undefined) {
-      g = unionSorted([f, domain.refineAll(f)]);
-      refined.set(id, g);
-    }
     const l = tree.level[i]!;
     const k = tree.index[i]!;
+    if (f.length === 0) {
+      refinedEmpty ??= domain.refineInterior(empty, generations);
+      if (refinedEmpty.length > 0) {
+        levels.push(l);
+        indices.push(k);
+        sets.push(refinedEmpty);
+      }
+      continue;
+    }
+    let g = refined[id];
+    if (g === undefined) {
+      g = unionSorted([f, domain.refineInterior(f, generations)]);
+      refined[id] = g;
+    }
     levels.push(l);
     indices.push(k);
     sets.push(g);

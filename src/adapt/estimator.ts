@@ -5,6 +5,7 @@
  *   d_i = (A_x)_{νν} + α_λ² (M_x)_{νν}² / (A_x)_{νν}   (X-norm² of σ_λ ⊗ φ_ν up to constants),
  * and E = (Σ η_i²)^{1/2}. Under the saturation assumption E is reliable and efficient.
  */
+import { SolverBreakdownError } from '../errors';
 import { derivativeNorms } from '../time/index';
 import type { DoubleTree } from '../spacetime/double-tree';
 import type { SpaceTimeSystem } from '../system/space-time-system';
@@ -39,10 +40,16 @@ export function residualIndicators(enlarged: SpaceTimeSystem, set: DoubleTree, u
   const big = enlarged.trialSet;
   const map = embeddingMap(set, big);
   const ut = prolongCoefficients(map, u, big.size);
-  const r = b ? Float64Array.from(b) : enlarged.rightHandSide();
-  const su = new Float64Array(big.size);
-  enlarged.S.apply(ut, su);
-  for (let i = 0; i < r.length; i++) r[i]! -= su[i]!;
+  let r: Float64Array;
+  if (b) {
+    r = Float64Array.from(b);
+    const su = new Float64Array(big.size);
+    enlarged.S.apply(ut, su);
+    for (let i = 0; i < r.length; i++) r[i]! -= su[i]!;
+  } else r = enlarged.residual(ut); // one application of B, K_Y, Bᵀ
+  for (let i = 0; i < r.length; i++) {
+    if (!Number.isFinite(r[i]!)) throw new SolverBreakdownError(`the residual on the enlarged set is not finite at coefficient ${i} (${r[i]}): the solution or the data contain NaN or ∞`);
+  }
   const inSmall = new Uint8Array(big.size);
   for (let p = 0; p < map.length; p++) inSmall[map[p]!] = 1;
   const alpha = derivativeNorms(big.tree, enlarged.problem.T);

@@ -1,6 +1,13 @@
 /** Public exports of the adaptivity module (re-exported by src/index.ts). */
-export { solveAdaptive, type AdaptiveOptions, type AdaptiveResult, type AdaptiveStep } from './adaptive-solver';
-export { enlargeDoubleTree } from './enlargement';
+export {
+  solveAdaptive,
+  solveAdaptiveAsync,
+  type AdaptiveOptions,
+  type AdaptiveProgress,
+  type AdaptiveResult,
+  type AdaptiveStep,
+} from './adaptive-solver';
+export { enlargeDoubleTree, type EnlargementOptions } from './enlargement';
 export { residualIndicators, type ResidualIndicators } from './estimator';
 export { dorflerMark } from './dorfler';
 export { refineDoubleTree } from './refine';

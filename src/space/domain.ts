@@ -392,6 +392,61 @@ export class SpatialDomain {
   }
 
   /**
+   * Free vertices of the *interior refinement* of the leaf mesh of `set` (sorted; only ids not
+   * already in `set`; `set` ∪ result is closed). Every leaf element is bisected `generations` times
+   * in a row (all its descendants down to that depth) — `generations = dim` halves the mesh size —
+   * and, where that created no free vertex inside the leaf (all new midpoints on the Dirichlet
+   * boundary), up to `extra` further generations until one appears. This is the spatial part of the
+   * enlarged index set of the adaptive loop: one plain bisection of a leaf whose refinement edge lies
+   * on the Dirichlet boundary adds only a Dirichlet midpoint, which carries no unknown, so without
+   * the extra generations a coarse mesh can hide all spatial refinement from the estimator
+   * (docs/adaptivity.md §2).
+   */
+  refineInterior(set: Int32Array, generations: number, extra = 4): Int32Array {
+    if (!Number.isInteger(generations) || generations < 1 || generations > 8) {
+      throw new InvalidArgumentError(`generations must be an integer in [1, 8], received ${describeValue(generations)}`, {
+        field: 'generations',
+        expected: 'integer in [1, 8]',
+        received: generations,
+      });
+    }
+    let n = this.markSet(set, 'set');
+    const nl = this.collectLeaves();
+    const leaves = this.leafBuf.slice(0, nl);
+    const f = this.forest;
+    const mids: number[] = [];
+    // Per leaf: breadth-first over its descendants, one generation per round.
+    let front: number[] = [];
+    let next: number[] = [];
+    for (let i = 0; i < nl; i++) {
+      front.length = 0;
+      front.push(leaves[i]!);
+      let freeFound = false;
+      for (let g = 0; g < generations + extra && front.length > 0; g++) {
+        if (g >= generations && freeFound) break;
+        next.length = 0;
+        for (const e of front) {
+          const m = f.bisect(e);
+          mids.push(m);
+          if (f.vFree[m]) freeFound = true;
+          const c = f.eChild[e]!;
+          next.push(c, c + 1);
+        }
+        const t = front;
+        front = next;
+        next = t;
+      }
+    }
+    const start = n;
+    n = this.addMidpoints(mids, n);
+    const fr = f.vFree;
+    const out: number[] = [];
+    for (let k = start; k < n; k++) if (fr[this.work[k]!]) out.push(this.work[k]!);
+    this.unmark(n);
+    return Int32Array.from(out).sort();
+  }
+
+  /**
    * Closed set containing `set`, refined `generations` more times toward a target: every leaf
    * element meeting the target is bisected, `generations` times in a row. The target is a point
    * (`[x]` in 1D, `[x, y]` in 2D) or a segment (`[x0, y0, x1, y1]`, e.g. a boundary edge).

@@ -22,6 +22,8 @@ export class SpatialPlanCache {
   readonly domain: SpatialDomain;
   readonly pool: FibrePool;
   private readonly plans = new Map<number, SpatialOperatorPlan>();
+  private readonly used = new Map<number, number>();
+  private epoch = 0;
 
   constructor(domain: SpatialDomain, pool: FibrePool) {
     this.domain = domain;
@@ -36,7 +38,22 @@ export class SpatialPlanCache {
       p = new SpatialOperatorPlan(this.domain, this.pool.get(inId), this.pool.get(outId));
       this.plans.set(key, p);
     }
+    this.used.set(key, this.epoch);
     return p;
+  }
+
+  /**
+   * Starts a new epoch and releases the plans not requested during the last `keep` epochs (an
+   * adaptive run calls this once per step, so plans of fibres that no longer occur are freed).
+   */
+  advanceEpoch(keep = 1): void {
+    this.epoch++;
+    for (const [key, e] of this.used) {
+      if (e < this.epoch - keep) {
+        this.used.delete(key);
+        this.plans.delete(key);
+      }
+    }
   }
 
   get size(): number {

@@ -97,10 +97,12 @@ export function denseFibreMatrices(cache: SpatialPlanCache, fibreId: number): { 
 /** One {@link FibreInverse} per fibre id, built on first use. */
 export class FibreInverseCache {
   private readonly items = new Map<number, FibreInverse>();
+  private readonly used = new Map<number, number>();
+  private epoch = 0;
   constructor(
     private readonly domain: SpatialDomain,
-    private readonly pool: FibrePool,
-    private readonly plans: SpatialPlanCache,
+    readonly pool: FibrePool,
+    readonly plans: SpatialPlanCache,
     readonly solver: InnerSolver,
   ) {}
 
@@ -118,6 +120,23 @@ export class FibreInverseCache {
       }
       this.items.set(fibreId, item);
     }
+    this.used.set(fibreId, this.epoch);
     return item;
+  }
+
+  /** Number of fibre inverses held. */
+  get size(): number {
+    return this.items.size;
+  }
+
+  /** Starts a new epoch and releases the inverses not requested during the last `keep` epochs. */
+  advanceEpoch(keep = 1): void {
+    this.epoch++;
+    for (const [id, e] of this.used) {
+      if (e < this.epoch - keep) {
+        this.used.delete(id);
+        this.items.delete(id);
+      }
+    }
   }
 }

@@ -1,11 +1,11 @@
 /** Public exports of the system module (re-exported by src/index.ts). */
 export type { LinearOperator } from './linear-operator';
 export { HeatProblem, type HeatProblemSpec, type SeparableTerm } from './heat-problem';
-export { SpaceTimeSystem, type SpaceTimeSystemOptions } from './space-time-system';
-export type { InnerSolver } from './fibre-inverse';
+export { SpaceTimeSystem, type SpaceTimeSystemOptions, type SpatialCaches, type SystemSolveOptions } from './space-time-system';
+export { FibreInverseCache, type InnerSolver } from './fibre-inverse';
 export { SchurOperator } from './schur-operator';
 export { TestPreconditioner } from './test-preconditioner';
 export { TrialPreconditioner } from './trial-preconditioner';
 export { InitialTraceOperator } from './initial-trace';
-export { pcg, type PcgOptions, type PcgResult } from './pcg';
+export { pcg, type PcgOptions, type PcgProgress, type PcgResult } from './pcg';
 export { measureOperatorCost, type OperatorCost, type OperatorCostOptions } from './operator-cost';

@@ -64,8 +64,8 @@ export class InitialTraceOperator implements LinearOperator {
     this.applyAdd(x, y);
   }
 
-  /** y += G x. */
-  applyAdd(x: Float64Array, y: Float64Array): void {
+  /** y += scale · G x (scale defaults to 1). */
+  applyAdd(x: Float64Array, y: Float64Array, scale = 1): void {
     if (this.mass === null) return;
     const { traced, g, maps, offsets, v, w } = this;
     v.fill(0);
@@ -76,7 +76,7 @@ export class InitialTraceOperator implements LinearOperator {
       for (let p = 0; p < map.length; p++) v[map[p]!]! += gt * x[o + p]!;
     }
     this.mass.apply(v, 0, w, 0, 1, 0);
-    this.addTraced(w, y, 1);
+    this.addTraced(w, y, scale);
   }
 
   /** y_λ += scale · g_λ · restrict_λ(u) for a vector u on {@link traceFibre} (used for g ⊗ ℓ_0). */

@@ -19,6 +19,30 @@ export interface PcgOptions {
   initialGuess?: Float64Array;
   /** Estimate the extreme eigenvalues of K·S from the CG coefficients (Lanczos). */
   estimateSpectrum?: boolean;
+  /**
+   * Stop as soon as the estimated algebraic error in the S-energy norm, ‖x − x_k‖_S, is at most
+   * this value (default 0: off). The estimate is the Hestenes–Stiefel sum
+   * ‖x − x_k‖²_S ≈ Σ_{j=k}^{k+d−1} α_j r_jᵀK r_j over the next d = `energyDelay` iterations
+   * (Strakoš & Tichý, ETNA 13, 2002; common practice), a lower bound that is tight once the
+   * convergence is steady. It does not depend on how K is scaled, unlike √(rᵀKr). The iterate
+   * returned is x_{k+d}, whose error is smaller still (CG decreases the energy error monotonically).
+   */
+  energyTol?: number;
+  /** Delay d of the energy-error estimate (default 4). */
+  energyDelay?: number;
+  /** Checked once per iteration: when aborted, PCG returns its current iterate with `stopReason: 'aborted'`. */
+  signal?: AbortSignal;
+  /** Called after every iteration (progress reports; keep it cheap). */
+  onIteration?: (info: PcgProgress) => void;
+}
+
+/** Progress of a running PCG solve, passed to {@link PcgOptions.onIteration}. */
+export interface PcgProgress {
+  iteration: number;
+  /** √(rᵀKr) of the current iterate. */
+  residual: number;
+  /** Latest delayed estimate of the S-energy error (NaN until d iterations are done). */
+  energyError: number;
 }
 
 /** Result of {@link pcg}. */
@@ -30,6 +54,14 @@ export interface PcgResult {
   residualHistory: number[];
   /** Extreme Ritz values of K·S (only with `estimateSpectrum`). */
   spectrum?: { min: number; max: number; condition: number };
+  /** Why the iteration ended. */
+  stopReason: 'residual' | 'energy' | 'iterations' | 'aborted';
+  /**
+   * Estimated S-energy norm of the algebraic error of the returned iterate (an upper estimate: the
+   * delayed Hestenes–Stiefel value of the iterate d steps earlier); NaN when fewer than d
+   * iterations were made.
+   */
+  energyError: number;
 }
 
 /**
@@ -67,16 +99,30 @@ export function pcg(S: LinearOperator, b: Float64Array, opts: PcgOptions = {}): 
   if (!(rz >= 0)) throw new SolverBreakdownError(`preconditioned residual norm² is ${rz}: the preconditioner is not positive definite`);
   const history = [Math.sqrt(rz)];
   const target = Math.max(absTol, relTol * Math.sqrt(rz));
+  const energyTol = opts.energyTol ?? 0;
+  const delay = opts.energyDelay ?? 4;
+  if (!(energyTol >= 0) || !Number.isInteger(delay) || delay < 1) {
+    throw new InvalidArgumentError(`energyTol must be ≥ 0 and energyDelay an integer ≥ 1 (received ${energyTol}, ${delay})`, { field: 'energyTol' });
+  }
   p.set(z);
   const alphas: number[] = [];
   const betas: number[] = [];
+  const terms: number[] = []; // α_j r_jᵀ K r_j, the Hestenes–Stiefel terms
+  let energyError = NaN;
   let it = 0;
+  let stopReason: PcgResult['stopReason'] = 'iterations';
   let converged = Math.sqrt(rz) <= target;
+  if (converged) stopReason = 'residual';
   while (!converged && it < maxIt) {
+    if (opts.signal?.aborted) {
+      stopReason = 'aborted';
+      break;
+    }
     S.apply(p, q);
     const pq = dot(p, q);
     if (!(pq > 0)) throw new SolverBreakdownError(`CG breakdown at iteration ${it + 1}: pᵀSp = ${pq} is not positive (the operator is not SPD or the input contains NaN)`);
     const alpha = rz / pq;
+    terms.push(alpha * rz);
     for (let i = 0; i < n; i++) {
       x[i]! += alpha * p[i]!;
       r[i]! -= alpha * q[i]!;
@@ -91,9 +137,21 @@ export function pcg(S: LinearOperator, b: Float64Array, opts: PcgOptions = {}): 
     rz = rzNew;
     it++;
     history.push(Math.sqrt(rz));
-    converged = Math.sqrt(rz) <= target;
+    if (it >= delay) {
+      let e2 = 0;
+      for (let j = it - delay; j < it; j++) e2 += terms[j]!;
+      energyError = Math.sqrt(e2);
+    }
+    opts.onIteration?.({ iteration: it, residual: Math.sqrt(rz), energyError });
+    if (Math.sqrt(rz) <= target) {
+      converged = true;
+      stopReason = 'residual';
+    } else if (energyTol > 0 && energyError <= energyTol) {
+      converged = true;
+      stopReason = 'energy';
+    }
   }
-  const result: PcgResult = { solution: x, iterations: it, converged, residualHistory: history };
+  const result: PcgResult = { solution: x, iterations: it, converged, residualHistory: history, stopReason, energyError };
   if (opts.estimateSpectrum && alphas.length > 0) result.spectrum = lanczosExtremes(alphas, betas);
   return result;
 }

@@ -24,7 +24,26 @@ export interface SpaceTimeSystemOptions {
   inner?: InnerSolver;
   /** Separate choice for K_X (defaults to `inner`). */
   preconditionerInner?: InnerSolver;
+  /**
+   * Spatial plan and fibre-inverse caches to draw from instead of fresh ones (they must belong to
+   * the trial set's fibre pool and use the same inner solver). Systems on successive index sets of
+   * one adaptive run share them, so leaf meshes, spatial operator plans and V-cycle hierarchies of
+   * fibres that did not change are built once.
+   */
+  caches?: SpatialCaches;
 }
+
+/** Spatial plans and fibre inverses shared by the systems of one fibre pool (see {@link SpaceTimeSystemOptions.caches}). */
+export interface SpatialCaches {
+  plans: SpatialPlanCache;
+  inverses: FibreInverseCache;
+}
+
+/** Options of {@link SpaceTimeSystem.solve}. */
+export type SystemSolveOptions = Omit<PcgOptions, 'preconditioner'> & {
+  /** Right-hand side (default: the system's own, {@link SpaceTimeSystem.rightHandSide}). */
+  rightHandSide?: Float64Array;
+};
 
 /**
  * The space-time system S u = b on a trial double tree Λ.
@@ -62,9 +81,17 @@ export class SpaceTimeSystem {
     this.problem = problem;
     this.trialSet = trialSet;
     this.testSet = testIndexSet(trialSet);
-    this.plans = new SpatialPlanCache(problem.domain, trialSet.pool);
-    const inner = opts.inner ?? { kind: 'multigrid' };
-    const inverses = new FibreInverseCache(problem.domain, trialSet.pool, this.plans, inner);
+    const inner = opts.inner ?? opts.caches?.inverses.solver ?? { kind: 'multigrid' };
+    if (opts.caches) {
+      if (opts.caches.plans.pool !== trialSet.pool || opts.caches.inverses.pool !== trialSet.pool) {
+        throw new InvalidArgumentError('caches belong to another fibre pool than trialSet', { field: 'caches' });
+      }
+      if (opts.inner && opts.inner !== opts.caches.inverses.solver) {
+        throw new InvalidArgumentError('caches were built for another inner solver than opts.inner', { field: 'caches' });
+      }
+    }
+    this.plans = opts.caches?.plans ?? new SpatialPlanCache(problem.domain, trialSet.pool);
+    const inverses = opts.caches?.inverses ?? new FibreInverseCache(problem.domain, trialSet.pool, this.plans, inner);
     this.inverses = inverses;
     const pInner = opts.preconditionerInner ?? inner;
     this.pInverses = pInner === inner ? inverses : new FibreInverseCache(problem.domain, trialSet.pool, this.plans, pInner);
@@ -97,17 +124,45 @@ export class SpaceTimeSystem {
    */
   rightHandSide(data?: Pick<HeatProblemSpec, 'initial' | 'source'>): Float64Array {
     const problem = data ? new HeatProblem({ domain: this.problem.domain, T: this.problem.T, ...data }) : this.problem;
-    const lf = sourceLoad(problem, this.testSet);
+    const lf = data ? sourceLoad(problem, this.testSet) : this.ownSourceLoad();
     const v = new Float64Array(this.testSet.size);
     this.KY.apply(lf, v);
     const b = new Float64Array(this.trialSet.size);
     this.Bt.apply(v, b);
-    this.G.addTraced(initialLoad(problem, this.G.traceFibre), b, 1);
+    this.G.addTraced(data ? initialLoad(problem, this.G.traceFibre) : this.ownInitialLoad(), b, 1);
     return b;
   }
 
+  private lf: Float64Array | null = null;
+  private l0: Float64Array | null = null;
+  private ownSourceLoad(): Float64Array {
+    return (this.lf ??= sourceLoad(this.problem, this.testSet));
+  }
+  private ownInitialLoad(): Float64Array {
+    return (this.l0 ??= initialLoad(this.problem, this.G.traceFibre));
+  }
+
+  /**
+   * The residual b − S x of the system's own data in one pass,
+   * Bᵀ K_Y (ℓ_f − B x) + γ0ᵀ(u0 − γ0 x): one application of B, K_Y and Bᵀ (the cost of one S),
+   * instead of forming b and S x separately. Writes into `out` (length #Λ) and returns it.
+   */
+  residual(x: Float64Array, out: Float64Array = new Float64Array(this.trialSet.size)): Float64Array {
+    const ny = this.testSet.size;
+    const w = new Float64Array(ny);
+    this.B.apply(x, w);
+    const lf = this.ownSourceLoad();
+    for (let i = 0; i < ny; i++) w[i] = lf[i]! - w[i]!;
+    const v = new Float64Array(ny);
+    this.KY.apply(w, v);
+    this.Bt.apply(v, out);
+    this.G.addTraced(this.ownInitialLoad(), out, 1);
+    this.G.applyAdd(x, out, -1);
+    return out;
+  }
+
   /** Solves S u = b by PCG with K_X (defaults: relTol 1e-8, max 500 iterations). */
-  solve(opts: Omit<PcgOptions, 'preconditioner'> & { rightHandSide?: Float64Array } = {}): { solution: SpaceTimeSolution; pcg: PcgResult } {
+  solve(opts: SystemSolveOptions = {}): { solution: SpaceTimeSolution; pcg: PcgResult } {
     const b = opts.rightHandSide ?? this.rightHandSide();
     const result = pcg(this.S, b, { maxIterations: 500, ...opts, preconditioner: this.KX });
     return { solution: new SpaceTimeSolution(this.problem.domain, this.trialSet, result.solution, this.problem.T), pcg: result };
