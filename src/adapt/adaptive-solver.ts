@@ -72,7 +72,10 @@ export interface AdaptiveOptions {
   maxUnknowns?: number;
   /** Maximum number of steps (default 40). */
   maxSteps?: number;
-  /** Wall-time budget in seconds (default ∞); also checked inside PCG. */
+  /**
+   * Wall-time budget in seconds (default ∞), checked at every phase and PCG iteration; the step in
+   * progress when it runs out is discarded. The first step always completes.
+   */
   maxSeconds?: number;
   /** Starting index set (default: the sparse grid of level 1, or a finer one if that is empty). */
   initialSet?: DoubleTree;
@@ -204,7 +207,8 @@ class AdaptiveRun {
 
   private checkpoint(phase: AdaptiveProgress['phase'], iteration = 0): void {
     if (this.opts.signal?.aborted) throw new Interrupted('aborted');
-    if (this.elapsed() > this.v.maxSeconds) throw new Interrupted('time');
+    // The first step always completes, so that a run has a result to return.
+    if (this.best !== null && this.elapsed() > this.v.maxSeconds) throw new Interrupted('time');
     this.opts.onProgress?.({ step: this.stepNo, phase, unknowns: this.set.size, iteration, elapsed: this.elapsed() });
   }
 

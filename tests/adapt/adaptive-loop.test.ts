@@ -1,0 +1,194 @@
+/**
+ * The adaptive loop as a whole: stop reasons, callbacks, cancellation, the solve-accuracy rule, the
+ * caches kept across steps, refinement and prolongation.
+ */
+import { describe, expect, it } from 'vitest';
+import {
+  DoubleTree, FibreInverseCache, HeatProblem, RunInterruptedError, SpaceTimeSystem, SpatialPlanCache, dorflerMark, embeddingMap,
+  enlargeDoubleTree, intervalDomain, prolongCoefficients, rectangleDomain, refineDoubleTree, solveAdaptive, solveAdaptiveAsync,
+  type AdaptiveStep,
+} from '../../src/index';
+import { rng } from '../helpers/random';
+
+const problem1d = () => new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 0.5, initial: () => 1 });
+
+describe('adaptive loop: stop reasons and callbacks', () => {
+  it('stops on each of its limits and says which', () => {
+    const p = problem1d();
+    expect(solveAdaptive(p, { maxSteps: 3 }).stopReason).toBe('steps');
+    const byUnknowns = solveAdaptive(p, { maxUnknowns: 300 });
+    expect(byUnknowns.stopReason).toBe('unknowns');
+    expect(byUnknowns.history.at(-1)!.unknowns).toBeLessThanOrEqual(300);
+    const first = solveAdaptive(p, { maxSteps: 1 }).history[0]!.estimate;
+    const byTol = solveAdaptive(p, { tolerance: 0.5 * first });
+    expect(byTol.stopReason).toBe('tolerance');
+    expect(byTol.history.at(-1)!.estimate).toBeLessThanOrEqual(0.5 * first);
+    expect(solveAdaptive(p, { maxSeconds: 0, maxSteps: 50 }).stopReason).toBe('time');
+    const seen: AdaptiveStep[] = [];
+    const byCallback = solveAdaptive(p, { onStep: (s) => { seen.push(s); return s.step < 2 ? undefined : false; } });
+    expect(byCallback.stopReason).toBe('callback');
+    expect(seen.map((s) => s.step)).toEqual([0, 1, 2]);
+    expect(byCallback.history).toEqual(seen);
+  });
+
+  it('reports progress per phase and PCG iteration, and an abort returns the last completed step', () => {
+    const controller = new AbortController();
+    const phases = new Set<string>();
+    let iterations = 0;
+    const r = solveAdaptive(problem1d(), {
+      maxSteps: 50,
+      signal: controller.signal,
+      onProgress: (p) => {
+        phases.add(p.phase);
+        if (p.phase === 'solve' && p.iteration > 0) iterations++;
+        if (p.step === 4 && p.phase === 'estimate') controller.abort(); // in the middle of step 4
+      },
+    });
+    expect(r.stopReason).toBe('aborted');
+    expect([...phases].sort()).toEqual(['estimate', 'refine', 'setup', 'solve']);
+    expect(iterations).toBeGreaterThan(0);
+    // Step 4 was discarded: the result is step 3's, consistent with its set.
+    expect(r.history.length).toBe(4);
+    expect(r.solution.trialSet).toBe(r.set);
+    expect(r.set.size).toBe(r.history.at(-1)!.unknowns);
+  });
+
+  it('an abort before the first step completes is a typed error naming the signal', () => {
+    expect(() => solveAdaptive(problem1d(), { signal: AbortSignal.abort() })).toThrow(RunInterruptedError);
+    try {
+      solveAdaptive(problem1d(), { signal: AbortSignal.abort() });
+    } catch (e) {
+      expect((e as RunInterruptedError).field).toBe('signal');
+    }
+  });
+
+  it('the async driver lets a timer abort a long run', async () => {
+    const r = await solveAdaptiveAsync(problem1d(), { maxUnknowns: 1e9, maxSteps: 10_000, signal: AbortSignal.timeout(300) });
+    expect(r.stopReason).toBe('aborted');
+    expect(r.history.length).toBeGreaterThan(0);
+  });
+
+  it('rejects malformed options before any work, naming the field', () => {
+    const p = problem1d();
+    for (const [opts, field] of [
+      [{ theta: '0.5' }, 'theta'], [{ theta: 1 }, 'theta'], [{ maxSteps: 2.5 }, 'maxSteps'], [{ maxSeconds: NaN }, 'maxSeconds'],
+      [{ solverFraction: 0 }, 'solverFraction'], [{ onStep: 5 }, 'onStep'], [{ initialSet: {} }, 'initialSet'],
+    ] as const) {
+      try {
+        solveAdaptive(p, opts as never);
+        expect.unreachable(`accepted ${JSON.stringify(opts)}`);
+      } catch (e) {
+        expect((e as { field?: string }).field).toBe(field);
+      }
+    }
+  });
+});
+
+describe('adaptive loop: every reported estimate belongs to a solved system', () => {
+  it('the algebraic error is at most solverFraction·E and E never rises by more than 5 % after step 10 (d = 1 and 2)', () => {
+    for (const [problem, maxUnknowns] of [
+      [problem1d(), 4000],
+      [new HeatProblem({ domain: rectangleDomain(0, 1, 0, 1, 2, 2), T: 0.5, initial: () => 1 }), 4000],
+    ] as const) {
+      const r = solveAdaptive(problem, { maxUnknowns, maxSteps: 200 });
+      for (const h of r.history) {
+        expect(h.pcgIterations).toBeGreaterThan(0);
+        expect(h.algebraicError).toBeLessThanOrEqual(0.1 * h.estimate * (1 + 1e-12));
+      }
+      for (let k = 11; k < r.history.length; k++) expect(r.history[k]!.estimate).toBeLessThanOrEqual(1.05 * r.history[k - 1]!.estimate);
+    }
+  });
+});
+
+describe('adaptive loop: caches across steps', () => {
+  it('systems built with shared caches equal systems built from scratch (same sequence of sets, ≤ 1e-12 relative)', () => {
+    const problem = new HeatProblem({ domain: rectangleDomain(0, 1, 0, 1, 2, 2), T: 0.5, initial: () => 1 });
+    const sets: DoubleTree[] = [];
+    solveAdaptive(problem, { maxSteps: 8, onStep: (_s, sol) => { sets.push(sol.trialSet); } });
+    const pool = sets[0]!.pool;
+    const plans = new SpatialPlanCache(problem.domain, pool);
+    const caches = { plans, inverses: new FibreInverseCache(problem.domain, pool, plans, { kind: 'multigrid' }) };
+    const random = rng(7);
+    let worst = 0;
+    for (const set of sets) {
+      plans.advanceEpoch(1);
+      caches.inverses.advanceEpoch(1);
+      const shared = new SpaceTimeSystem(problem, set, { caches });
+      const fresh = new SpaceTimeSystem(problem, set);
+      const x = Float64Array.from({ length: set.size }, () => random() - 0.5);
+      for (const op of ['S', 'KX'] as const) {
+        const a = new Float64Array(set.size);
+        const b = new Float64Array(set.size);
+        shared[op].apply(x, a);
+        fresh[op].apply(x, b);
+        let num = 0, den = 0;
+        for (let i = 0; i < a.length; i++) { num = Math.max(num, Math.abs(a[i]! - b[i]!)); den = Math.max(den, Math.abs(b[i]!)); }
+        worst = Math.max(worst, num / den);
+      }
+      const ra = shared.rightHandSide(), rb = fresh.rightHandSide();
+      for (let i = 0; i < ra.length; i++) worst = Math.max(worst, Math.abs(ra[i]! - rb[i]!) / (Math.abs(rb[i]!) + 1e-300) > 1e-12 ? Math.abs(ra[i]! - rb[i]!) : 0);
+    }
+    expect(worst).toBeLessThanOrEqual(1e-12);
+    expect(sets.length).toBe(8);
+  });
+
+  it('releases plans and inverses of fibres that the last step did not use', () => {
+    const domain = intervalDomain(0, 1, 2);
+    const set = DoubleTree.sparseGrid(domain, 4);
+    const plans = new SpatialPlanCache(domain, set.pool);
+    const inverses = new FibreInverseCache(domain, set.pool, plans, { kind: 'multigrid' });
+    new SpaceTimeSystem(new HeatProblem({ domain, T: 1, initial: () => 1 }), set, { caches: { plans, inverses } }).KX;
+    expect(plans.size).toBeGreaterThan(0);
+    expect(inverses.size).toBeGreaterThan(0);
+    plans.advanceEpoch(1);
+    inverses.advanceEpoch(1);
+    expect(plans.size).toBeGreaterThan(0); // kept for one more epoch
+    plans.advanceEpoch(1);
+    inverses.advanceEpoch(1);
+    expect(plans.size).toBe(0);
+    expect(inverses.size).toBe(0);
+  });
+
+  it('refuses caches of another fibre pool', () => {
+    const domain = intervalDomain(0, 1, 2);
+    const a = DoubleTree.sparseGrid(domain, 3);
+    const b = DoubleTree.sparseGrid(domain, 3);
+    const plans = new SpatialPlanCache(domain, a.pool);
+    const caches = { plans, inverses: new FibreInverseCache(domain, a.pool, plans, { kind: 'multigrid' }) };
+    expect(() => new SpaceTimeSystem(new HeatProblem({ domain, T: 1 }), b, { caches })).toThrow(/another fibre pool/);
+  });
+});
+
+describe('refinement and prolongation', () => {
+  it('refineDoubleTree adds exactly the marked pairs plus what closure needs; prolongCoefficients keeps the function', () => {
+    const domain = intervalDomain(0, 1, 2);
+    const problem = new HeatProblem({ domain, T: 1, initial: () => 1 });
+    const set = DoubleTree.sparseGrid(domain, 3);
+    const big = enlargeDoubleTree(domain, set);
+    const random = rng(3);
+    const eta2 = Float64Array.from({ length: big.size }, () => random());
+    const inSet = new Uint8Array(big.size);
+    for (const p of embeddingMap(set, big)) inSet[p] = 1;
+    for (let i = 0; i < big.size; i++) if (inSet[i]) eta2[i] = 0;
+    const marked = dorflerMark(eta2, 0.5);
+    const next = refineDoubleTree(domain, set, big, marked);
+    // Λ ⊆ next ⊆ Λ̲, and every marked pair is in next.
+    const toBig = embeddingMap(next, big);
+    embeddingMap(set, next);
+    const inNext = new Uint8Array(big.size);
+    for (const p of toBig) inNext[p] = 1;
+    for (const m of marked) expect(inNext[m]).toBe(1);
+    expect(next.size).toBeGreaterThan(set.size);
+    expect(next.size).toBeLessThanOrEqual(set.size + marked.length * 8);
+    // Same function: u on Λ and its prolongation to next evaluate identically.
+    const { pcg } = new SpaceTimeSystem(problem, set).solve();
+    const up = prolongCoefficients(embeddingMap(set, next), pcg.solution, next.size);
+    const s1 = new SpaceTimeSystem(problem, set).solve({ initialGuess: pcg.solution, maxIterations: 0 }).solution;
+    const s2 = new SpaceTimeSystem(problem, next).solve({ initialGuess: up, maxIterations: 0 }).solution;
+    for (const t of [0.01, 0.3, 0.9]) {
+      const a = s1.evaluate(t, [0.2, 0.5, 0.77]);
+      const b = s2.evaluate(t, [0.2, 0.5, 0.77]);
+      for (let i = 0; i < 3; i++) expect(Math.abs(a[i]! - b[i]!)).toBeLessThan(1e-13);
+    }
+  });
+});

@@ -1,0 +1,119 @@
+/**
+ * Estimator reliability on the coarsest meshes a user may bring (the estimator must not go blind
+ * to spatial refinement when one bisection of a leaf only creates Dirichlet midpoints).
+ *
+ * Along each adaptive run the true L2(0,T;H¹₀) error err = ‖∇(u − u_δ)‖ is compared with the
+ * estimator E: the ratio err/E must stay within a band of width ≤ 3 (max/min), and point values at
+ * t ≥ 0.02 must converge to the reference.
+ *
+ * References (outside the project):
+ * - u0 ≡ 1 with u = 0 on the boundary: on (0,1) the series / method-of-images solution and on the
+ *   unit square the product of two such factors (Carslaw & Jaeger, Conduction of Heat in Solids,
+ *   2nd ed., 1959, §3.3; separation of variables) — tests/helpers/heat-exact.ts.
+ * - L-shape and square with a hole: manufactured solutions u = e^{−t} P(x) P(y) with polynomial
+ *   P vanishing on the boundary lines, f = ∂t u − Δu computed by hand (common practice).
+ */
+import { describe, expect, it } from 'vitest';
+import {
+  HeatProblem, intervalDomain, lShapeDomain, rectangleDomain, solveAdaptive, spaceTimeErrors, squareWithHoleDomain, triangulatedDomain,
+  type KnownSolution, type SpatialDomain,
+} from '../../src/index';
+import { unitInterval, unitSquare } from '../helpers/heat-exact';
+
+interface Case {
+  name: string;
+  domain: () => SpatialDomain;
+  problem: (d: SpatialDomain) => HeatProblem;
+  exact: KnownSolution;
+  probe: number[];
+  maxUnknowns: number;
+}
+
+/** u = e^{−t} P(x) P(y) with P, P′, P″ given; f = ∂t u − Δu = −e^{−t}(P P + P″ P + P P″). */
+function manufactured(P: (s: number) => number, dP: (s: number) => number, d2P: (s: number) => number): { exact: KnownSolution; spec: { initial: (x: number, y: number) => number; source: (t: number, x: number, y: number) => number } } {
+  return {
+    exact: {
+      value: (t, x, y) => Math.exp(-t) * P(x) * P(y),
+      gradient: (t, x, y, g) => {
+        g[0] = Math.exp(-t) * dP(x) * P(y);
+        g[1] = Math.exp(-t) * P(x) * dP(y);
+      },
+    },
+    spec: {
+      initial: (x, y) => P(x) * P(y),
+      source: (t, x, y) => -Math.exp(-t) * (P(x) * P(y) + d2P(x) * P(y) + P(x) * d2P(y)),
+    },
+  };
+}
+
+// L-shape (−1,1)² \ [0,1]×[−1,0]: P(s) = s(1 − s²) vanishes at s = 0, ±1 (all boundary lines).
+const lShape = manufactured((s) => s - s ** 3, (s) => 1 - 3 * s * s, (s) => -6 * s);
+// Square with the hole [−1/3,1/3]²: P(s) = (1 − s²)(9s² − 1) = −9s⁴ + 10s² − 1.
+const holed = manufactured((s) => -9 * s ** 4 + 10 * s * s - 1, (s) => -36 * s ** 3 + 20 * s, (s) => -108 * s * s + 20);
+
+const ones = (d: SpatialDomain) => new HeatProblem({ domain: d, T: 0.5, initial: () => 1 });
+const cases: Case[] = [
+  { name: 'unit square, two triangles (diagonal 0–2)', domain: () => triangulatedDomain([0, 0, 1, 0, 1, 1, 0, 1], [0, 1, 2, 0, 2, 3]), problem: ones, exact: unitSquare, probe: [0.5, 0.5], maxUnknowns: 2500 },
+  { name: 'unit square, two triangles (diagonal 1–3)', domain: () => triangulatedDomain([0, 0, 1, 0, 1, 1, 0, 1], [0, 1, 3, 1, 2, 3]), problem: ones, exact: unitSquare, probe: [0.5, 0.5], maxUnknowns: 2500 },
+  // A user fan with no interior vertex (the extra vertex (1, ½) lies on the boundary).
+  { name: 'unit square, three-triangle fan', domain: () => triangulatedDomain([0, 0, 1, 0, 1, 0.5, 1, 1, 0, 1], [0, 1, 2, 0, 2, 3, 0, 3, 4]), problem: ones, exact: unitSquare, probe: [0.5, 0.5], maxUnknowns: 2500 },
+  { name: 'interval of one cell', domain: () => intervalDomain(0, 1, 1), problem: ones, exact: unitInterval, probe: [0.5], maxUnknowns: 600 },
+  {
+    name: 'L-shape of three squares (six triangles)', domain: () => lShapeDomain(1),
+    problem: (d) => new HeatProblem({ domain: d, T: 0.5, ...lShape.spec }), exact: lShape.exact, probe: [-0.5, 0.5], maxUnknowns: 2500,
+  },
+  {
+    name: 'square with a hole, coarsest mesh', domain: () => squareWithHoleDomain(1),
+    problem: (d) => new HeatProblem({ domain: d, T: 0.5, ...holed.spec }), exact: holed.exact, probe: [-0.6, 0.6], maxUnknowns: 3000,
+  },
+];
+
+describe('estimator reliability on coarse initial meshes', () => {
+  for (const c of cases) {
+    it(c.name, () => {
+      const domain = c.domain();
+      const ratios: number[] = [];
+      const probeErrors: number[] = [];
+      const probeTimes = [0.02, 0.1];
+      const d = domain.dim;
+      const result = solveAdaptive(c.problem(domain), {
+        maxUnknowns: c.maxUnknowns,
+        maxSteps: 200,
+        onStep: (step, solution) => {
+          if (step.step % 3 !== 0) return;
+          const err = spaceTimeErrors(solution, c.exact).gradientL2;
+          ratios.push(err / step.estimate);
+          let worst = 0;
+          for (const t of probeTimes) {
+            const value = solution.evaluate(t, c.probe)[0]!;
+            const ref = c.exact.value(t, c.probe[0]!, d === 2 ? c.probe[1]! : 0);
+            worst = Math.max(worst, Math.abs(value - ref));
+          }
+          probeErrors.push(worst);
+        },
+      });
+      expect(result.history.length).toBeGreaterThan(6);
+      // Band of err/E (measured when written: within 1.3–2.1 on all six meshes).
+      const band = Math.max(...ratios) / Math.min(...ratios);
+      if (process.env.CHRONOMESH_VERBOSE) console.log(c.name, ratios.map((r) => r.toFixed(2)).join(' '), probeErrors.map((e) => e.toExponential(1)).join(' '));
+      expect(band).toBeLessThanOrEqual(3);
+      expect(Math.min(...ratios)).toBeGreaterThan(0.3);
+      expect(Math.max(...ratios)).toBeLessThan(4);
+      // Probe values converge: the last is much better than the first, and small.
+      expect(probeErrors.at(-1)!).toBeLessThan(0.5 * probeErrors[0]!);
+      expect(probeErrors.at(-1)!).toBeLessThan(0.08);
+    });
+  }
+
+  it('regression: the two-triangle square uses more and more spatial vertices along the run', () => {
+    const domain = rectangleDomain(0, 1, 0, 1, 1, 1);
+    const r = solveAdaptive(ones(domain), { maxUnknowns: 3000, maxSteps: 200 });
+    const used = r.history.map((h) => h.spatialVertices);
+    // Before the enlargement fix only the centre vertex was ever used (1 vertex throughout).
+    expect(used[0]).toBeLessThan(used.at(-1)!);
+    expect(used.at(-1)!).toBeGreaterThan(50);
+    // Value at the centre at t = 0.02: 0.9509… by the product series (Carslaw & Jaeger §3.3).
+    const ref = unitSquare.value(0.02, 0.5, 0.5);
+    expect(Math.abs(r.solution.evaluate(0.02, [0.5, 0.5])[0]! - ref)).toBeLessThan(0.06);
+  });
+});
