@@ -3,6 +3,7 @@
  * integers where counts are meant, callbacks that are functions, a starting set from the
  * problem's own domain, and no unknown keys (a misspelt key is answered with the nearest name).
  */
+import { InvalidArgumentError } from '../errors';
 import { checkFunction, checkInteger, checkNumber, checkOptions } from '../validation/index';
 import { checkSetOnDomain } from '../spacetime/set-checks';
 import type { HeatProblem } from '../system/heat-problem';
@@ -11,7 +12,7 @@ import type { AdaptiveOptions } from './adaptive-solver';
 
 const ADAPTIVE_KEYS: Record<keyof Required<AdaptiveOptions>, true> = {
   theta: true, tolerance: true, maxUnknowns: true, maxSteps: true, maxSeconds: true,
-  initialSet: true, solverFraction: true, inner: true, onStep: true,
+  initialSet: true, solverFraction: true, inner: true, onStep: true, onProgress: true, signal: true, enlargement: true,
 };
 
 /** Checks `solveAdaptive(problem, opts)`'s options; `undefined` gives `{}`. */
@@ -25,6 +26,14 @@ export function validateAdaptiveOptions(opts: unknown, problem: HeatProblem, fie
   if (o.solverFraction !== undefined) checkNumber(o.solverFraction, `${field}.solverFraction`, { min: 0, max: 1, minOpen: true });
   if (o.inner !== undefined) validateInnerSolver(o.inner, `${field}.inner`);
   if (o.onStep !== undefined) checkFunction(o.onStep, `${field}.onStep`, 'a function (step, solution) => boolean | void');
+  if (o.onProgress !== undefined) checkFunction(o.onProgress, `${field}.onProgress`, 'a function (progress) => void');
+  if (o.signal !== undefined && !(typeof o.signal === 'object' && o.signal !== null && typeof (o.signal as AbortSignal).aborted === 'boolean')) {
+    throw new InvalidArgumentError(`${field}.signal must be an AbortSignal`, { field: `${field}.signal`, expected: 'AbortSignal', received: typeof o.signal });
+  }
+  if (o.enlargement !== undefined) {
+    const e = checkOptions<{ spatialGenerations?: number }>(o.enlargement, `${field}.enlargement`, ['spatialGenerations']);
+    if (e.spatialGenerations !== undefined) checkInteger(e.spatialGenerations, `${field}.enlargement.spatialGenerations`, 1, 8);
+  }
   if (o.initialSet !== undefined) checkSetOnDomain(o.initialSet, problem.domain, `${field}.initialSet`);
   return o;
 }

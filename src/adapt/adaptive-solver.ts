@@ -18,6 +18,7 @@ import type { HeatProblem } from '../system/heat-problem';
 import { FibreInverseCache, type InnerSolver } from '../system/fibre-inverse';
 import { SpaceTimeSystem, type SpatialCaches } from '../system/space-time-system';
 import type { PcgResult } from '../system/pcg';
+import { validateAdaptiveOptions } from './adaptive-options';
 import { dorflerMark } from './dorfler';
 import { enlargeDoubleTree, type EnlargementOptions } from './enlargement';
 import { embeddingMap, prolongCoefficients } from './embedding';
@@ -125,25 +126,16 @@ interface Validated {
   fraction: number;
 }
 
-function validate(opts: AdaptiveOptions): Validated {
-  if (opts === null || typeof opts !== 'object') throw new InvalidArgumentError('options must be an object', { field: 'options', received: String(opts) });
-  const theta = opts.theta ?? 0.5;
-  if (typeof theta !== 'number' || !(theta > 0 && theta < 1)) throw new InvalidArgumentError(`theta = ${String(theta)} must be a number in (0, 1)`, { field: 'theta', expected: '(0, 1)', received: String(theta) });
-  const tol = opts.tolerance ?? 0;
-  const maxUnknowns = opts.maxUnknowns ?? 2e5;
-  const maxSteps = opts.maxSteps ?? 40;
-  const maxSeconds = opts.maxSeconds ?? Infinity;
-  const fraction = opts.solverFraction ?? 0.1;
-  for (const [name, v] of [['tolerance', tol], ['maxUnknowns', maxUnknowns], ['maxSeconds', maxSeconds]] as const) {
-    if (typeof v !== 'number' || !(v >= 0)) throw new InvalidArgumentError(`${name} = ${String(v)} must be a number ≥ 0`, { field: name, expected: 'number ≥ 0', received: String(v) });
-  }
-  if (typeof maxSteps !== 'number' || !Number.isInteger(maxSteps) || maxSteps < 1) throw new InvalidArgumentError(`maxSteps = ${String(maxSteps)} must be an integer ≥ 1`, { field: 'maxSteps', expected: 'integer ≥ 1', received: String(maxSteps) });
-  if (typeof fraction !== 'number' || !(fraction > 0 && fraction <= 1)) throw new InvalidArgumentError(`solverFraction = ${String(fraction)} must be a number in (0, 1]`, { field: 'solverFraction', expected: '(0, 1]', received: String(fraction) });
-  for (const name of ['onStep', 'onProgress'] as const) {
-    if (opts[name] !== undefined && typeof opts[name] !== 'function') throw new InvalidArgumentError(`${name} must be a function`, { field: name, received: typeof opts[name] });
-  }
-  if (opts.initialSet !== undefined && !(opts.initialSet instanceof DoubleTree)) throw new InvalidArgumentError('initialSet must be a DoubleTree', { field: 'initialSet' });
-  return { theta, tol, maxUnknowns, maxSteps, maxSeconds, fraction };
+function validate(opts: AdaptiveOptions, problem: HeatProblem): Validated {
+  const o = validateAdaptiveOptions(opts, problem);
+  return {
+    theta: o.theta ?? 0.5,
+    tol: o.tolerance ?? 0,
+    maxUnknowns: o.maxUnknowns ?? 2e5,
+    maxSteps: o.maxSteps ?? 40,
+    maxSeconds: o.maxSeconds ?? Infinity,
+    fraction: o.solverFraction ?? 0.1,
+  };
 }
 
 /** The smallest sparse grid with at least one unknown (level 1 unless the mesh is very coarse). */
@@ -193,7 +185,7 @@ class AdaptiveRun {
   stopReason: AdaptiveResult['stopReason'] | null = null;
 
   constructor(private readonly problem: HeatProblem, private readonly opts: AdaptiveOptions) {
-    this.v = validate(opts);
+    this.v = validate(opts, problem);
     this.set = opts.initialSet ?? defaultInitialSet(problem);
     if (this.set.size === 0) throw new InvalidArgumentError('the initial index set has no unknowns (the mesh has no free vertex at the sparse-grid levels tried)', { field: 'initialSet' });
     const plans = new SpatialPlanCache(problem.domain, this.set.pool);

@@ -9,6 +9,7 @@ import type { PcgOptions } from './pcg';
 /** Keys of {@link PcgOptions}; the Record type makes a new option a compile error until listed here. */
 const PCG_KEYS: Record<keyof Required<PcgOptions>, true> = {
   preconditioner: true, relTol: true, absTol: true, maxIterations: true, initialGuess: true, estimateSpectrum: true,
+  energyTol: true, energyDelay: true, signal: true, onIteration: true,
 };
 
 /** Options of `SpaceTimeSystem.solve` (PCG options without the preconditioner, plus a right-hand side). */
@@ -16,6 +17,7 @@ export type SystemSolveOptions = Omit<PcgOptions, 'preconditioner'> & { rightHan
 
 const SOLVE_KEYS: Record<keyof Required<SystemSolveOptions>, true> = {
   relTol: true, absTol: true, maxIterations: true, initialGuess: true, estimateSpectrum: true, rightHandSide: true,
+  energyTol: true, energyDelay: true, signal: true, onIteration: true,
 };
 
 function checkCommon(o: Partial<SystemSolveOptions>, n: number, field: string): void {
@@ -24,6 +26,9 @@ function checkCommon(o: Partial<SystemSolveOptions>, n: number, field: string): 
   if (o.maxIterations !== undefined) checkInteger(o.maxIterations, `${field}.maxIterations`, 1, 1e7);
   if (o.initialGuess !== undefined) checkFloat64Array(o.initialGuess, `${field}.initialGuess`, { length: n, finite: true });
   if (o.estimateSpectrum !== undefined) checkBoolean(o.estimateSpectrum, `${field}.estimateSpectrum`);
+  if (o.energyTol !== undefined) checkNumber(o.energyTol, `${field}.energyTol`, { min: 0 });
+  if (o.energyDelay !== undefined) checkInteger(o.energyDelay, `${field}.energyDelay`, 1, 100);
+  if (o.onIteration !== undefined && typeof o.onIteration !== 'function') checkNumber(NaN, `${field}.onIteration (a function)`);
 }
 
 /**

@@ -4,6 +4,7 @@
  * complement S, the preconditioner K_X and the right-hand side b.
  */
 import { InvalidArgumentError } from '../errors';
+export type { SystemSolveOptions } from './pcg-options';
 import { DoubleTree } from '../spacetime/double-tree';
 import { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import { TensorOperatorPlan } from '../spacetime/tensor-apply';
@@ -12,7 +13,8 @@ import { SpaceTimeSolution } from '../output/space-time-solution';
 import { FibreInverseCache, type InnerSolver } from './fibre-inverse';
 import { HeatProblem, type HeatProblemSpec } from './heat-problem';
 import { InitialTraceOperator } from './initial-trace';
-import { pcg, type PcgOptions, type PcgResult } from './pcg';
+import { pcg, type PcgResult } from './pcg';
+import type { SystemSolveOptions } from './pcg-options';
 import { initialLoad, sourceLoad } from './right-hand-side';
 import { SchurOperator } from './schur-operator';
 import { TestPreconditioner } from './test-preconditioner';
@@ -39,11 +41,6 @@ export interface SpatialCaches {
   inverses: FibreInverseCache;
 }
 
-/** Options of {@link SpaceTimeSystem.solve}. */
-export type SystemSolveOptions = Omit<PcgOptions, 'preconditioner'> & {
-  /** Right-hand side (default: the system's own, {@link SpaceTimeSystem.rightHandSide}). */
-  rightHandSide?: Float64Array;
-};
 
 /**
  * The space-time system S u = b on a trial double tree Λ.

@@ -3,7 +3,7 @@ import { checkInteger, checkObject, checkOneOf, checkOptions } from '../validati
 import type { InnerSolver } from './fibre-inverse';
 import type { SpaceTimeSystemOptions } from './space-time-system';
 
-const SYSTEM_KEYS: Record<keyof Required<SpaceTimeSystemOptions>, true> = { inner: true, preconditionerInner: true };
+const SYSTEM_KEYS: Record<keyof Required<SpaceTimeSystemOptions>, true> = { inner: true, preconditionerInner: true, caches: true };
 
 /** Checks an {@link InnerSolver}: `{ kind: 'multigrid', cycles?: 1…100 }` or `{ kind: 'exact' }`. */
 export function validateInnerSolver(v: unknown, field: string): InnerSolver {
