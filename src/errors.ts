@@ -136,6 +136,23 @@ export class RunInterruptedError extends ChronomeshError {
   }
 }
 
+/**
+ * An iterative solve stopped at its iteration cap before reaching the requested tolerance (for
+ * example the adjoint solve of a gradient). `field` names the solve, `expected` the tolerance and
+ * `received` the residual reached.
+ * @example
+ * ```ts
+ * import { ConvergenceError } from 'chronomesh';
+ * const e = new ConvergenceError('adjoint PCG did not converge', { field: 'adjoint', expected: '≤ 1e-10', received: 3e-6 });
+ * console.log(e.code, e.field); // not-converged adjoint
+ * ```
+ */
+export class ConvergenceError extends ChronomeshError {
+  constructor(message: string, details: ErrorDetails = {}) {
+    super('not-converged', message, details);
+  }
+}
+
 /** Formats a value for an error message without dumping large arrays. */
 export function describeValue(v: unknown): string {
   if (typeof v === 'number') return Number.isNaN(v) ? 'NaN' : String(v);

@@ -6,6 +6,7 @@
  */
 export {
   ChronomeshError,
+  ConvergenceError,
   InvalidArgumentError,
   InvalidIndexSetError,
   InvalidMeshError,
@@ -23,3 +24,4 @@ export * from './output/index';
 export * from './adapt/index';
 export { solve, type SolveResult } from './solve';
 export { memoryBudget, setMemoryBudget } from './validation/budget';
+export * from './estimation/index';
