@@ -9,10 +9,39 @@ import { HeatProblem } from '../../src/system/heat-problem';
 import { SpaceTimeSystem } from '../../src/system/space-time-system';
 import { randomDoubleTree, smallDomain, type TreeShape } from '../spacetime/fixtures';
 import {
-  denseBlockDiagonal, denseInitialTrace, denseTensorOperator, matVec, randomVector, relativeError, seededRandom,
+  denseBlockDiagonal, denseInitialTrace, denseSpatialOnUnion, denseTensorOperator, labels, matVec, randomVector, relativeError, seededRandom,
 } from '../spacetime/reference';
+import type { DoubleTree } from '../../src/spacetime/double-tree';
 
 const T = 0.8;
+
+/**
+ * Dense ½ P (T·A + M)⁻¹ Pᵀ: the subspace of functions constant in time, 1 ⊗ v with v on the
+ * common fibre F of the two level-0 trial nodes, 1 = √(T/3)(σ_{0,0} + σ_{0,1}) (σ_{0,j} are the
+ * L2-normalised hats √(3/T)(1 − t/T), √(3/T)·t/T). Assembled from the definitions, independently
+ * of the fast code's index bookkeeping.
+ */
+function denseConstantInTime(domain: ReturnType<typeof smallDomain>, trial: DoubleTree): Matrix {
+  const sp = denseSpatialOnUnion(domain, [trial]);
+  const l = labels(trial);
+  const rows0 = new Map<number, number>();
+  const rows1 = new Map<number, number>();
+  l.forEach((lab, r) => {
+    if (trial.tree.level[lab.fn] !== 0) return;
+    (trial.tree.index[lab.fn] === 0 ? rows0 : rows1).set(lab.vertex, r);
+  });
+  const F = [...rows0.keys()].filter((v) => rows1.has(v));
+  const out = new Matrix(trial.size, trial.size);
+  if (F.length === 0) return out;
+  const K = new Matrix(F.length, F.length);
+  F.forEach((u, i) => F.forEach((w, j) => K.set(i, j, T * sp.A[sp.pos.get(u)!]![sp.pos.get(w)!]! + sp.M[sp.pos.get(u)!]![sp.pos.get(w)!]!)));
+  const Ki = inverse(K);
+  const c = T / 3 / 2;
+  F.forEach((u, i) => F.forEach((w, j) => {
+    for (const ru of [rows0.get(u)!, rows1.get(u)!]) for (const rw of [rows0.get(w)!, rows1.get(w)!]) out.set(ru, rw, out.get(ru, rw) + c * Ki.get(i, j));
+  }));
+  return out;
+}
 const shapes: TreeShape[] = ['sparse', 'graded-start', 'random'];
 
 describe.each([1, 2] as const)('space-time system operators, d = %i', (dim) => {
@@ -31,6 +60,7 @@ describe.each([1, 2] as const)('space-time system operators, d = %i', (dim) => {
       const inv = inverse(Matrix.add(A, Matrix.mul(M, alpha[f]!)));
       return inv.mmul(A).mmul(inv);
     });
+    KXd.add(denseConstantInTime(domain, trial));
     const Bd = denseTensorOperator(domain, 'derivIn', 'mass', trial, test, T);
     const Sd = Bd.transpose().mmul(KYd).mmul(Bd).add(Gd);
 

@@ -95,7 +95,9 @@ describe('preconditioned Schur complement: cond(K_X S) stays bounded', () => {
         return pcg.spectrum!.condition;
       });
       console.log(`cond(K_X S) d=${dim} ${inner}: ${conds.map((c) => c.toFixed(2)).join(', ')}`);
-      const bound = inner === 'exact' ? 7.5 : 16;
+      // The constant-in-time term of K_X (robustness in κT/L², see trial-preconditioner.ts) raises
+      // λ_max from ≈ 1.6 to ≈ 2 at κT = O(1): measured 11.2–17.1 (d = 1) and 10.7–14.6 (d = 2) here.
+      const bound = inner === 'exact' ? 7.5 : 20;
       for (const c of conds) expect(c).toBeLessThan(bound);
       // Growth between the two largest grids stays small (levels off).
       expect(conds[conds.length - 1]! / conds[conds.length - 2]!).toBeLessThan(1.25);

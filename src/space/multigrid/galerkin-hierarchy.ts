@@ -30,6 +30,12 @@ export interface LevelHierarchy {
    */
   readonly setBegin: Int32Array;
   readonly setEnd: Int32Array;
+  /**
+   * setVerts[setBegin[g] .. narrowEnd[g]) are the new free vertices of generation g and their free
+   * interpolation parents (the classical local smoothing set); [narrowEnd[g], setEnd[g]) their other
+   * free neighbours in mesh_g (smoothed only by the Jacobi smoother, see multilevel-preconditioner.ts).
+   */
+  readonly narrowEnd: Int32Array;
   readonly setVerts: Int32Array;
   /** Row of A_g, M_g for the set entry k: off-diagonals rowCols/rowVals[rowPtr[k] .. rowPtr[k+1]), values interleaved (A, M). */
   readonly rowPtr: Int32Array;
@@ -85,47 +91,58 @@ export function buildHierarchy(mesh: LeafMesh, rows: PairedRows): LevelHierarchy
   for (let m = 0; m < n; m++) levelStart[gen[m]! + 1] = levelStart[gen[m]! + 1]! + 1;
   for (let g = 0; g < levels; g++) levelStart[g + 1] = levelStart[g + 1]! + levelStart[g]!;
 
-  // Smoothing sets: new free vertices of generation g, then their free parents (first occurrence).
+  // Smoothing sets S_g, chosen level by level on the current (level-g) matrix rows: the new free
+  // vertices of generation g, their free interpolation parents, then their other free neighbours
+  // in mesh_g (bounded in number per new vertex, so the total stays linear).
   const mark = new Int32Array(n).fill(-1);
   const setBegin = new Int32Array(levels);
   const setEnd = new Int32Array(levels);
+  const narrowEnd = new Int32Array(levels);
+  let setCap = Math.max(16, 2 * n);
+  let setVerts = new Int32Array(setCap);
   let total = 0;
-  for (let g = levels - 1; g >= 1; g--) {
-    setBegin[g] = total;
-    for (let m = levelStart[g]!; m < levelStart[g + 1]!; m++) {
-      if (!free[m]) continue;
-      total++;
-      const a = pa[m]!;
-      const b = pb[m]!;
-      if (free[a] && mark[a] !== g) { mark[a] = g; total++; }
-      if (free[b] && mark[b] !== g) { mark[b] = g; total++; }
+  const push = (v: number, g: number): void => {
+    if (!free[v] || mark[v] === g) return;
+    mark[v] = g;
+    if (total === setCap) {
+      setCap *= 2;
+      const s2 = new Int32Array(setCap);
+      s2.set(setVerts);
+      setVerts = s2;
     }
-    setEnd[g] = total;
-  }
-  setBegin[0] = total;
-  setEnd[0] = total;
-  const setVerts = new Int32Array(total);
-  mark.fill(-1);
-  for (let g = levels - 1; g >= 1; g--) {
-    let k = setBegin[g]!;
-    for (let m = levelStart[g]!; m < levelStart[g + 1]!; m++) if (free[m]) setVerts[k++] = m;
-    for (let m = levelStart[g]!; m < levelStart[g + 1]!; m++) {
-      if (!free[m]) continue;
-      const a = pa[m]!;
-      const b = pb[m]!;
-      if (free[a] && mark[a] !== g) { mark[a] = g; setVerts[k++] = a; }
-      if (free[b] && mark[b] !== g) { mark[b] = g; setVerts[k++] = b; }
-    }
-  }
+    setVerts[total++] = v;
+  };
 
-  const rowPtr = new Int32Array(total + 1);
-  const rowDiag = new Float64Array(2 * total);
-  let cap = Math.max(16, 8 * total);
+  let rowPtr = new Int32Array(setCap + 1);
+  let rowDiag = new Float64Array(2 * setCap);
+  let cap = Math.max(16, 16 * n);
   let rowCols = new Int32Array(cap);
   let rowVals = new Float64Array(2 * cap);
   let used = 0;
 
   for (let g = levels - 1; g >= 1; g--) {
+    setBegin[g] = total;
+    for (let m = levelStart[g]!; m < levelStart[g + 1]!; m++) push(m, g);
+    for (let m = levelStart[g]!; m < levelStart[g + 1]!; m++) {
+      if (!free[m]) continue;
+      push(pa[m]!, g);
+      push(pb[m]!, g);
+    }
+    narrowEnd[g] = total;
+    for (let m = levelStart[g]!; m < levelStart[g + 1]!; m++) {
+      if (!free[m]) continue;
+      const s0 = rows.start[m]!;
+      for (let t = 0; t < rows.len[m]!; t++) push(rows.cols[s0 + t]!, g);
+    }
+    setEnd[g] = total;
+    if (rowPtr.length < total + 1) {
+      const p2 = new Int32Array(setCap + 1);
+      p2.set(rowPtr);
+      rowPtr = p2;
+      const d2 = new Float64Array(2 * setCap);
+      d2.set(rowDiag);
+      rowDiag = d2;
+    }
     // 1. copy the rows of A_g, M_g needed by the smoother of level g
     for (let k = setBegin[g]!; k < setEnd[g]!; k++) {
       const v = setVerts[k]!;
@@ -157,6 +174,12 @@ export function buildHierarchy(mesh: LeafMesh, rows: PairedRows): LevelHierarchy
       if (free[m]) eliminate(rows, m, free[pa[m]!] ? pa[m]! : -1, free[pb[m]!] ? pb[m]! : -1);
     }
   }
+  setBegin[0] = total;
+  setEnd[0] = total;
+  narrowEnd[0] = total;
+  setVerts = setVerts.slice(0, total);
+  rowPtr = rowPtr.slice(0, total + 1);
+  rowDiag = rowDiag.slice(0, 2 * total);
   rowPtr[total] = used;
 
   // Coarse matrices on the free initial vertices.
@@ -184,7 +207,7 @@ export function buildHierarchy(mesh: LeafMesh, rows: PairedRows): LevelHierarchy
   }
   const trim = used < 0.85 * cap; // release over-allocated snapshot storage
   return {
-    levels, levelStart, setBegin, setEnd, setVerts, rowPtr, rowCols: trim ? rowCols.slice(0, used) : rowCols.subarray(0, used), rowVals: trim ? rowVals.slice(0, 2 * used) : rowVals.subarray(0, 2 * used),
+    levels, levelStart, setBegin, setEnd, narrowEnd, setVerts, rowPtr, rowCols: trim ? rowCols.slice(0, used) : rowCols.subarray(0, used), rowVals: trim ? rowVals.slice(0, 2 * used) : rowVals.subarray(0, 2 * used),
     rowDiag, coarseVerts, coarsePtr, coarseCols, coarseVals, coarseDiag,
   };
 }

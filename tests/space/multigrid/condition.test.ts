@@ -72,7 +72,9 @@ describe('condition number of V·(A + αM), Lanczos from PCG', () => {
   ];
   it.each(graded)('%s: below the bound for all α and not growing with refinement', (_n, family) => {
     const byLevel: number[][] = [];
-    for (const level of [4, 8]) {
+    // three sizes: with the default smoother the mass-dominated levels use Jacobi, whose bound
+    // (≈ 1.9) is reached only after a few generations; growth is judged between the two finest
+    for (const level of [4, 8, 12]) {
       const mesh = family(level);
       const pre = new MultilevelPreconditioner(mesh);
       byLevel.push(ALPHAS.map((alpha) => {
@@ -81,6 +83,6 @@ describe('condition number of V·(A + αM), Lanczos from PCG', () => {
         return c;
       }));
     }
-    for (let a = 0; a < ALPHAS.length; a++) expect(byLevel[1]![a]!).toBeLessThan(byLevel[0]![a]! + 0.25);
+    for (let a = 0; a < ALPHAS.length; a++) expect(byLevel[2]![a]!).toBeLessThan(byLevel[1]![a]! + 0.25);
   });
 });

@@ -121,7 +121,15 @@ describe('Galerkin hierarchy', () => {
         if (mesh.isFree[mesh.parentA[m]!]) want.add(mesh.parentA[m]!);
         if (mesh.isFree[mesh.parentB[m]!]) want.add(mesh.parentB[m]!);
       }
-      expect(new Set(verts)).toEqual(want);
+      const narrow = h.setVerts.subarray(h.setBegin[g]!, h.narrowEnd[g]!);
+      expect(new Set(narrow)).toEqual(want);
+      // the widened part (Jacobi smoothing only): free mesh_g neighbours of the new vertices
+      const wide = h.setVerts.subarray(h.narrowEnd[g]!, h.setEnd[g]!);
+      for (const v of wide) {
+        expect(want.has(v)).toBe(false);
+        expect(mesh.isFree[v]).toBe(1);
+        expect(mesh.generation[v]!).toBeLessThan(g);
+      }
     }
     expect(rowsChecked).toBeGreaterThan(0);
     const ref0 = denseMatrices(f.leafMesh(0));

@@ -50,7 +50,7 @@ const cases: [string, () => { dom: SpatialDomain; sets: Int32Array[] }][] = [
   }],
   ['L-shape, 30 generations toward the re-entrant corner', () => {
     const dom = lShapeDomain(1);
-    return { dom, sets: [dom.refineTowards(dom.uniformSet(1), [0, 0], 30), dom.refineTowards(dom.uniformSet(3), [0, 0], 30)] };
+    return { dom, sets: [dom.refineTowards(dom.uniformSet(1), [0, 0], 30), dom.refineTowards(dom.uniformSet(3), [0, 0], 30), dom.refineTowards(dom.uniformSet(5), [0, 0], 30)] };
   }],
   ['L-shape with insulated top, 24 generations toward the edge y = −1', () => {
     const dom = lShapeDomain(1, { insulated: (_x, y) => y > 0.999, reaction: 1 });
@@ -71,7 +71,10 @@ describe('V-cycle on real domains, hierarchical coordinates', () => {
       });
     });
     // compare the worst case over α: for a fixed α the ratio α h² moves with h, so a single α may pass from the
-    // mass-dominated to the diffusion-dominated regime (cond ≈ 1.1 → 1.4) without any growth in the bound
-    expect(Math.max(...byLevel[1]!)).toBeLessThan(Math.max(...byLevel[0]!) + 0.25);
+    // mass-dominated to the diffusion-dominated regime (cond ≈ 1.1 → 1.4) without any growth in the bound.
+    // Judged between the two finest sets: the Jacobi levels of the default smoother reach their bound
+    // (≈ 1.9) only after a few generations.
+    const k = byLevel.length - 1;
+    expect(Math.max(...byLevel[k]!)).toBeLessThan(Math.max(...byLevel[k - 1]!) + 0.25);
   });
 });
