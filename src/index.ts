@@ -12,6 +12,7 @@ export {
   InvalidMeshError,
   RunInterruptedError,
   SolverBreakdownError,
+  NotConvergedError,
   ResourceLimitError,
   type ErrorDetails,
 } from './errors';

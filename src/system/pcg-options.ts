@@ -13,10 +13,17 @@ const PCG_KEYS: Record<keyof Required<PcgOptions>, true> = {
 };
 
 /** Options of `SpaceTimeSystem.solve` (PCG options without the preconditioner, plus a right-hand side). */
-export type SystemSolveOptions = Omit<PcgOptions, 'preconditioner'> & { rightHandSide?: Float64Array };
+export type SystemSolveOptions = Omit<PcgOptions, 'preconditioner'> & {
+  rightHandSide?: Float64Array;
+  /**
+   * Return an unconverged result instead of raising NotConvergedError when PCG stops at its
+   * iteration cap (default false). The result then has `pcg.converged === false` and a `warning`.
+   */
+  allowUnconverged?: boolean;
+};
 
 const SOLVE_KEYS: Record<keyof Required<SystemSolveOptions>, true> = {
-  relTol: true, absTol: true, maxIterations: true, initialGuess: true, estimateSpectrum: true, rightHandSide: true,
+  relTol: true, absTol: true, maxIterations: true, initialGuess: true, estimateSpectrum: true, rightHandSide: true, allowUnconverged: true,
   energyTol: true, energyDelay: true, signal: true, onIteration: true,
 };
 
@@ -54,5 +61,6 @@ export function validateSolveOptions(opts: unknown, n: number): SystemSolveOptio
   const o = checkOptions<SystemSolveOptions>(opts, 'opts', SOLVE_KEYS);
   checkCommon(o, n, 'opts');
   if (o.rightHandSide !== undefined) checkFloat64Array(o.rightHandSide, 'opts.rightHandSide', { length: n, finite: true });
+  if (o.allowUnconverged !== undefined) checkBoolean(o.allowUnconverged, 'opts.allowUnconverged');
   return o;
 }

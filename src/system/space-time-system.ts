@@ -3,7 +3,7 @@
  * set Λ (DESIGN.md §6): test set Λ_Y, operators B, Bᵀ, K_Y, G, the Schur
  * complement S, the preconditioner K_X and the right-hand side b.
  */
-import { InvalidArgumentError } from '../errors';
+import { InvalidArgumentError, NotConvergedError } from '../errors';
 export type { SystemSolveOptions } from './pcg-options';
 import { DoubleTree } from '../spacetime/double-tree';
 import { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
@@ -159,9 +159,18 @@ export class SpaceTimeSystem {
   }
 
   /** Solves S u = b by PCG with K_X (defaults: relTol 1e-8, max 500 iterations). */
-  solve(opts: SystemSolveOptions = {}): { solution: SpaceTimeSolution; pcg: PcgResult } {
-    const b = opts.rightHandSide ?? this.rightHandSide();
-    const result = pcg(this.S, b, { maxIterations: 500, ...opts, preconditioner: this.KX });
-    return { solution: new SpaceTimeSolution(this.problem.domain, this.trialSet, result.solution, this.problem.T), pcg: result };
+  solve(opts: SystemSolveOptions = {}): { solution: SpaceTimeSolution; pcg: PcgResult; warning?: string } {
+    const { allowUnconverged, ...pcgOpts } = opts;
+    const b = pcgOpts.rightHandSide ?? this.rightHandSide();
+    const result = pcg(this.S, b, { maxIterations: 500, ...pcgOpts, preconditioner: this.KX });
+    const solution = new SpaceTimeSolution(this.problem.domain, this.trialSet, result.solution, this.problem.T);
+    if (result.stopReason !== 'iterations') return { solution, pcg: result };
+    // Never silently wrong: an iterate cut off at the iteration cap is refused unless asked for.
+    const reached = result.residualHistory[result.residualHistory.length - 1]!;
+    const target = Math.max(opts.absTol ?? 0, (opts.relTol ?? 1e-8) * result.residualHistory[0]!);
+    const msg = `PCG stopped unconverged after ${result.iterations} iterations (maxIterations) on #Λ = ${this.size}: ` +
+      `preconditioned residual ${reached.toExponential(2)}, requested ${target.toExponential(2)}`;
+    if (!allowUnconverged) throw new NotConvergedError(`${msg}; raise maxIterations or relTol, or pass allowUnconverged: true to get the iterate`, result.iterations, reached, target, { field: 'maxIterations', received: result.iterations });
+    return { solution, pcg: result, warning: `UNCONVERGED: ${msg}` };
   }
 }
