@@ -22,7 +22,7 @@ import { validateAdaptiveOptions } from './adaptive-options';
 import { dorflerMark } from './dorfler';
 import { enlargeDoubleTree, type EnlargementOptions } from './enlargement';
 import { embeddingMap, prolongCoefficients } from './embedding';
-import { residualIndicators } from './estimator';
+import { estimateResidual } from './estimator';
 import { refineDoubleTree } from './refine';
 
 /** One pass of the adaptive loop, as recorded in the history. */
@@ -257,8 +257,8 @@ class AdaptiveRun {
     // ESTIMATE on the enlarged set Λ̲.
     this.checkpoint('estimate');
     const bigSet = enlargeDoubleTree(domain, set, this.opts.enlargement);
-    const bigSystem = new SpaceTimeSystem(problem, bigSet, { caches });
-    let ind = residualIndicators(bigSystem, set, solved!.solution);
+    const inner = this.opts.inner ?? { kind: 'multigrid' as const };
+    let ind = estimateResidual(problem, set, solved!.solution, bigSet, inner);
     let estimateSeconds = (performance.now() - t2) / 1000;
     // The solve must be accurate relative to the E it is reported with; resume PCG otherwise.
     for (let round = 0; round < 4 && !(solved!.energyError <= v.fraction * ind.estimate); round++) {
@@ -266,7 +266,7 @@ class AdaptiveRun {
       solveTo(v.fraction * ind.estimate);
       t2 += performance.now() - ts;
       const te = performance.now();
-      ind = residualIndicators(bigSystem, set, solved!.solution);
+      ind = estimateResidual(problem, set, solved!.solution, bigSet, inner);
       estimateSeconds += (performance.now() - te) / 1000;
     }
     const t3 = performance.now();

@@ -9,6 +9,10 @@ import { SolverBreakdownError } from '../errors';
 import { derivativeNorms } from '../time/index';
 import type { DoubleTree } from '../spacetime/double-tree';
 import type { SpaceTimeSystem } from '../system/space-time-system';
+import type { HeatProblem } from '../system/heat-problem';
+import type { InnerSolver } from '../system/fibre-inverse';
+import { enlargedResidual } from '../system/enlarged-residual';
+import { hierarchicalDiagonals } from '../space/hierarchical-diagonals';
 import { embeddingMap, prolongCoefficients } from './embedding';
 
 /** Result of {@link residualIndicators}. */
@@ -47,23 +51,52 @@ export function residualIndicators(enlarged: SpaceTimeSystem, set: DoubleTree, u
     enlarged.S.apply(ut, su);
     for (let i = 0; i < r.length; i++) r[i]! -= su[i]!;
   } else r = enlarged.residual(ut); // one application of B, K_Y, Bᵀ
+  return indicatorsFromResidual(enlarged.problem, big, r, map);
+}
+
+/**
+ * The estimator on Λ̲ = `enlarged` for the solution `u` on `set` without building a system on Λ̲:
+ * the residual costs about one application of S there and keeps nothing afterwards (see
+ * docs/adaptivity.md §3). This is what {@link solveAdaptive} uses.
+ *
+ * @example
+ * ```ts
+ * import { DoubleTree, HeatProblem, SpaceTimeSystem, enlargeDoubleTree, estimateResidual, intervalDomain } from 'chronomesh';
+ * const domain = intervalDomain(0, 1, 2);
+ * const problem = new HeatProblem({ domain, T: 1, initial: () => 1 });
+ * const set = DoubleTree.sparseGrid(domain, 4);
+ * const { pcg } = new SpaceTimeSystem(problem, set).solve();
+ * console.log(estimateResidual(problem, set, pcg.solution, enlargeDoubleTree(domain, set)).estimate);
+ * ```
+ */
+export function estimateResidual(problem: HeatProblem, set: DoubleTree, u: Float64Array, enlarged: DoubleTree, inner?: InnerSolver): ResidualIndicators {
+  const map = embeddingMap(set, enlarged);
+  const r = enlargedResidual(problem, set, u, enlarged, map, inner);
+  return indicatorsFromResidual(problem, enlarged, r, map);
+}
+
+/** η_i² = r_i² / d_i on Λ̲ \ Λ with the X-norm scaling d_i of the module comment. */
+function indicatorsFromResidual(problem: HeatProblem, big: DoubleTree, r: Float64Array, map: Int32Array): ResidualIndicators {
   for (let i = 0; i < r.length; i++) {
     if (!Number.isFinite(r[i]!)) throw new SolverBreakdownError(`the residual on the enlarged set is not finite at coefficient ${i} (${r[i]}): the solution or the data contain NaN or ∞`);
   }
   const inSmall = new Uint8Array(big.size);
   for (let p = 0; p < map.length; p++) inSmall[map[p]!] = 1;
-  const alpha = derivativeNorms(big.tree, enlarged.problem.T);
+  const alpha = derivativeNorms(big.tree, problem.T);
+  // Hierarchical diagonals per vertex: the basis function of a vertex does not depend on the set.
+  const { A, M } = hierarchicalDiagonals(problem.domain);
   const eta2 = new Float64Array(big.size);
   let total = 0;
   for (let f = 0; f < big.functionCount; f++) {
     const o = big.functionOffset[f]!;
     const n = big.functionOffset[f + 1]! - o;
     if (n === 0) continue;
-    const { A, M } = enlarged.fibreDiagonals(big.functionFibre[f]!);
+    const fibre = big.pool.get(big.functionFibre[f]!);
     const a2 = alpha[f]! * alpha[f]!;
     for (let p = 0; p < n; p++) {
       if (inSmall[o + p]) continue;
-      const d = A[p]! + (a2 * M[p]! * M[p]!) / A[p]!;
+      const v = fibre[p]!;
+      const d = A[v]! + (a2 * M[v]! * M[v]!) / A[v]!;
       const e = (r[o + p]! * r[o + p]!) / d;
       eta2[o + p] = e;
       total += e;

@@ -8,7 +8,7 @@ export {
   type AdaptiveStep,
 } from './adaptive-solver';
 export { enlargeDoubleTree, type EnlargementOptions } from './enlargement';
-export { residualIndicators, type ResidualIndicators } from './estimator';
+export { estimateResidual, residualIndicators, type ResidualIndicators } from './estimator';
 export { dorflerMark } from './dorfler';
 export { refineDoubleTree } from './refine';
 export { embeddingMap, prolongCoefficients } from './embedding';

@@ -2,6 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import { intervalDomain, lShapeDomain, rectangleDomain } from '../../src/index';
 import { MultilevelPreconditioner } from '../../src/space/multigrid/index';
+import { hierarchicalDiagonals } from '../../src/space/hierarchical-diagonals';
 import { denseSpatialMatrices } from '../space/reference';
 
 describe('hierarchical diagonals', () => {
@@ -22,6 +23,24 @@ describe('hierarchical diagonals', () => {
       const i = pos.get(v)!;
       expect(d.A[i]).toBeCloseTo(A[p]![p]!, 10);
       expect(d.M[i]).toBeCloseTo(M[p]![p]!, 12);
+    });
+  });
+});
+
+describe('per-vertex hierarchical diagonals from the forest', () => {
+  it.each([
+    ['interval with variable κ and reaction', () => intervalDomain(0, 2, 3, { kappa: (x) => 1 + x, reaction: 0.7 })],
+    ['square, graded, two materials', () => rectangleDomain(0, 1, 0, 1, 2, 2, { kappa: (x, y) => (x + y < 1 ? 1 : 4), reaction: 1 })],
+    ['L-shape', () => lShapeDomain(1)],
+  ] as const)('%s: equal the dense reference', (_name, make) => {
+    const domain = make();
+    let set = domain.uniformSet(2);
+    if (domain.dim === 2) set = domain.refineTowards(set, [0.1, 0.1], 5);
+    const d = hierarchicalDiagonals(domain);
+    const { M, A } = denseSpatialMatrices(domain, set, set);
+    set.forEach((v, p) => {
+      expect(d.A[v]).toBeCloseTo(A[p]![p]!, 10);
+      expect(d.M[v]).toBeCloseTo(M[p]![p]!, 12);
     });
   });
 });

@@ -104,3 +104,23 @@ describe('adaptive loop', () => {
     expect(last.estimate).toBeLessThan(0.5 * sparseE);
   }, 120_000);
 });
+
+describe('the one-pass estimator without a system on Λ̲', () => {
+  it('equals the estimator of a full system on Λ̲ (random coefficients, d = 1 and 2, with source and reaction)', async () => {
+    const { rng } = await import('../helpers/random');
+    const { estimateResidual, rectangleDomain } = await import('../../src/index');
+    const random = rng(11);
+    for (const domain of [intervalDomain(0, 1, 2, { reaction: 0.5 }), rectangleDomain(0, 1, 0, 1, 2, 2)]) {
+      const problem = new HeatProblem({ domain, T: 0.7, initial: (x) => 1 + x, source: (t, x) => Math.sin(3 * t + x) });
+      const set = DoubleTree.sparseGrid(domain, domain.dim === 1 ? 5 : 3);
+      const u = Float64Array.from({ length: set.size }, () => random() - 0.5);
+      const big = enlargeDoubleTree(domain, set);
+      const a = estimateResidual(problem, set, u, big);
+      const b = residualIndicators(new SpaceTimeSystem(problem, big), set, u);
+      expect(Math.abs(a.estimate - b.estimate)).toBeLessThan(1e-12 * b.estimate);
+      let worst = 0;
+      for (let i = 0; i < a.eta2.length; i++) worst = Math.max(worst, Math.abs(a.eta2[i]! - b.eta2[i]!));
+      expect(worst).toBeLessThan(1e-12 * b.estimate * b.estimate);
+    }
+  });
+});

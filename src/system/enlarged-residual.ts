@@ -1,0 +1,67 @@
+/**
+ * The residual r = b̲ − S̲ ũ of a solution u on Λ, extended by zero to a larger trial set Λ̲ ⊇ Λ,
+ * at the cost of about one application of S on Λ̲ and with nothing kept afterwards
+ * (docs/adaptivity.md §3):
+ *
+ *   r = B̲ᵀ K̲_Y (ℓ_f − B̲ ũ) + γ0ᵀ(u0 − γ0 ũ)   on Λ̲,
+ *
+ * where B̲ ũ only needs the input Λ (ũ vanishes on Λ̲ \ Λ), so it is applied from Λ to Λ̲_Y; K̲_Y
+ * is applied block by block with one spatial inverse alive at a time; and the spatial plans are
+ * released as soon as the pass that used them is done. No preconditioner is built on Λ̲.
+ */
+import type { DoubleTree } from '../spacetime/double-tree';
+import { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
+import { TensorOperatorPlan } from '../spacetime/tensor-apply';
+import { testIndexSet } from '../spacetime/test-index-set';
+import { FibreInverseCache, type InnerSolver } from './fibre-inverse';
+import type { HeatProblem } from './heat-problem';
+import { InitialTraceOperator } from './initial-trace';
+import { initialLoad, sourceLoad } from './right-hand-side';
+
+/**
+ * r = b̲ − S̲ ũ on `enlarged` for the coefficients `u` on `set` (both of one fibre pool, set ⊆
+ * enlarged), with `map` the positions of set's coefficients in enlarged.
+ * @internal
+ */
+export function enlargedResidual(
+  problem: HeatProblem,
+  set: DoubleTree,
+  u: Float64Array,
+  enlarged: DoubleTree,
+  map: Int32Array,
+  inner: InnerSolver = { kind: 'multigrid' },
+): Float64Array {
+  const T = problem.T;
+  const domain = problem.domain;
+  const pool = enlarged.pool;
+  const test = testIndexSet(enlarged);
+  const plans = new SpatialPlanCache(domain, pool);
+  // w = ℓ_f − B ũ on Λ̲_Y, with B applied from Λ (where ũ lives).
+  const w = sourceLoad(problem, test);
+  {
+    const Bu = new Float64Array(test.size);
+    new TensorOperatorPlan('derivIn', 'mass', set, test, plans, T).apply(u, Bu);
+    for (let i = 0; i < w.length; i++) w[i]! -= Bu[i]!;
+  }
+  plans.advanceEpoch(0); // B's spatial plans are no longer needed
+  // v = K_Y w, one test node (two functions, one fibre) at a time.
+  const v = new Float64Array(test.size);
+  const inverses = new FibreInverseCache(domain, pool, plans, inner);
+  for (let f = 0; f < test.functionCount; f++) {
+    const o = test.functionOffset[f]!;
+    if (test.functionOffset[f + 1]! === o) continue;
+    if ((f & 1) === 0) inverses.advanceEpoch(0);
+    inverses.get(test.functionFibre[f]!).apply(w, o, v, o, 0);
+  }
+  inverses.advanceEpoch(0);
+  plans.advanceEpoch(0);
+  // r = Bᵀ v on Λ̲, then the initial-trace terms γ0ᵀ u0 − G ũ.
+  const r = new Float64Array(enlarged.size);
+  new TensorOperatorPlan('derivOut', 'mass', test, enlarged, plans, T).apply(v, r);
+  const G = new InitialTraceOperator(enlarged, plans, T);
+  G.addTraced(initialLoad(problem, G.traceFibre), r, 1);
+  const ut = new Float64Array(enlarged.size);
+  for (let p = 0; p < map.length; p++) ut[map[p]!] = u[p]!;
+  G.applyAdd(ut, r, -1);
+  return r;
+}
