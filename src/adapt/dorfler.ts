@@ -4,6 +4,7 @@
  * one, found by binning the η² by powers of two instead of sorting.
  */
 import { InvalidArgumentError } from '../errors';
+import { checkFloat64Array, checkNumber } from '../validation/index';
 
 const BINS = 64;
 
@@ -17,6 +18,8 @@ const BINS = 64;
  * ```
  */
 export function dorflerMark(eta2: Float64Array, theta: number): Int32Array {
+  checkFloat64Array(eta2, 'eta2');
+  checkNumber(theta, 'theta', { min: 0, max: 1, minOpen: true, maxOpen: true });
   if (!(theta > 0 && theta < 1)) throw new InvalidArgumentError(`Dörfler parameter theta = ${theta} must lie in (0, 1)`, { field: 'theta', expected: '(0, 1)', received: theta });
   let total = 0;
   let max = 0;

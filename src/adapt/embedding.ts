@@ -3,8 +3,9 @@
  * hats and temporal wavelets do not depend on the set they belong to, so the
  * same function has the same coefficients in both sets (zero on Λ̲ \ Λ).
  */
+import { checkFloat64Array, checkInstance, checkInt32Array, checkInteger } from '../validation/index';
 import { InvalidIndexSetError } from '../errors';
-import type { DoubleTree } from '../spacetime/double-tree';
+import { DoubleTree } from '../spacetime/double-tree';
 import { positionsIn } from '../spacetime/fibre-pool';
 
 /** For every coefficient of `small`, its position in `large` (which must contain `small`). *
@@ -19,6 +20,9 @@ import { positionsIn } from '../spacetime/fibre-pool';
  * ```
  */
 export function embeddingMap(small: DoubleTree, large: DoubleTree): Int32Array {
+  checkInstance(small, DoubleTree, 'small', 'a DoubleTree');
+  checkInstance(large, DoubleTree, 'large', 'a DoubleTree');
+  if (small.kind !== large.kind) throw new InvalidIndexSetError(`small is a ${small.kind} set but large a ${large.kind} set`, { field: 'large', expected: small.kind, received: large.kind });
   const map = new Int32Array(small.size);
   const fpn = small.kind === 'test' ? 2 : 1;
   for (let i = 0; i < small.tree.size; i++) {
@@ -50,6 +54,13 @@ export function embeddingMap(small: DoubleTree, large: DoubleTree): Int32Array {
  * ```
  */
 export function prolongCoefficients(map: Int32Array, x: Float64Array, largeSize: number): Float64Array {
+  checkInt32Array(map, 'map');
+  checkFloat64Array(x, 'x', { length: map.length, finite: true });
+  checkInteger(largeSize, 'largeSize', 0, 2 ** 31 - 1);
+  for (let p = 0; p < map.length; p++) {
+    const q = map[p]!;
+    if (q < 0 || q >= largeSize) throw new InvalidIndexSetError(`map[${p}] = ${q} is outside 0…${largeSize - 1}`, { field: `map[${p}]`, expected: `[0, ${largeSize - 1}]`, received: q });
+  }
   const out = new Float64Array(largeSize);
   for (let p = 0; p < map.length; p++) out[map[p]!] = x[p]!;
   return out;

@@ -10,7 +10,9 @@
  * every temporal node can receive its first spatial unknowns.
  */
 import { nodeChildren } from '../time/index';
-import type { SpatialDomain } from '../space/index';
+import { SpatialDomain } from '../space/index';
+import { checkSetOnDomain } from '../spacetime/set-checks';
+import { checkInstance, checkInteger, checkOptions } from '../validation/index';
 import { DoubleTree } from '../spacetime/double-tree';
 import { unionSorted } from '../spacetime/fibre-pool';
 
@@ -23,6 +25,8 @@ export interface EnlargementOptions {
   spatialGenerations?: number;
 }
 
+const ENLARGEMENT_KEYS: Record<keyof Required<EnlargementOptions>, true> = { spatialGenerations: true };
+
 /** Λ̲ ⊇ Λ, sharing Λ's fibre pool. Grows the domain's bisection forest. *
  * @example
  * ```ts
@@ -33,6 +37,10 @@ export interface EnlargementOptions {
  * ```
  */
 export function enlargeDoubleTree(domain: SpatialDomain, set: DoubleTree, opts: EnlargementOptions = {}): DoubleTree {
+  checkInstance(domain, SpatialDomain, 'domain', 'a SpatialDomain');
+  checkSetOnDomain(set, domain, 'set');
+  const o = checkOptions<EnlargementOptions>(opts, 'opts', ENLARGEMENT_KEYS);
+  if (o.spatialGenerations !== undefined) checkInteger(o.spatialGenerations, 'opts.spatialGenerations', 1, 8);
   const generations = opts.spatialGenerations ?? domain.dim;
   const { tree } = set;
   const levels: number[] = [];

@@ -2,7 +2,10 @@
  * Refinement step of the adaptive loop (DESIGN.md §7): Λ ← closure(Λ ∪ M)
  * for marked pairs M of the enlarged set.
  */
-import type { SpatialDomain } from '../space/index';
+import { InvalidArgumentError } from '../errors';
+import { SpatialDomain } from '../space/index';
+import { checkSetOnDomain } from '../spacetime/set-checks';
+import { checkInstance, checkInt32Array } from '../validation/index';
 import { DoubleTree } from '../spacetime/double-tree';
 
 /** closure(Λ ∪ {pairs of Λ̲ at the given coefficient positions}). *
@@ -18,6 +21,18 @@ import { DoubleTree } from '../spacetime/double-tree';
  * ```
  */
 export function refineDoubleTree(domain: SpatialDomain, set: DoubleTree, enlarged: DoubleTree, marked: Int32Array): DoubleTree {
+  checkInstance(domain, SpatialDomain, 'domain', 'a SpatialDomain');
+  checkSetOnDomain(set, domain, 'set');
+  checkSetOnDomain(enlarged, domain, 'enlarged');
+  checkInt32Array(marked, 'marked');
+  for (let i = 0; i < marked.length; i++) {
+    const m = marked[i]!;
+    if (m < 0 || m >= enlarged.size || (i > 0 && !(m > marked[i - 1]!))) {
+      throw new InvalidArgumentError(`marked[${i}] = ${m} must be a position in enlarged (0…${enlarged.size - 1}), strictly increasing`, {
+        field: `marked[${i}]`, expected: `sorted positions in [0, ${enlarged.size - 1}]`, received: m,
+      });
+    }
+  }
   const levels: number[] = [];
   const indices: number[] = [];
   const sets: Int32Array[] = [];

@@ -9,7 +9,7 @@
  */
 import ndarray from 'ndarray';
 import type { GridView } from './grid-view';
-import { InvalidArgumentError } from '../errors';
+import { InvalidArgumentError, describeValue } from '../errors';
 import { evaluateTemporal } from '../time/index';
 import { SpatialDomain, evaluateAt, nodalValues } from '../space/index';
 import { checkSetOnDomain } from '../spacetime/set-checks';
@@ -52,7 +52,7 @@ export class SpaceTimeSolution {
   /** Hierarchical coefficients of u(t, ·) on the union of the active fibres. */
   spatialCoefficients(t: number): { set: Int32Array; coeffs: Float64Array } {
     if (typeof t !== 'number' || !Number.isFinite(t) || t < 0 || t > this.T) {
-      throw new InvalidArgumentError(`time t = ${t} is outside [0, ${this.T}]`, { field: 't', expected: `[0, ${this.T}]`, received: t });
+      throw new InvalidArgumentError(`time t = ${describeValue(t)} is outside [0, ${this.T}]`, { field: 't', expected: `[0, ${this.T}]`, received: t });
     }
     const { tree } = this.trialSet;
     const active: number[] = [];

@@ -1,5 +1,5 @@
 /** Point evaluation and nodal values of finite element functions given in hierarchical coordinates. */
-import { checkNumber, checkNumberArray } from '../validation/index';
+import { checkFloat64Array, checkInt32Array, checkNumber, checkNumberArray } from '../validation/index';
 import { InvalidArgumentError, describeValue } from '../errors';
 import type { SpatialDomain } from './domain';
 import { hierarchicalToNodal } from './hierarchical';
@@ -7,6 +7,8 @@ import type { LeafMesh } from './leaf-mesh';
 import { localIndices } from './operator-plan';
 
 function checkCoeffs(set: Int32Array, coeffs: Float64Array): void {
+  checkInt32Array(set, 'set');
+  checkFloat64Array(coeffs, 'coeffs', { finite: true });
   if (!(coeffs instanceof Float64Array) || coeffs.length < set.length) {
     throw new InvalidArgumentError(`coeffs must be a Float64Array with one value per vertex of the set (${set.length})`, {
       field: 'coeffs',

@@ -10,7 +10,7 @@
  * of the node one after the other. Fibres may be empty (intermediate sets of
  * the tensor apply share the temporal projection of Λ_in or Λ_out).
  */
-import { InvalidArgumentError, InvalidIndexSetError } from '../errors';
+import { InvalidArgumentError, InvalidIndexSetError, describeValue } from '../errors';
 import { TemporalTree, nodeParents, type TemporalBasisKind } from '../time/index';
 import { SpatialDomain } from '../space/index';
 import { checkInstance, checkNumber, checkNumberArray, checkObject, checkOptions } from '../validation/index';
@@ -293,7 +293,7 @@ function checkDomain(domain: unknown): void {
 
 function checkLevel(L: number, field: string): void {
   if (!Number.isInteger(L) || L < 0 || L > 40) {
-    throw new InvalidArgumentError(`${field} = ${L} must be an integer level in [0, 40]`, { field, expected: 'integer in [0, 40]', received: L });
+    throw new InvalidArgumentError(`${field} = ${describeValue(L)} must be an integer level in [0, 40]`, { field, expected: 'integer in [0, 40]', received: L });
   }
 }
 

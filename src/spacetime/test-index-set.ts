@@ -5,6 +5,8 @@
  * the ancestors of λ (which carry ν too), so only same-level overlaps are
  * needed: Λ_Y(μ, ·) = ∪{Λ(λ, ·) : |λ| = |μ|, supports overlap}.
  */
+import { InvalidArgumentError } from '../errors';
+import { checkInstance } from '../validation/index';
 import { TemporalTree } from '../time/index';
 import { DoubleTree } from './double-tree';
 import { overlapUnionFibres } from './overlap-unions';
@@ -20,6 +22,8 @@ import { overlapUnionFibres } from './overlap-unions';
  * ```
  */
 export function testIndexSet(trial: DoubleTree): DoubleTree {
+  checkInstance(trial, DoubleTree, 'trial', 'a trial DoubleTree');
+  if (trial.kind !== 'trial') throw new InvalidArgumentError(`trial is a ${trial.kind} double tree, expected a trial one`, { field: 'trial', expected: 'trial', received: trial.kind });
   const tree = trial.tree;
   const levels: number[] = [];
   const indices: number[] = [];
