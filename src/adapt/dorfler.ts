@@ -18,7 +18,7 @@ const BINS = 64;
  * ```
  */
 export function dorflerMark(eta2: Float64Array, theta: number): Int32Array {
-  checkFloat64Array(eta2, 'eta2');
+  checkFloat64Array(eta2, 'eta2', { finite: false }); // the loop below names a bad indicator
   checkNumber(theta, 'theta', { min: 0, max: 1, minOpen: true, maxOpen: true });
   if (!(theta > 0 && theta < 1)) throw new InvalidArgumentError(`Dörfler parameter theta = ${theta} must lie in (0, 1)`, { field: 'theta', expected: '(0, 1)', received: theta });
   let total = 0;
