@@ -4,9 +4,9 @@
  * problem's own domain, and no unknown keys (a misspelt key is answered with the nearest name).
  */
 import { InvalidArgumentError } from '../errors';
-import { checkFunction, checkInteger, checkNumber, checkOptions } from '../validation/index';
+import { checkFunction, checkInstance, checkInteger, checkNumber, checkOptions } from '../validation/index';
 import { checkSetOnDomain } from '../spacetime/set-checks';
-import type { HeatProblem } from '../system/heat-problem';
+import { HeatProblem } from '../system/heat-problem';
 import { validateInnerSolver } from '../system/system-options';
 import type { AdaptiveOptions } from './adaptive-solver';
 
@@ -15,8 +15,9 @@ const ADAPTIVE_KEYS: Record<keyof Required<AdaptiveOptions>, true> = {
   initialSet: true, solverFraction: true, inner: true, onStep: true, onProgress: true, signal: true, enlargement: true,
 };
 
-/** Checks `solveAdaptive(problem, opts)`'s options; `undefined` gives `{}`. */
+/** Checks `solveAdaptive(problem, opts)`: the problem, then the options (`undefined` gives `{}`). */
 export function validateAdaptiveOptions(opts: unknown, problem: HeatProblem, field = 'opts'): AdaptiveOptions {
+  checkInstance(problem, HeatProblem, 'problem', 'a HeatProblem');
   const o = checkOptions<AdaptiveOptions>(opts, field, ADAPTIVE_KEYS);
   if (o.theta !== undefined) checkNumber(o.theta, `${field}.theta`, { min: 0, max: 1, minOpen: true, maxOpen: true });
   if (o.tolerance !== undefined) checkNumber(o.tolerance, `${field}.tolerance`, { min: 0 });
