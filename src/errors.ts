@@ -89,39 +89,8 @@ export class InvalidMeshError extends ChronomeshError {
  * ```
  */
 export class SolverBreakdownError extends ChronomeshError {
-  constructor(message: string, details: ErrorDetails = {}, code = 'solver-breakdown') {
-    super(code, message, details);
-  }
-}
-
-/**
- * An iterative solve stopped at its iteration cap before reaching the requested accuracy: the
- * returned iterate would be an unconverged (possibly far-off) approximation. A subclass of
- * {@link SolverBreakdownError} with code `not-converged`; it carries the iteration count and the
- * achieved and requested preconditioned residual norms. `SpaceTimeSystem.solve` raises it unless
- * called with `allowUnconverged: true`.
- *
- * @example
- * ```ts
- * import { DoubleTree, HeatProblem, NotConvergedError, SpaceTimeSystem, intervalDomain } from 'chronomesh';
- * const domain = intervalDomain(0, 1, 2);
- * const system = new SpaceTimeSystem(new HeatProblem({ domain, T: 1, initial: () => 1 }), DoubleTree.sparseGrid(domain, 5));
- * try { system.solve({ maxIterations: 2 }); }
- * catch (e) { if (e instanceof NotConvergedError) console.log(e.code, e.iterations, e.residual > e.target); } // not-converged 2 true
- * ```
- */
-export class NotConvergedError extends SolverBreakdownError {
-  /** Iterations made. */
-  readonly iterations: number;
-  /** Preconditioned residual norm √(rᵀKr) reached. */
-  readonly residual: number;
-  /** The norm that was asked for. */
-  readonly target: number;
-  constructor(message: string, iterations: number, residual: number, target: number, details: ErrorDetails = {}) {
-    super(message, details, 'not-converged');
-    this.iterations = iterations;
-    this.residual = residual;
-    this.target = target;
+  constructor(message: string, details: ErrorDetails = {}) {
+    super('solver-breakdown', message, details);
   }
 }
 
@@ -181,6 +150,37 @@ export class RunInterruptedError extends ChronomeshError {
 export class ConvergenceError extends ChronomeshError {
   constructor(message: string, details: ErrorDetails = {}) {
     super('not-converged', message, details);
+  }
+}
+
+/**
+ * An iterative solve stopped at its iteration cap before reaching the requested accuracy: the
+ * returned iterate would be an unconverged (possibly far-off) approximation. A
+ * {@link ConvergenceError} (code `not-converged`) raised by the space-time solve; it carries the iteration count and the
+ * achieved and requested preconditioned residual norms. `SpaceTimeSystem.solve` raises it unless
+ * called with `allowUnconverged: true`.
+ *
+ * @example
+ * ```ts
+ * import { DoubleTree, HeatProblem, NotConvergedError, SpaceTimeSystem, intervalDomain } from 'chronomesh';
+ * const domain = intervalDomain(0, 1, 2);
+ * const system = new SpaceTimeSystem(new HeatProblem({ domain, T: 1, initial: () => 1 }), DoubleTree.sparseGrid(domain, 5));
+ * try { system.solve({ maxIterations: 2 }); }
+ * catch (e) { if (e instanceof NotConvergedError) console.log(e.code, e.iterations, e.residual > e.target); } // not-converged 2 true
+ * ```
+ */
+export class NotConvergedError extends ConvergenceError {
+  /** Iterations made. */
+  readonly iterations: number;
+  /** Preconditioned residual norm √(rᵀKr) reached. */
+  readonly residual: number;
+  /** The norm that was asked for. */
+  readonly target: number;
+  constructor(message: string, iterations: number, residual: number, target: number, details: ErrorDetails = {}) {
+    super(message, details);
+    this.iterations = iterations;
+    this.residual = residual;
+    this.target = target;
   }
 }
 
