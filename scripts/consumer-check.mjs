@@ -133,6 +133,13 @@ if (!(r.solution.sampleGrid([0.1], [0.5]).get(0, 0) > 0)) throw new Error('sampl
   sh(process.execPath, ['cjs.cjs'], dir);
 });
 
+step('bin: every command of the package answers --help', () => {
+  const installed = JSON.parse(readFileSync(join(work, 'node_modules', 'chronomesh', 'package.json'), 'utf8'));
+  const bins = Object.keys(installed.bin ?? {});
+  for (const b of bins) sh(join(work, 'node_modules', '.bin', b), ['--help'], work);
+  return bins.join(', ');
+});
+
 if (run) {
   for (const [name, kind] of [['ts-esm-node16', 'ES modules'], ['ts-cjs-node16', 'CommonJS']]) {
     step(`run the README blocks as ${kind} (${name} output)`, () => {

@@ -4,7 +4,7 @@
  * (typed-function), so a wrong argument gets one clear typed error instead
  * of failing somewhere inside.
  */
-import typed from 'typed-function';
+import { typed } from './vendor/typed-function';
 import { InvalidArgumentError } from './errors';
 import { solveAdaptive, type AdaptiveOptions, type AdaptiveStep } from './adapt/adaptive-solver';
 import { SpaceTimeSolution } from './output/space-time-solution';
@@ -26,10 +26,6 @@ export interface SolveResult {
   history: AdaptiveStep[] | null;
 }
 
-const t = typed.create();
-t.addType({ name: 'HeatProblem', test: (x) => x instanceof HeatProblem });
-t.addType({ name: 'DoubleTree', test: (x) => x instanceof DoubleTree });
-
 function onSet(problem: HeatProblem, set: DoubleTree): SolveResult {
   checkSetOnDomain(set, problem.domain, 'how');
   checkMemory(set.size * BYTES_PER_SYSTEM_UNKNOWN, `the space-time system on ${set.size} unknowns`, 'how', 'choose a smaller index set');
@@ -50,12 +46,28 @@ function adaptive(problem: HeatProblem, opts: AdaptiveOptions): SolveResult {
   return { solution: r.solution, set: r.set, pcg: null, history: r.history };
 }
 
-const dispatch = t<(...args: unknown[]) => SolveResult>('solve', {
-  HeatProblem: (p: HeatProblem) => adaptive(p, {}),
-  'HeatProblem, Object': (p: HeatProblem, o: AdaptiveOptions) => adaptive(p, o),
-  'HeatProblem, number': onLevel,
-  'HeatProblem, DoubleTree': (p: HeatProblem, set: DoubleTree) => onSet(p, set),
-});
+type Dispatch = (...args: unknown[]) => SolveResult;
+let dispatcher: Dispatch | null = null;
+
+/**
+ * The typed-function dispatcher, built on the first call: building it at module
+ * load would be work every importer pays for and would keep bundlers from
+ * dropping this module (and everything it reaches) when solve() is not used.
+ */
+function dispatch(): Dispatch {
+  if (dispatcher === null) {
+    const t = typed.create();
+    t.addType({ name: 'HeatProblem', test: (x) => x instanceof HeatProblem });
+    t.addType({ name: 'DoubleTree', test: (x) => x instanceof DoubleTree });
+    dispatcher = t<Dispatch>('solve', {
+      HeatProblem: (p: HeatProblem) => adaptive(p, {}),
+      'HeatProblem, Object': (p: HeatProblem, o: AdaptiveOptions) => adaptive(p, o),
+      'HeatProblem, number': onLevel,
+      'HeatProblem, DoubleTree': (p: HeatProblem, set: DoubleTree) => onSet(p, set),
+    });
+  }
+  return dispatcher;
+}
 
 /**
  * Solves a heat problem:
@@ -74,7 +86,7 @@ const dispatch = t<(...args: unknown[]) => SolveResult>('solve', {
  */
 export function solve(problem: HeatProblem, how?: number | DoubleTree | AdaptiveOptions): SolveResult {
   try {
-    return how === undefined ? dispatch(problem) : dispatch(problem, how);
+    return how === undefined ? dispatch()(problem) : dispatch()(problem, how);
   } catch (e) {
     const data = (e as { data?: { category?: string; index?: number; actual?: string[]; expected?: string[] } }).data;
     if (e instanceof TypeError && data?.category) {

@@ -7,7 +7,7 @@
  * their fibre functions combine on the union of their fibres by adding
  * coefficients.
  */
-import ndarray from 'ndarray';
+import { ndarray } from '../vendor/ndarray';
 import type { GridView } from './grid-view';
 import { InvalidArgumentError, describeValue } from '../errors';
 import { evaluateTemporal } from '../time/index';
