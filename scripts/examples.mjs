@@ -35,3 +35,44 @@ export function readmeBlocks(root) {
   while ((m = re.exec(text))) out.push({ file: 'README.md', line: text.slice(0, m.index).split('\n').length, code: m[1] });
   return out;
 }
+
+/**
+ * Stated outputs. An example states what a line prints with `// → expected` after the
+ * `console.log(…)`, in the form `node` prints it (util.format); numbers are compared to the
+ * digits stated (0.3679 matches 0.36787944), everything else token by token, ignoring spaces.
+ * Text after ` — ` is commentary.
+ */
+export function statedOutputs(code) {
+  const out = [];
+  code.split('\n').forEach((l, i) => {
+    const m = /console\.log\(.*\/\/ → (.*)$/.exec(l);
+    if (m) out.push({ line: i + 1, expected: m[1].split(' — ')[0].trim() });
+  });
+  return out;
+}
+
+/** console.log lines whose comment starts like a value (number, bracket, true/false, NaN, a typed array) but has no →. */
+export function unmarkedClaims(code) {
+  const out = [];
+  code.split('\n').forEach((l, i) => {
+    if (/console\.log\(.*\/\/ (?!→)(-?\d|\[|true\b|false\b|NaN\b|'|[A-Z]\w*Array\b)/.test(l)) out.push(i + 1);
+  });
+  return out;
+}
+
+const TOKEN = /-?(?:\d+\.?\d*|\.\d+)(?:e[-+]?\d+)?|NaN|-?Infinity|'[^']*'|"[^"]*"|[A-Za-z_$][\w$]*|[^\s\w]/g;
+const NUM = /^-?(?:\d+\.?\d*|\.\d+)(?:e[-+]?\d+)?$/;
+
+export function outputMatches(actual, expected) {
+  const a = actual.match(TOKEN) ?? [];
+  const e = expected.match(TOKEN) ?? [];
+  if (a.length !== e.length) return false;
+  return e.every((t, i) => {
+    if (!NUM.test(t)) return t === a[i];
+    if (!NUM.test(a[i])) return false;
+    const [mant, exp] = t.toLowerCase().split('e');
+    const decimals = (mant.split('.')[1] ?? '').length;
+    const tol = 0.5 * 10 ** (-decimals) * 10 ** Number(exp ?? 0);
+    return Math.abs(Number(a[i]) - Number(t)) <= tol * (1 + 1e-12);
+  });
+}

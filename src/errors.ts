@@ -21,7 +21,7 @@ export interface ErrorDetails {
  * ```ts
  * import { ChronomeshError, HeatProblem, intervalDomain } from 'chronomesh';
  * try { new HeatProblem({ domain: intervalDomain(0, 1, 2), T: -1 }); }
- * catch (e) { if (e instanceof ChronomeshError) console.log(e.code, e.field); } // invalid-argument T
+ * catch (e) { if (e instanceof ChronomeshError) console.log(e.code, e.field); } // → invalid-argument T
  * ```
  */
 export class ChronomeshError extends Error {
@@ -45,7 +45,7 @@ export class ChronomeshError extends Error {
  * ```ts
  * import { InvalidArgumentError, pcg } from 'chronomesh';
  * const S = { inSize: 2, outSize: 2, apply: (x: Float64Array, y: Float64Array) => y.set(x) };
- * try { pcg(S, new Float64Array(3)); } catch (e) { console.log(e instanceof InvalidArgumentError, (e as InvalidArgumentError).field); } // true 'b'
+ * try { pcg(S, new Float64Array(3)); } catch (e) { console.log(e instanceof InvalidArgumentError, (e as InvalidArgumentError).field); } // → true b
  * ```
  */
 export class InvalidArgumentError extends ChronomeshError {
@@ -58,7 +58,7 @@ export class InvalidArgumentError extends ChronomeshError {
  * @example
  * ```ts
  * import { InvalidIndexSetError, TemporalTree } from 'chronomesh';
- * try { TemporalTree.fromNodes('trial', [3], [0]); } catch (e) { console.log(e instanceof InvalidIndexSetError); } // true: parents missing
+ * try { TemporalTree.fromNodes('trial', [3], [0]); } catch (e) { console.log(e instanceof InvalidIndexSetError); } // → true — parents missing
  * ```
  */
 export class InvalidIndexSetError extends ChronomeshError {
@@ -71,7 +71,7 @@ export class InvalidIndexSetError extends ChronomeshError {
  * @example
  * ```ts
  * import { InvalidMeshError, triangulatedDomain } from 'chronomesh';
- * try { triangulatedDomain([0, 0, 1, 0, 2, 0], [[0, 1, 2]]); } catch (e) { console.log(e instanceof InvalidMeshError); } // true: zero area
+ * try { triangulatedDomain([0, 0, 1, 0, 2, 0], [[0, 1, 2]]); } catch (e) { console.log(e instanceof InvalidMeshError); } // → true — zero area
  * ```
  */
 export class InvalidMeshError extends ChronomeshError {
@@ -85,7 +85,7 @@ export class InvalidMeshError extends ChronomeshError {
  * ```ts
  * import { SolverBreakdownError, pcg } from 'chronomesh';
  * const S = { inSize: 1, outSize: 1, apply: (x: Float64Array, y: Float64Array) => { y[0] = -x[0]!; } };
- * try { pcg(S, Float64Array.of(1)); } catch (e) { console.log(e instanceof SolverBreakdownError); } // true
+ * try { pcg(S, Float64Array.of(1)); } catch (e) { console.log(e instanceof SolverBreakdownError); } // → true
  * ```
  */
 export class SolverBreakdownError extends ChronomeshError {

@@ -50,7 +50,7 @@ export function embeddingMap(small: DoubleTree, large: DoubleTree): Int32Array {
  * @example
  * ```ts
  * import { prolongCoefficients } from 'chronomesh';
- * console.log(prolongCoefficients(Int32Array.of(0, 2), Float64Array.of(5, 7), 3)); // [5, 0, 7]
+ * console.log(prolongCoefficients(Int32Array.of(0, 2), Float64Array.of(5, 7), 3)); // → Float64Array(3) [ 5, 0, 7 ]
  * ```
  */
 export function prolongCoefficients(map: Int32Array, x: Float64Array, largeSize: number): Float64Array {

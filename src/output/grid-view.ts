@@ -18,7 +18,7 @@
  * const { solution } = new SpaceTimeSystem(new HeatProblem({ domain, T: 1, initial: () => 1 }), DoubleTree.sparseGrid(domain, 4)).solve();
  * const g: GridView = solution.sampleGrid([0.1, 0.5], [0.25, 0.5, 0.75]);
  * const atHalf = g.pick(1, null);                 // u(0.5, ·) at the three points
- * console.log(g.shape, atHalf.shape, atHalf.get(1) === g.get(1, 1)); // [2, 3] [3] true
+ * console.log(g.shape, atHalf.shape, atHalf.get(1) === g.get(1, 1)); // → [ 2, 3 ] [ 3 ] true
  * ```
  */
 export interface GridView {

@@ -93,7 +93,7 @@ export class SpaceTimeSolution {
    * const domain = lShapeDomain(1);
    * const { solution } = new SpaceTimeSystem(new HeatProblem({ domain, T: 1, initial: () => 1 }), DoubleTree.sparseGrid(domain, 3)).solve();
    * const g = solution.sampleGrid([0.01, 0.1], [-0.5, 0.5], [-0.5, 0.5]);
-   * console.log(g.shape, g.get(1, 0, 1), g.get(1, 1, 0)); // [2, 2, 2], a value, NaN (outside the L)
+   * console.log(g.shape, g.get(1, 0, 1) > 0, g.get(1, 1, 0)); // → [ 2, 2, 2 ] true NaN — (0.5, -0.5) is outside the L
    * ```
    */
   sampleGrid(times: ArrayLike<number>, xs: ArrayLike<number>, ys?: ArrayLike<number>, opts: { outside?: number } = {}): GridView {

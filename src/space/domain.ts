@@ -24,7 +24,7 @@ import { BYTES_PER_FOREST_VERTEX, checkFunction, checkMemory, memoryBudget } fro
  * import { rectangleDomain } from 'chronomesh';
  * const dom = rectangleDomain(0, 1, 0, 1, 2, 2);
  * const set = dom.uniformSet(2);
- * console.log(set.length, dom.leafMesh(set).elementCount); // 49 112 (Dirichlet midpoints only where needed)
+ * console.log(set.length, dom.leafMesh(set).elementCount); // → 49 112 — Dirichlet midpoints only where needed
  * ```
  */
 export class SpatialDomain {

@@ -28,7 +28,7 @@ function checkCoeffs(set: Int32Array, coeffs: Float64Array): void {
  * const dom = rectangleDomain(0, 1, 0, 1, 2, 2);
  * const set = dom.uniformSet(1);
  * const { mesh, values } = nodalValues(dom, set, new Float64Array(set.length).fill(1));
- * console.log(values.length === mesh.vertexCount); // true
+ * console.log(values.length === mesh.vertexCount); // → true
  * ```
  */
 export function nodalValues(domain: SpatialDomain, set: Int32Array, coeffs: Float64Array): { mesh: LeafMesh; values: Float64Array } {
@@ -53,7 +53,7 @@ export function nodalValues(domain: SpatialDomain, set: Int32Array, coeffs: Floa
  * import { intervalDomain, evaluateAt } from 'chronomesh';
  * const dom = intervalDomain(0, 1, 2);
  * const set = dom.uniformSet(0);
- * console.log(evaluateAt(dom, set, Float64Array.of(1), [0.25])[0]); // 0.5
+ * console.log(evaluateAt(dom, set, Float64Array.of(1), [0.25])[0]); // → 0.5
  * ```
  */
 export function evaluateAt(

@@ -25,7 +25,7 @@ function checkTriangles(triangles: number, what: string, field: string): void {
  * ```ts
  * import { intervalDomain } from 'chronomesh';
  * const dom = intervalDomain(0, 1, 4, { kappa: 2 });
- * console.log(dom.initialFreeVertices()); // Int32Array [1, 2, 3]
+ * console.log(dom.initialFreeVertices()); // → Int32Array(3) [ 1, 2, 3 ]
  * ```
  */
 export function intervalDomain(a: number, b: number, cells: number, opts?: DomainOptions): SpatialDomain {
@@ -48,7 +48,7 @@ export function intervalDomain(a: number, b: number, cells: number, opts?: Domai
  * ```ts
  * import { triangulatedDomain } from 'chronomesh';
  * const dom = triangulatedDomain([0, 0, 1, 0, 1, 1, 0, 1], [0, 1, 2, 0, 2, 3], { reaction: 1, insulated: () => true });
- * console.log(dom.initialFreeVertices().length); // 4
+ * console.log(dom.initialFreeVertices().length); // → 4
  * ```
  */
 export function triangulatedDomain(
@@ -114,7 +114,7 @@ function gridTriangulation(
  * ```ts
  * import { rectangleDomain } from 'chronomesh';
  * const dom = rectangleDomain(0, 2, 0, 1, 4, 2);
- * console.log(dom.vertexCount); // 15
+ * console.log(dom.vertexCount); // → 15
  * ```
  */
 export function rectangleDomain(x0: number, x1: number, y0: number, y1: number, nx: number, ny: number, opts?: DomainOptions): SpatialDomain {
@@ -143,7 +143,7 @@ export function rectangleDomain(x0: number, x1: number, y0: number, y1: number, 
  * @example
  * ```ts
  * import { lShapeDomain } from 'chronomesh';
- * console.log(lShapeDomain(2).initialFreeVertices().length); // 5 (the re-entrant corner lies on the boundary)
+ * console.log(lShapeDomain(2).initialFreeVertices().length); // → 5 — the re-entrant corner lies on the boundary
  * ```
  */
 export function lShapeDomain(n = 1, opts?: DomainOptions): SpatialDomain {
@@ -161,7 +161,7 @@ export function lShapeDomain(n = 1, opts?: DomainOptions): SpatialDomain {
  * @example
  * ```ts
  * import { squareWithHoleDomain } from 'chronomesh';
- * console.log(squareWithHoleDomain(1).initialElementCount); // 16
+ * console.log(squareWithHoleDomain(1).initialElementCount); // → 16
  * ```
  */
 export function squareWithHoleDomain(n = 1, opts?: DomainOptions): SpatialDomain {

@@ -17,7 +17,7 @@ import { unionSorted as unionTwo } from '../space/operator-plan';
  * const pool = new FibrePool();
  * const a = pool.intern(Int32Array.of(1, 4, 7));
  * const b = pool.intern(Int32Array.of(1, 4, 7)); // same content → same id
- * console.log(a === b); // true
+ * console.log(a === b); // → true
  * ```
  */
 export class FibrePool {

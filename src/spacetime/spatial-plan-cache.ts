@@ -15,7 +15,7 @@ import type { FibrePool } from './fibre-pool';
  * const set = DoubleTree.sparseGrid(domain, 3);
  * const cache = new SpatialPlanCache(domain, set.pool);
  * const id = set.nodeFibre[0]!;
- * console.log(cache.get(id, id) === cache.get(id, id)); // true: built once
+ * console.log(cache.get(id, id) === cache.get(id, id)); // → true — built once
  * ```
  */
 export class SpatialPlanCache {

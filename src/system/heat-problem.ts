@@ -30,7 +30,7 @@ export interface HeatProblemSpec {
  * ```ts
  * import { HeatProblem, intervalDomain } from 'chronomesh';
  * const p = new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 1, initial: () => 1 });
- * console.log(p.T); // 1
+ * console.log(p.T); // → 1
  * ```
  */
 export class HeatProblem {

@@ -73,7 +73,7 @@ export interface PcgResult {
  * import { pcg } from 'chronomesh';
  * const S = { inSize: 2, outSize: 2, apply: (x: Float64Array, y: Float64Array) => { y[0] = 2 * x[0]!; y[1] = 3 * x[1]!; } };
  * const r = pcg(S, Float64Array.of(2, 3));
- * console.log(r.solution, r.iterations); // Float64Array [1, 1], 2
+ * console.log(r.solution, r.iterations); // → Float64Array(2) [ 1, 1 ] 2
  * ```
  */
 export function pcg(S: LinearOperator, b: Float64Array, opts: PcgOptions = {}): PcgResult {

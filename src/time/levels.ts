@@ -15,7 +15,7 @@ export type TemporalBasisKind = 'trial' | 'test';
  * @example
  * ```ts
  * import { MAX_TEMPORAL_LEVEL } from 'chronomesh';
- * console.log(MAX_TEMPORAL_LEVEL); // 52
+ * console.log(MAX_TEMPORAL_LEVEL); // → 52
  * ```
  */
 export const MAX_TEMPORAL_LEVEL = 52;

@@ -23,7 +23,7 @@ const MAX_FULL_LEVEL = 26;
  * ```ts
  * import { TemporalTree } from 'chronomesh';
  * const t = TemporalTree.fromNodes('trial', [0, 0, 1, 2], [0, 1, 0, 1]);
- * console.log(t.size, t.find(2, 1)); // 4 3
+ * console.log(t.size, t.find(2, 1)); // → 4 3
  * ```
  */
 export class TemporalTree {
@@ -61,7 +61,7 @@ export class TemporalTree {
    * ```ts
    * import { TemporalTree } from 'chronomesh';
    * const t = TemporalTree.fromNodes('test', [3], [2], { close: true }); // adds (2,1), (1,0), (0,0)
-   * console.log(t.size); // 4
+   * console.log(t.size); // → 4
    * ```
    */
   static fromNodes(kind: TemporalBasisKind, levels: ArrayLike<number>, indices: ArrayLike<number>, opts: TreeFromNodesOptions = {}): TemporalTree {
@@ -127,7 +127,7 @@ export class TemporalTree {
    * @example
    * ```ts
    * import { TemporalTree } from 'chronomesh';
-   * console.log(TemporalTree.full('trial', 3).size); // 9
+   * console.log(TemporalTree.full('trial', 3).size); // → 9
    * ```
    */
   static full(kind: TemporalBasisKind, maxLevel: number): TemporalTree {

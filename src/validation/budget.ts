@@ -59,7 +59,7 @@ export function memoryBudget(): number {
  * import { ResourceLimitError, memoryBudget, rectangleDomain, setMemoryBudget } from 'chronomesh';
  * const previous = setMemoryBudget(64 * 1024 ** 2); // 64 MiB
  * try { rectangleDomain(0, 1, 0, 1, 2, 2).uniformSet(12); }
- * catch (e) { console.log(e instanceof ResourceLimitError); } // true
+ * catch (e) { console.log(e instanceof ResourceLimitError); } // → true
  * finally { setMemoryBudget(previous); }
  * console.log(memoryBudget() > 64 * 1024 ** 2);
  * ```

@@ -1,55 +1,55 @@
 /**
- * Every `@example` code block in src/ must run against the public entry
- * point: imports from 'chronomesh' are redirected to src/index.ts and the
- * block is executed as a module.
+ * Every `@example` code block in src/ and every ```ts block of the README must run
+ * against the public entry point: imports from 'chronomesh' are redirected to
+ * src/index.ts and the block is executed as a module. A line that states its
+ * output (`console.log(…); // → expected`) must print exactly that (numbers to
+ * the digits stated), and a comment that looks like an output claim without the
+ * `→` marker is refused, so no stated output goes unchecked.
+ * (Type checking of the same blocks: scripts/check-examples.mjs.)
  */
-import { mkdirSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
-import { join, relative } from 'node:path';
+import { mkdirSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
+import { format } from 'node:util';
 import { describe, expect, it } from 'vitest';
+import { outputMatches, readmeBlocks, statedOutputs, tsdocExamples, unmarkedClaims } from '../../scripts/examples.mjs';
 
 const root = join(__dirname, '..', '..');
 const scratch = join(root, 'node_modules', '.cache', 'chronomesh-examples');
+const all = [...tsdocExamples(root), ...readmeBlocks(root)];
 
-function sources(dir: string): string[] {
-  return readdirSync(dir, { withFileTypes: true }).flatMap((e) =>
-    e.isDirectory() ? sources(join(dir, e.name)) : e.name.endsWith('.ts') ? [join(dir, e.name)] : []);
+type Printed = Map<number, string>;
+declare global {
+  // eslint-disable-next-line no-var
+  var __chronomeshExampleOut: ((key: string, line: number, ...args: unknown[]) => void) | undefined;
 }
+const printed = new Map<string, Printed>();
+globalThis.__chronomeshExampleOut = (key, line, ...args) => {
+  const m = printed.get(key) ?? new Map<number, string>();
+  if (!m.has(line)) m.set(line, format(...args));
+  printed.set(key, m);
+};
 
-interface Example { file: string; line: number; code: string }
-
-function examples(): Example[] {
-  const out: Example[] = [];
-  for (const file of sources(join(root, 'src'))) {
-    const text = readFileSync(file, 'utf8');
-    const re = /@example\s*\n((?:\s*\*[^\n]*\n)*?)\s*\*\s*```ts\n((?:\s*\*[^\n]*\n)*?)\s*\*\s*```/g;
-    let m: RegExpExecArray | null;
-    while ((m = re.exec(text))) {
-      const code = m[2]!.split('\n').map((l) => l.replace(/^\s*\* ?/, '')).join('\n');
-      out.push({ file: relative(root, file), line: text.slice(0, m.index).split('\n').length, code });
-    }
-  }
-  return out;
-}
-
-/** The ```ts blocks of the README, which users copy first. */
-function readmeExamples(): Example[] {
-  const text = readFileSync(join(root, 'README.md'), 'utf8');
-  const out: Example[] = [];
-  const re = /```ts\n([\s\S]*?)```/g;
-  let m: RegExpExecArray | null;
-  while ((m = re.exec(text))) out.push({ file: 'README.md', line: text.slice(0, m.index).split('\n').length, code: m[1]! });
-  return out;
-}
-
-const all = [...examples(), ...readmeExamples()];
-
-describe('TSDoc examples', () => {
+describe('TSDoc and README examples', () => {
   it('there are examples to run', () => expect(all.length).toBeGreaterThan(30));
-  it.each(all.map((e) => [`${e.file}:${e.line}`, e] as const))('%s runs', async (_name, ex) => {
+  it('stated outputs are recognised', () => {
+    expect(outputMatches('Float64Array(3) [ 5, 0, 7 ]', 'Float64Array(3) [5, 0, 7]')).toBe(true);
+    expect(outputMatches('0.36787944117144233', '0.3679')).toBe(true);
+    expect(outputMatches('0.3681', '0.3679')).toBe(false);
+    expect(outputMatches('49 112', '49 113')).toBe(false);
+    expect(outputMatches('true', 'false')).toBe(false);
+    expect(unmarkedClaims('console.log(x); // 5\nconsole.log(y); // → 5\nconsole.log(z); // heat left')).toEqual([1]);
+  });
+  it.each(all.map((e) => [`${e.file}:${e.line}`, e] as const))('%s runs and prints what it states', async (name, ex) => {
+    expect(unmarkedClaims(ex.code), `${name}: mark stated outputs with "// → "`).toEqual([]);
+    const stated = statedOutputs(ex.code);
     mkdirSync(scratch, { recursive: true });
     const index = pathToFileURL(join(root, 'src', 'index.ts')).href;
-    const code = ex.code.replace(/from 'chronomesh'/g, `from '${index}'`);
+    const lines = ex.code.replace(/from 'chronomesh'/g, `from '${index}'`).split('\n');
+    for (const { line } of stated) {
+      lines[line - 1] = lines[line - 1]!.replace('console.log(', `globalThis.__chronomeshExampleOut!(${JSON.stringify(name)}, ${line}, `);
+    }
+    const code = lines.join('\n');
     const path = join(scratch, `${ex.file.replace(/[\\/.]/g, '_')}_${ex.line}.ts`);
     writeFileSync(path, code.includes('import ') ? code : `${code}\nexport {};\n`);
     const log = console.log;
@@ -58,6 +58,11 @@ describe('TSDoc examples', () => {
       await import(pathToFileURL(path).href);
     } finally {
       console.log = log;
+    }
+    for (const { line, expected } of stated) {
+      const actual = printed.get(name)?.get(line);
+      expect(actual, `${name} line ${line} never printed`).toBeDefined();
+      expect(outputMatches(actual!, expected), `${name} line ${line}: printed "${actual}", the example states "${expected}"`).toBe(true);
     }
   });
 });
