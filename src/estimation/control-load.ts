@@ -7,7 +7,7 @@
  */
 import { evaluateTemporal } from '../time/index';
 import { loadVector } from '../space/index';
-import { gaussLegendre01 } from '../system/gauss-legendre';
+import { gaussLegendre01 } from '../numerics/gauss-legendre';
 import type { SpaceTimeSystem } from '../system/space-time-system';
 
 /** One basis function of the amplitude: `value` on [from, to], zero outside. */

@@ -8,7 +8,7 @@
  */
 import { InvalidArgumentError, describeValue } from '../errors';
 import { nodeSupport } from '../time/index';
-import { gaussLegendre01 } from '../system/gauss-legendre';
+import { gaussLegendre01 } from '../numerics/gauss-legendre';
 import type { DoubleTree } from '../spacetime/double-tree';
 import type { SpaceTimeSystem } from '../system/space-time-system';
 import { applySlice, applySliceTransposed, pointSlice, quadratureSlice, type EvaluationSlice } from './evaluation-rows';

@@ -13,7 +13,7 @@ import { checkCallbackResult, checkFunction, checkInstance, checkObject, checkOp
 import { SpaceTimeSolution as SolutionClass } from './space-time-solution';
 import { nodeSupport } from '../time/index';
 import { TRIANGLE_POINTS, TRIANGLE_WEIGHTS, INTERVAL_POINTS, INTERVAL_WEIGHTS } from '../space/quadrature';
-import { gaussLegendre01 } from '../system/gauss-legendre';
+import { gaussLegendre01 } from '../numerics/gauss-legendre';
 type SpaceTimeSolution = SolutionClass;
 
 /** A known solution: value and spatial gradient (writes `dim` components into `grad`). */

@@ -20,7 +20,7 @@
  * by the same ancestor argument.
  */
 import type { TemporalForm } from '../time/index';
-import type { LinearOperator } from '../system/linear-operator';
+import { checkNotAliased, type LinearOperator } from '../numerics/linear-operator';
 import { DoubleTree } from './double-tree';
 import { overlapUnionFibres } from './overlap-unions';
 import { SpatialPassPlan } from './spatial-pass';
@@ -89,6 +89,7 @@ export class TensorOperatorPlan implements LinearOperator {
 
   /** y = C x on Λ_out (overwrites y; x has `input.size`, y `output.size` entries). */
   apply(x: Float64Array, y: Float64Array): void {
+    checkNotAliased(x, y, 'TensorOperatorPlan');
     const { zM, zA, wM, wA } = this;
     this.upperTime.applyEach(x, this.zPair);
     this.upperSpace.applySum(zM, zA, y);

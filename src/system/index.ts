@@ -1,5 +1,5 @@
 /** Public exports of the system module (re-exported by src/index.ts). */
-export type { LinearOperator } from './linear-operator';
+export type { LinearOperator } from '../numerics/linear-operator';
 export { HeatProblem, type HeatProblemSpec, type SeparableTerm } from './heat-problem';
 export { SpaceTimeSystem, type SpaceTimeSystemOptions, type SpatialCaches, type SystemSolveOptions } from './space-time-system';
 export { FibreInverseCache, type InnerSolver } from './fibre-inverse';

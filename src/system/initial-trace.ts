@@ -13,7 +13,7 @@ import type { SpatialOperatorPlan } from '../space/index';
 import type { DoubleTree } from '../spacetime/double-tree';
 import { positionsIn, unionSorted } from '../spacetime/fibre-pool';
 import type { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
-import type { LinearOperator } from './linear-operator';
+import { checkNotAliased, type LinearOperator } from '../numerics/linear-operator';
 
 /**
  * G = (g gᵀ) ⊗ M_x on a trial double tree, applied with one spatial mass product.
@@ -60,6 +60,7 @@ export class InitialTraceOperator implements LinearOperator {
 
   /** y = G x (overwrites y). */
   apply(x: Float64Array, y: Float64Array): void {
+    checkNotAliased(x, y, 'G');
     y.fill(0, 0, this.outSize);
     this.applyAdd(x, y);
   }

@@ -8,7 +8,7 @@ import { intervalDomain, rectangleDomain } from '../space/index';
 import { DoubleTree } from '../spacetime/double-tree';
 import { HeatProblem } from './heat-problem';
 import { SpaceTimeSystem } from './space-time-system';
-import type { LinearOperator } from './linear-operator';
+import type { LinearOperator } from '../numerics/linear-operator';
 
 /** Options of {@link measureOperatorCost}. */
 export interface OperatorCostOptions {

@@ -3,7 +3,7 @@
  * Saad, Iterative Methods for Sparse Linear Systems, 2nd ed., Alg. 9.1).
  */
 import { InvalidArgumentError, SolverBreakdownError } from '../errors';
-import type { LinearOperator } from './linear-operator';
+import type { LinearOperator } from '../numerics/linear-operator';
 
 /** Options of {@link pcg}. */
 export interface PcgOptions {

@@ -9,7 +9,7 @@ import { InvalidArgumentError } from '../errors';
 import { evaluateTemporal } from '../time/index';
 import { loadVector } from '../space/index';
 import type { DoubleTree } from '../spacetime/double-tree';
-import { gaussLegendre01 } from './gauss-legendre';
+import { gaussLegendre01 } from '../numerics/gauss-legendre';
 import type { HeatProblem } from './heat-problem';
 
 /** Gauss points per half interval used for the time integrals of the source. */

@@ -6,7 +6,7 @@
  */
 import type { TensorOperatorPlan } from '../spacetime/tensor-apply';
 import type { InitialTraceOperator } from './initial-trace';
-import type { LinearOperator } from './linear-operator';
+import { checkNotAliased, type LinearOperator } from '../numerics/linear-operator';
 
 /**
  * S = Bᵀ K_Y B + G as one operator with `apply(x, out)`.
@@ -38,8 +38,9 @@ export class SchurOperator implements LinearOperator {
     this.v = new Float64Array(B.output.size);
   }
 
-  /** y = S x (overwrites y). */
+  /** y = S x (overwrites y; y must not share memory with x: Bᵀ writes y before G reads x). */
   apply(x: Float64Array, y: Float64Array): void {
+    checkNotAliased(x, y, 'S');
     this.B.apply(x, this.u);
     this.KY.apply(this.u, this.v);
     this.Bt.apply(this.v, y);

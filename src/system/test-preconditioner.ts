@@ -5,7 +5,7 @@
  */
 import type { DoubleTree } from '../spacetime/double-tree';
 import type { FibreInverse, FibreInverseCache } from './fibre-inverse';
-import type { LinearOperator } from './linear-operator';
+import { checkNotAliased, type LinearOperator } from '../numerics/linear-operator';
 
 /**
  * K_Y ≈ (I ⊗ A_x)⁻¹ on the test index set, one spatial inverse per test function.
@@ -40,6 +40,7 @@ export class TestPreconditioner implements LinearOperator {
   }
 
   apply(r: Float64Array, z: Float64Array): void {
+    checkNotAliased(r, z, 'K_Y');
     const { blocks, offsets, lengths } = this;
     for (let f = 0; f < blocks.length; f++) {
       if (lengths[f] === 0) continue;

@@ -36,7 +36,7 @@ import type { DoubleTree } from '../spacetime/double-tree';
 import { positionsIn } from '../spacetime/fibre-pool';
 import type { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import type { FibreInverse, FibreInverseCache } from './fibre-inverse';
-import type { LinearOperator } from './linear-operator';
+import { checkNotAliased, type LinearOperator } from '../numerics/linear-operator';
 
 /** The constant-in-time subspace term of K_X (see the module comment). */
 interface ConstantInTime {
@@ -141,6 +141,7 @@ export class TrialPreconditioner implements LinearOperator {
   }
 
   apply(r: Float64Array, z: Float64Array): void {
+    checkNotAliased(r, z, 'K_X');
     const { inverses, stiffness, alpha, offsets, lengths, tmp } = this;
     for (let f = 0; f < inverses.length; f++) {
       const n = lengths[f]!;

@@ -6,7 +6,7 @@
  * the energy identity against direct quadrature of |∇u|².
  */
 import { describe, expect, it } from 'vitest';
-import { gaussLegendre01 } from '../../src/system/gauss-legendre';
+import { gaussLegendre01 } from '../../src/numerics/gauss-legendre';
 import {
   erfc, heatExact1D, heatExact2D, slab, slabGradientEnergy, slabGradientEnergyImages, slabGradientEnergySeries,
   slabImages, slabSeries, unitInterval, unitSquare,
