@@ -2,10 +2,11 @@
  * A discrete space-time function u = Σ_{(λ,ν)∈Λ} u_{λν} σ_λ ⊗ φ_ν
  * (DESIGN.md §8): point values and time slices.
  *
- * At time t only the O(levels) trial functions whose support contains t are
- * nonzero; since hierarchical hats do not depend on the set they are used in,
- * their fibre functions combine on the union of their fibres by adding
- * coefficients.
+ * At time t only the trial functions whose support contains t are nonzero
+ * (a few per level); since hierarchical hats do not depend on the set they are
+ * used in, their fibre functions combine on the union of their fibres by
+ * adding coefficients. Finding those functions scans every temporal node of
+ * the set (O(#nodes) per time; a descent from the roots would be O(levels)).
  */
 import { ndarray } from '../vendor/ndarray';
 import type { GridView } from './grid-view';

@@ -88,8 +88,8 @@ export class DoubleTree {
   }
 
   /**
-   * All pairs with `timeWeight·|λ| + ℓ_x(ν) ≤ L`: `timeWeight = 1` gives the
-   * sparse grid, and {@link DoubleTree.fullGrid} the full grid.
+   * The sparse grid of level L: all pairs with `|λ| + ℓ_x(ν) ≤ L`
+   * ({@link DoubleTree.fullGrid} gives the full grid).
    */
   static sparseGrid(domain: SpatialDomain, L: number, pool: FibrePool = new FibrePool(), maxUnknowns = DEFAULT_MAX_UNKNOWNS): DoubleTree {
     checkDomain(domain);

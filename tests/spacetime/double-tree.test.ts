@@ -18,6 +18,23 @@ function assertClosed(dt: DoubleTree, domain: ReturnType<typeof rectangleDomain>
   }
 }
 
+/** The smallest double tree containing the given trial pairs, by a work list over string keys. */
+function bruteForceClosure(domain: ReturnType<typeof rectangleDomain>, levels: number[], indices: number[], vertices: number[]): Set<string> {
+  const set = new Set<string>();
+  const work: [number, number, number][] = levels.map((l, p) => [l, indices[p]!, vertices[p]!]);
+  const par = new Float64Array(4);
+  while (work.length > 0) {
+    const [l, i, v] = work.pop()!;
+    const key = `${l}:${i}:${v}`;
+    if (set.has(key)) continue;
+    set.add(key);
+    const np = nodeParents('trial', l, i, par);
+    for (let q = 0; q < np; q++) work.push([par[2 * q]!, par[2 * q + 1]!, v]);
+    for (const w of domain.close([v])) work.push([l, i, w]);
+  }
+  return set;
+}
+
 describe('double trees', () => {
   it('sparse and full grids have the expected sizes (counted independently)', () => {
     const domain = intervalDomain(0, 1, 2);
@@ -47,10 +64,14 @@ describe('double trees', () => {
       }
       const dt = DoubleTree.fromPairs(domain, { levels, indices, vertices }, { close: true });
       assertClosed(dt, domain);
-      // Minimality: removing any pair that is nobody's parent keeps a double tree, so a closed set
-      // built from the closure's own pairs must reproduce it exactly.
-      const again = DoubleTree.fromPairs(domain, dt.pairs());
-      expect(again.size).toBe(dt.size);
+      // Minimality: the closure equals the smallest double tree containing the pairs, computed
+      // here independently by a plain work list (temporal parents and spatial closure of each
+      // vertex until nothing changes). A closed superset with even one extra pair fails this.
+      const smallest = bruteForceClosure(domain, levels, indices, vertices);
+      const got = dt.pairs();
+      const gotKeys = new Set(Array.from({ length: dt.size }, (_, p) => `${got.levels[p]}:${got.indices[p]}:${got.vertices[p]}`));
+      expect(dt.size).toBe(smallest.size);
+      for (const k of smallest) expect(gotKeys.has(k), k).toBe(true);
       // Every requested pair is present.
       const all = dt.pairs();
       const keys = new Set(Array.from({ length: dt.size }, (_, p) => `${all.levels[p]}:${all.indices[p]}:${all.vertices[p]}`));

@@ -39,10 +39,22 @@ describe('space-time solution output', () => {
     expect(() => new SpaceTimeSolution(domain, set, new Float64Array(3), T)).toThrow(/coefficients has length 3/);
   });
 
-  it('a solved system exposes its solution through solve()', () => {
+  it('solve() returns the solution of S u = b on the set of the system, as PCG left it', () => {
     const sys = new SpaceTimeSystem(new HeatProblem({ domain, T, initial: (x) => x * (2 - x) }), set);
-    const { solution } = sys.solve({ relTol: 1e-6 });
+    const { solution, pcg } = sys.solve({ relTol: 1e-6 });
     expect(solution.trialSet).toBe(set);
+    expect(solution.T).toBe(T);
+    expect(Array.from(solution.coefficients)).toEqual(Array.from(pcg.solution));
+    // The residual is recomputed here from S and b, not taken from the PCG report.
+    const b = sys.rightHandSide();
+    const r = new Float64Array(set.size);
+    sys.S.apply(solution.coefficients, r);
+    let rr = 0;
+    let bb = 0;
+    for (let i = 0; i < r.length; i++) { rr += (b[i]! - r[i]!) ** 2; bb += b[i]! ** 2; }
+    expect(bb).toBeGreaterThan(0);
+    // relTol is on the K_X-preconditioned residual; allow the condition number of K_X S (< 10 here) on top.
+    expect(Math.sqrt(rr / bb)).toBeLessThan(1e-5);
   });
 });
 
