@@ -106,15 +106,19 @@ const compile = (dir) => {
   }
 };
 
+// Top-level await exists only in ES modules: such @examples are left out of the CommonJS project.
+const esmOnly = (code) => /^\S[^\n]*\bawait\b/m.test(code);
 const projects = [
   ['ts-esm-node16', 'module', { module: 'node16', moduleResolution: 'node16' }, true],
-  ['ts-cjs-node16', 'commonjs', { module: 'node16', moduleResolution: 'node16' }, true],
-  ['ts-bundler', 'module', { module: 'esnext', moduleResolution: 'bundler', noEmit: true }, false],
+  ['ts-cjs-node16', 'commonjs', { module: 'node16', moduleResolution: 'node16' }, false],
+  ['ts-bundler', 'module', { module: 'esnext', moduleResolution: 'bundler', noEmit: true }, true],
 ];
 const dirs = {};
-for (const [name, type, opts] of projects) {
-  step(`${name}: tsc (strict, skipLibCheck false) on ${readmeFiles.length} README blocks + ${exampleFiles.length} @examples`, () => {
-    dirs[name] = tsProject(name, type, opts, [...readmeFiles, ...exampleFiles]);
+for (const [name, type, opts, withTla] of projects) {
+  const examples = withTla ? exampleFiles : exampleFiles.filter(([, code]) => !esmOnly(code));
+  const skipped = exampleFiles.length - examples.length;
+  step(`${name}: tsc (strict, skipLibCheck false) on ${readmeFiles.length} README blocks + ${examples.length} @examples${skipped ? ` (${skipped} with top-level await left out)` : ''}`, () => {
+    dirs[name] = tsProject(name, type, opts, [...readmeFiles, ...examples]);
     compile(dirs[name]);
   });
 }
