@@ -51,11 +51,11 @@ export function statedOutputs(code) {
   return out;
 }
 
-/** console.log lines whose comment starts like a value (number, bracket, true/false, NaN, a typed array) but has no →. */
+/** console.log lines whose comment starts like a value (number, bracket, true/false, NaN, a typed array) but has no →. A comment starting with a word or a quote is prose. */
 export function unmarkedClaims(code) {
   const out = [];
   code.split('\n').forEach((l, i) => {
-    if (/console\.log\(.*\/\/ (?!→)(-?\d|\[|true\b|false\b|NaN\b|'|[A-Z]\w*Array\b)/.test(l)) out.push(i + 1);
+    if (/console\.log\(.*\/\/ (?!→)(-?\d|\[|true\b|false\b|NaN\b|[A-Z]\w*Array\b)/.test(l)) out.push(i + 1);
   });
   return out;
 }

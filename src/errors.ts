@@ -127,7 +127,7 @@ export class ResourceLimitError extends ChronomeshError {
  * import { HeatProblem, RunInterruptedError, intervalDomain, solveAdaptive } from 'chronomesh';
  * const problem = new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 1, initial: () => 1 });
  * try { solveAdaptive(problem, { signal: AbortSignal.abort() }); }
- * catch (e) { console.log(e instanceof RunInterruptedError, (e as RunInterruptedError).field); } // true 'signal'
+ * catch (e) { console.log(e instanceof RunInterruptedError, (e as RunInterruptedError).field); } // → true signal
  * ```
  */
 export class RunInterruptedError extends ChronomeshError {

@@ -126,7 +126,7 @@ export interface ProbeData {
  * const domain = rectangleDomain(0, 1, 0, 1, 2, 2);
  * const system = new SpaceTimeSystem(new HeatProblem({ domain, T: 1, initial: () => 1 }), DoubleTree.sparseGrid(domain, 3));
  * const J = probeMisfit(system, { times: [0.05], points: [[0.5, 0.5], [0.25, 0.5]], data: [[0.5, 0.4]], weights: 1e4 });
- * console.log(J.rowCount); // 2
+ * console.log(J.rowCount); // → 2
  * ```
  */
 export function probeMisfit(system: SpaceTimeSystem, obs: ProbeData): LeastSquaresFunctional {

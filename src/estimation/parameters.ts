@@ -77,7 +77,7 @@ class ColumnMap implements ParameterMap {
  *   { time: () => 1, space: (x) => Math.exp(-100 * (x - 0.3) ** 2) },
  *   { time: (t) => (t < 0.5 ? 1 : 0), space: (x) => Math.exp(-100 * (x - 0.7) ** 2) },
  * ]);
- * console.log(heaters.size); // 2
+ * console.log(heaters.size); // → 2
  * ```
  */
 export function sourceAmplitudes(system: SpaceTimeSystem, terms: SeparableTerm[]): ParameterMap {
@@ -113,7 +113,7 @@ export interface ControlAmplitudeOptions {
  * const domain = intervalDomain(0, 1, 2);
  * const system = new SpaceTimeSystem(new HeatProblem({ domain, T: 1 }), DoubleTree.sparseGrid(domain, 3));
  * const a = controlAmplitude(system, { grid: [0, 0.25, 0.5, 0.75, 1], kind: 'piecewise-linear', space: () => 1 });
- * console.log(a.size); // 5
+ * console.log(a.size); // → 5
  * ```
  */
 export function controlAmplitude(system: SpaceTimeSystem, opts: ControlAmplitudeOptions): ParameterMap {
@@ -165,7 +165,7 @@ export function controlAmplitude(system: SpaceTimeSystem, opts: ControlAmplitude
  * const domain = intervalDomain(0, 1, 2);
  * const system = new SpaceTimeSystem(new HeatProblem({ domain, T: 1 }), DoubleTree.sparseGrid(domain, 4));
  * const u0 = initialState(system, 2);
- * console.log(u0.size, u0.mesh.coords); // 9 nodal values at x = 0, 0.125, …, 1 (in mesh order)
+ * console.log(u0.size); // → 9 — nodal values at x = 0, 0.125, …, 1 (in the order of u0.mesh.coords)
  * ```
  */
 export function initialState(system: SpaceTimeSystem, level: number): InitialStateMap {

@@ -109,7 +109,7 @@ export function denseFibreMatrices(cache: SpatialPlanCache, fibreId: number): { 
  * const problem = new HeatProblem({ domain, T: 1, initial: () => 1 });
  * const a = new SpaceTimeSystem(problem, set, { caches: { plans, inverses } });
  * const b = new SpaceTimeSystem(problem, set, { caches: { plans, inverses } }); // reuses a's plans and inverses
- * console.log(a.solve().pcg.iterations === b.solve().pcg.iterations, inverses.size > 0); // true true
+ * console.log(a.solve().pcg.iterations === b.solve().pcg.iterations, inverses.size > 0); // → true true
  * ```
  */
 export class FibreInverseCache {
