@@ -11,6 +11,7 @@
 import { writeFileSync } from 'node:fs';
 import { runCases, type BenchCase, type BenchRow } from './harness';
 import { suites } from './suites';
+import { adaptiveRuns } from './adaptive';
 
 const args = process.argv.slice(2);
 const json = args.includes('--json');
@@ -27,13 +28,17 @@ const cases: BenchCase[] = suites.flatMap((s) => s(quick));
 const rows: BenchRow[] = [];
 const opts = quick ? { minReps: 3, budgetMs: 20 } : { minReps: 7, budgetMs: 400 };
 if (!json) console.log(`${'component'.padEnd(44)} ${'size'.padStart(10)} ${'ns/unit'.padStart(10)}  extra`);
-runCases(cases, prefixes, opts, (r) => {
+const onRow = (r: BenchRow): void => {
   rows.push(r);
   if (!json) {
     const { component, size, nsPerUnit, ...extra } = r;
-    const ex = Object.entries(extra).map(([k, v]) => `${k}=${v}`).join(' ');
+    const ex = Object.entries(extra).map(([k, v]) => `${k}=${typeof v === 'number' && !Number.isInteger(v) ? v.toPrecision(4) : v}`).join(' ');
     console.log(`${component.padEnd(44)} ${String(size).padStart(10)} ${nsPerUnit.toFixed(1).padStart(10)}  ${ex}`);
   }
-});
+};
+runCases(cases, prefixes, opts, onRow);
+// Whole-run suites (the adaptive loop), each run in a child process for its own peak memory.
+const selected = (component: string): boolean => prefixes.length === 0 || prefixes.some((p) => component.startsWith(p));
+adaptiveRuns.run(quick, selected, onRow);
 if (json) console.log(JSON.stringify({ rows }));
 if (outFile) writeFileSync(outFile, JSON.stringify({ rows }, null, 1) + '\n');

@@ -1,0 +1,46 @@
+/**
+ * One whole adaptive run in its own process (so that its peak memory is its own):
+ * `node --import tsx bench/adaptive-run.ts d1|d2 MAX_UNKNOWNS MAX_SECONDS`.
+ * Reference problems: u0 ≡ 1 with u = 0 on the boundary, T = 0.5, on (0, 1) (d1) or the unit
+ * square (d2), from the sparse grid of level 1. Prints one JSON row per step and a summary row
+ * (the `adaptive.` suite of bench/run.ts reads them).
+ */
+import { HeatProblem, intervalDomain, rectangleDomain, solveAdaptive } from '../src/index';
+
+const [which = 'd2', maxU = '1e6', maxS = '300'] = process.argv.slice(2);
+const domain = which === 'd1' ? intervalDomain(0, 1, 2) : rectangleDomain(0, 1, 0, 1, 2, 2);
+const problem = new HeatProblem({ domain, T: 0.5, initial: () => 1 });
+const component = `adaptive.${which}`;
+const t0 = performance.now();
+const result = solveAdaptive(problem, {
+  maxUnknowns: Number(maxU),
+  maxSeconds: Number(maxS),
+  maxSteps: 10_000,
+  onStep: (s) => {
+    const t = s.timings;
+    const rss = process.resourceUsage().maxRSS * 1024;
+    console.log(JSON.stringify({
+      component: `${component}.step`, size: s.unknowns, nsPerUnit: (s.seconds * 1e9) / s.unknowns, step: s.step, estimate: s.estimate,
+      pcgIterations: s.pcgIterations, enlarged: s.enlargedUnknowns, seconds: s.seconds,
+      setupShare: t.setup / s.seconds, solveShare: t.solve / s.seconds, estimateShare: t.estimate / s.seconds, refineShare: t.refine / s.seconds,
+      rssBytesPerUnknown: rss / s.unknowns, elapsed: (performance.now() - t0) / 1000,
+    }));
+  },
+});
+const h = result.history;
+const half = h.slice(Math.floor(h.length / 2));
+// Least-squares slope of −log E against log N over the second half of the steps.
+const xs = half.map((s) => Math.log(s.unknowns));
+const ys = half.map((s) => -Math.log(s.estimate));
+const mx = xs.reduce((a, b) => a + b, 0) / xs.length;
+const my = ys.reduce((a, b) => a + b, 0) / ys.length;
+let num = 0, den = 0;
+for (let i = 0; i < xs.length; i++) { num += (xs[i]! - mx) * (ys[i]! - my); den += (xs[i]! - mx) ** 2; }
+const seconds = (performance.now() - t0) / 1000;
+const final = h.at(-1)!;
+const peak = process.resourceUsage().maxRSS * 1024;
+console.log(JSON.stringify({
+  component: `${component}.run`, size: final.unknowns, nsPerUnit: (seconds * 1e9) / final.unknowns, steps: h.length, seconds,
+  estimate: final.estimate, rate: den > 0 ? num / den : NaN, stopReason: result.stopReason,
+  peakRssBytes: peak, rssBytesPerUnknown: peak / final.unknowns,
+}));

@@ -1,0 +1,42 @@
+/**
+ * The `adaptive.` suite: whole adaptive runs on the reference problems (u0 ≡ 1, u = 0 on the
+ * boundary, T = 0.5; d1 = (0, 1), d2 = the unit square), each in a child process so that its peak
+ * resident memory is its own (`process.resourceUsage().maxRSS`). One row per step
+ * (`adaptive.d2.step`: size = #Λ, nsPerUnit = step wall time per unknown, the time shares of
+ * setup / solve / estimate / refine, rssBytesPerUnknown = peak RSS so far / #Λ) and one summary
+ * row per run (`adaptive.d2.run`: total seconds, steps, final E, the least-squares rate of E over
+ * the second half of the steps, peak RSS).
+ */
+import { spawnSync } from 'node:child_process';
+import { fileURLToPath } from 'node:url';
+import type { BenchRow } from './harness';
+
+/** A suite of whole runs (not repeated applications): rows come from the run itself. */
+export interface RunSuite {
+  prefix: string;
+  run(quick: boolean, selected: (component: string) => boolean, onRow: (row: BenchRow) => void): void;
+}
+
+const child = fileURLToPath(new URL('./adaptive-run.ts', import.meta.url));
+
+export const adaptiveRuns: RunSuite = {
+  prefix: 'adaptive.',
+  run(quick, selected, onRow) {
+    const runs: [string, number, number][] = quick
+      ? [['d1', 1500, 30], ['d2', 1500, 30]]
+      : [['d1', 1e5, 300], ['d2', 1e6, 300]];
+    for (const [which, maxUnknowns, maxSeconds] of runs) {
+      if (!selected(`adaptive.${which}.run`) && !selected(`adaptive.${which}.step`)) continue;
+      const p = spawnSync(process.execPath, ['--import', 'tsx', child, which, String(maxUnknowns), String(maxSeconds)], {
+        encoding: 'utf8',
+        maxBuffer: 64 * 1024 * 1024,
+      });
+      if (p.status !== 0) throw new Error(`adaptive bench run ${which} failed (exit ${p.status}): ${p.stderr.slice(-2000)}`);
+      for (const line of p.stdout.split('\n')) {
+        if (!line.startsWith('{')) continue;
+        const row = JSON.parse(line) as BenchRow;
+        if (selected(row.component)) onRow(row);
+      }
+    }
+  },
+};
