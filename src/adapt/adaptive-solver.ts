@@ -347,8 +347,8 @@ export function solveAdaptive(problem: HeatProblem, opts: AdaptiveOptions = {}):
  * import { HeatProblem, intervalDomain, solveAdaptiveAsync } from 'chronomesh';
  * const domain = intervalDomain(0, 1, 2);
  * const problem = new HeatProblem({ domain, T: 1, initial: () => 1 });
- * const result = await solveAdaptiveAsync(problem, { maxUnknowns: 1e7, signal: AbortSignal.timeout(2000) });
- * console.log(result.stopReason, result.history.length); // 'aborted' after about two seconds (or earlier limits)
+ * solveAdaptiveAsync(problem, { maxUnknowns: 1e7, signal: AbortSignal.timeout(2000) })
+ *   .then((result) => console.log(result.stopReason, result.history.length)); // 'aborted' after about two seconds
  * ```
  */
 export async function solveAdaptiveAsync(problem: HeatProblem, opts: AdaptiveOptions = {}): Promise<AdaptiveResult> {
