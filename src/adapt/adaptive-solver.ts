@@ -230,7 +230,9 @@ class AdaptiveRun {
     caches.plans.advanceEpoch(1);
     caches.inverses.advanceEpoch(1);
     this.checkpoint('setup');
-    const system = new SpaceTimeSystem(problem, set, { caches });
+    // The system on Λ lives only while PCG runs: it is dropped before the estimate (whose own
+    // structures on Λ̲ are several times larger) and rebuilt from the caches if PCG must resume.
+    let system: SpaceTimeSystem | null = new SpaceTimeSystem(problem, set, { caches });
     const b = system.rightHandSide();
     const t1 = performance.now();
     // SOLVE: nested iteration from the previous solution, stopped on the S-energy error estimate.
@@ -238,6 +240,7 @@ class AdaptiveRun {
     let solved: PcgResult | null = null;
     const solveTo = (energyTol: number): void => {
       this.checkpoint('solve');
+      system ??= new SpaceTimeSystem(problem, set, { caches });
       const r = system.solve({
         rightHandSide: b,
         initialGuess: solved ? solved.solution : this.u,
@@ -254,6 +257,7 @@ class AdaptiveRun {
     };
     solveTo(Number.isFinite(this.lastEstimate) ? v.fraction * this.lastEstimate : 0);
     let t2 = performance.now();
+    system = null;
     // ESTIMATE on the enlarged set Λ̲.
     this.checkpoint('estimate');
     const bigSet = enlargeDoubleTree(domain, set, this.opts.enlargement);
@@ -264,6 +268,7 @@ class AdaptiveRun {
     for (let round = 0; round < 4 && !(solved!.energyError <= v.fraction * ind.estimate); round++) {
       const ts = performance.now();
       solveTo(v.fraction * ind.estimate);
+      system = null;
       t2 += performance.now() - ts;
       const te = performance.now();
       ind = estimateResidual(problem, set, solved!.solution, bigSet, inner);
