@@ -12,6 +12,8 @@ const domain = which === 'd1' ? intervalDomain(0, 1, 2) : rectangleDomain(0, 1, 
 const problem = new HeatProblem({ domain, T: 0.5, initial: () => 1 });
 const component = `adaptive.${which}`;
 const t0 = performance.now();
+/** CPU seconds of this process so far (user + system): robust to other load on the machine. */
+const cpu = (): number => { const u = process.cpuUsage(); return (u.user + u.system) / 1e6; };
 const result = solveAdaptive(problem, {
   maxUnknowns: Number(maxU),
   maxSeconds: Number(maxS),
@@ -23,7 +25,7 @@ const result = solveAdaptive(problem, {
       component: `${component}.step`, size: s.unknowns, nsPerUnit: (s.seconds * 1e9) / s.unknowns, step: s.step, estimate: s.estimate,
       pcgIterations: s.pcgIterations, enlarged: s.enlargedUnknowns, seconds: s.seconds,
       setupShare: t.setup / s.seconds, solveShare: t.solve / s.seconds, estimateShare: t.estimate / s.seconds, refineShare: t.refine / s.seconds,
-      rssBytesPerUnknown: rss / s.unknowns, elapsed: (performance.now() - t0) / 1000,
+      rssBytesPerUnknown: rss / s.unknowns, elapsed: (performance.now() - t0) / 1000, cpuSeconds: cpu(),
     }));
   },
 });
@@ -40,7 +42,7 @@ const seconds = (performance.now() - t0) / 1000;
 const final = h.at(-1)!;
 const peak = process.resourceUsage().maxRSS * 1024;
 console.log(JSON.stringify({
-  component: `${component}.run`, size: final.unknowns, nsPerUnit: (seconds * 1e9) / final.unknowns, steps: h.length, seconds,
+  component: `${component}.run`, size: final.unknowns, nsPerUnit: (seconds * 1e9) / final.unknowns, steps: h.length, seconds, cpuSeconds: cpu(),
   estimate: final.estimate, rate: den > 0 ? num / den : NaN, stopReason: result.stopReason,
   peakRssBytes: peak, rssBytesPerUnknown: peak / final.unknowns,
 }));
