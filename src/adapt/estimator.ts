@@ -8,8 +8,11 @@
 import { SolverBreakdownError } from '../errors';
 import { derivativeNorms } from '../time/index';
 import type { DoubleTree } from '../spacetime/double-tree';
-import type { SpaceTimeSystem } from '../system/space-time-system';
-import type { HeatProblem } from '../system/heat-problem';
+import { SpaceTimeSystem } from '../system/space-time-system';
+import { HeatProblem } from '../system/heat-problem';
+import { validateInnerSolver } from '../system/system-options';
+import { checkSetOnDomain } from '../spacetime/set-checks';
+import { checkFloat64Array, checkInstance } from '../validation/index';
 import type { InnerSolver } from '../system/fibre-inverse';
 import { enlargedResidual } from '../system/enlarged-residual';
 import { hierarchicalDiagonals } from '../space/hierarchical-diagonals';
@@ -41,6 +44,10 @@ export interface ResidualIndicators {
  * ```
  */
 export function residualIndicators(enlarged: SpaceTimeSystem, set: DoubleTree, u: Float64Array, b?: Float64Array): ResidualIndicators {
+  checkInstance(enlarged, SpaceTimeSystem, 'enlarged', 'a SpaceTimeSystem on the enlarged set');
+  checkSetOnDomain(set, enlarged.problem.domain, 'set');
+  checkFloat64Array(u, 'u', { length: set.size, finite: true });
+  if (b !== undefined) checkFloat64Array(b, 'b', { length: enlarged.size, finite: true });
   const big = enlarged.trialSet;
   const map = embeddingMap(set, big);
   const ut = prolongCoefficients(map, u, big.size);
@@ -70,6 +77,11 @@ export function residualIndicators(enlarged: SpaceTimeSystem, set: DoubleTree, u
  * ```
  */
 export function estimateResidual(problem: HeatProblem, set: DoubleTree, u: Float64Array, enlarged: DoubleTree, inner?: InnerSolver): ResidualIndicators {
+  checkInstance(problem, HeatProblem, 'problem', 'a HeatProblem');
+  checkSetOnDomain(set, problem.domain, 'set');
+  checkFloat64Array(u, 'u', { length: set.size, finite: true });
+  checkSetOnDomain(enlarged, problem.domain, 'enlarged');
+  if (inner !== undefined) validateInnerSolver(inner, 'inner');
   const map = embeddingMap(set, enlarged);
   const r = enlargedResidual(problem, set, u, enlarged, map, inner);
   return indicatorsFromResidual(problem, enlarged, r, map);

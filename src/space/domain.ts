@@ -289,6 +289,11 @@ export class SpatialDomain {
     return n;
   }
 
+  /** @internal Validates that `set` is a sorted closed set of free vertex ids, naming `field`. */
+  checkSet(set: Int32Array, field: string): void {
+    this.unmark(this.markSet(set, field));
+  }
+
   // ---------------------------------------------------------------- refinement
 
   private pushStack(sp: number, e: number): number {
@@ -551,8 +556,8 @@ export class SpatialDomain {
    * The leaf mesh of the closure of `set` in local numbering (order: generation, then id), with
    * `forestElement` giving the forest element of each leaf.
    */
-  leafMesh(set: Int32Array): LeafMesh & { readonly forestElement: Int32Array } {
-    const n = this.markSet(set, 'set');
+  leafMesh(set: Int32Array, field = 'set'): LeafMesh & { readonly forestElement: Int32Array } {
+    const n = this.markSet(set, field);
     const f = this.forest;
     const d = this.dim;
     // order (generation, id): bucket by generation, then sort each bucket

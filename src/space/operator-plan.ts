@@ -4,7 +4,8 @@
  * matrix-free element loop, Tᵀ, read off the output set. Linear in the size of the union.
  */
 import { InvalidArgumentError, describeValue } from '../errors';
-import type { SpatialDomain } from './domain';
+import { SpatialDomain } from './domain';
+import { checkInstance } from '../validation/index';
 import { applyElementsNodal, applyElementsNodalSplit, applyElementsNodalSum, elementTables, type ElementTables } from './element-matrices';
 import { hierarchicalToNodal, hierarchicalToNodalTransposed } from './hierarchical';
 import type { LeafMesh } from './leaf-mesh';
@@ -65,6 +66,9 @@ export class SpatialOperatorPlan {
   private readonly r2: Float64Array;
 
   constructor(domain: SpatialDomain, inSet: Int32Array, outSet: Int32Array) {
+    checkInstance(domain, SpatialDomain, 'domain', 'a SpatialDomain');
+    domain.checkSet(inSet, 'inSet');
+    if (outSet !== inSet) domain.checkSet(outSet, 'outSet');
     this.domain = domain;
     this.inSet = inSet;
     this.outSet = outSet;

@@ -6,6 +6,7 @@
  * one object with one small integer id. Spatial operator plans are then
  * cached per pair of fibre ids (a sparse grid has only L + 1 distinct fibres).
  */
+import { InvalidArgumentError, describeValue } from '../errors';
 import { unionSorted as unionTwo } from '../space/operator-plan';
 
 /**
@@ -28,6 +29,14 @@ export class FibrePool {
 
   /** Returns the id of a fibre with the content of `set` (which must be sorted ascending). */
   intern(set: Int32Array): number {
+    if (!(set instanceof Int32Array)) {
+      throw new InvalidArgumentError(`set must be a sorted Int32Array of vertex ids, received ${describeValue(set)}`, { field: 'set', expected: 'Int32Array', received: describeValue(set) });
+    }
+    for (let i = 1; i < set.length; i++) {
+      if (!(set[i]! > set[i - 1]!)) {
+        throw new InvalidArgumentError(`set must be strictly increasing, but set[${i}] = ${set[i]} follows ${set[i - 1]}`, { field: `set[${i}]`, expected: 'strictly increasing ids', received: set[i] });
+      }
+    }
     const known = this.byRef.get(set);
     if (known !== undefined) return known;
     const h = hashInts(set);

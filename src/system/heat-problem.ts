@@ -4,7 +4,8 @@
  * The spatial domain (mesh, κ, c, boundary) is a {@link SpatialDomain}.
  */
 import { InvalidArgumentError } from '../errors';
-import type { SpatialDomain } from '../space/index';
+import { SpatialDomain } from '../space/index';
+import { checkOptions } from '../validation/index';
 
 /** A separable source term g(t)·h(x, y); sums of these are integrated factor by factor. */
 export interface SeparableTerm {
@@ -22,6 +23,9 @@ export interface HeatProblemSpec {
   /** Source f(t, x, y), or a sum of separable terms; default 0. */
   source?: ((t: number, x: number, y: number) => number) | SeparableTerm[];
 }
+
+/** Keys of {@link HeatProblemSpec}; the Record type makes a new key a compile error until listed here. */
+const SPEC_KEYS: Record<keyof Required<HeatProblemSpec>, true> = { domain: true, T: true, initial: true, source: true };
 
 /**
  * A validated parabolic problem.
@@ -42,8 +46,9 @@ export class HeatProblem {
 
   constructor(spec: HeatProblemSpec) {
     if (spec === null || typeof spec !== 'object') throw new InvalidArgumentError('problem specification must be an object', { field: 'spec' });
+    checkOptions<HeatProblemSpec>(spec, 'spec', SPEC_KEYS);
     const { domain, T } = spec;
-    if (!domain || typeof (domain as SpatialDomain).leafMesh !== 'function') {
+    if (!(domain instanceof SpatialDomain)) {
       throw new InvalidArgumentError('domain must be a SpatialDomain (e.g. from intervalDomain or rectangleDomain)', { field: 'domain' });
     }
     if (typeof T !== 'number' || !Number.isFinite(T) || T <= 0) {

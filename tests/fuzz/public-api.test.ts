@@ -272,6 +272,61 @@ const entries: Entry[] = [
     },
   },
   {
+    name: 'SpatialOperatorPlan',
+    slots: [
+      fixed('domain', [dR], NOT_DOMAIN),
+      fixed('inSet', [uR, dR.close([])], [null, 5, [4], Int32Array.of(4, 1), Int32Array.of(1e6)], /^inSet/),
+      fixed('outSet', [uR], [null, 'x', Float64Array.of(4), Int32Array.of(-3)], /^outSet/),
+    ],
+    call: ([d, a, b]) => new cm.SpatialOperatorPlan(d as never, a as never, b as never),
+  },
+  {
+    name: 'MultilevelPreconditioner',
+    slots: [
+      fixed('mesh', [dR.leafMesh(uR), dI.leafMesh(uI)], [null, 5, {}, sliceR, { ...dR.leafMesh(uR), coords: new Float64Array(2) }], /^mesh/),
+      opts('opts', [undefined, { cycles: 2 }, { smoother: 'jacobi', damping: 0.5 }], [{ cycles: 0 }, { cycles: 1.5 }, { smoother: 'sor' }, { damping: 2 }, { cycle: 2 }, { smoothingSteps: -1 }]),
+    ],
+    call: ([m, o]) => new cm.MultilevelPreconditioner(m as never, o as never),
+  },
+  {
+    name: 'FibrePool.intern',
+    slots: [fixed('set', [Int32Array.of(1, 4, 7), new Int32Array(0)], [null, 5, [1, 2], Float64Array.of(1), Int32Array.of(3, 1)], /^set/)],
+    call: ([s]) => new cm.FibrePool().intern(s as never),
+  },
+  {
+    name: 'SpatialDomain vertex queries',
+    slots: [int('v', 0, 8, [1e6, -3], /^v$/), fixed('axis', [0, 1], [2, -1, 0.5, '0', null, NaN], /^axis/)],
+    call: ([v, a]) => [dR.isFree(v as number), dR.generation(v as number), dR.level(v as number), dR.coordinate(v as number, a as number)],
+  },
+  {
+    name: 'traceVector / derivativeNorms',
+    slots: [
+      fixed('tree', [TemporalTree.full('trial', 3), setI.tree], [null, 5, {}, setI], /^tree/),
+      fixed('side', [0, 1], [2, -1, '0', null, 0.5], /^side/),
+      num('T', 0.1, 10, [0, -1]),
+    ],
+    call: ([tr, side, T]) => [cm.traceVector(tr as never, side as never, T as number), cm.derivativeNorms(tr as never, T as number)],
+  },
+  {
+    name: 'estimateResidual',
+    runs: 12,
+    slots: [
+      fixed('problem', [pI], [null, 5, {}, dI], /^problem/),
+      fixed('set', [setI], [null, 5, setR, uI], /^set/),
+      fixed('u', [new Float64Array(setI.size).fill(0.5)], [null, new Float64Array(2), new Float64Array(setI.size).fill(NaN), [1]], /^u/),
+    ],
+    call: ([p, s, u]) => cm.estimateResidual(p as never, s as never, u as never, cm.enlargeDoubleTree(dI, setI)).estimate,
+  },
+  {
+    name: 'solveBackward',
+    runs: 12,
+    slots: [
+      fixed('spec', [{ domain: dI, T: 1, terminal: () => 1 }], [null, 5, { domain: dI, T: -1 }, { domain: null, T: 1 }, { domain: dI, T: 1, terminal: 3 }, { domain: dI, T: 1, terminl: () => 1 }], /^(spec|domain|T|terminal|source)/),
+      fixed('trialSet', [setI], [null, 5, setR, {}], /^trialSet/),
+    ],
+    call: ([sp, s]) => cm.solveBackward(sp as never, s as never).solution.evaluate(0.5, [0.5]),
+  },
+  {
     name: 'SpaceTimeSystem',
     slots: [
       fixed('problem', [pI], [null, 5, {}, dI], /^problem/),

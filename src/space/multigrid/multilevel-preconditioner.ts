@@ -24,6 +24,7 @@ import { assemblePair } from './assemble-pair';
 import { CoarseSolver } from './coarse-solver';
 import { buildHierarchy, copyPairedRows, type LevelHierarchy, type PairedCsr } from './galerkin-hierarchy';
 import { validateLeafMesh } from './validate-leaf-mesh';
+import { checkOptions } from '../../validation/index';
 
 /**
  * Options of {@link MultilevelPreconditioner}.
@@ -49,6 +50,8 @@ export interface MultilevelOptions {
   /** Damping ω of the Jacobi smoother, in (0, 1] (default 0.6). */
   damping?: number;
 }
+
+const MULTILEVEL_KEYS: Record<keyof Required<MultilevelOptions>, true> = { cycles: true, smoothingSteps: true, smoother: true, damping: true };
 
 function checkCount(name: string, v: number | undefined, dflt: number): number {
   if (v === undefined) return dflt;
@@ -104,6 +107,8 @@ export class MultilevelPreconditioner {
   private readonly jtmp: Float64Array;
 
   constructor(mesh: LeafMesh, opts: MultilevelOptions = {}) {
+    checkOptions<MultilevelOptions>(opts, 'opts', MULTILEVEL_KEYS);
+    opts ??= {};
     this.cycles = checkCount('cycles', opts.cycles, 1);
     this.smoothingSteps = checkCount('smoothingSteps', opts.smoothingSteps, 1);
     validateLeafMesh(mesh);

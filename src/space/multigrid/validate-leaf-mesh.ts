@@ -7,7 +7,7 @@ import { InvalidMeshError } from '../../errors';
 import type { LeafMesh } from '../leaf-mesh';
 
 function fail(field: string, expected: string, received: unknown, what: string): never {
-  throw new InvalidMeshError(`${what}: ${field} must be ${expected}`, { field, expected, received });
+  throw new InvalidMeshError(`${what}: ${field} must be ${expected}`, { field: `mesh.${field}`, expected, received });
 }
 
 function checkLength(name: string, arr: { length: number } | undefined, want: number): void {
@@ -15,6 +15,9 @@ function checkLength(name: string, arr: { length: number } | undefined, want: nu
 }
 
 export function validateLeafMesh(mesh: LeafMesh): void {
+  if (mesh === null || typeof mesh !== 'object') {
+    throw new InvalidMeshError('mesh must be a leaf mesh (from SpatialDomain.leafMesh)', { field: 'mesh', expected: 'a leaf mesh', received: typeof mesh });
+  }
   if (mesh.dim !== 1 && mesh.dim !== 2) fail('dim', '1 or 2', mesh.dim, 'leaf mesh');
   const n = mesh.vertexCount;
   if (!Number.isInteger(n) || n < 1) fail('vertexCount', 'an integer ≥ 1', n, 'leaf mesh');
@@ -28,6 +31,7 @@ export function validateLeafMesh(mesh: LeafMesh): void {
   checkLength('isFree', mesh.isFree, n);
   checkLength('elements', mesh.elements, nv * ne);
   checkLength('elementMaterial', mesh.elementMaterial, ne);
+  if (!mesh.kappa || typeof mesh.kappa.length !== 'number') fail('kappa', 'an array of per-material values', mesh.kappa, 'leaf mesh');
   const nm = mesh.kappa.length;
   checkLength('reaction', mesh.reaction, nm);
   for (let i = 0; i < mesh.dim * n; i++) {
