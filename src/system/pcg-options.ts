@@ -3,7 +3,7 @@
  * work so that a wrong tolerance or a wrong-length vector is reported by its name instead of
  * surfacing later as a CG breakdown or a non-finite residual.
  */
-import { checkBoolean, checkFloat64Array, checkInteger, checkLinearOperator, checkNumber, checkOptions } from '../validation/index';
+import { checkAbortSignal, checkBoolean, checkFloat64Array, checkFunction, checkInteger, checkLinearOperator, checkNumber, checkOptions } from '../validation/index';
 import type { PcgOptions } from './pcg';
 
 /** Keys of {@link PcgOptions}; the Record type makes a new option a compile error until listed here. */
@@ -35,7 +35,8 @@ function checkCommon(o: Partial<SystemSolveOptions>, n: number, field: string): 
   if (o.estimateSpectrum !== undefined) checkBoolean(o.estimateSpectrum, `${field}.estimateSpectrum`);
   if (o.energyTol !== undefined) checkNumber(o.energyTol, `${field}.energyTol`, { min: 0 });
   if (o.energyDelay !== undefined) checkInteger(o.energyDelay, `${field}.energyDelay`, 1, 100);
-  if (o.onIteration !== undefined && typeof o.onIteration !== 'function') checkNumber(NaN, `${field}.onIteration (a function)`);
+  if (o.onIteration !== undefined) checkFunction(o.onIteration, `${field}.onIteration`, 'a function (progress) => void');
+  if (o.signal !== undefined) checkAbortSignal(o.signal, `${field}.signal`);
 }
 
 /**

@@ -88,6 +88,12 @@ export function checkInstance<T>(v: unknown, cls: abstract new (...args: never[]
   return v as T;
 }
 
+/** An AbortSignal, or any object with a boolean `aborted` (signals from other realms or polyfills). */
+export function checkAbortSignal(v: unknown, field: string): { aborted: boolean } {
+  if (v === null || typeof v !== 'object' || typeof (v as { aborted?: unknown }).aborted !== 'boolean') fail(field, 'an AbortSignal', v);
+  return v as { aborted: boolean };
+}
+
 /** A plain object (not null, not an array, not a function). */
 export function checkObject(v: unknown, field: string, what = 'an object'): Record<string, unknown> {
   if (v === null || typeof v !== 'object' || Array.isArray(v) || ArrayBuffer.isView(v)) fail(field, what, v);
