@@ -12,7 +12,7 @@ import type { AdaptiveOptions } from './adaptive-solver';
 
 const ADAPTIVE_KEYS: Record<keyof Required<AdaptiveOptions>, true> = {
   theta: true, tolerance: true, maxUnknowns: true, maxSteps: true, maxSeconds: true,
-  initialSet: true, solverFraction: true, inner: true, onStep: true, onProgress: true, signal: true, enlargement: true,
+  initialSet: true, solverFraction: true, inner: true, onStep: true, onProgress: true, signal: true, enlargement: true, markSeparately: true,
 };
 
 /** Checks `solveAdaptive(problem, opts)`: the problem, then the options (`undefined` gives `{}`). */

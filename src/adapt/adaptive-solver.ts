@@ -20,6 +20,7 @@ import { SpaceTimeSystem, type SpatialCaches } from '../system/space-time-system
 import type { PcgResult } from '../system/pcg';
 import { validateAdaptiveOptions } from './adaptive-options';
 import { dorflerMark } from './dorfler';
+import { spatialCandidates } from './candidate-kinds';
 import { enlargeDoubleTree, type EnlargementOptions } from './enlargement';
 import { embeddingMap, prolongCoefficients } from './embedding';
 import { estimateResidual } from './estimator';
@@ -84,6 +85,11 @@ export interface AdaptiveOptions {
   solverFraction?: number;
   /** Spatial inner solver for K_Y, K_X. */
   inner?: InnerSolver;
+  /**
+   * Dörfler marking separately among the spatial and among the temporal candidates (each with bulk
+   * θ), instead of once over all candidates (default false).
+   */
+  markSeparately?: boolean;
   /** How the candidate set Λ̲ is built (default: h halves in the spatial candidates). */
   enlargement?: EnlargementOptions;
   /** Called after every step; return `false` to stop (stop reason `'callback'`). */
@@ -300,7 +306,7 @@ class AdaptiveRun {
     let next: DoubleTree | null = null;
     if (!stop) {
       this.checkpoint('refine');
-      const marked = dorflerMark(ind.eta2, v.theta);
+      const marked = this.opts.markSeparately ? markSeparately(ind.eta2, spatialCandidates(set, bigSet), v.theta) : dorflerMark(ind.eta2, v.theta);
       record.marked = marked.length;
       next = refineDoubleTree(domain, set, bigSet, marked);
       if (next.size > v.maxUnknowns) stop = 'unknowns';
@@ -322,6 +328,19 @@ class AdaptiveRun {
     this.u = prolongCoefficients(embeddingMap(set, next), uSolved, next.size);
     this.set = next;
   }
+}
+
+/** Dörfler marking within each class of candidates (kind[i] = 1 spatial, 0 temporal). */
+function markSeparately(eta2: Float64Array, kind: Uint8Array, theta: number): Int32Array {
+  const a = new Float64Array(eta2.length);
+  const b = new Float64Array(eta2.length);
+  for (let i = 0; i < eta2.length; i++) (kind[i] ? a : b)[i] = eta2[i]!;
+  const ma = dorflerMark(a, theta);
+  const mb = dorflerMark(b, theta);
+  const out = new Int32Array(ma.length + mb.length);
+  out.set(ma);
+  out.set(mb, ma.length);
+  return out.sort();
 }
 
 /**

@@ -192,3 +192,27 @@ describe('refinement and prolongation', () => {
     }
   });
 });
+
+describe('marking spatial and temporal candidates separately', () => {
+  it('classifies candidates and refines in both space and time', async () => {
+    const { spatialCandidates } = await import('../../src/adapt/candidate-kinds');
+    const domain = rectangleDomain(0, 1, 0, 1, 2, 2);
+    const set = DoubleTree.sparseGrid(domain, 2);
+    const big = enlargeDoubleTree(domain, set);
+    const kind = spatialCandidates(set, big);
+    const inSet = new Uint8Array(big.size);
+    for (const p of embeddingMap(set, big)) inSet[p] = 1;
+    let spatial = 0, temporal = 0;
+    for (let i = 0; i < big.size; i++) {
+      if (inSet[i]) expect(kind[i]).toBe(0);
+      else if (kind[i]) spatial++;
+      else temporal++;
+    }
+    expect(spatial).toBeGreaterThan(0);
+    expect(temporal).toBeGreaterThan(0);
+    const r = solveAdaptive(new HeatProblem({ domain, T: 0.5, initial: () => 1 }), { maxUnknowns: 1500, markSeparately: true });
+    const first = r.history[0]!, last = r.history.at(-1)!;
+    expect(last.maxTimeLevel).toBeGreaterThan(first.maxTimeLevel);
+    expect(last.spatialVertices).toBeGreaterThan(first.spatialVertices);
+  });
+});
