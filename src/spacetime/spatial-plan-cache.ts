@@ -3,6 +3,7 @@
  * fibre pool, so that identical spatial applications share one plan.
  */
 import { SpatialOperatorPlan, type SpatialDomain } from '../space/index';
+import { EpochMap } from './epoch-map';
 import type { FibrePool } from './fibre-pool';
 
 /**
@@ -21,9 +22,7 @@ import type { FibrePool } from './fibre-pool';
 export class SpatialPlanCache {
   readonly domain: SpatialDomain;
   readonly pool: FibrePool;
-  private readonly plans = new Map<number, SpatialOperatorPlan>();
-  private readonly used = new Map<number, number>();
-  private epoch = 0;
+  private readonly plans = new EpochMap<SpatialOperatorPlan>();
 
   constructor(domain: SpatialDomain, pool: FibrePool) {
     this.domain = domain;
@@ -32,14 +31,7 @@ export class SpatialPlanCache {
 
   /** The plan from fibre `inId` to fibre `outId` (built on first use). */
   get(inId: number, outId: number): SpatialOperatorPlan {
-    const key = inId * 0x200000 + outId;
-    let p = this.plans.get(key);
-    if (p === undefined) {
-      p = new SpatialOperatorPlan(this.domain, this.pool.get(inId), this.pool.get(outId));
-      this.plans.set(key, p);
-    }
-    this.used.set(key, this.epoch);
-    return p;
+    return this.plans.getOrMake(inId * 0x200000 + outId, () => new SpatialOperatorPlan(this.domain, this.pool.get(inId), this.pool.get(outId)));
   }
 
   /**
@@ -47,13 +39,7 @@ export class SpatialPlanCache {
    * adaptive run calls this once per step, so plans of fibres that no longer occur are freed).
    */
   advanceEpoch(keep = 1): void {
-    this.epoch++;
-    for (const [key, e] of this.used) {
-      if (e < this.epoch - keep) {
-        this.used.delete(key);
-        this.plans.delete(key);
-      }
-    }
+    this.plans.advance(keep);
   }
 
   get size(): number {

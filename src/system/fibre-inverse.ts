@@ -12,6 +12,7 @@ import { MultilevelPreconditioner } from '../space/multigrid/index';
 import { localIndices } from '../space/operator-plan';
 import type { FibrePool } from '../spacetime/fibre-pool';
 import type { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
+import { EpochMap } from '../spacetime/epoch-map';
 
 /** How the spatial inverses inside K_Y and K_X are realised. */
 export type InnerSolver =
@@ -113,9 +114,7 @@ export function denseFibreMatrices(cache: SpatialPlanCache, fibreId: number): { 
  * ```
  */
 export class FibreInverseCache {
-  private readonly items = new Map<number, FibreInverse>();
-  private readonly used = new Map<number, number>();
-  private epoch = 0;
+  private readonly items = new EpochMap<FibreInverse>();
   constructor(
     private readonly domain: SpatialDomain,
     readonly pool: FibrePool,
@@ -124,21 +123,18 @@ export class FibreInverseCache {
   ) {}
 
   get(fibreId: number): FibreInverse {
-    let item = this.items.get(fibreId);
-    if (item === undefined) {
-      if (this.solver.kind === 'exact') {
-        const { M, A } = denseFibreMatrices(this.plans, fibreId);
-        item = new ExactFibreInverse(M, A);
-      } else {
-        const fibre = this.pool.get(fibreId);
-        const mesh = this.domain.leafMesh(fibre);
-        const mg = new MultilevelPreconditioner(mesh, { cycles: this.solver.cycles ?? 1 });
-        item = new MultigridFibreInverse(this.domain, mesh, fibre, mg);
-      }
-      this.items.set(fibreId, item);
+    return this.items.getOrMake(fibreId, () => this.build(fibreId));
+  }
+
+  private build(fibreId: number): FibreInverse {
+    if (this.solver.kind === 'exact') {
+      const { M, A } = denseFibreMatrices(this.plans, fibreId);
+      return new ExactFibreInverse(M, A);
     }
-    this.used.set(fibreId, this.epoch);
-    return item;
+    const fibre = this.pool.get(fibreId);
+    const mesh = this.domain.leafMesh(fibre);
+    const mg = new MultilevelPreconditioner(mesh, { cycles: this.solver.cycles ?? 1 });
+    return new MultigridFibreInverse(this.domain, mesh, fibre, mg);
   }
 
   /** Number of fibre inverses held. */
@@ -148,12 +144,6 @@ export class FibreInverseCache {
 
   /** Starts a new epoch and releases the inverses not requested during the last `keep` epochs. */
   advanceEpoch(keep = 1): void {
-    this.epoch++;
-    for (const [id, e] of this.used) {
-      if (e < this.epoch - keep) {
-        this.used.delete(id);
-        this.items.delete(id);
-      }
-    }
+    this.items.advance(keep);
   }
 }
