@@ -4,7 +4,8 @@ import { timeCases } from './time';
 import { spaceCases } from './space';
 import { spaceMultigridCases } from './space-multigrid';
 import { spacetimeCases } from './spacetime';
+import { outputCases } from './output';
 
 export type Suite = (quick: boolean) => BenchCase[];
 
-export const suites: Suite[] = [timeCases, spaceCases, spaceMultigridCases, spacetimeCases];
+export const suites: Suite[] = [timeCases, spaceCases, spaceMultigridCases, spacetimeCases, outputCases];
