@@ -88,6 +88,16 @@ export function spaceTimeErrors(solution: SpaceTimeSolution, exact: KnownSolutio
     throw new InvalidArgumentError(`opts.gradedPanels = ${String(panels)} must be an integer in [0, 60]`, { field: 'opts.gradedPanels', expected: 'an integer in [0, 60]', received: panels });
   }
   const T = solution.T;
+  // A subclass may read its trial set in reversed time (backward problems); integrate in the
+  // trial set's own time s and ask the exact solution at t = T − s.
+  const reversed = timeReversed(solution);
+  const exactIn: KnownSolution = reversed
+    ? {
+      value: (s, x, y) => exact.value(T - s, x, y),
+      gradient: (s, x, y, g) => exact.gradient(T - s, x, y, g),
+      ...(exact.valueAndGradient ? { valueAndGradient: (s: number, x: number, y: number, g: Float64Array) => exact.valueAndGradient!(T - s, x, y, g) } : {}),
+    }
+    : exact;
   const singular = o.singularTimes ?? [];
   if (!Array.isArray(singular)) throw new InvalidArgumentError('opts.singularTimes must be an array of times in (0, T]', { field: 'opts.singularTimes' });
   const extra: number[] = [];
@@ -97,7 +107,7 @@ export function spaceTimeErrors(solution: SpaceTimeSolution, exact: KnownSolutio
         field: `opts.singularTimes[${i}]`, expected: `number in (0, ${T}]`, received: s,
       });
     }
-    extra.push(s / T);
+    extra.push(reversed ? (T - s) / T : s / T);
   });
 
   const slices = new BreakpointSlices(solution, extra);
@@ -106,6 +116,7 @@ export function spaceTimeErrors(solution: SpaceTimeSolution, exact: KnownSolutio
   isSingular[0] = 1;
   const sing = [0, ...extra];
   for (const s of extra) {
+    if (s === 0) continue;
     for (let k = 0; k < br.length; k++) if (br[k] === s) isSingular[k] = 1;
   }
   // Intervals within two lengths of a singular time (but not touching it) see a steep, smooth
@@ -122,7 +133,7 @@ export function spaceTimeErrors(solution: SpaceTimeSolution, exact: KnownSolutio
   const nv = slices.mesh.vertexCount;
   let va = new Float64Array(nv);
   let vb = new Float64Array(nv);
-  const integ = new SliceIntegrator(slices.mesh, exact);
+  const integ = new SliceIntegrator(slices.mesh, exactIn);
   const rule = new TimeRule(nq, panels);
   let g2 = 0;
   let v2 = 0;
@@ -148,4 +159,24 @@ export function spaceTimeErrors(solution: SpaceTimeSolution, exact: KnownSolutio
     vb = tmp;
   }
   return { gradientL2: Math.sqrt(g2), valueL2: Math.sqrt(v2), slices: count };
+}
+
+/**
+ * Whether `solution` (possibly a subclass) presents its trial set in reversed time, i.e. its slice
+ * at t is the trial-set function at T − t. Compared at one generic time against both readings;
+ * any other time map is refused, since the error integration reads the trial set directly.
+ */
+function timeReversed(solution: SpaceTimeSolution): boolean {
+  const base = SolutionClass.prototype.spatialCoefficients;
+  if (solution.spatialCoefficients === base) return false;
+  const T = solution.T;
+  const t = 0.3819660112501051 * T; // a non-dyadic time, so both readings differ
+  const got = solution.spatialCoefficients(t);
+  const same = (r: { set: Int32Array; coeffs: Float64Array }) =>
+    r.set.length === got.set.length && r.set.every((v, i) => v === got.set[i]) && r.coeffs.every((v, i) => Math.abs(v - got.coeffs[i]!) <= 1e-12 * (1 + Math.abs(v)));
+  if (same(base.call(solution, t))) return false;
+  if (same(base.call(solution, T - t))) return true;
+  throw new InvalidArgumentError('solution maps time to its trial set in a way spaceTimeErrors cannot follow (only t and T − t are supported)', {
+    field: 'solution', expected: 'a SpaceTimeSolution, or a subclass reading its trial set at t or at T − t',
+  });
 }
