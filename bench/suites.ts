@@ -5,7 +5,8 @@ import { spaceCases } from './space';
 import { spaceMultigridCases } from './space-multigrid';
 import { spacetimeCases } from './spacetime';
 import { outputCases } from './output';
+import { estimationCases } from './estimation';
 
 export type Suite = (quick: boolean) => BenchCase[];
 
-export const suites: Suite[] = [timeCases, spaceCases, spaceMultigridCases, spacetimeCases, outputCases];
+export const suites: Suite[] = [timeCases, spaceCases, spaceMultigridCases, spacetimeCases, outputCases, estimationCases];

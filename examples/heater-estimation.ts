@@ -134,7 +134,7 @@ export function fitSvg(study: HeaterStudy): string {
   const hi = Math.max(...study.measured.flat(), ...curves.flat());
   const step = niceStep(hi / 5);
   const ymax = Math.ceil((hi * 1.02) / step) * step;
-  const ymin = Math.min(0, Math.floor(Math.min(...study.measured.flat()) / step) * step);
+  const ymin = Math.min(0, Math.min(...study.measured.flat()) - 0.02 * hi);
   const X = (t: number) => L + ((W - L - R) * t) / T;
   const Y = (v: number) => H - B - ((H - B - Tp) * (v - ymin)) / (ymax - ymin);
   const colors = ['#1f77b4', '#ff7f0e', '#2ca02c', '#d62728', '#9467bd', '#8c564b', '#e377c2', '#17becf'];
@@ -147,7 +147,7 @@ export function fitSvg(study: HeaterStudy): string {
     out.push(`<line x1="${X(t)}" y1="${H - B}" x2="${X(t)}" y2="${H - B + 5}" stroke="black"/><text x="${X(t)}" y="${H - B + 18}" text-anchor="middle">${t.toFixed(1)}</text>`);
   }
   const digits = Math.max(0, -Math.floor(Math.log10(step)));
-  for (let v = ymin; v <= ymax + step / 2; v += step) {
+  for (let v = Math.ceil(ymin / step) * step; v <= ymax + step / 2; v += step) {
     out.push(`<line x1="${L - 5}" y1="${Y(v)}" x2="${W - R}" y2="${Y(v)}" stroke="#ddd"/><text x="${L - 8}" y="${Y(v) + 4}" text-anchor="end">${v.toFixed(digits)}</text>`);
   }
   out.push(`<text x="${(L + W - R) / 2}" y="${H - 12}" text-anchor="middle">time t</text>`);

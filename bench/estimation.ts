@@ -1,0 +1,62 @@
+/**
+ * Benchmark cases of the estimation layer (`estimation.` rows), per space-time unknown: one
+ * forward solve, one gradient (forward + adjoint solve), one Hessian–vector product (two solves)
+ * and one application of the probe functional's Eᵀ W E, for a d = 2 sparse grid with three
+ * separable sources and eight probes read at 20 times (the setting of examples/heater-estimation).
+ * The gradient/forward ratio is the figure of merit (ideally about 2).
+ */
+import {
+  DoubleTree, HeatProblem, ReducedFunctional, SpaceTimeSystem, probeMisfit, rectangleDomain, sourceAmplitudes,
+} from '../src/index';
+import type { BenchCase, BenchInstance } from './harness';
+
+type Which = 'forward' | 'gradient' | 'hessian-vector' | 'probe-hessian-apply';
+
+function model(level: number): ReducedFunctional {
+  const domain = rectangleDomain(0, 2, 0, 1, 4, 2, { insulated: (_x, y) => y > 1e-9 });
+  const system = new SpaceTimeSystem(new HeatProblem({ domain, T: 1 }), DoubleTree.sparseGrid(domain, level));
+  const bump = (cx: number) => (x: number, y: number) => Math.exp(-((x - cx) ** 2 + (y - 0.5) ** 2) / 0.0144);
+  const params = sourceAmplitudes(system, [0.5, 1, 1.5].map((c) => ({ time: () => 1, space: bump(c) })));
+  const points = Array.from({ length: 8 }, (_, k) => [0.2 + 0.2 * k, 0.3 + 0.05 * k]);
+  const times = Array.from({ length: 20 }, (_, j) => (j + 1) / 20);
+  const J = probeMisfit(system, { times, points, data: times.map(() => points.map(() => 0.01)) });
+  return new ReducedFunctional(system, params, J, { accuracy: 1e-6 });
+}
+
+function instance(J: ReducedFunctional, which: Which): BenchInstance {
+  const m = Float64Array.of(1, 2, 3);
+  const n = J.system.size;
+  const extra: Record<string, number> = { parameters: J.size, rows: J.functional.rowCount };
+  switch (which) {
+    case 'forward':
+      return { units: n, run: () => void J.state(m), extra };
+    case 'gradient': {
+      const g = J.gradient(m);
+      return { units: n, run: () => void J.gradient(m), extra: { ...extra, forwardIterations: g.forwardIterations, adjointIterations: g.adjointIterations } };
+    }
+    case 'hessian-vector':
+      return { units: n, run: () => void J.hessianVector(m), extra };
+    case 'probe-hessian-apply': {
+      const v = new Float64Array(n).map((_, i) => Math.sin(0.37 * i));
+      const out = new Float64Array(n);
+      return { units: n, run: () => void J.functional.hessianApply(v, out), extra };
+    }
+  }
+}
+
+/** Sizes are sparse-grid levels on (0, 2) × (0, 1) with 4 × 2 cells. */
+export function estimationCases(quick: boolean): BenchCase[] {
+  const levels = quick ? [3] : [4, 5, 6];
+  let cached: { level: number; J: ReducedFunctional } | null = null;
+  const get = (level: number) => {
+    if (!cached || cached.level !== level) cached = { level, J: model(level) };
+    return cached.J;
+  };
+  const cases: BenchCase[] = [];
+  for (const level of levels) {
+    for (const which of ['forward', 'gradient', 'hessian-vector', 'probe-hessian-apply'] as const) {
+      cases.push({ component: `estimation.${which}.L${level}`, sizes: [level], setup: (l) => instance(get(l), which) });
+    }
+  }
+  return cases;
+}
