@@ -6,6 +6,7 @@
  * (degree-5 rules per leaf element, Gauss–Legendre in time between the breakpoints of the trial
  * functions), so value, gradient Eᵀ W (E u − d) and Hessian Eᵀ W E belong together exactly.
  */
+import { checkOptions } from '../validation/checks';
 import { InvalidArgumentError, describeValue } from '../errors';
 import { nodeSupport } from '../time/index';
 import { gaussLegendre01 } from '../numerics/gauss-legendre';
@@ -133,6 +134,7 @@ export function probeMisfit(system: SpaceTimeSystem, obs: ProbeData): LeastSquar
   const { domain, T } = system.problem;
   const d = domain.dim;
   if (!obs || typeof obs !== 'object') throw new InvalidArgumentError('observations must be an object { times, points, data }', { field: 'observations' });
+  checkOptions<ProbeData>(obs, 'observations', ['times', 'points', 'data', 'weights']);
   const { times, points, data } = obs;
   if (!times || typeof times.length !== 'number' || times.length === 0) throw new InvalidArgumentError('times must be a non-empty array', { field: 'times' });
   if (!Array.isArray(points) || points.length === 0) throw new InvalidArgumentError('points must be a non-empty array of coordinates', { field: 'points' });
@@ -218,6 +220,7 @@ export interface RegionTrackingOptions {
  * ```
  */
 export function regionTracking(system: SpaceTimeSystem, opts: RegionTrackingOptions = {}): LeastSquaresFunctional {
+  checkOptions<RegionTrackingOptions>(opts, 'options', ['from', 'to', 'inside', 'target', 'timePoints']);
   const { domain, T } = system.problem;
   const from = opts.from ?? 0;
   const to = opts.to ?? T;

@@ -4,6 +4,7 @@
  * the initial state as nodal values on a uniformly refined initial mesh. Each map provides
  * b += (∂b/∂m) m and its transpose g = (∂b/∂m)ᵀ v, the two pieces an adjoint gradient needs.
  */
+import { checkOptions } from '../validation/checks';
 import { InvalidArgumentError, describeValue } from '../errors';
 import type { SeparableTerm } from '../system/heat-problem';
 import type { SpaceTimeSystem } from '../system/space-time-system';
@@ -119,6 +120,7 @@ export interface ControlAmplitudeOptions {
 export function controlAmplitude(system: SpaceTimeSystem, opts: ControlAmplitudeOptions): ParameterMap {
   const T = system.problem.T;
   if (!opts || typeof opts !== 'object') throw new InvalidArgumentError('options { grid, kind, space } are required', { field: 'options' });
+  checkOptions<ControlAmplitudeOptions>(opts, 'options', ['grid', 'kind', 'space']);
   const grid = Float64Array.from(opts.grid ?? []);
   if (grid.length < 2) throw new InvalidArgumentError('grid must have at least two points', { field: 'grid', received: describeValue(opts.grid) });
   if (Math.abs(grid[0]!) > 1e-12 * T || Math.abs(grid[grid.length - 1]! - T) > 1e-12 * T) {

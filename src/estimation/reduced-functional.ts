@@ -4,6 +4,7 @@
  * the exact derivatives of the computed J). Since S is symmetric, the adjoint equation is
  * S p = ∇_u J with the same operator and preconditioner, and ∇_m J = (∂b/∂m)ᵀ p.
  */
+import { checkOptions } from '../validation/checks';
 import { ConvergenceError, InvalidArgumentError, describeValue } from '../errors';
 import { SpaceTimeSolution } from '../output/space-time-solution';
 import { pcg, type PcgResult } from '../system/pcg';
@@ -67,6 +68,7 @@ export class ReducedFunctional {
     readonly functional: LeastSquaresFunctional,
     opts: ReducedFunctionalOptions = {},
   ) {
+    checkOptions<ReducedFunctionalOptions>(opts, 'options', ['baseRightHandSide', 'accuracy', 'maxIterations']);
     const n = system.size;
     if (!parameters || typeof parameters.addTo !== 'function' || parameters.systemSize !== n) {
       throw new InvalidArgumentError(`parameters must be a parameter map of this system (${n} unknowns)`, { field: 'parameters', received: describeValue(parameters?.systemSize) });
@@ -107,6 +109,7 @@ export class ReducedFunctional {
   }
 
   private relTol(opts: AccuracyOption): number {
+    checkOptions<AccuracyOption>(opts, 'options', ['accuracy']);
     return checkAccuracy(opts.accuracy ?? this.accuracy, 'accuracy') / 10;
   }
 

@@ -9,6 +9,7 @@
  * Gaussian prior, (H + β I)⁻¹ is the covariance of the estimate (the linear-Gaussian posterior;
  * e.g. Tarantola, Inverse Problem Theory, 2005, §3.2): {@link parameterCovariance}.
  */
+import { checkOptions } from '../validation/checks';
 import { Matrix, inverse } from 'ml-matrix';
 import { ConvergenceError, InvalidArgumentError, describeValue } from '../errors';
 import type { ReducedFunctional } from './reduced-functional';
@@ -55,6 +56,7 @@ export interface EstimateResult {
  * ```
  */
 export function estimateParameters(J: ReducedFunctional, opts: EstimateOptions = {}): EstimateResult {
+  checkOptions<EstimateOptions>(opts, 'options', ['beta', 'prior', 'tolerance', 'maxIterations', 'accuracy']);
   const n = J.size;
   const beta = opts.beta ?? 0;
   if (!(Number.isFinite(beta) && beta >= 0)) throw new InvalidArgumentError(`beta = ${beta} must be a finite number ≥ 0`, { field: 'beta', expected: '≥ 0', received: beta });
@@ -132,6 +134,7 @@ export interface CovarianceResult {
  * ```
  */
 export function parameterCovariance(J: ReducedFunctional, opts: { beta?: number; accuracy?: number } = {}): CovarianceResult {
+  checkOptions(opts, 'options', ['beta', 'accuracy']);
   const n = J.size;
   const beta = opts.beta ?? 0;
   if (!(Number.isFinite(beta) && beta >= 0)) throw new InvalidArgumentError(`beta = ${beta} must be a finite number ≥ 0`, { field: 'beta', expected: '≥ 0', received: beta });

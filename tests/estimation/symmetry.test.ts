@@ -98,3 +98,11 @@ describe('symmetry and adjoint consistency', () => {
     expect(report.length).toBeGreaterThan(0);
   });
 });
+
+describe('option keys', () => {
+  it('an unknown option key is refused with the nearest valid name', () => {
+    const system = systemFor(1, 'sparse');
+    const J = new ReducedFunctional(system, paramsFor(system, 'source'), functionalFor(system, 'probe'));
+    expect(() => J.gradient(Float64Array.of(1, 1), { accuray: 1e-3 } as never)).toThrow(/did you mean 'accuracy'/);
+  });
+});
