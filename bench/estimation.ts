@@ -59,9 +59,9 @@ function instance(J: ReducedFunctional, which: Which): BenchInstance {
   }
 }
 
-/** Sizes are sparse-grid levels on (0, 2) × (0, 1) with 4 × 2 cells. */
+/** Sizes are sparse-grid levels on (0, 2) × (0, 1) with 4 × 2 cells (5.2e3 and 2.1e4 unknowns). */
 export function estimationCases(quick: boolean): BenchCase[] {
-  const levels = quick ? [3] : [4, 5, 6];
+  const levels = quick ? [3] : [4, 5];
   let cached: { level: number; J: ReducedFunctional } | null = null;
   const get = (level: number) => {
     if (!cached || cached.level !== level) cached = { level, J: model(level) };
