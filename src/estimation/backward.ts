@@ -5,7 +5,6 @@
  * ∂s q − ∇·(κ∇q) + c q = g(T − s), q(0) = p_T. The trial index set passed in is read in the
  * reversed time s: its refinement near s = 0 resolves the layer of p near t = T.
  */
-import { checkOptions } from '../validation/checks';
 import { ConvergenceError, InvalidArgumentError } from '../errors';
 import { SpaceTimeSolution } from '../output/space-time-solution';
 import type { SpatialDomain } from '../space/index';
@@ -64,7 +63,6 @@ export function solveBackward(
   opts: Omit<PcgOptions, 'preconditioner' | 'initialGuess'> & SpaceTimeSystemOptions = {},
 ): { solution: BackwardSolution; pcg: PcgResult; system: SpaceTimeSystem } {
   if (spec === null || typeof spec !== 'object') throw new InvalidArgumentError('backward problem specification must be an object', { field: 'spec' });
-  checkOptions<BackwardProblemSpec>(spec, 'spec', ['domain', 'T', 'terminal', 'source']);
   const { T } = spec;
   if (typeof T !== 'number' || !Number.isFinite(T) || T <= 0) {
     throw new InvalidArgumentError(`final time T = ${String(T)} must be a finite number > 0`, { field: 'T', expected: 'finite number > 0', received: T });

@@ -5,7 +5,7 @@
  * S p = ∇_u J with the same operator and preconditioner, and ∇_m J = (∂b/∂m)ᵀ p.
  */
 import { checkOptions } from '../validation/checks';
-import { ConvergenceError, InvalidArgumentError, describeValue } from '../errors';
+import { InvalidArgumentError, NotConvergedError, describeValue } from '../errors';
 import { SpaceTimeSolution } from '../output/space-time-solution';
 import { pcg, type PcgResult } from '../system/pcg';
 import type { SpaceTimeSystem } from '../system/space-time-system';
@@ -93,16 +93,18 @@ export class ReducedFunctional {
   }
 
   /**
-   * Solves S x = rhs with K_X, relative tolerance `relTol`; throws {@link ConvergenceError} naming
+   * Solves S x = rhs with K_X, relative tolerance `relTol`; throws {@link NotConvergedError} naming
    * the solve (`field`) if the iteration cap is reached first.
    */
   solveWith(rhs: Float64Array, relTol: number, field: string): PcgResult {
     const r = pcg(this.system.S, rhs, { preconditioner: this.system.KX, relTol, maxIterations: this.maxIterations });
     if (!r.converged) {
-      const reached = r.residualHistory[r.residualHistory.length - 1]! / (r.residualHistory[0]! || 1);
-      throw new ConvergenceError(
+      const last = r.residualHistory[r.residualHistory.length - 1]!;
+      const first = r.residualHistory[0]!;
+      const reached = last / (first || 1);
+      throw new NotConvergedError(
         `${field} PCG solve stopped after ${r.iterations} iterations at relative residual ${reached.toExponential(2)}, above the tolerance ${relTol.toExponential(2)}; raise maxIterations or request less accuracy`,
-        { field, expected: `relative residual ≤ ${relTol}`, received: reached },
+        r.iterations, last, relTol * first, { field, expected: `relative residual ≤ ${relTol}`, received: reached },
       );
     }
     return r;

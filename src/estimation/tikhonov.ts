@@ -11,7 +11,7 @@
  */
 import { checkOptions } from '../validation/checks';
 import { Matrix, inverse } from 'ml-matrix';
-import { ConvergenceError, InvalidArgumentError, describeValue } from '../errors';
+import { InvalidArgumentError, NotConvergedError, SolverBreakdownError, describeValue } from '../errors';
 import type { ReducedFunctional } from './reduced-functional';
 
 /** Options of {@link estimateParameters}. */
@@ -42,7 +42,8 @@ export interface EstimateResult {
 /**
  * Minimises J(u(m)) + β/2 ‖m − m_prior‖² by CG on the normal equations.
  *
- * @throws ConvergenceError if CG has not reached `tolerance` within `maxIterations`.
+ * @throws NotConvergedError if CG has not reached `tolerance` within `maxIterations`;
+ * SolverBreakdownError if H + βI is not positive definite (data do not determine m and β = 0).
  * @example
  * ```ts
  * import { DoubleTree, HeatProblem, ReducedFunctional, SpaceTimeSystem, estimateParameters, intervalDomain, probeMisfit, sourceAmplitudes } from 'chronomesh';
@@ -82,7 +83,7 @@ export function estimateParameters(J: ReducedFunctional, opts: EstimateOptions =
     for (let j = 0; j < n; j++) q[j]! += beta * p[j]!;
     const pq = dot(p, q);
     if (!(pq > 0)) {
-      throw new ConvergenceError(`CG on the normal equations broke down at iteration ${it + 1} (pᵀ(H + βI)p = ${pq}): the data do not determine the parameters; use beta > 0`, {
+      throw new SolverBreakdownError(`CG on the normal equations broke down at iteration ${it + 1} (pᵀ(H + βI)p = ${pq}): the data do not determine the parameters; use beta > 0`, {
         field: 'beta', expected: 'β > 0 or more informative data', received: beta,
       });
     }
@@ -98,7 +99,7 @@ export function estimateParameters(J: ReducedFunctional, opts: EstimateOptions =
     history.push(Math.sqrt(rr));
   }
   if (Math.sqrt(rr) > tol * r0) {
-    throw new ConvergenceError(`CG on the normal equations did not reach tolerance ${tol} in ${maxIt} iterations (relative residual ${(Math.sqrt(rr) / r0).toExponential(2)})`, {
+    throw new NotConvergedError(`CG on the normal equations did not reach tolerance ${tol} in ${maxIt} iterations (relative residual ${(Math.sqrt(rr) / r0).toExponential(2)})`, it, Math.sqrt(rr), tol * r0, {
       field: 'maxIterations', expected: `relative residual ≤ ${tol}`, received: Math.sqrt(rr) / r0,
     });
   }

@@ -7,7 +7,7 @@
  * e^{−2π²(T−t)} sin(πx) sin(πy).
  */
 import { describe, expect, it } from 'vitest';
-import { DoubleTree, HeatProblem, SpaceTimeSystem, intervalDomain, probeTableCsv, rectangleDomain, solveBackward, spaceTimeErrors } from '../../src/index';
+import { ConvergenceError, DoubleTree, HeatProblem, SpaceTimeSystem, intervalDomain, probeTableCsv, rectangleDomain, solveBackward, spaceTimeErrors } from '../../src/index';
 
 const report: string[] = [];
 
@@ -77,7 +77,7 @@ describe('backward problems by time reversal', () => {
     const set = DoubleTree.sparseGrid(domain, 2);
     expect(() => solveBackward({ domain, T: -1 }, set)).toThrow(/T = -1/);
     expect(() => solveBackward({ domain, T: 1, terminal: 3 as never }, set)).toThrow(/terminal/);
-    expect(() => solveBackward({ domain, T: 1, terminal: () => 1 }, set, { maxIterations: 1, relTol: 1e-14 })).toThrow(/backward PCG/);
+    expect(() => solveBackward({ domain, T: 1, terminal: () => 1 }, set, { maxIterations: 1, relTol: 1e-14 })).toThrow(ConvergenceError);
   });
 
   it('report', () => {

@@ -6,7 +6,7 @@
  * error, and an unconverged adjoint solve raises a typed error.
  */
 import { describe, expect, it } from 'vitest';
-import { ConvergenceError, InvalidArgumentError, ReducedFunctional, pcg } from '../../src/index';
+import { InvalidArgumentError, NotConvergedError, ReducedFunctional, pcg } from '../../src/index';
 import { rng } from '../helpers/random';
 import { FUNCTIONAL_KINDS, PARAM_KINDS, functionalFor, paramsFor, systemFor } from './fixtures';
 
@@ -73,7 +73,7 @@ describe('symmetry and adjoint consistency', () => {
     }
   });
 
-  it('an unconverged adjoint solve raises ConvergenceError; bad input is rejected before work', () => {
+  it('an unconverged adjoint solve raises NotConvergedError; bad input is rejected before work', () => {
     const system = systemFor(1, 'sparse');
     const params = paramsFor(system, 'source');
     const J = new ReducedFunctional(system, params, functionalFor(system, 'probe'), { maxIterations: 2 });
@@ -81,8 +81,9 @@ describe('symmetry and adjoint consistency', () => {
       J.gradient(Float64Array.of(1, 1), { accuracy: 1e-12 });
       expect.unreachable();
     } catch (e) {
-      expect(e).toBeInstanceOf(ConvergenceError);
-      expect((e as ConvergenceError).field).toBe('forward');
+      expect(e).toBeInstanceOf(NotConvergedError);
+      expect((e as NotConvergedError).field).toBe('forward');
+      expect((e as NotConvergedError).iterations).toBe(2);
     }
     // Forward solve converges loosely, adjoint does not: the error names the adjoint solve.
     const J2 = new ReducedFunctional(system, params, functionalFor(system, 'probe'), { maxIterations: 6 });
