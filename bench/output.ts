@@ -12,7 +12,7 @@
  */
 import { DoubleTree } from '../src/spacetime/double-tree';
 import { intervalDomain, rectangleDomain } from '../src/space/index';
-import { SpaceTimeSolution } from '../src/output/space-time-solution';
+import { SpaceTimeSolution } from '../src/spacetime/space-time-solution';
 import { spaceTimeErrors, type KnownSolution } from '../src/output/error-norms';
 import { BreakpointSlices } from '../src/output/error-slices';
 import { HeatProblem } from '../src/system/heat-problem';

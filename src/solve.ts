@@ -7,7 +7,7 @@
 import { typed } from './vendor/typed-function';
 import { InvalidArgumentError } from './errors';
 import { solveAdaptive, type AdaptiveOptions, type AdaptiveStep } from './adapt/adaptive-solver';
-import { SpaceTimeSolution } from './output/space-time-solution';
+import { SpaceTimeSolution } from './spacetime/space-time-solution';
 import { validateAdaptiveOptions } from './adapt/adaptive-options';
 import { DoubleTree, sparseGridUnknownEstimate } from './spacetime/double-tree';
 import { checkSetOnDomain } from './spacetime/set-checks';

@@ -13,7 +13,7 @@
 import { InvalidArgumentError, RunInterruptedError, SolverBreakdownError } from '../errors';
 import { DoubleTree } from '../spacetime/double-tree';
 import { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
-import { SpaceTimeSolution } from '../output/space-time-solution';
+import { SpaceTimeSolution } from '../spacetime/space-time-solution';
 import type { HeatProblem } from '../system/heat-problem';
 import { FibreInverseCache, type InnerSolver } from '../system/fibre-inverse';
 import { SpaceTimeSystem, type SpatialCaches } from '../system/space-time-system';

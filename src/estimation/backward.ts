@@ -6,7 +6,7 @@
  * reversed time s: its refinement near s = 0 resolves the layer of p near t = T.
  */
 import { ConvergenceError, InvalidArgumentError } from '../errors';
-import { SpaceTimeSolution } from '../output/space-time-solution';
+import { SpaceTimeSolution } from '../spacetime/space-time-solution';
 import type { SpatialDomain } from '../space/index';
 import type { DoubleTree } from '../spacetime/double-tree';
 import { HeatProblem, type SeparableTerm } from '../system/heat-problem';

@@ -6,7 +6,7 @@
  */
 import { checkOptions } from '../validation/checks';
 import { InvalidArgumentError, NotConvergedError, describeValue } from '../errors';
-import { SpaceTimeSolution } from '../output/space-time-solution';
+import { SpaceTimeSolution } from '../spacetime/space-time-solution';
 import { pcg, type PcgResult } from '../system/pcg';
 import type { SpaceTimeSystem } from '../system/space-time-system';
 import type { LeastSquaresFunctional } from './functionals';

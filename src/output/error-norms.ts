@@ -13,7 +13,7 @@
  */
 import { InvalidArgumentError } from '../errors';
 import { checkFunction, checkInstance, checkObject, checkOptions } from '../validation/index';
-import { SpaceTimeSolution as SolutionClass } from './space-time-solution';
+import { SpaceTimeSolution as SolutionClass } from '../spacetime/space-time-solution';
 import { BreakpointSlices } from './error-slices';
 import { SliceIntegrator, TimeRule } from './error-quadrature';
 type SpaceTimeSolution = SolutionClass;

@@ -18,7 +18,7 @@ import { supportOf } from '../time/nodes';
 import type { SpatialDomain } from '../space/index';
 import type { LeafMesh } from '../space/leaf-mesh';
 import { hierarchicalToNodal } from '../space/hierarchical';
-import type { SpaceTimeSolution } from './space-time-solution';
+import type { SpaceTimeSolution } from '../spacetime/space-time-solution';
 
 export class BreakpointSlices {
   /** Leaf mesh of the union of all fibres. */

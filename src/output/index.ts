@@ -1,6 +1,4 @@
 /** Public exports of the output module (re-exported by src/index.ts). */
-export { SpaceTimeSolution, type TimeSlice } from './space-time-solution';
-export type { GridView } from './grid-view';
 export { spaceTimeErrors, type KnownSolution, type SpaceTimeErrors } from './error-norms';
 export { sliceToVtu, vtkCollection } from './vtk';
 export { spatialIntegral, regionIntegral, probeTableCsv } from './probes';

@@ -4,7 +4,7 @@
  */
 import { InvalidArgumentError } from '../errors';
 import { INTERVAL_POINTS, INTERVAL_WEIGHTS, TRIANGLE_POINTS, TRIANGLE_WEIGHTS } from '../space/quadrature';
-import { SpaceTimeSolution } from './space-time-solution';
+import { SpaceTimeSolution } from '../spacetime/space-time-solution';
 import { checkFunction, checkInstance, checkNumberArray } from '../validation/index';
 
 /** ∫_Ω u(t, ·) dx, exact for the piecewise-linear slice (vertex rule per element). *

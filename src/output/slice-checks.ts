@@ -5,7 +5,7 @@
  */
 import { InvalidArgumentError } from '../errors';
 import { checkFloat64Array, checkInt32Array, checkInteger, checkNumber, checkObject, checkOneOf } from '../validation/index';
-import type { TimeSlice } from './space-time-solution';
+import type { TimeSlice } from '../spacetime/space-time-solution';
 
 /** Checks a {@link TimeSlice} (e.g. from `solution.slice(t)`) before it is exported. */
 export function checkSlice(slice: unknown, field = 'slice'): TimeSlice {

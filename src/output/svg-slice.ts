@@ -5,7 +5,7 @@
  */
 import { InvalidArgumentError } from '../errors';
 import { checkNumber, checkNumberArray, checkOptions, checkString } from '../validation/index';
-import type { TimeSlice } from './space-time-solution';
+import type { TimeSlice } from '../spacetime/space-time-solution';
 import { checkSlice } from './slice-checks';
 
 const SLICE_SVG_KEYS: Record<keyof Required<SliceSvgOptions>, true> = { title: true, range: true, width: true };

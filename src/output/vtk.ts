@@ -4,7 +4,7 @@
  * them by time), written as ASCII strings so that any environment can save
  * them. 1D meshes become VTK lines, 2D meshes triangles.
  */
-import type { TimeSlice } from './space-time-solution';
+import type { TimeSlice } from '../spacetime/space-time-solution';
 import { checkSlice } from './slice-checks';
 import { checkNumber, checkObject, checkString } from '../validation/index';
 

@@ -4,3 +4,5 @@ export { FibrePool } from './fibre-pool';
 export { testIndexSet } from './test-index-set';
 export { TensorOperatorPlan } from './tensor-apply';
 export { SpatialPlanCache } from './spatial-plan-cache';
+export { SpaceTimeSolution, type TimeSlice } from './space-time-solution';
+export type { GridView } from './grid-view';

@@ -9,7 +9,7 @@ import { DoubleTree } from '../spacetime/double-tree';
 import { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import { TensorOperatorPlan } from '../spacetime/tensor-apply';
 import { testIndexSet } from '../spacetime/test-index-set';
-import { SpaceTimeSolution } from '../output/space-time-solution';
+import { SpaceTimeSolution } from '../spacetime/space-time-solution';
 import { FibreInverseCache, type InnerSolver } from './fibre-inverse';
 import { HeatProblem, type HeatProblemSpec } from './heat-problem';
 import { InitialTraceOperator } from './initial-trace';

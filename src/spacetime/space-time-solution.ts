@@ -15,8 +15,8 @@ import { evaluateTemporal } from '../time/index';
 import { SpatialDomain, evaluateAt, nodalValues } from '../space/index';
 import { checkSetOnDomain } from '../spacetime/set-checks';
 import type { LeafMesh } from '../space/leaf-mesh';
-import type { DoubleTree } from '../spacetime/double-tree';
-import { positionsIn, unionSorted } from '../spacetime/fibre-pool';
+import type { DoubleTree } from './double-tree';
+import { positionsIn, unionSorted } from './fibre-pool';
 import { checkFloat64Array, checkInstance, checkMemory, checkNumber, checkNumberArray, checkOptions } from '../validation/index';
 
 /** Nodal values of u(t, ·) on the leaf mesh of the union of the fibres active at t. */
