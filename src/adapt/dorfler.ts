@@ -1,5 +1,5 @@
 /**
- * Dörfler (bulk) marking in linear time (DESIGN.md §7): a set M of
+ * Dörfler (bulk) marking in linear time (docs/method.md §7): a set M of
  * candidates with Σ_M η² ≥ θ² Σ η², of size at most about twice the minimal
  * one, found by binning the η² by powers of two instead of sorting.
  */

@@ -1,5 +1,5 @@
 /**
- * Residual a-posteriori estimator (DESIGN.md §7). With Λ̲ the enlargement
+ * Residual a-posteriori estimator (docs/method.md §7). With Λ̲ the enlargement
  * of Λ and ũ the current solution extended by zero,
  *   r = b̲ − S̲ ũ  on Λ̲,    η_i = |r_i| / √d_i  for i = (λ, ν) ∈ Λ̲ \ Λ,
  *   d_i = (A_x)_{νν} + α_λ² (M_x)_{νν}² / (A_x)_{νν}   (X-norm² of σ_λ ⊗ φ_ν up to constants),

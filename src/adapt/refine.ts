@@ -1,5 +1,5 @@
 /**
- * Refinement step of the adaptive loop (DESIGN.md §7): Λ ← closure(Λ ∪ M)
+ * Refinement step of the adaptive loop (docs/method.md §7): Λ ← closure(Λ ∪ M)
  * for marked pairs M of the enlarged set.
  */
 import { InvalidArgumentError } from '../errors';

@@ -1,5 +1,5 @@
 /**
- * Riesz condition numbers of the trial wavelets (DESIGN.md §3.1), computed
+ * Riesz condition numbers of the trial wavelets (docs/method.md §3.1), computed
  * with the library's own tree operators: the L2 Gram matrix from the Σ ← Σ
  * mass plan, and the H¹ Gram matrix as N + DᵀD, where D maps into the full
  * test tree of the same depth (whose span contains every σ′, so DᵀD is the

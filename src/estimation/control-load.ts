@@ -3,7 +3,7 @@
  * polynomial on a user grid (a basis function of a control amplitude). As for the system's own
  * loads, ℓ[(μ,ν)] = ∫ ψ_μ χ dt · ∫ h φ_ν dx; here the time integral is split at the grid points
  * as well as at the midpoint of the test interval, so Gauss–Legendre with 3 points is exact for
- * piecewise-linear χ (ψ_μ is linear on each half of its interval, DESIGN.md §3.2).
+ * piecewise-linear χ (ψ_μ is linear on each half of its interval, docs/method.md §3.2).
  */
 import { evaluateTemporal } from '../time/index';
 import { loadVector } from '../space/index';

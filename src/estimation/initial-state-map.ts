@@ -1,6 +1,6 @@
 /**
  * The initial state as nodal values on a uniformly refined initial mesh, mapped to the
- * right-hand side term g ⊗ ℓ_0 with ℓ_0[ν] = ∫ u0 φ_ν over the trace fibre (DESIGN.md §6).
+ * right-hand side term g ⊗ ℓ_0 with ℓ_0[ν] = ∫ u0 φ_ν over the trace fibre (docs/method.md §6).
  *
  * u0 is P1 on the parameter mesh P (leaf mesh of `domain.uniformSet(level)`), the hats φ_ν are P1
  * on the leaf mesh of the trace fibre F. Both are NVB refinements of the initial mesh, so the leaf

@@ -27,7 +27,7 @@ export interface AccuracyOption {
   /**
    * Requested relative accuracy ε. Every PCG solve stops when its preconditioned residual has
    * dropped by ε / 10 — the factor 10 covers √cond(K_X S) (about 2.6 for the condition numbers
-   * below 7 of DESIGN.md §6), so the solution error in the S-norm is below ε relative.
+   * below 7 of docs/method.md §6), so the solution error in the S-norm is below ε relative.
    */
   accuracy?: number;
 }

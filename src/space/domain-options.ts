@@ -1,4 +1,4 @@
-/** Options shared by all spatial domain constructors (DESIGN.md §1, §4.1). */
+/** Options shared by all spatial domain constructors (docs/method.md §1, §4.1). */
 
 /**
  * A coefficient given as one constant, one value per initial element, or a function sampled at

@@ -1,6 +1,6 @@
 /**
  * SpatialDomain: the validated initial mesh, coefficients, boundary and the one global
- * newest-vertex-bisection forest of a problem (DESIGN.md §4.1).
+ * newest-vertex-bisection forest of a problem (docs/method.md §4.1).
  */
 import { InvalidArgumentError, InvalidIndexSetError, describeValue } from '../errors';
 import { BisectionForest } from './forest';

@@ -1,5 +1,5 @@
 /**
- * Compact P1 element data of a leaf mesh and the matrix-free element loops (DESIGN.md §4.2).
+ * Compact P1 element data of a leaf mesh and the matrix-free element loops (docs/method.md §4.2).
  *
  * Closed forms (Braess, Finite Elements, ch. II (from memory)): for a triangle with vertices
  * p0, p1, p2, b_i = y_{i+1} − y_{i+2}, c_i = x_{i+2} − x_{i+1} (indices mod 3), the stiffness is

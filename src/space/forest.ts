@@ -1,5 +1,5 @@
 /**
- * The global newest-vertex-bisection forest (DESIGN.md §4.1), grown lazily.
+ * The global newest-vertex-bisection forest (docs/method.md §4.1), grown lazily.
  *
  * Storage is flat and growable. Elements: `dim + 1` vertices each; in 2D counter-clockwise with
  * refinement edge (v0, v1) and newest vertex v2. Bisecting (a, b, c) at the midpoint m of (a, b)

@@ -1,5 +1,5 @@
 /**
- * Hierarchical ↔ nodal transforms on a leaf mesh (DESIGN.md §4.2).
+ * Hierarchical ↔ nodal transforms on a leaf mesh (docs/method.md §4.2).
  *
  * With local vertices ordered so that interpolation parents precede children,
  * T maps hierarchical coefficients h to nodal values u by

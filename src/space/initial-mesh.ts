@@ -1,5 +1,5 @@
 /**
- * Validation and labelling of the initial mesh (DESIGN.md §4.1).
+ * Validation and labelling of the initial mesh (docs/method.md §4.1).
  *
  * Produces the flat arrays the bisection forest starts from: counter-clockwise triangles whose
  * first two vertices span the refinement edge (longest edge, ties broken by the smaller sorted

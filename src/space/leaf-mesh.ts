@@ -1,5 +1,5 @@
 /**
- * The leaf mesh of a closed vertex set (DESIGN.md §4.1–4.2) in local numbering.
+ * The leaf mesh of a closed vertex set (docs/method.md §4.1–4.2) in local numbering.
  *
  * This is the data structure shared by the spatial operators, loads and the
  * multilevel preconditioner. Local vertex order is by (generation, global id):

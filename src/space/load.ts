@@ -1,4 +1,4 @@
-/** Load vectors ∫ f φ in hierarchical coordinates (DESIGN.md §4.2). */
+/** Load vectors ∫ f φ in hierarchical coordinates (docs/method.md §4.2). */
 import { InvalidArgumentError, describeValue } from '../errors';
 import type { SpatialDomain } from './domain';
 import { hierarchicalToNodalTransposed } from './hierarchical';

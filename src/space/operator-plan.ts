@@ -1,6 +1,6 @@
 /**
  * Spatial mass / stiffness operators between two closed vertex sets in hierarchical coordinates
- * (DESIGN.md §4.2): scatter the input into the leaf mesh of the union, T (hierarchical → nodal),
+ * (docs/method.md §4.2): scatter the input into the leaf mesh of the union, T (hierarchical → nodal),
  * matrix-free element loop, Tᵀ, read off the output set. Linear in the size of the union.
  */
 import { InvalidArgumentError, describeValue } from '../errors';

@@ -1,5 +1,5 @@
 /**
- * Double trees: space-time index sets (DESIGN.md §5.1).
+ * Double trees: space-time index sets (docs/method.md §5.1).
  *
  * A double tree Λ is a set of pairs (λ, ν) — λ a temporal node, ν a free
  * spatial vertex — closed under temporal parents in the first slot and under

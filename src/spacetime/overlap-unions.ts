@@ -1,5 +1,5 @@
 /**
- * Fibres built as unions over temporally overlapping nodes (DESIGN.md §5.1, §5.2).
+ * Fibres built as unions over temporally overlapping nodes (docs/method.md §5.1, §5.2).
  *
  * For every node q of `target` this computes
  *   F(q) = ∪ { source.fibre(p) : p ∈ source.tree, |p| = |q| + shift, |supp p ∩ supp q| > 0 },

@@ -1,6 +1,6 @@
 /**
  * A discrete space-time function u = Σ_{(λ,ν)∈Λ} u_{λν} σ_λ ⊗ φ_ν
- * (DESIGN.md §8): point values and time slices.
+ * (docs/method.md §8): point values and time slices.
  *
  * At time t only the trial functions whose support contains t are nonzero
  * (a few per level); since hierarchical hats do not depend on the set they are

@@ -1,6 +1,6 @@
 /**
  * The space-direction pass (I ⊗ C_x) between two double trees with the same
- * temporal projection (DESIGN.md §5.2): for every temporal function, the
+ * temporal projection (docs/method.md §5.2): for every temporal function, the
  * spatial operator from its input fibre to its output fibre, in hierarchical
  * coordinates. The per-function plans are resolved once at construction.
  */

@@ -1,5 +1,5 @@
 /**
- * The time-direction pass (C_t ⊗ I) between two double trees (DESIGN.md §5.2).
+ * The time-direction pass (C_t ⊗ I) between two double trees (docs/method.md §5.2).
  *
  * For every spatial vertex ν the pass applies the one-dimensional tree
  * operator from the temporal fibre Λ_in(·, ν) to Λ_out(·, ν). Vertices whose

@@ -1,6 +1,6 @@
 /**
  * Linear-time application of C = C_M ⊗ M_x + C_A ⊗ A_x from Λ_in to Λ_out by
- * the unidirectional principle (DESIGN.md §5.2).
+ * the unidirectional principle (docs/method.md §5.2).
  *
  * Each temporal factor splits by levels into L (output strictly finer) and
  * U (output not finer). With the intermediate double trees
@@ -9,7 +9,7 @@
  * the result on Λ_out is exactly
  *   y = (I ⊗ C_x)_{Λout←Θ} (U ⊗ I)_{Θ←Λin} x + (L ⊗ I)_{Λout←Σ} (I ⊗ C_x)_{Σ←Λin} x.
  *
- * Why this is exact (nested supports, DESIGN.md §3.1): an entry U[μ,λ] ≠ 0
+ * Why this is exact (nested supports, docs/method.md §3.1): an entry U[μ,λ] ≠ 0
  * needs |λ| ≥ |μ| and overlapping supports; the ancestor λ' of λ at level |μ|
  * has a larger support, so it overlaps μ too, and it carries every vertex ν
  * of λ (Λ_in is a double tree) — hence ν ∈ Θ(μ,·) and the time-first pass

@@ -1,5 +1,5 @@
 /**
- * The test index set Λ_Y of a trial double tree Λ (DESIGN.md §5.1):
+ * The test index set Λ_Y of a trial double tree Λ (docs/method.md §5.1):
  *   Λ_Y = ∪_{(λ,ν)∈Λ} {(μ, ν) : μ a Ψ-node, |μ| ≤ |λ|, |supp ψ_μ ∩ supp σ_λ| > 0}.
  * Because supports nest, the pairs with |μ| < |λ| are already produced by
  * the ancestors of λ (which carry ν too), so only same-level overlaps are

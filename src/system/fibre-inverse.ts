@@ -1,6 +1,6 @@
 /**
  * Approximate inverses of (A_x + α M_x) on one spatial fibre, in hierarchical
- * coordinates (DESIGN.md §4.3, §6): either the multilevel V-cycle of the
+ * coordinates (docs/method.md §4.3, §6): either the multilevel V-cycle of the
  * spatial module or, for small problems and tests, an exact dense Cholesky
  * solve (ml-matrix) of the hierarchical matrix.
  */

@@ -1,5 +1,5 @@
 /**
- * Description of a parabolic problem (DESIGN.md §1):
+ * Description of a parabolic problem (docs/method.md §1):
  *   ∂t u − ∇·(κ∇u) + c u = f  in (0,T) × Ω,  u = 0 on Γ_D,  κ∂u/∂n = 0 on Γ_N,  u(0) = u0.
  * The spatial domain (mesh, κ, c, boundary) is a {@link SpatialDomain}.
  */

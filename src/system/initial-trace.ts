@@ -1,5 +1,5 @@
 /**
- * The initial-trace term G = (g gᵀ) ⊗ M_x with g_λ = σ_λ(0) (DESIGN.md §6),
+ * The initial-trace term G = (g gᵀ) ⊗ M_x with g_λ = σ_λ(0) (docs/method.md §6),
  * and its use in the right-hand side, g ⊗ ℓ_0.
  *
  * Only σ_{0,0} and the k = 0 wavelet of each level are nonzero at t = 0.

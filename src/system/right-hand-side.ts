@@ -1,5 +1,5 @@
 /**
- * Loads of the space-time system (DESIGN.md §6):
+ * Loads of the space-time system (docs/method.md §6):
  *   ℓ_f[(μ,ν)] = ∫_I ∫_Ω f ψ_μ φ_ν,   ℓ_0[ν] = ∫_Ω u0 φ_ν,   b = Bᵀ K_Y ℓ_f + g ⊗ ℓ_0.
  * ℓ_f is computed per Ψ-node μ: Gauss points in time on each half of its
  * interval (ψ_μ is linear there) and, at each such time, the spatial load of

@@ -1,6 +1,6 @@
 /**
  * The Schur complement S = Bᵀ K_Y B + G of the minimal-residual
- * Petrov–Galerkin system (DESIGN.md §2, §6), as one operator on Λ.
+ * Petrov–Galerkin system (docs/method.md §2, §6), as one operator on Λ.
  * B = D ⊗ M_x + N ⊗ A_x : Λ → Λ_Y and Bᵀ are applied matrix-free in linear
  * time by {@link TensorOperatorPlan}.
  */

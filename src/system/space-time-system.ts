@@ -1,6 +1,6 @@
 /**
  * The assembled-nothing space-time system of one problem on one trial index
- * set Λ (DESIGN.md §6): test set Λ_Y, operators B, Bᵀ, K_Y, G, the Schur
+ * set Λ (docs/method.md §6): test set Λ_Y, operators B, Bᵀ, K_Y, G, the Schur
  * complement S, the preconditioner K_X and the right-hand side b.
  */
 import { InvalidArgumentError, NotConvergedError } from '../errors';

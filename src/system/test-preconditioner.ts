@@ -1,6 +1,6 @@
 /**
  * K_Y: block-diagonal approximation of A_Y⁻¹ = (I ⊗ A_x)⁻¹ on the test index
- * set (DESIGN.md §6). Ψ is L2-orthonormal, so A_Y is block diagonal over the
+ * set (docs/method.md §6). Ψ is L2-orthonormal, so A_Y is block diagonal over the
  * test functions and each block is the spatial A_x on the function's fibre.
  */
 import type { DoubleTree } from '../spacetime/double-tree';

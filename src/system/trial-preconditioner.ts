@@ -1,5 +1,5 @@
 /**
- * K_X: preconditioner for the Schur complement (DESIGN.md §6),
+ * K_X: preconditioner for the Schur complement (docs/method.md §6),
  *
  *   K_X = blockdiag_λ ( (A + α_λ M)⁻¹ A (A + α_λ M)⁻¹ )  +  ½ P (T·A + M)⁻¹ Pᵀ,   α_λ = ‖∂t σ_λ‖_{L2(I)},
  *

@@ -1,6 +1,6 @@
 /**
  * Point values, end-point traces and derivative norms of temporal basis functions on (0, T),
- * from their single-scale expansions (DESIGN §3: b(t) = T^{-1/2} b̂(t/T)).
+ * from their single-scale expansions (docs/method.md §3: b(t) = T^{-1/2} b̂(t/T)).
  */
 import { InvalidArgumentError, describeValue } from '../errors';
 import { POW2, SQRT_POW2, checkKind, checkNode, checkT, functionsPerNode, type TemporalBasisKind } from './levels';
@@ -79,7 +79,7 @@ export function evaluateTemporal(kind: TemporalBasisKind, level: number, index: 
 /**
  * Values of all functions of a tree at t = 0 (side 0) or t = T (side 1), in coefficient order
  * (for test functions the one-sided limit from inside (0, T)). Only σ_{0,0} and the k = 0
- * wavelets are nonzero at t = 0 (DESIGN §3.1).
+ * wavelets are nonzero at t = 0 (docs/method.md §3.1).
  *
  * @example
  * ```ts
@@ -115,7 +115,7 @@ export function traceVector(tree: TemporalTree, side: 0 | 1, T = 1): Float64Arra
 
 /**
  * ‖∂t b‖_{L2(0,T)} of every function of the tree, in coefficient order (for trial functions
- * the α_λ of DESIGN §6; for test functions the norm of the piecewise derivative).
+ * the α_λ of docs/method.md §6; for test functions the norm of the piecewise derivative).
  *
  * @example
  * ```ts

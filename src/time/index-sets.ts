@@ -1,5 +1,5 @@
 /**
- * Sorted sparse index sets of one level (DESIGN §3.3: "per-level sparse single-scale vectors as
+ * Sorted sparse index sets of one level (docs/method.md §3.3: "per-level sparse single-scale vectors as
  * sorted index arrays") and a cursor for near-monotone look-ups while building plans.
  */
 

@@ -1,5 +1,5 @@
 /**
- * Level bookkeeping shared by both temporal bases (DESIGN §3): level ranges,
+ * Level bookkeeping shared by both temporal bases (docs/method.md §3): level ranges,
  * node counts per level, exact powers of two and argument validation.
  * Indices are exact integers held in Float64 (< 2^53), never arrays sized 2^level.
  */

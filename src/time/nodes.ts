@@ -1,5 +1,5 @@
 /**
- * Node geometry of both temporal bases (DESIGN §3.1, §3.2): exact dyadic
+ * Node geometry of both temporal bases (docs/method.md §3.1, §3.2): exact dyadic
  * supports, parents and children. Supports are integer numerators on the
  * level grid 2^{-level}; nothing is accumulated in floating point.
  */

@@ -1,5 +1,5 @@
 /**
- * Compiles the level-wise single-scale algorithms of DESIGN §3.3 (upper part bottom-up, lower
+ * Compiles the level-wise single-scale algorithms of docs/method.md §3.3 (upper part bottom-up, lower
  * part top-down) for one (form, input tree, output tree) into steps of a {@link ProgramBuilder}.
  *
  * Exactness rests on nested supports: a child's support lies in its parent's, so a level-l

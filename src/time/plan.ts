@@ -1,5 +1,5 @@
 /**
- * Tree-operator plans: the algorithms of DESIGN §3.3 compiled once per (form, input tree,
+ * Tree-operator plans: the algorithms of docs/method.md §3.3 compiled once per (form, input tree,
  * output tree, part) into a {@link SparseProgram}; apply is allocation-free.
  */
 import { InvalidArgumentError, describeValue } from '../errors';
@@ -18,7 +18,7 @@ const PARTS: readonly LevelPart[] = ['lower', 'upper', 'full'];
 /**
  * Applies the level-restricted Galerkin matrix C[i][j] = ∫_0^T q_i·p_j (with the derivatives
  * of the form) between the functions of an input tree (p) and an output tree (q), by the
- * linear-time algorithms of DESIGN §3.3. Forms: `mass` ∫ q p, `derivIn` ∫ q p′, `derivOut`
+ * linear-time algorithms of docs/method.md §3.3. Forms: `mass` ∫ q p, `derivIn` ∫ q p′, `derivOut`
  * ∫ q′ p, `stiffness` ∫ q′ p′ (derivatives of test functions are taken piecewise).
  * Built once per (form, trees, part, T); `apply` does not allocate.
  *

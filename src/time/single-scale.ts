@@ -1,5 +1,5 @@
 /**
- * Single-scale spaces per level (DESIGN §3.1–3.3): refinement relations and
+ * Single-scale spaces per level (docs/method.md §3.1–3.3): refinement relations and
  * element-local forms on the level-l mesh, intervals I_{l,i} = [i h, (i+1) h], h = 2^{-l}.
  *
  * Three single-scale spaces, addressed by (idx, comp):
@@ -88,7 +88,7 @@ export function referenceElementMass(outSpace: SingleScaleSpace, inSpace: Single
 /**
  * Factor turning the reference element mass matrix into the level-l one on (0, T) for a form
  * with nd derivatives: h^{1 + a_out + a_in} · T^{−nd}, h = 2^{-l}, a = 0 (hat) / −1/2 (leg, p0)
- * (DESIGN §3: ∫_I b1 ∂t b2 = T^{-1} ∫_0^1 b̂1 b̂2'). The 2^l of each derivative is already in
+ * (docs/method.md §3: ∫_I b1 ∂t b2 = T^{-1} ∫_0^1 b̂1 b̂2'). The 2^l of each derivative is already in
  * the derivative expansions.
  */
 export function elementScale(outSpace: SingleScaleSpace, inSpace: SingleScaleSpace, nd: number, level: number, T: number): number {

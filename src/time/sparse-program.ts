@@ -2,7 +2,7 @@
  * A linear "program": a sequence of sparse gather steps dst[r] += Σ w·src[c] over flat
  * Float64Arrays, where src is the input x or the scratch buffer and dst the scratch buffer
  * or the output y. Tree-operator plans compile into one of these; applying it is a single
- * pass over typed arrays (DESIGN §3.3, §10).
+ * pass over typed arrays (docs/method.md §3.3, §10).
  */
 
 export const SRC_X = 0;

@@ -1,5 +1,5 @@
 /**
- * Temporal trees: finite downward-closed node sets of one basis (DESIGN §3.1, §3.2),
+ * Temporal trees: finite downward-closed node sets of one basis (docs/method.md §3.1, §3.2),
  * stored level by level with exact integer indices in Float64.
  */
 import { InvalidArgumentError, InvalidIndexSetError, describeValue } from '../errors';

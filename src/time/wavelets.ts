@@ -1,6 +1,6 @@
 /**
  * Every basis function written in the single-scale basis of its own level
- * (DESIGN §3.1 three-point wavelets, §3.2 multiwavelets).
+ * (docs/method.md §3.1 three-point wavelets, §3.2 multiwavelets).
  */
 import { POW2, SQRT_POW2, type TemporalBasisKind } from './levels';
 

@@ -1,4 +1,4 @@
-/** The enlargement, the residual estimator and the adaptive loop (DESIGN.md §7). */
+/** The enlargement, the residual estimator and the adaptive loop (docs/method.md §7). */
 import { describe, expect, it } from 'vitest';
 import {
   DoubleTree, HeatProblem, SpaceTimeSystem, embeddingMap, enlargeDoubleTree, intervalDomain, nodeChildren, rectangleDomain,

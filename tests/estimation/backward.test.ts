@@ -53,7 +53,7 @@ describe('backward problems by time reversal', () => {
       report.push(`d=1 sparse L=${L}: max point error ${worst.toExponential(2)}, L2(H1) error ${e.gradientL2.toExponential(2)}`);
       if (L === 9) expect(worst).toBeLessThan(2e-4);
     }
-    // Sparse grids in d = 1 converge like N^{-1} for smooth solutions (DESIGN.md §7): the error must fall.
+    // Sparse grids in d = 1 converge like N^{-1} for smooth solutions (docs/method.md §7): the error must fall.
     expect(errs[1]!).toBeLessThan(0.5 * errs[0]!);
     expect(errs[2]!).toBeLessThan(0.5 * errs[1]!);
   });

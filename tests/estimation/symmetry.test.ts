@@ -1,5 +1,5 @@
 /**
- * Adjoint consistency: S⁻¹ is symmetric to solver tolerance (S is SPD by construction, DESIGN.md
+ * Adjoint consistency: S⁻¹ is symmetric to solver tolerance (S is SPD by construction, docs/method.md
  * §2), the Hessian–vector product is symmetric, every parameter map and the evaluation map pass
  * the dot-product test ⟨A x, y⟩ = ⟨x, Aᵀ y⟩ (common practice for hand-written adjoints, e.g.
  * Claerbout, Earth Soundings Analysis, 1992, §5.6), the requested accuracy bounds the gradient

@@ -1,7 +1,7 @@
 /**
  * Closure and conformity properties of the bisection forest, over many seeds: for random vertex
  * sets, close() agrees with a naive godparent search, and the leaf mesh of the closure is a
- * conforming triangulation of Ω whose vertex set is exactly the closure (DESIGN.md §4.1).
+ * conforming triangulation of Ω whose vertex set is exactly the closure (docs/method.md §4.1).
  */
 import { describe, expect, it } from 'vitest';
 import { intervalDomain, lShapeDomain, squareWithHoleDomain, triangulatedDomain, type SpatialDomain } from '../../src/space/index';

@@ -1,5 +1,5 @@
 /**
- * Independent dense reference for the spatial operators (DESIGN.md §4.2).
+ * Independent dense reference for the spatial operators (docs/method.md §4.2).
  *
  * Nodal P1 matrices are assembled element by element on the leaf mesh of the union with the
  * textbook closed forms — 2D stiffness by the cotangent formula K_ij = −(κ/2) cot θ_k (i ≠ j),

@@ -1,4 +1,4 @@
-/** Construction, closure and validation of double trees (DESIGN.md §5.1). */
+/** Construction, closure and validation of double trees (docs/method.md §5.1). */
 import { describe, expect, it } from 'vitest';
 import { DoubleTree, InvalidArgumentError, InvalidIndexSetError, TemporalTree, intervalDomain, rectangleDomain, nodeParents } from '../../src/index';
 import { seededRandom } from './reference';

@@ -1,5 +1,5 @@
 /**
- * The unidirectional tensor apply against dense assembly (DESIGN.md §5.2),
+ * The unidirectional tensor apply against dense assembly (docs/method.md §5.2),
  * and the test index set against its defining formula (§5.1).
  */
 import { describe, expect, it } from 'vitest';

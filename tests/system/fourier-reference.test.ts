@@ -50,7 +50,7 @@ describe('heat equation with u0 ≡ 1 against the Fourier series', () => {
     const e5 = worstFor(5);
     const e6 = worstFor(6);
     // Measured when written: 1.5e-2 (L = 5) and 8.4e-3 (L = 6), worst at t = 0.05; the incompatible
-    // initial layer limits uniform sparse grids (DESIGN.md §7), so the bound is loose by design.
+    // initial layer limits uniform sparse grids (docs/method.md §7), so the bound is loose by design.
     expect(e6).toBeLessThan(1e-2);
     expect(e6).toBeLessThan(0.7 * e5);
   });

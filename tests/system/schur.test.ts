@@ -1,6 +1,6 @@
 /**
  * G, K_Y, K_X and the Schur complement S = Bᵀ K_Y B + G against dense
- * assembly (DESIGN.md §6), with exact inner spatial solves.
+ * assembly (docs/method.md §6), with exact inner spatial solves.
  */
 import { describe, expect, it } from 'vitest';
 import { CholeskyDecomposition, Matrix, inverse } from 'ml-matrix';

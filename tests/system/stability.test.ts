@@ -1,5 +1,5 @@
 /**
- * Uniform inf–sup stability of the trial/test pair (DESIGN.md §5.1) and
+ * Uniform inf–sup stability of the trial/test pair (docs/method.md §5.1) and
  * uniform conditioning of the preconditioned Schur complement (§6).
  *
  * Stability: the smallest generalized eigenvalue of S relative to the

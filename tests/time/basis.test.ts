@@ -1,4 +1,4 @@
-/** Facts about the two temporal bases (DESIGN §3.1, §3.2, §9) checked on the implementation. */
+/** Facts about the two temporal bases (docs/method.md §3.1, §3.2, §9) checked on the implementation. */
 import { describe, expect, it } from 'vitest';
 import { TemporalTree, TreeOperatorPlan, derivativeNorms, evaluateTemporal, traceVector } from '../../src/time/index';
 import { prolongStencil, shapeValue, type SingleScaleSpace } from '../../src/time/single-scale';
@@ -17,7 +17,7 @@ function ssValue(space: SingleScaleSpace, l: number, idx: number, comp: number, 
 }
 
 describe('evaluation', () => {
-  it('evaluateTemporal agrees with the DESIGN formulas at random points, levels 0…52, both ends', () => {
+  it('evaluateTemporal agrees with the formulas of docs/method.md §3 at random points, levels 0…52, both ends', () => {
     const r = rng(1);
     const T = 3;
     for (const kind of ['trial', 'test'] as const) {
@@ -101,7 +101,7 @@ describe('basis properties', () => {
         if (kind === 'test') expect(Math.abs(Y[n + j]!)).toBeLessThanOrEqual(1e-15 * 2 ** (-l / 2) + 1e-300); // ∫ b·√3(2s−1)
       }
     }
-    // and of the DESIGN formulas themselves (the reference), as a cross-check
+    // and of the formulas of docs/method.md §3 themselves (the reference), as a cross-check
     for (let l = 1; l <= 20; l++) {
       for (const k of [0, width('trial', l) - 1]) {
         expect(Math.abs(referenceMoment('trial', l, k, 0, 0))).toBeLessThan(1e-15);
@@ -152,7 +152,7 @@ describe('basis properties', () => {
     }
   });
 
-  it('single-scale expansions of the wavelets reproduce the DESIGN formulas', () => {
+  it('single-scale expansions of the wavelets reproduce the formulas of docs/method.md §3', () => {
     const r = rng(12);
     const idx = new Float64Array(8);
     const comp = new Int32Array(8);

@@ -1,5 +1,5 @@
 /**
- * Main unit test of the temporal module (DESIGN §3.3): every fast tree operator (lower, upper,
+ * Main unit test of the temporal module (docs/method.md §3.3): every fast tree operator (lower, upper,
  * full; all forms and basis pairs, transposes included) against the independent dense
  * pointwise reference on seeded random trees of different shapes.
  */

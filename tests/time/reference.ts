@@ -1,5 +1,5 @@
 /**
- * Independent dense reference for the temporal bases (DESIGN §3): every basis function is
+ * Independent dense reference for the temporal bases (docs/method.md §3): every basis function is
  * evaluated pointwise straight from its defining formula, and pairs are integrated by
  * composite Gauss–Legendre quadrature on the finest dyadic mesh of the pair, only over the
  * intervals where both functions live. Nothing here uses src/time's single-scale machinery.
@@ -49,7 +49,7 @@ function hat(p: Pt, l: number, j: number): [number, number] {
   return [0, 0];
 }
 
-/** Unnormalised function on (0,1) and its derivative (DESIGN §3.1 and §3.2 formulas). */
+/** Unnormalised function on (0,1) and its derivative (docs/method.md §3.1 and §3.2 formulas). */
 function rawBasis(kind: TemporalBasisKind, l: number, k: number, slot: number, p: Pt): [number, number] {
   if (kind === 'trial') {
     if (l === 0) return hat(p, 0, k);
@@ -81,7 +81,7 @@ function rawBasis(kind: TemporalBasisKind, l: number, k: number, slot: number, p
   return [c * (sg - 1.5 * u), c * -1.5 * dudS];
 }
 
-/** Support of a node as level-l numerators (DESIGN §3.1, §3.2). */
+/** Support of a node as level-l numerators (docs/method.md §3.1, §3.2). */
 export function referenceSupport(kind: TemporalBasisKind, l: number, k: number): [number, number] {
   if (l === 0) return [0, 1];
   if (kind === 'trial') return [Math.max(2 * k - 2, 0), Math.min(2 * k + 4, 2 ** l)];
@@ -122,7 +122,7 @@ function basisRef(kind: TemporalBasisKind, l: number, k: number, slot: number, p
 }
 
 /**
- * Value and derivative of a basis function at t ∈ (0, T) by the DESIGN formulas,
+ * Value and derivative of a basis function at t ∈ (0, T) by the formulas of docs/method.md §3,
  * b(t) = T^{-1/2} b̂(t/T). At breakpoints a one-sided value is returned.
  */
 export function referenceValue(kind: TemporalBasisKind, l: number, k: number, slot: number, t: number, T = 1): { value: number; derivative: number } {

@@ -1,5 +1,5 @@
 /**
- * Riesz stability of the trial basis Σ (DESIGN §3.1): condition numbers of the Gram matrices of
+ * Riesz stability of the trial basis Σ (docs/method.md §3.1): condition numbers of the Gram matrices of
  * all levels ≤ L in L2(0,1), and in H¹(0,1) after rescaling each function by its H¹ norm
  * (‖σ‖²_{H¹} = ‖σ‖² + ‖σ'‖²). The Gram matrices are applied with the tree operators (which the
  * operator tests check against the dense reference); spectra by ml-matrix (small L) or Lanczos.

@@ -1,11 +1,11 @@
-/** Temporal trees: construction, closure, validation, look-up and shape keys (DESIGN §3.1, §3.2, §7). */
+/** Temporal trees: construction, closure, validation, look-up and shape keys (docs/method.md §3.1, §3.2, §7). */
 import { describe, expect, it } from 'vitest';
 import { InvalidIndexSetError, InvalidArgumentError } from '../../src/errors';
 import { MAX_TEMPORAL_LEVEL, TemporalTree, nodeChildren, nodeParents, nodeSupport } from '../../src/time/index';
 import { referenceSupport } from './reference';
 import { gradedTree, rng, sparseTree } from './random-trees';
 
-/** Independent closedness check straight from the DESIGN parent rule. */
+/** Independent closedness check straight from the parent rule of docs/method.md §3.1. */
 function isClosed(t: TemporalTree): boolean {
   const has = new Set<string>();
   for (let p = 0; p < t.size; p++) has.add(`${t.level[p]},${t.index[p]}`);
@@ -93,7 +93,7 @@ describe('node geometry', () => {
   const sup = new Float64Array(2);
   const buf = new Float64Array(4);
 
-  it('supports match DESIGN §3 exactly, up to level 52', () => {
+  it('supports match docs/method.md §3 exactly, up to level 52', () => {
     const r = rng(7);
     for (const kind of ['trial', 'test'] as const) {
       for (let l = 0; l <= MAX_TEMPORAL_LEVEL; l++) {
@@ -109,7 +109,7 @@ describe('node geometry', () => {
     expect(Array.from(sup)).toEqual([2 ** 52 - 4, 2 ** 52]);
   });
 
-  it('parents and children follow DESIGN §3 and children supports nest in parents', () => {
+  it('parents and children follow docs/method.md §3 and children supports nest in parents', () => {
     expect(nodeParents('trial', 1, 0, buf)).toBe(2);
     expect(Array.from(buf)).toEqual([0, 0, 0, 1]);
     expect(nodeParents('test', 1, 0, buf)).toBe(1);

@@ -1,6 +1,6 @@
 /**
  * Nodal P1 matrices of the leaf mesh restricted to the free vertices
- * (DESIGN.md §4.2): K = stiffness with κ plus reaction c·mass, M = mass.
+ * (docs/method.md §4.2): K = stiffness with κ plus reaction c·mass, M = mass.
  * Element matrices are the standard P1 closed forms (common practice):
  *   d = 1: κ/h [[1,−1],[−1,1]],  mass h/6 [[2,1],[1,2]];
  *   d = 2: κ (b_i b_j + c_i c_j) / (4|T|),  mass |T|/12 (1 + δ_ij),

@@ -2,7 +2,7 @@
  * Exact solve with A_0 + αM_0 on the free initial vertices. The ordering and
  * envelope are computed once; the factor depends on α and is computed the first
  * time an α is used and kept in a small cache (the temporal preconditioner uses
- * a few α values per temporal level, DESIGN.md §6).
+ * a few α values per temporal level, docs/method.md §6).
  */
 import type { LevelHierarchy } from './galerkin-hierarchy';
 import { envelopeFactor, envelopeSolveInPlace, envelopeStructure, type EnvelopeStructure } from './envelope-cholesky';

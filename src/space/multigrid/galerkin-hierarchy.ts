@@ -1,6 +1,6 @@
 /**
  * Setup of the local multilevel hierarchy on the generation levels of a leaf
- * mesh (DESIGN.md §4.3).
+ * mesh (docs/method.md §4.3).
  *
  * mesh_g = local vertices of generation ≤ g; because local vertices are ordered
  * by generation, mesh_g is the prefix [0, levelStart[g+1]). The prolongation

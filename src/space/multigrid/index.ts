@@ -1,2 +1,2 @@
-/** Spatial multilevel preconditioner (DESIGN.md §4.3). */
+/** Spatial multilevel preconditioner (docs/method.md §4.3). */
 export { MultilevelPreconditioner, type MultilevelOptions } from './multilevel-preconditioner';

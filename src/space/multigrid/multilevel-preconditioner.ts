@@ -1,6 +1,6 @@
 /**
  * Local multiplicative V-cycle on the generation hierarchy of a leaf mesh
- * (DESIGN.md §4.3): an approximation of (A + αM)⁻¹ that is symmetric, positive
+ * (docs/method.md §4.3): an approximation of (A + αM)⁻¹ that is symmetric, positive
  * definite and linear (fixed) for every α ≥ 0.
  *
  * All levels share the local numbering: mesh_g is the prefix of local vertices
@@ -219,7 +219,7 @@ export class MultilevelPreconditioner {
   }
 
   /**
-   * The same operator in hierarchical coordinates (DESIGN.md §4.2–4.3): with
+   * The same operator in hierarchical coordinates (docs/method.md §4.2–4.3): with
    * A_h = Tᵀ A T, (A_h + αM_h)⁻¹ = T⁻¹ (A + αM)⁻¹ T⁻ᵀ, so z = T⁻¹ V T⁻ᵀ r for a
    * residual r in the hierarchical basis and hierarchical coefficients z.
    */

@@ -1,6 +1,6 @@
 /**
  * Growable sparse rows of a symmetric matrix pair (K, M) with a shared pattern,
- * used while building the Galerkin hierarchy (DESIGN.md §4.3).
+ * used while building the Galerkin hierarchy (docs/method.md §4.3).
  *
  * Row i keeps its off-diagonal entries (column, k, m) in a slot range of one
  * pooled array; the diagonal is held separately. A full row is moved to the end

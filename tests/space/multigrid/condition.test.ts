@@ -1,6 +1,6 @@
 /**
  * Spectral equivalence of the V-cycle: cond(V·(A + αM)) for α ∈ {0, 1, 1e2, …, 1e8}
- * on uniform and strongly graded meshes in d = 1, 2 (DESIGN.md §4.3). Small meshes
+ * on uniform and strongly graded meshes in d = 1, 2 (docs/method.md §4.3). Small meshes
  * use dense eigenvalues (ml-matrix), larger ones Lanczos estimates from PCG.
  * Bound asserted: < 4 (target < 3), and no growth under refinement.
  */
