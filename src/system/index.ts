@@ -4,7 +4,7 @@ export { HeatProblem, type HeatProblemSpec, type SeparableTerm } from './heat-pr
 export { SpaceTimeSystem, type SpaceTimeSystemOptions, type SpatialCaches, type SystemSolveOptions } from './space-time-system';
 export { FibreInverseCache, type InnerSolver } from './fibre-inverse';
 export { SchurOperator } from './schur-operator';
-export { TestPreconditioner } from './test-preconditioner';
+export { TestInnerProductInverse } from './test-inner-product-inverse';
 export { TrialPreconditioner } from './trial-preconditioner';
 export { InitialTraceOperator } from './initial-trace';
 export { pcg, type PcgOptions, type PcgProgress, type PcgResult } from './pcg';

@@ -17,7 +17,7 @@ import { pcg, type PcgResult } from './pcg';
 import type { SystemSolveOptions } from './pcg-options';
 import { initialLoad, sourceLoad } from './right-hand-side';
 import { SchurOperator } from './schur-operator';
-import { TestPreconditioner } from './test-preconditioner';
+import { TestInnerProductInverse } from './test-inner-product-inverse';
 import { TrialPreconditioner } from './trial-preconditioner';
 
 /** Options of {@link SpaceTimeSystem}. */
@@ -62,7 +62,7 @@ export class SpaceTimeSystem {
   readonly plans: SpatialPlanCache;
   readonly B: TensorOperatorPlan;
   readonly Bt: TensorOperatorPlan;
-  readonly KY: TestPreconditioner;
+  readonly KY: TestInnerProductInverse;
   readonly G: InitialTraceOperator;
   readonly S: SchurOperator;
   private readonly inverses: FibreInverseCache;
@@ -94,7 +94,7 @@ export class SpaceTimeSystem {
     this.pInverses = pInner === inner ? inverses : new FibreInverseCache(problem.domain, trialSet.pool, this.plans, pInner);
     this.B = new TensorOperatorPlan('derivIn', 'mass', trialSet, this.testSet, this.plans, T);
     this.Bt = new TensorOperatorPlan('derivOut', 'mass', this.testSet, trialSet, this.plans, T);
-    this.KY = new TestPreconditioner(this.testSet, inverses);
+    this.KY = new TestInnerProductInverse(this.testSet, inverses);
     this.G = new InitialTraceOperator(trialSet, this.plans, T);
     this.S = new SchurOperator(this.B, this.Bt, this.KY, this.G);
   }

@@ -8,7 +8,9 @@ import type { FibreInverse, FibreInverseCache } from './fibre-inverse';
 import { checkNotAliased, type LinearOperator } from '../numerics/linear-operator';
 
 /**
- * K_Y ≈ (I ⊗ A_x)⁻¹ on the test index set, one spatial inverse per test function.
+ * K_Y ≈ (I ⊗ A_x)⁻¹ = A_Y⁻¹, the inverse of the inner product of the test space, on the test
+ * index set, one spatial inverse per test function. It is a factor of S = Bᵀ K_Y B + G
+ * (not a preconditioner of PCG; that is K_X, {@link TrialPreconditioner}).
  *
  * @example
  * ```ts
@@ -20,7 +22,7 @@ import { checkNotAliased, type LinearOperator } from '../numerics/linear-operato
  * system.KY.apply(new Float64Array(n).fill(1), out);
  * ```
  */
-export class TestPreconditioner implements LinearOperator {
+export class TestInnerProductInverse implements LinearOperator {
   readonly inSize: number;
   readonly outSize: number;
   private readonly blocks: FibreInverse[];
