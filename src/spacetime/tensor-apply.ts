@@ -54,6 +54,8 @@ export class TensorOperatorPlan implements LinearOperator {
   private readonly upperSpace: SpatialPassPlan;
   private readonly lowerSpace: SpatialPassPlan;
   private readonly lowerTime: TemporalPassPlan;
+  // Scratch on the intermediate sets, split by spatial factor: z* on Θ after the time-first pass
+  // (U of the form paired with M_x resp. A_x), w* on Σ after the space-first pass (M_x x resp. A_x x).
   private readonly zM: Float64Array;
   private readonly zA: Float64Array;
   private readonly wM: Float64Array;
@@ -62,10 +64,12 @@ export class TensorOperatorPlan implements LinearOperator {
   private readonly wPair: Float64Array[];
 
   /**
-   * @param massForm temporal form paired with the spatial mass M_x
-   * @param stiffForm temporal form paired with the spatial stiffness A_x
+   * @param timeFormWithMass temporal factor of the term with the spatial mass M_x (for B: the
+   *   derivative form D, since B = D ⊗ M_x + N ⊗ A_x)
+   * @param timeFormWithStiffness temporal factor of the term with the spatial stiffness A_x
+   *   (for B: the mass form N)
    */
-  constructor(massForm: TemporalForm, stiffForm: TemporalForm, input: DoubleTree, output: DoubleTree, cache: SpatialPlanCache, T: number) {
+  constructor(timeFormWithMass: TemporalForm, timeFormWithStiffness: TemporalForm, input: DoubleTree, output: DoubleTree, cache: SpatialPlanCache, T: number) {
     this.input = input;
     this.output = output;
     this.inSize = input.size;
@@ -74,7 +78,7 @@ export class TensorOperatorPlan implements LinearOperator {
     const sigma = DoubleTree.fromNodeFibres(input.kind, input.tree, overlapUnionFibres(input.tree, output, 1), input.pool);
     this.timeFirstSet = theta;
     this.spaceFirstSet = sigma;
-    const forms = [massForm, stiffForm] as const;
+    const forms = [timeFormWithMass, timeFormWithStiffness] as const;
     this.upperTime = new TemporalPassPlan(forms, input, theta, 'upper', T);
     this.upperSpace = new SpatialPassPlan(theta, output, cache);
     this.lowerSpace = new SpatialPassPlan(input, sigma, cache);
