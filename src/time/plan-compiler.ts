@@ -22,7 +22,7 @@ import {
   representationSpace,
   ssElements,
   ssRangeMeeting,
-  ssWidth,
+  functionsPerSingleScaleIndex,
   type SingleScaleSpace,
   type TemporalForm,
 } from './single-scale';
@@ -243,7 +243,7 @@ export class PlanCompiler {
     const { b, inp, out } = this;
     let next: Region | null = null;
     for (let l = inp.tree.maxLevel; l >= 0; l--) {
-      const e = region(b, inp.meetingSet(out.space, l), ssWidth(out.space));
+      const e = region(b, inp.meetingSet(out.space, l), functionsPerSingleScaleIndex(out.space));
       this.inputsThroughForm(l, e);
       if (next) this.prolong(out.space, l, e, next, true);
       this.collectOutputs(l, e);
@@ -260,7 +260,7 @@ export class PlanCompiler {
     const { b, inp, out } = this;
     let prev: Region | null = null;
     for (let l = 0; l <= out.tree.maxLevel; l++) {
-      const d = region(b, out.meetingSet(inp.space, l), ssWidth(inp.space));
+      const d = region(b, out.meetingSet(inp.space, l), functionsPerSingleScaleIndex(inp.space));
       if (prev) {
         this.prolong(inp.space, l - 1, prev, d, false);
         this.outputsThroughForm(l, d);

@@ -44,7 +44,7 @@ export function representationSpace(kind: TemporalBasisKind, d: 0 | 1): SingleSc
 }
 
 /** Single-scale functions per index: 1 (hat, p0) or 2 (Legendre pair). */
-export function ssWidth(space: SingleScaleSpace): 1 | 2 {
+export function functionsPerSingleScaleIndex(space: SingleScaleSpace): 1 | 2 {
   return space === 'leg' ? 2 : 1;
 }
 
