@@ -1,6 +1,6 @@
 /** Problem builders shared by the spatial bench suites. */
 import { rectangleDomain, type SpatialDomain } from '../src/space/index';
-import { unionSorted } from '../src/space/operator-plan';
+import { unionOfTwoSorted } from '../src/space/operator-plan';
 
 export type Kind = 'uniform' | 'graded';
 
@@ -43,6 +43,6 @@ export function randomVector(n: number): Float64Array {
 export function uniformGenerationProblem(G: number): Problem {
   const dom = rectangleDomain(0, 1, 0, 1, 2, 2);
   let set = dom.uniformSet(G >> 1);
-  if (G & 1) set = unionSorted(set, dom.refineAll(set));
+  if (G & 1) set = unionOfTwoSorted(set, dom.refineAll(set));
   return { dom, set };
 }

@@ -11,7 +11,7 @@ import { hierarchicalToNodal, hierarchicalToNodalTransposed } from './hierarchic
 import type { LeafMesh } from './leaf-mesh';
 
 /** Sorted union of two sorted Int32Arrays. */
-export function unionSorted(a: Int32Array, b: Int32Array): Int32Array {
+export function unionOfTwoSorted(a: Int32Array, b: Int32Array): Int32Array {
   if (a === b) return a;
   const out = new Int32Array(a.length + b.length);
   let i = 0, j = 0, n = 0;
@@ -72,7 +72,7 @@ export class SpatialOperatorPlan {
     this.domain = domain;
     this.inSet = inSet;
     this.outSet = outSet;
-    const union = unionSorted(inSet, outSet);
+    const union = unionOfTwoSorted(inSet, outSet);
     const mesh = domain.leafMesh(union); // validates: both closed ⇒ union closed
     this.mesh = mesh;
     this.inLocal = localIndices(domain, this.mesh, inSet);

@@ -7,7 +7,7 @@
  * cached per pair of fibre ids (a sparse grid has only L + 1 distinct fibres).
  */
 import { InvalidArgumentError, describeValue } from '../errors';
-import { unionSorted as unionTwo } from '../space/operator-plan';
+import { unionOfTwoSorted } from '../space/operator-plan';
 
 /**
  * Interns sorted vertex sets so that equal fibres share one id (and one cached spatial plan).
@@ -82,7 +82,7 @@ function sameInts(a: Int32Array, b: Int32Array): boolean {
 export function unionSorted(sets: Int32Array[]): Int32Array {
   if (sets.length === 0) return new Int32Array(0);
   let acc = sets[0]!;
-  for (let s = 1; s < sets.length; s++) acc = unionTwo(acc, sets[s]!);
+  for (let s = 1; s < sets.length; s++) acc = unionOfTwoSorted(acc, sets[s]!);
   return acc;
 }
 
