@@ -3,7 +3,7 @@
  * built once for error integration.
  *
  * u_δ(t, ·) = Σ_λ σ_λ(t) f_λ is piecewise linear in t between consecutive
- * breakpoints of the trial functions present (DESIGN notes §3.1), and every
+ * breakpoints of the trial functions present (docs/method.md §3.1), and every
  * f_λ lives on a sub-mesh of one leaf mesh: fibres shrink along the temporal
  * tree (a double tree is closed under temporal parents, §5.1), so the union of
  * all fibres is the finest mesh met at any time. The plan keeps that one leaf
