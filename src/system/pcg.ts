@@ -4,6 +4,7 @@
  */
 import { InvalidArgumentError, SolverBreakdownError } from '../errors';
 import type { LinearOperator } from '../numerics/linear-operator';
+import { validatePcgArguments } from './pcg-options';
 
 /** Options of {@link pcg}. */
 export interface PcgOptions {
@@ -77,10 +78,10 @@ export interface PcgResult {
  * ```
  */
 export function pcg(S: LinearOperator, b: Float64Array, opts: PcgOptions = {}): PcgResult {
+  // S square, b finite of length n, options known and in range, initial guess and K of size n.
+  opts = validatePcgArguments(S, b, opts);
   const n = S.inSize;
-  if (b.length !== n) throw new InvalidArgumentError(`right-hand side has length ${b.length}, expected ${n}`, { field: 'b', expected: String(n), received: b.length });
   const K = opts.preconditioner;
-  if (K && K.inSize !== n) throw new InvalidArgumentError(`preconditioner has size ${K.inSize}, expected ${n}`, { field: 'preconditioner' });
   const relTol = opts.relTol ?? 1e-8;
   const absTol = opts.absTol ?? 0;
   const maxIt = opts.maxIterations ?? 1000;

@@ -14,7 +14,10 @@ import { FibreInverseCache, type InnerSolver } from './fibre-inverse';
 import { HeatProblem, type HeatProblemSpec } from './heat-problem';
 import { InitialTraceOperator } from './initial-trace';
 import { pcg, type PcgResult } from './pcg';
-import type { SystemSolveOptions } from './pcg-options';
+import { validateSolveOptions, type SystemSolveOptions } from './pcg-options';
+import { validateSystemOptions } from './system-options';
+import { checkSetOnDomain } from '../spacetime/set-checks';
+import { BYTES_PER_SYSTEM_UNKNOWN, checkInstance, checkMemory } from '../validation/index';
 import { initialLoad, sourceLoad } from './right-hand-side';
 import { SchurOperator } from './schur-operator';
 import { TestInnerProductInverse } from './test-inner-product-inverse';
@@ -70,10 +73,11 @@ export class SpaceTimeSystem {
   private kx: TrialPreconditioner | null = null;
 
   constructor(problem: HeatProblem, trialSet: DoubleTree, opts: SpaceTimeSystemOptions = {}) {
-    if (!(trialSet instanceof DoubleTree) || trialSet.kind !== 'trial') {
-      throw new InvalidArgumentError('trialSet must be a trial DoubleTree (e.g. DoubleTree.sparseGrid)', { field: 'trialSet' });
-    }
-    if (trialSet.size === 0) throw new InvalidArgumentError('trialSet is empty', { field: 'trialSet' });
+    checkInstance(problem, HeatProblem, 'problem', 'a HeatProblem');
+    checkSetOnDomain(trialSet, problem.domain, 'trialSet'); // a trial DoubleTree of this problem's domain, not empty
+    opts = validateSystemOptions(opts);
+    // 800 B per unknown is a lower bound of what a system with its solve needs: refuse what surely does not fit.
+    checkMemory(trialSet.size * BYTES_PER_SYSTEM_UNKNOWN, `the space-time system on ${trialSet.size} unknowns`, 'trialSet', 'choose a smaller index set');
     const T = problem.T;
     this.problem = problem;
     this.trialSet = trialSet;
@@ -160,8 +164,9 @@ export class SpaceTimeSystem {
 
   /** Solves S u = b by PCG with K_X (defaults: relTol 1e-8, max 500 iterations). */
   solve(opts: SystemSolveOptions = {}): { solution: SpaceTimeSolution; pcg: PcgResult; warning?: string } {
-    const { allowUnconverged, ...pcgOpts } = opts;
-    const b = pcgOpts.rightHandSide ?? this.rightHandSide();
+    opts = validateSolveOptions(opts, this.size);
+    const { allowUnconverged, rightHandSide, ...pcgOpts } = opts;
+    const b = rightHandSide ?? this.rightHandSide();
     const result = pcg(this.S, b, { maxIterations: 500, ...pcgOpts, preconditioner: this.KX });
     const solution = new SpaceTimeSolution(this.problem.domain, this.trialSet, result.solution, this.problem.T);
     if (result.stopReason !== 'iterations') return { solution, pcg: result };

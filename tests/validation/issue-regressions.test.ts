@@ -6,7 +6,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import {
   ChronomeshError, DoubleTree, HeatProblem, InvalidArgumentError, InvalidIndexSetError, InvalidMeshError,
   ResourceLimitError, SpaceTimeSystem, convergencePlotSvg, intervalDomain, measureOperatorCost, rectangleDomain,
-  setMemoryBudget, sliceToSvg, sliceToVtu, solve, spaceTimeErrors, triangulatedDomain, vtkCollection,
+  pcg, setMemoryBudget, sliceToSvg, sliceToVtu, solve, solveAdaptive, spaceTimeErrors, triangulatedDomain, vtkCollection,
 } from '../../src/index';
 import { validateAdaptiveOptions } from '../../src/adapt/adaptive-options';
 import { validatePcgArguments, validateSolveOptions } from '../../src/system/pcg-options';
@@ -65,6 +65,36 @@ describe('accepted silently before: solve options (validators for SpaceTimeSyste
     refused(() => validatePcgArguments(sq, new Float64Array(2), { preconditioner: { inSize: 3, outSize: 3, apply: () => {} } }), InvalidArgumentError, 'opts.preconditioner.inSize');
     refused(() => validatePcgArguments(sq, Float64Array.of(1, NaN)), InvalidArgumentError, 'b[1]');
     refused(() => validatePcgArguments(null, new Float64Array(2)), InvalidArgumentError, 'S');
+  });
+});
+
+describe('accepted silently before: the public entries themselves', () => {
+  const dI = I();
+  const sys = new SpaceTimeSystem(P(dI), DoubleTree.sparseGrid(dI, 2));
+  it('SpaceTimeSystem.solve refuses bad options before building the right-hand side', () => {
+    for (const [o, f] of [[{ relTol: -1 }, 'opts.relTol'], [{ relTol: '1e-6' }, 'opts.relTol'], [{ maxIterations: 1.5 }, 'opts.maxIterations'],
+      [{ maxIterations: -1 }, 'opts.maxIterations'], [{ relTol: Infinity }, 'opts.relTol'], [{ relTol: NaN }, 'opts.relTol'],
+      ['x', 'opts'], [{ initialGuess: new Float64Array(3) }, 'opts.initialGuess'], [{ initialGuess: new Float64Array(sys.size).fill(NaN) }, 'opts.initialGuess[0]']] as const) {
+      refused(() => sys.solve(o as never), InvalidArgumentError, f);
+    }
+  });
+  it('SpaceTimeSystem refuses a set of another domain, a foreign problem and unknown inner solvers', () => {
+    refused(() => new SpaceTimeSystem(P(I()), DoubleTree.sparseGrid(I(), 2)), InvalidIndexSetError, 'trialSet');
+    refused(() => new SpaceTimeSystem(null as never, DoubleTree.sparseGrid(I(), 2)), InvalidArgumentError, 'problem');
+    const d = I();
+    refused(() => new SpaceTimeSystem(P(d), DoubleTree.sparseGrid(d, 2), { inner: { kind: 'bogus' } } as never), InvalidArgumentError, 'opts.inner.kind');
+  });
+  it('pcg refuses an operator whose inSize ≠ outSize', () => {
+    refused(() => pcg({ inSize: 2, outSize: 3, apply: () => {} }, new Float64Array(2)), InvalidArgumentError, 'S.outSize');
+    refused(() => pcg({ inSize: 1, outSize: 1, apply: () => {} }, Float64Array.of(1), { relTol: NaN }), InvalidArgumentError, 'opts.relTol');
+  });
+  it('solveAdaptive refuses bad options before the first step', () => {
+    const p = P(I());
+    refused(() => solveAdaptive(p, { theta: '0.5' } as never), InvalidArgumentError, 'opts.theta');
+    refused(() => solveAdaptive(p, { maxSteps: 2.5 }), InvalidArgumentError, 'opts.maxSteps');
+    refused(() => solveAdaptive(p, { maxSeconds: NaN }), InvalidArgumentError, 'opts.maxSeconds');
+    refused(() => solveAdaptive(p, 5 as never), InvalidArgumentError, 'opts');
+    refused(() => solveAdaptive(p, { onStep: 5 } as never), InvalidArgumentError, 'opts.onStep');
   });
 });
 
