@@ -554,9 +554,10 @@ export class SpatialDomain {
 
   /**
    * The leaf mesh of the closure of `set` in local numbering (order: generation, then id), with
-   * `forestElement` giving the forest element of each leaf.
+   * `forestElement` giving the forest element of each leaf and `memberLocal` the local index of
+   * each member of `set` (in the order of `set`).
    */
-  leafMesh(set: Int32Array, field = 'set'): LeafMesh & { readonly forestElement: Int32Array } {
+  leafMesh(set: Int32Array, field = 'set'): LeafMesh & { readonly forestElement: Int32Array; readonly memberLocal: Int32Array } {
     const n = this.markSet(set, field);
     const f = this.forest;
     const d = this.dim;
@@ -605,6 +606,8 @@ export class SpatialDomain {
       for (let k = 0; k < nv; k++) elements[i * nv + k] = local[f.eVert[e * nv + k]!]!;
       elementMaterial[i] = f.eMat[e]!;
     }
+    const memberLocal = new Int32Array(set.length);
+    for (let i = 0; i < set.length; i++) memberLocal[i] = local[set[i]!]!;
     for (let i = 0; i < n; i++) local[globalId[i]!] = -1;
     this.unmark(n);
     return {
@@ -622,6 +625,7 @@ export class SpatialDomain {
       kappa: f.kappa,
       reaction: f.reaction,
       forestElement,
+      memberLocal,
     };
   }
 

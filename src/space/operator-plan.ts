@@ -36,6 +36,21 @@ export function localIndices(domain: SpatialDomain, mesh: LeafMesh, set: Int32Ar
 }
 
 /**
+ * Local indices of the members of `sub` ⊆ `set` (both sorted), given those of `set`: one merge,
+ * sequential in both arrays.
+ */
+function subsetLocal(set: Int32Array, setLocal: Int32Array, sub: Int32Array): Int32Array {
+  const out = new Int32Array(sub.length);
+  let j = 0;
+  for (let i = 0; i < sub.length; i++) {
+    const v = sub[i]!;
+    while (set[j]! < v) j++;
+    out[i] = setLocal[j]!;
+  }
+  return out;
+}
+
+/**
  * Plan for y = (wm·M + wa·A) x between closed free vertex sets in hierarchical coordinates, where
  * M is the mass matrix and A the stiffness with κ plus the reaction term c·M. Built once (leaf
  * mesh of the union, index maps, element records), applied many times without allocation.
@@ -75,8 +90,8 @@ export class SpatialOperatorPlan {
     const union = unionOfTwoSorted(inSet, outSet);
     const mesh = domain.leafMesh(union); // validates: both closed ⇒ union closed
     this.mesh = mesh;
-    this.inLocal = localIndices(domain, this.mesh, inSet);
-    this.outLocal = inSet === outSet ? this.inLocal : localIndices(domain, this.mesh, outSet);
+    this.inLocal = inSet === union ? mesh.memberLocal : subsetLocal(union, mesh.memberLocal, inSet);
+    this.outLocal = outSet === inSet ? this.inLocal : outSet === union ? mesh.memberLocal : subsetLocal(union, mesh.memberLocal, outSet);
     this.rec = elementTables(domain.forest, mesh);
     const n = this.mesh.vertexCount;
     this.u = new Float64Array(n);
