@@ -18,7 +18,12 @@ import { InvalidMeshError } from '../../errors';
 import type { LeafMesh } from '../leaf-mesh';
 import { PairedRows } from './paired-rows';
 
-export function assemblePair(mesh: LeafMesh): PairedRows {
+/**
+ * Initial slots of every row: a free vertex has at most (incident elements + 1) neighbours (the
+ * + 1 for a boundary vertex), and coarsening never raises the valence of a remaining vertex (every
+ * coarse element around it is a union of fine ones), so rows do not need to grow in practice.
+ */
+export function rowCapacity(mesh: LeafMesh): Int32Array {
   const n = mesh.vertexCount;
   const nv = mesh.dim + 1;
   const el = mesh.elements;
@@ -30,16 +35,47 @@ export function assemblePair(mesh: LeafMesh): PairedRows {
       if (free[v]) capacity[v] = capacity[v]! + 1;
     }
   }
-  for (let v = 0; v < n; v++) if (free[v]) capacity[v] = capacity[v]! + 2;
-  const rows = new PairedRows(n, capacity);
+  for (let v = 0; v < n; v++) if (free[v]) capacity[v] = capacity[v]! + 1;
+  return capacity;
+}
+
+/**
+ * The fine nodal matrices in growable rows; `reserve` pool slots are kept for the row snapshots
+ * of the hierarchy (see galerkin-hierarchy.ts). `capacity` (from {@link rowCapacity}) is taken over.
+ */
+export function assemblePair(mesh: LeafMesh, reserve = 0, capacity: Int32Array = rowCapacity(mesh)): PairedRows {
+  const rows = new PairedRows(mesh.vertexCount, capacity, reserve);
   const sizes = exactSizes(mesh);
   if (mesh.dim === 1) assemble1d(mesh, rows, sizes);
   else assemble2d(mesh, rows, sizes);
   return rows;
 }
 
-/** Exact length (d = 1) or area (d = 2) of every leaf element, see the file comment. */
-function exactSizes(mesh: LeafMesh): Float64Array {
+/**
+ * Exact element sizes (see the file comment) without a per-element array: the size of leaf e is
+ * `rootSize[elementMaterial[e]] · halving[k]` with k its largest vertex generation.
+ */
+interface ExactSizes {
+  readonly rootSize: Float64Array;
+  readonly halving: Float64Array;
+}
+
+/** Largest vertex generation of leaf element e. */
+function elementGeneration(el: Int32Array, gen: Int32Array, nv: number, e: number): number {
+  let k = 0;
+  for (let i = 0; i < nv; i++) {
+    const g = gen[el[nv * e + i]!]!;
+    if (g > k) k = g;
+  }
+  return k;
+}
+
+function elementSize(mesh: LeafMesh, sizes: ExactSizes, nv: number, e: number): number {
+  return sizes.rootSize[mesh.elementMaterial[e]!]! * sizes.halving[elementGeneration(mesh.elements, mesh.generation, nv, e)]!;
+}
+
+/** Size of the shallowest leaf of every initial element, scaled back to the initial element. */
+function exactSizes(mesh: LeafMesh): ExactSizes {
   const ne = mesh.elementCount;
   const nv = mesh.dim + 1;
   const el = mesh.elements;
@@ -48,16 +84,10 @@ function exactSizes(mesh: LeafMesh): Float64Array {
   const nr = mesh.kappa.length;
   const rootGen = new Int32Array(nr).fill(0x7fffffff);
   const rootElem = new Int32Array(nr).fill(-1);
-  const elemGen = new Int32Array(ne);
-  const mats0 = mesh.elementMaterial;
+  const mats = mesh.elementMaterial;
   for (let e = 0; e < ne; e++) {
-    let k = 0;
-    for (let i = 0; i < nv; i++) {
-      const g = gen[el[nv * e + i]!]!;
-      if (g > k) k = g;
-    }
-    elemGen[e] = k;
-    const r = mats0[e]!;
+    const k = elementGeneration(el, gen, nv, e);
+    const r = mats[e]!;
     if (k < rootGen[r]!) { rootGen[r] = k; rootElem[r] = e; }
   }
   const rootSize = new Float64Array(nr);
@@ -74,12 +104,9 @@ function exactSizes(mesh: LeafMesh): Float64Array {
     rootSize[r] = size * 2 ** rootGen[r]!;
   }
   const maxGen = gen[mesh.vertexCount - 1]!;
-  const halvings = new Float64Array(maxGen + 1);
-  for (let k = 0; k <= maxGen; k++) halvings[k] = 2 ** -k;
-  const sizes = new Float64Array(ne);
-  const mats = mesh.elementMaterial;
-  for (let e = 0; e < ne; e++) sizes[e] = rootSize[mats[e]!]! * halvings[elemGen[e]!]!;
-  return sizes;
+  const halving = new Float64Array(maxGen + 1);
+  for (let k = 0; k <= maxGen; k++) halving[k] = 2 ** -k;
+  return { rootSize, halving };
 }
 
 function degenerate(e: number, size: number): InvalidMeshError {
@@ -88,14 +115,14 @@ function degenerate(e: number, size: number): InvalidMeshError {
   });
 }
 
-function assemble1d(mesh: LeafMesh, rows: PairedRows, sizes: Float64Array): void {
+function assemble1d(mesh: LeafMesh, rows: PairedRows, sizes: ExactSizes): void {
   const el = mesh.elements;
   const free = mesh.isFree;
   const loc = [0, 0];
   for (let e = 0; e < mesh.elementCount; e++) {
     const v0 = el[2 * e]!;
     const v1 = el[2 * e + 1]!;
-    const h = sizes[e]!;
+    const h = elementSize(mesh, sizes, 2, e);
     const mat = mesh.elementMaterial[e]!;
     const kappa = mesh.kappa[mat]!;
     const c = mesh.reaction[mat]!;
@@ -120,7 +147,7 @@ function assemble1d(mesh: LeafMesh, rows: PairedRows, sizes: Float64Array): void
   }
 }
 
-function assemble2d(mesh: LeafMesh, rows: PairedRows, sizes: Float64Array): void {
+function assemble2d(mesh: LeafMesh, rows: PairedRows, sizes: ExactSizes): void {
   const el = mesh.elements;
   const xy = mesh.coords;
   const free = mesh.isFree;
@@ -139,7 +166,7 @@ function assemble2d(mesh: LeafMesh, rows: PairedRows, sizes: Float64Array): void
     const c0 = x2 - x1, c1 = x0 - x2, c2 = x1 - x0;
     // 2|T| = b_0 c_1 − b_1 c_0 from coordinates; a vanishing value means the coordinates no longer resolve T
     if (!(Math.abs(b0 * c1 - b1 * c0) > 0)) throw degenerate(e, 0.5 * Math.abs(b0 * c1 - b1 * c0));
-    const area = sizes[e]!;
+    const area = elementSize(mesh, sizes, 3, e);
     const mat = mats[e]!;
     const sk = kap[mat]! / (4 * area);
     const c = rea[mat]!;

@@ -20,9 +20,9 @@
 import { InvalidArgumentError } from '../../errors';
 import type { LeafMesh } from '../leaf-mesh';
 import { nodalToHierarchical, nodalToHierarchicalTransposed } from '../hierarchical';
-import { assemblePair } from './assemble-pair';
+import { assemblePair, rowCapacity } from './assemble-pair';
 import { CoarseSolver } from './coarse-solver';
-import { buildHierarchy, copyPairedRows, type LevelHierarchy, type PairedCsr } from './galerkin-hierarchy';
+import { buildHierarchy, copyPairedRows, snapshotReserve, type LevelHierarchy, type PairedCsr } from './galerkin-hierarchy';
 import { validateLeafMesh } from './validate-leaf-mesh';
 import { checkOptions } from '../../validation/index';
 
@@ -115,7 +115,8 @@ export class MultilevelPreconditioner {
     this.mesh = mesh;
     const n = mesh.vertexCount;
     this.vertexCount = n;
-    const rows = assemblePair(mesh);
+    const capacity = rowCapacity(mesh);
+    const rows = assemblePair(mesh, snapshotReserve(capacity), capacity);
     this.fine = this.cycles > 1 ? copyPairedRows(rows) : null;
     this.h = buildHierarchy(mesh, rows);
     this.levels = this.h.levels;
@@ -280,7 +281,8 @@ export class MultilevelPreconditioner {
     const setEnd = h.setEnd;
     const narrowEnd = h.narrowEnd;
     const verts = h.setVerts;
-    const rowPtr = h.rowPtr;
+    const rowStart = h.rowStart;
+    const rowEnd = h.rowEnd;
     const cols = h.rowCols;
     const vals = h.rowVals;
     const diag = h.rowDiag;
@@ -306,7 +308,7 @@ export class MultilevelPreconditioner {
             const delta = jt[k]!;
             epre[k] = epre[k]! + delta;
             res[v] = res[v]! - (diag[2 * k]! + alpha * diag[2 * k + 1]!) * delta;
-            for (let t = rowPtr[k]!; t < rowPtr[k + 1]!; t++) {
+            for (let t = rowStart[k]!; t < rowEnd[k]!; t++) {
               const j = cols[t]!;
               res[j] = res[j]! - (vals[2 * t]! + alpha * vals[2 * t + 1]!) * delta;
             }
@@ -321,7 +323,7 @@ export class MultilevelPreconditioner {
             const delta = res[v]! / d;
             epre[k] = epre[k]! + delta;
             res[v] = 0;
-            for (let t = rowPtr[k]!; t < rowPtr[k + 1]!; t++) {
+            for (let t = rowStart[k]!; t < rowEnd[k]!; t++) {
               const j = cols[t]!;
               res[j] = res[j]! - (vals[2 * t]! + alpha * vals[2 * t + 1]!) * delta;
             }
@@ -360,7 +362,7 @@ export class MultilevelPreconditioner {
             const v = verts[k]!;
             const d = diag[2 * k]! + alpha * diag[2 * k + 1]!;
             let s = rho[k]! - d * y[v]!;
-            for (let t = rowPtr[k]!; t < rowPtr[k + 1]!; t++) s -= (vals[2 * t]! + alpha * vals[2 * t + 1]!) * y[cols[t]!]!;
+            for (let t = rowStart[k]!; t < rowEnd[k]!; t++) s -= (vals[2 * t]! + alpha * vals[2 * t + 1]!) * y[cols[t]!]!;
             jt[k] = (om * s) / d;
           }
           for (let k = k0; k < k1; k++) y[verts[k]!] = y[verts[k]!]! + jt[k]!;
@@ -372,7 +374,7 @@ export class MultilevelPreconditioner {
             const v = verts[k]!;
             const d = diag[2 * k]! + alpha * diag[2 * k + 1]!;
             let s = rho[k]! - d * y[v]!;
-            for (let t = rowPtr[k]!; t < rowPtr[k + 1]!; t++) s -= (vals[2 * t]! + alpha * vals[2 * t + 1]!) * y[cols[t]!]!;
+            for (let t = rowStart[k]!; t < rowEnd[k]!; t++) s -= (vals[2 * t]! + alpha * vals[2 * t + 1]!) * y[cols[t]!]!;
             y[v] = y[v]! + s / d;
           }
         }

@@ -20,20 +20,22 @@ export class PairedRows {
   vals: Float64Array;
   private top: number;
 
-  /** `capacity[i]` is the initial number of off-diagonal slots of row i. */
-  constructor(n: number, capacity: Int32Array) {
+  /**
+   * `capacity[i]` is the initial number of off-diagonal slots of row i (the array is taken over,
+   * not copied); `reserve` extra slots are kept free at the end of the pool for {@link appendCopy}.
+   */
+  constructor(n: number, capacity: Int32Array, reserve = 0) {
     this.n = n;
     this.start = new Int32Array(n);
     this.len = new Int32Array(n);
-    this.cap = new Int32Array(n);
+    this.cap = capacity;
     this.diag = new Float64Array(2 * n);
     let total = 0;
     for (let i = 0; i < n; i++) {
       this.start[i] = total;
-      this.cap[i] = capacity[i]!;
       total += capacity[i]!;
     }
-    const poolSize = total + (total >> 2) + 16;
+    const poolSize = total + Math.max(reserve, total >> 3) + 16;
     this.cols = new Int32Array(poolSize);
     this.vals = new Float64Array(2 * poolSize);
     this.top = total;
@@ -85,18 +87,42 @@ export class PairedRows {
     this.len[i] = this.len[i]! - 1;
   }
 
+  /**
+   * Appends a copy of row i (its current entries) at the end of the pool and returns the slot
+   * where it starts; the copy is not a row of its own and is never changed by later updates.
+   * Slot offsets stay valid when the pool is reallocated.
+   */
+  appendCopy(i: number): number {
+    const s = this.start[i]!;
+    const l = this.len[i]!;
+    this.ensure(l);
+    const t = this.top;
+    const cols = this.cols, vals = this.vals;
+    for (let p = 0; p < l; p++) {
+      cols[t + p] = cols[s + p]!;
+      vals[2 * (t + p)] = vals[2 * (s + p)]!;
+      vals[2 * (t + p) + 1] = vals[2 * (s + p) + 1]!;
+    }
+    this.top += l;
+    return t;
+  }
+
+  /** Makes room for `extra` more slots at the end of the pool. */
+  private ensure(extra: number): void {
+    if (this.top + extra <= this.cols.length) return;
+    const size = Math.max(2 * this.cols.length, this.top + extra);
+    const cols = new Int32Array(size);
+    cols.set(this.cols.subarray(0, this.top));
+    const vals = new Float64Array(2 * size);
+    vals.set(this.vals.subarray(0, 2 * this.top));
+    this.cols = cols;
+    this.vals = vals;
+  }
+
   private grow(i: number): void {
     const oldCap = this.cap[i]!;
     const newCap = Math.max(4, 2 * oldCap);
-    if (this.top + newCap > this.cols.length) {
-      const size = Math.max(2 * this.cols.length, this.top + newCap);
-      const cols = new Int32Array(size);
-      cols.set(this.cols.subarray(0, this.top));
-      const vals = new Float64Array(2 * size);
-      vals.set(this.vals.subarray(0, 2 * this.top));
-      this.cols = cols;
-      this.vals = vals;
-    }
+    this.ensure(newCap);
     const s = this.start[i]!;
     const l = this.len[i]!;
     this.cols.copyWithin(this.top, s, s + l);

@@ -110,7 +110,7 @@ describe('Galerkin hierarchy', () => {
       const verts = h.setVerts.subarray(h.setBegin[g]!, h.setEnd[g]!);
       const diag = h.rowDiag.subarray(2 * h.setBegin[g]!, 2 * h.setEnd[g]!);
       const off = h.setBegin[g]!;
-      const err = maxRowError(verts, h.rowCols, h.rowVals, diag, ref, (k) => [h.rowPtr[off + k]!, h.rowPtr[off + k + 1]!]);
+      const err = maxRowError(verts, h.rowCols, h.rowVals, diag, ref, (k) => [h.rowStart[off + k]!, h.rowEnd[off + k]!]);
       expect(err).toBeLessThan(1e-10 * scale(ref.K));
       rowsChecked += verts.length;
       // the smoothing set: free generation-g vertices and their free interpolation parents
