@@ -7,6 +7,7 @@
  */
 import { InvalidArgumentError, InvalidMeshError, describeValue } from '../errors';
 import type { Coefficient, DomainOptions } from './domain-options';
+import { checkNoHangingNodes } from './hanging-nodes';
 import { checkNoOverlap } from './mesh-overlap';
 
 /** Neighbour code of a Dirichlet boundary edge. */
@@ -209,8 +210,10 @@ const MAX_INPUT_TRIANGLES = 10_000_000;
 const edgeKey = (i: number, j: number, n: number): number => (i < j ? i * n + j : j * n + i);
 
 /**
- * Validates a user triangulation and labels it for newest-vertex bisection.
- * Clockwise triangles are reoriented counter-clockwise (counted in `reoriented`).
+ * Validates a user triangulation and labels it for newest-vertex bisection, in named steps:
+ * finite points, orientation and refinement edges, neighbours across edges, boundary edges and
+ * conformity (no hanging nodes), connectedness, no overlap, boundary kinds, free vertices and
+ * coefficients. Clockwise triangles are reoriented counter-clockwise (counted in `reoriented`).
  */
 export function buildTriangulation(
   pointsIn: ArrayLike<number> | number[][],
@@ -230,6 +233,25 @@ export function buildTriangulation(
       received: ne,
     });
   }
+  checkFinitePoints(coords);
+  const { elements, reoriented } = orientAndLabel(coords, triF);
+  const neighbors = linkNeighbours(elements, nv);
+  const bEdges = boundaryEdges(elements, neighbors);
+  checkNoHangingNodes(coords, bEdges);
+  checkConnected(neighbors);
+  checkNoOverlap(coords, elements, neighbors);
+  labelBoundaryKinds(opts.insulated, coords, bEdges, neighbors);
+  const vertexFree = freeVertices(nv, bEdges, neighbors);
+  const centroids = elementCentroids(coords, elements);
+  const kappa = sampleCoefficient(opts.kappa, 1, centroids, 'kappa');
+  const reaction = sampleCoefficient(opts.reaction, 0, centroids, 'reaction');
+  requireSomeDirichletOrReaction(vertexFree, reaction);
+  return { dim: 2, coords, elements, neighbors, vertexFree, kappa, reaction, reoriented };
+}
+
+/** Every coordinate is a finite number. */
+function checkFinitePoints(coords: Float64Array): void {
+  const nv = coords.length / 2;
   for (let i = 0; i < nv; i++) {
     for (let k = 0; k < 2; k++) {
       const c = coords[2 * i + k]!;
@@ -242,6 +264,15 @@ export function buildTriangulation(
       }
     }
   }
+}
+
+/**
+ * Checks the vertex indices and areas of the triangles, orients them counter-clockwise and puts
+ * the refinement edge (longest edge) first; every point must be used.
+ */
+function orientAndLabel(coords: Float64Array, triF: Float64Array): { elements: Int32Array; reoriented: number } {
+  const nv = coords.length / 2;
+  const ne = triF.length / 3;
   const elements = new Int32Array(3 * ne);
   let reoriented = 0;
   const used = new Uint8Array(nv);
@@ -311,7 +342,12 @@ export function buildTriangulation(
       });
     }
   }
-  // Edges: neighbour across the edge opposite vertex k is stored in neighbors[3e + k].
+  return { elements, reoriented };
+}
+
+/** Neighbour across the edge opposite vertex k of element e, in neighbors[3e + k] (DIRICHLET_EDGE on the boundary). */
+function linkNeighbours(elements: Int32Array, nv: number): Int32Array {
+  const ne = elements.length / 3;
   const neighbors = new Int32Array(3 * ne).fill(DIRICHLET_EDGE);
   const firstOwner = new Map<number, number>();
   const count = new Map<number, number>();
@@ -344,38 +380,26 @@ export function buildTriangulation(
       }
     }
   }
-  // Boundary edges and hanging nodes: a boundary vertex lying inside another boundary edge.
+  return neighbors;
+}
+
+/** Boundary edges as triples (slot 3e + k, i, j). */
+function boundaryEdges(elements: Int32Array, neighbors: Int32Array): number[] {
+  const ne = elements.length / 3;
   const bEdges: number[] = [];
-  const onBoundary = new Uint8Array(nv);
   for (let s = 0; s < 3 * ne; s++) {
     if (neighbors[s] === DIRICHLET_EDGE) {
       const e = (s / 3) | 0, k = s % 3;
       const i = elements[3 * e + ((k + 1) % 3)]!, j = elements[3 * e + ((k + 2) % 3)]!;
       bEdges.push(s, i, j);
-      onBoundary[i] = onBoundary[j] = 1;
     }
   }
-  const bVerts: number[] = [];
-  for (let i = 0; i < nv; i++) if (onBoundary[i]) bVerts.push(i);
-  for (let q = 0; q < bEdges.length; q += 3) {
-    const i = bEdges[q + 1]!, j = bEdges[q + 2]!;
-    const x0 = coords[2 * i]!, y0 = coords[2 * i + 1]!, dx = coords[2 * j]! - x0, dy = coords[2 * j + 1]! - y0;
-    const l2 = dx * dx + dy * dy;
-    for (const v of bVerts) {
-      if (v === i || v === j) continue;
-      const px = coords[2 * v]! - x0, py = coords[2 * v + 1]! - y0;
-      const t = (px * dx + py * dy) / l2;
-      const cr = px * dy - py * dx;
-      if (t > 1e-10 && t < 1 - 1e-10 && Math.abs(cr) <= 1e-10 * l2) {
-        const e = (bEdges[q]! / 3) | 0;
-        throw new InvalidMeshError(
-          `the mesh is not conforming: vertex ${v} lies inside edge [${i}, ${j}] of triangles[${e}] (hanging node)`,
-          { field: `triangles[${e}]`, expected: 'no vertex inside another triangle’s edge', received: `vertex ${v} on edge [${i}, ${j}]` },
-        );
-      }
-    }
-  }
-  // Connectedness through shared edges (breadth-first search from triangle 0).
+  return bEdges;
+}
+
+/** Breadth-first search through shared edges from triangle 0 reaches every triangle. */
+function checkConnected(neighbors: Int32Array): void {
+  const ne = neighbors.length / 3;
   const seen = new Uint8Array(ne);
   const queue = new Int32Array(ne);
   let head = 0, tail = 0;
@@ -400,9 +424,11 @@ export function buildTriangulation(
       received: `${ne - tail} unreachable triangles`,
     });
   }
-  checkNoOverlap(coords, elements, neighbors);
-  // Boundary kinds.
-  const ins = opts.insulated;
+}
+
+/** Marks the insulated boundary edges (a predicate on the edge midpoint or a list of edges). */
+function labelBoundaryKinds(ins: DomainOptions['insulated'], coords: Float64Array, bEdges: number[], neighbors: Int32Array): void {
+  const nv = coords.length / 2;
   if (typeof ins === 'function') {
     for (let q = 0; q < bEdges.length; q += 3) {
       const i = bEdges[q + 1]!, j = bEdges[q + 2]!;
@@ -431,18 +457,24 @@ export function buildTriangulation(
       neighbors[slot] = INSULATED_EDGE;
     });
   }
+}
+
+/** Free flags: every vertex of a Dirichlet edge carries no unknown. */
+function freeVertices(nv: number, bEdges: number[], neighbors: Int32Array): Uint8Array {
   const vertexFree = new Uint8Array(nv).fill(1);
   for (let q = 0; q < bEdges.length; q += 3) {
     if (neighbors[bEdges[q]!] === DIRICHLET_EDGE) vertexFree[bEdges[q + 1]!] = vertexFree[bEdges[q + 2]!] = 0;
   }
+  return vertexFree;
+}
+
+function elementCentroids(coords: Float64Array, elements: Int32Array): Float64Array {
+  const ne = elements.length / 3;
   const centroids = new Float64Array(2 * ne);
   for (let e = 0; e < ne; e++) {
     for (let k = 0; k < 2; k++) {
       centroids[2 * e + k] = (coords[2 * elements[3 * e]! + k]! + coords[2 * elements[3 * e + 1]! + k]! + coords[2 * elements[3 * e + 2]! + k]!) / 3;
     }
   }
-  const kappa = sampleCoefficient(opts.kappa, 1, centroids, 'kappa');
-  const reaction = sampleCoefficient(opts.reaction, 0, centroids, 'reaction');
-  requireSomeDirichletOrReaction(vertexFree, reaction);
-  return { dim: 2, coords, elements, neighbors, vertexFree, kappa, reaction, reoriented };
+  return centroids;
 }
