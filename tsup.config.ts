@@ -6,8 +6,10 @@ import { defineConfig, type Options } from 'tsup';
  * - src/vendor/* (third-party packages without `sideEffects: false`, see those
  *   files): emitted as dist/vendor/NAME.js|.cjs, so a user's bundler can drop
  *   them with the rest of an unused part of chronomesh (tree shaking);
- * - the CLI's import of the public entry ('../index'): the CLI runs on
- *   dist/index.js instead of carrying a second copy of the library.
+ * - the CLI's and the problem-file layer's import of the public entry ('../index'): they run on
+ *   dist/index.js instead of carrying a second copy of the library (one class identity for
+ *   `instanceof`, and the core bundle never contains the expression parser);
+ * - the CLI's (and its bench code's) import of the problem-file layer: dist/problem-file.js.
  */
 function separateFiles(cliUsesIndex: boolean): NonNullable<Options['esbuildPlugins']>[number] {
   return {
@@ -22,7 +24,9 @@ function separateFiles(cliUsesIndex: boolean): NonNullable<Options['esbuildPlugi
       }));
       if (cliUsesIndex) {
         build.onResolve({ filter: /^\.\.\/index$/ }, (args) =>
-          args.importer.includes('/src/cli/') ? { path: `./index.${ext}`, external: true } : undefined);
+          /\/src\/(cli|problem-file)\//.test(args.importer) ? { path: `./index.${ext}`, external: true } : undefined);
+        build.onResolve({ filter: /^\.\.\/(src\/)?problem-file\/index$/ }, (args) =>
+          /\/(src\/cli|bench)\//.test(args.importer) ? { path: `./problem-file.${ext}`, external: true } : undefined);
       }
     },
   };
@@ -41,13 +45,14 @@ const common: Options = {
 };
 
 export default defineConfig([
-  // The library: ESM + CommonJS + declarations (dist/ is emptied by the build script).
+  // The library and the problem-file layer (export path chronomesh/problem-file, on top of
+  // dist/index.*): ESM + CommonJS + declarations (dist/ is emptied by the build script).
   {
     ...common,
-    entry: { index: 'src/index.ts' },
+    entry: { index: 'src/index.ts', 'problem-file': 'src/problem-file/index.ts' },
     format: ['esm', 'cjs'],
-    dts: { entry: { index: 'src/index.ts' } },
-    esbuildPlugins: [separateFiles(false)],
+    dts: { entry: { index: 'src/index.ts', 'problem-file': 'src/problem-file/index.ts' } },
+    esbuildPlugins: [separateFiles(true)],
   },
   // The vendored re-exports, one small file per package and format.
   {
@@ -56,7 +61,7 @@ export default defineConfig([
     format: ['esm', 'cjs'],
     sourcemap: false,
   },
-  // The command-line demo: ESM only, on top of dist/index.js.
+  // The command line: ESM only, on top of dist/index.js and dist/problem-file.js.
   {
     ...common,
     entry: { cli: 'src/cli/main.ts' },

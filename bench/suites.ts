@@ -6,7 +6,8 @@ import { spaceMultigridCases } from './space-multigrid';
 import { spacetimeCases } from './spacetime';
 import { outputCases } from './output';
 import { estimationCases } from './estimation';
+import { exprCases } from './expr';
 
 export type Suite = (quick: boolean) => BenchCase[];
 
-export const suites: Suite[] = [timeCases, spaceCases, spaceMultigridCases, spacetimeCases, outputCases, estimationCases];
+export const suites: Suite[] = [timeCases, spaceCases, spaceMultigridCases, spacetimeCases, outputCases, estimationCases, exprCases];

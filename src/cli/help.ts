@@ -1,0 +1,89 @@
+/** Help texts of the command line. */
+import { PROBLEM_DEFAULTS } from '../problem-file/index';
+
+export const CAUTION = `CAUTION: chronomesh computes approximate solutions of a mathematical model. Results
+can be wrong through modelling assumptions, input mistakes, discretisation and
+solver error, or software faults. Do not rely on them alone for decisions about
+thermal safety, medical heating (e.g. hyperthermia or tissue exposure), fire
+protection or other safety matters: follow the applicable codes and standards and
+have results checked by a licensed engineer using independent methods.`;
+
+export const MAIN_HELP = `usage: chronomesh <command> [options]
+
+Space-time solver for heat and diffusion problems (wavelets in time, finite
+elements in space, adaptive sparse index sets).
+
+commands:
+  solve PROBLEM.json   solve the problem described by a problem file
+  bench [SUITE…]       measure operator costs (ns per unit)
+  demo                 run the built-in scenarios and the shipped examples
+
+options:
+  --version            print the version
+  --help               this text; \`chronomesh <command> --help\` for a command
+
+${CAUTION}`;
+
+export const SOLVE_HELP = `usage: chronomesh solve PROBLEM.json [--json] [--out DIR] [--quiet] [--debug]
+
+Solves ∂t u − ∇·(κ∇u) + c u = f on (0, T) × Ω with u = 0 on the boundary
+except its insulated part (zero flux), u(0) = u0, as described by PROBLEM.json.
+
+  --json        print exactly one JSON document on stdout:
+                {"steps":[{"dofs","estimate","iterations","seconds"}…],
+                 "probes":[{"t","x","y","value"}…], "rate": r}
+                (rate: least-squares slope of −log E against log N over the
+                second half of the steps; y is null in 1D)
+  --out DIR     write history (JSON, CSV), probe table (CSV), slices (VTK XML
+                .vtu + .pvd) and pictures (SVG) into DIR (checked writable first)
+  --quiet       no progress lines on stderr
+  --debug       print stack traces of errors
+
+problem file fields (JSON object):
+  domain      {"shape":"interval","from":a,"to":b,"cells":n}
+              {"shape":"rectangle","from":[x0,y0],"to":[x1,y1],"cells":[nx,ny]}
+              {"shape":"lshape"}   (−1,1)² minus [0,1]×[−1,0]; optional "cells":n
+              {"shape":"mesh","points":[[x,y],…],"triangles":[[i,j,k],…]}
+  horizon     final time T > 0 (required)
+  diffusion   κ(x, y) > 0, default "${PROBLEM_DEFAULTS.diffusion}" (taken at initial-element centroids)
+  reaction    c(x, y) ≥ 0, default "${PROBLEM_DEFAULTS.reaction}" (taken at initial-element centroids)
+  source      f(t, x, y), default "${PROBLEM_DEFAULTS.source}"
+  initial     u0(x, y), default "${PROBLEM_DEFAULTS.initial}"
+  insulated   predicate on boundary-edge midpoints (nonzero = insulated),
+              e.g. "y > 0.999"; the rest of the boundary has u = 0
+  strategy    "adaptive" (default), "sparse" or "full" (grids of growing level)
+  tolerance   stop when the estimator E ≤ tolerance (default ${PROBLEM_DEFAULTS.tolerance})
+  maxDofs     unknown budget (default ${PROBLEM_DEFAULTS.maxDofs})
+  maxSeconds  wall-time budget (default ${PROBLEM_DEFAULTS.maxSeconds})
+  maxSteps    step budget (default ${PROBLEM_DEFAULTS.maxSteps})
+  bulk        Dörfler parameter θ in (0, 1) (default ${PROBLEM_DEFAULTS.bulk})
+  probes      list of [t, x] or [t, x, y]
+  slices      list of times to export with --out
+  title, description   free text
+expressions: numbers, t x y, pi e, + − * / ^ ( ), < <= > >= == !=, && || !,
+  a ? b : c, sin cos tan exp log sqrt abs min max atan2 pow.
+
+exit status: 0 done, 2 bad input (one line on stderr), 1 other failure.
+
+${CAUTION}`;
+
+export const BENCH_HELP = `usage: chronomesh bench [SUITE…] [--json] [--quick] [--out FILE]
+
+Times one application of each operator and prints ns per unit (median).
+SUITE selects rows by component-name prefix, e.g. \`time.\`, \`space.\`,
+\`spacetime.\`, \`expr.\`. Timings depend on the machine and its load.
+  --json        print one JSON document {"rows":[…]} on stdout
+  --quick       smaller sizes (smoke test)
+  --out FILE    also write the JSON document to FILE`;
+
+export const DEMO_HELP = `usage: chronomesh demo [--quick] [--out DIR]
+
+Runs the built-in example scenarios (a cooling rod, an L-shaped bracket
+with a hot spot, a convergence study, adaptive runs, operator costs) and
+then the shipped problem files of examples/ through \`chronomesh solve\`,
+prints their results and writes time slices (VTK XML .vtu + .pvd, SVG
+pictures), probe tables (CSV) and histories (JSON + SVG plots) into DIR.
+  --quick     smaller problems
+  --out DIR   output folder (default: out)
+
+${CAUTION}`;

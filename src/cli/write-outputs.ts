@@ -1,0 +1,54 @@
+/** Files written by `chronomesh solve --out DIR`. */
+import { accessSync, constants, mkdirSync, unlinkSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { convergencePlotSvg, sliceToSvg, sliceToVtu, vtkCollection } from '../index';
+import type { ProblemSpec, RunResult } from '../problem-file/index';
+import { CliError } from './cli-error';
+
+/** Creates DIR if needed and proves it writable by writing and removing a file, before any work. */
+export function checkWritable(dir: string): void {
+  try {
+    mkdirSync(dir, { recursive: true });
+    accessSync(dir, constants.W_OK);
+    const probe = join(dir, `.chronomesh-write-check-${process.pid}`);
+    writeFileSync(probe, '');
+    unlinkSync(probe);
+  } catch (e) {
+    const code = (e as { code?: string }).code ?? 'error';
+    throw new CliError(`--out ${dir}: folder cannot be created or written (${code})`);
+  }
+}
+
+function csvLine(values: (string | number | null)[]): string {
+  return values.map((v) => (v === null ? '' : String(v))).join(',');
+}
+
+/** Default slice times when the file gives none: 0, T/4, T/2, 3T/4, T. */
+export function sliceTimes(spec: ProblemSpec): number[] {
+  return spec.slices.length > 0 ? spec.slices : [0, 0.25, 0.5, 0.75, 1].map((f) => f * spec.horizon);
+}
+
+/** Writes all outputs of a run into `dir`; returns the paths written. */
+export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): string[] {
+  const written: string[] = [];
+  const save = (name: string, text: string) => {
+    writeFileSync(join(dir, name), text);
+    written.push(join(dir, name));
+  };
+  save('history.json', JSON.stringify({ steps: run.steps, rate: run.rate, stopReason: run.stopReason }, null, 1) + '\n');
+  save('history.csv', [csvLine(['step', 'dofs', 'estimate', 'iterations', 'seconds']), ...run.steps.map((s, i) => csvLine([i, s.dofs, s.estimate, s.iterations, s.seconds]))].join('\n') + '\n');
+  save('probes.csv', [csvLine(['t', 'x', 'y', 'value']), ...run.probes.map((p) => csvLine([p.t, p.x, p.y, p.value]))].join('\n') + '\n');
+  const times = sliceTimes(spec);
+  const name = spec.title ?? 'u';
+  const entries = times.map((t, i) => {
+    const file = `slice-${String(i).padStart(4, '0')}.vtu`;
+    const slice = run.solution.slice(t);
+    save(file, sliceToVtu(slice, 'u'));
+    save(`slice-${String(i).padStart(4, '0')}.svg`, sliceToSvg(slice, { title: `${name}, t = ${t}` }));
+    return { t, file };
+  });
+  save('slices.pvd', vtkCollection(entries));
+  const pts = run.steps.filter((s) => s.estimate > 0).map((s) => [s.dofs, s.estimate] as [number, number]);
+  if (pts.length > 0) save('history.svg', convergencePlotSvg([{ label: spec.strategy, points: pts }], { title: `${name}: residual estimator`, yLabel: 'estimator E' }));
+  return written;
+}

@@ -1,0 +1,122 @@
+/**
+ * From a validated problem file to the library's objects: the spatial domain (with κ, c and the
+ * insulated boundary), the heat problem, and checks of every expression at sample points before
+ * any solving. Expressions are wrapped so that a NaN or infinite value met later, anywhere,
+ * stops the run with an error that names the field and the point.
+ */
+import {
+  HeatProblem, InvalidArgumentError, InvalidMeshError, evaluateAt, intervalDomain, lShapeDomain, rectangleDomain,
+  triangulatedDomain, type DomainOptions, type SpatialDomain,
+} from './core';
+import type { CompiledExpression } from './expression';
+import type { ProblemSpec } from './schema';
+
+/** The domain and problem built from a {@link ProblemSpec}. */
+export interface BuiltProblem {
+  spec: ProblemSpec;
+  domain: SpatialDomain;
+  problem: HeatProblem;
+}
+
+function fmt(v: number): string {
+  return Number.isInteger(v) ? String(v) : String(Number(v.toPrecision(6)));
+}
+
+function at(dim: number, t: number | null, x: number, y: number): string {
+  const parts = t === null ? [] : [`t = ${fmt(t)}`];
+  parts.push(`x = ${fmt(x)}`);
+  if (dim === 2) parts.push(`y = ${fmt(y)}`);
+  return parts.join(', ');
+}
+
+function pointError(e: CompiledExpression, field: string, dim: number, t: number | null, x: number, y: number, v: number, want: string): never {
+  throw new InvalidArgumentError(`${field}: ${JSON.stringify(e.source)} evaluates to ${fmt(v)} at ${at(dim, t, x, y)} (expected ${want})`, {
+    field, expected: want, received: v,
+  });
+}
+
+/** A space-only expression as (x, y) ⇒ value, checked against `ok` at every call. */
+function spatial(e: CompiledExpression, field: string, dim: number, ok: (v: number) => boolean, want: string) {
+  const f = e.fn;
+  return (x: number, y: number): number => {
+    const v = f(0, x, y);
+    if (!ok(v)) pointError(e, field, dim, null, x, y, v, want);
+    return v;
+  };
+}
+
+const finite = (v: number) => Number.isFinite(v);
+
+/**
+ * Builds the domain and problem of a validated spec and evaluates every expression at the initial
+ * mesh's vertices and element centroids (the source also at t = 0, T/2, T) before any work.
+ *
+ * @example
+ * ```ts
+ * import { buildProblem, parseProblem } from 'chronomesh/problem-file';
+ * const built = buildProblem(parseProblem({ domain: { shape: 'lshape' }, horizon: 1, initial: '1' }));
+ * console.log(built.domain.dim, built.problem.T); // → 2 1
+ * ```
+ */
+export function buildProblem(spec: ProblemSpec): BuiltProblem {
+  const d = spec.domain;
+  const dim = d.shape === 'interval' ? 1 : 2;
+  const opts: DomainOptions = {
+    kappa: spatial(spec.diffusion, 'diffusion', dim, (v) => v > 0 && Number.isFinite(v), 'a finite number > 0'),
+    reaction: spatial(spec.reaction, 'reaction', dim, (v) => v >= 0 && Number.isFinite(v), 'a finite number ≥ 0'),
+  };
+  if (spec.insulated) {
+    const ins = spatial(spec.insulated, 'insulated', dim, finite, 'a finite number (nonzero = insulated)');
+    opts.insulated = (mx, my) => ins(mx, my) !== 0;
+  }
+  let domain: SpatialDomain;
+  try {
+    switch (d.shape) {
+      case 'interval': domain = intervalDomain(d.from, d.to, d.cells, opts); break;
+      case 'rectangle': domain = rectangleDomain(d.from[0], d.to[0], d.from[1], d.to[1], d.cells[0], d.cells[1], opts); break;
+      case 'lshape': domain = lShapeDomain(d.cells, opts); break;
+      case 'mesh': domain = triangulatedDomain(d.points, d.triangles, opts); break;
+    }
+  } catch (e) {
+    if (e instanceof InvalidMeshError) throw new InvalidMeshError(`domain: ${e.message}`, { field: `domain.${e.field ?? ''}`, received: e.received });
+    throw e;
+  }
+  const initial = spatial(spec.initial, 'initial', dim, finite, 'a finite number');
+  const src = spec.source.fn;
+  const source = spec.source.constant && src(0, 0, 0) === 0 ? undefined : (t: number, x: number, y: number): number => {
+    const v = src(t, x, y);
+    if (!Number.isFinite(v)) pointError(spec.source, 'source', dim, t, x, y, v, 'a finite number');
+    return v;
+  };
+  // Sample points: initial vertices and element centroids.
+  const mesh = domain.leafMesh(domain.initialFreeVertices());
+  const pts: number[][] = [];
+  for (let i = 0; i < mesh.vertexCount; i++) pts.push([mesh.coords[dim * i]!, dim === 2 ? mesh.coords[dim * i + 1]! : 0]);
+  for (let e = 0; e < mesh.elementCount; e++) {
+    let cx = 0, cy = 0;
+    for (let j = 0; j <= dim; j++) {
+      const v = mesh.elements[(dim + 1) * e + j]!;
+      cx += mesh.coords[dim * v]! / (dim + 1);
+      if (dim === 2) cy += mesh.coords[dim * v + 1]! / (dim + 1);
+    }
+    pts.push([cx, cy]);
+  }
+  for (const [x, y] of pts) {
+    initial(x!, y!);
+    if (source) for (const t of [0, spec.horizon / 2, spec.horizon]) source(t, x!, y!);
+  }
+  // Probes must lie in the closed domain.
+  if (spec.probes.length > 0) {
+    const flat = spec.probes.flatMap((p) => p.slice(1));
+    const free = domain.initialFreeVertices();
+    const inside = evaluateAt(domain, free, new Float64Array(free.length), flat, undefined, { outside: NaN });
+    inside.forEach((v, i) => {
+      if (Number.isNaN(v)) {
+        throw new InvalidArgumentError(`probes[${i}]: the point (${spec.probes[i]!.slice(1).join(', ')}) lies outside the domain`, { field: `probes[${i}]` });
+      }
+    });
+  }
+  const zeroInitial = spec.initial.constant && spec.initial.fn(0, 0, 0) === 0;
+  const problem = new HeatProblem({ domain, T: spec.horizon, ...(zeroInitial ? {} : { initial }), ...(source ? { source } : {}) });
+  return { spec, domain, problem };
+}

@@ -1,0 +1,132 @@
+/**
+ * Runs a built problem with the strategy of its file (adaptive, or a sequence of sparse or full
+ * grids of growing level) within its budgets, and collects what the command line reports: one
+ * record per step, the probe values and the observed convergence rate of the estimator.
+ */
+import {
+  DoubleTree, InvalidArgumentError, SpaceTimeSystem, enlargeDoubleTree, residualIndicators, solveAdaptive,
+  type SpaceTimeSolution,
+} from './core';
+import type { BuiltProblem } from './build';
+
+/** One step of a run, as reported by `chronomesh solve --json`. */
+export interface RunStep {
+  /** Number of trial unknowns #Λ. */
+  dofs: number;
+  /** Residual estimator E of the step's solution. */
+  estimate: number;
+  /** PCG iterations of the step. */
+  iterations: number;
+  /** Wall time of the step in seconds. */
+  seconds: number;
+}
+
+/** A probe value u(t, x[, y]). */
+export interface ProbeValue {
+  t: number;
+  x: number;
+  /** null in 1D. */
+  y: number | null;
+  value: number;
+}
+
+/** Result of {@link runProblem}. */
+export interface RunResult {
+  steps: RunStep[];
+  probes: ProbeValue[];
+  /** Least-squares slope of −log E against log N over the second half of the steps (null with < 2 points). */
+  rate: number | null;
+  solution: SpaceTimeSolution;
+  set: DoubleTree;
+  /** Why the run stopped. */
+  stopReason: string;
+}
+
+/**
+ * Least-squares slope of −log E against log N over the second half of the steps (the later,
+ * asymptotic part); null when that half has fewer than two distinct N.
+ *
+ * @example
+ * ```ts
+ * import { observedRate } from 'chronomesh/problem-file';
+ * console.log(observedRate([{ dofs: 100, estimate: 1 }, { dofs: 400, estimate: 0.5 }, { dofs: 1600, estimate: 0.25 }])); // → 0.5
+ * ```
+ */
+export function observedRate(steps: { dofs: number; estimate: number }[]): number | null {
+  const tail = steps.slice(Math.floor(steps.length / 2)).filter((s) => s.dofs > 0 && s.estimate > 0);
+  if (tail.length < 2) return null;
+  const xs = tail.map((s) => Math.log(s.dofs));
+  const ys = tail.map((s) => -Math.log(s.estimate));
+  const mx = xs.reduce((a, b) => a + b, 0) / xs.length;
+  const my = ys.reduce((a, b) => a + b, 0) / ys.length;
+  let sxy = 0, sxx = 0;
+  for (let i = 0; i < xs.length; i++) { sxy += (xs[i]! - mx) * (ys[i]! - my); sxx += (xs[i]! - mx) ** 2; }
+  return sxx > 0 ? sxy / sxx : null;
+}
+
+/**
+ * Solves a built problem with its file's strategy and budgets.
+ *
+ * @example
+ * ```ts
+ * import { buildProblem, parseProblem, runProblem } from 'chronomesh/problem-file';
+ * const spec = parseProblem({ domain: { shape: 'interval', from: 0, to: 1 }, horizon: 1, initial: '1', maxDofs: 300, probes: [[0.1, 0.5]] });
+ * const run = runProblem(buildProblem(spec));
+ * console.log(run.steps.length, run.probes[0]?.value);
+ * ```
+ */
+export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: number) => void): RunResult {
+  const { spec, domain, problem } = built;
+  const steps: RunStep[] = [];
+  let solution: SpaceTimeSolution;
+  let set: DoubleTree;
+  let stopReason: string;
+  if (spec.strategy === 'adaptive') {
+    const r = solveAdaptive(problem, {
+      theta: spec.bulk, tolerance: spec.tolerance, maxUnknowns: spec.maxDofs, maxSteps: spec.maxSteps, maxSeconds: spec.maxSeconds,
+      onStep: (h) => {
+        const s = { dofs: h.unknowns, estimate: h.estimate, iterations: h.pcgIterations, seconds: h.seconds };
+        steps.push(s);
+        onStep?.(s, steps.length - 1);
+      },
+    });
+    ({ solution, set } = r);
+    stopReason = r.stopReason;
+  } else {
+    const start = performance.now();
+    let last: { solution: SpaceTimeSolution; set: DoubleTree } | null = null;
+    stopReason = 'steps';
+    for (let L = 1; L <= 60 && steps.length < spec.maxSteps; L++) {
+      let next: DoubleTree;
+      try {
+        next = spec.strategy === 'sparse' ? DoubleTree.sparseGrid(domain, L, undefined, 4 * spec.maxDofs) : DoubleTree.fullGrid(domain, L, L, undefined, 4 * spec.maxDofs);
+      } catch (e) {
+        if (!(e instanceof InvalidArgumentError)) throw e;
+        next = null as unknown as DoubleTree;
+      }
+      if (!next || next.size > spec.maxDofs) {
+        if (!last) {
+          throw new InvalidArgumentError(`maxDofs: ${spec.maxDofs} is smaller than the ${spec.strategy} grid of level 1${next ? ` (${next.size} unknowns)` : ''}`, { field: 'maxDofs' });
+        }
+        stopReason = 'unknowns';
+        break;
+      }
+      const t0 = performance.now();
+      const solved = new SpaceTimeSystem(problem, next).solve({ relTol: 1e-8, maxIterations: 500 });
+      const estimate = residualIndicators(new SpaceTimeSystem(problem, enlargeDoubleTree(domain, next)), next, solved.pcg.solution).estimate;
+      const s = { dofs: next.size, estimate, iterations: solved.pcg.iterations, seconds: (performance.now() - t0) / 1000 };
+      steps.push(s);
+      onStep?.(s, steps.length - 1);
+      last = { solution: solved.solution, set: next };
+      if (estimate <= spec.tolerance) { stopReason = 'tolerance'; break; }
+      if ((performance.now() - start) / 1000 >= spec.maxSeconds) { stopReason = 'time'; break; }
+    }
+    ({ solution, set } = last!);
+  }
+  const probes = spec.probes.map((p) => {
+    const pt = p.slice(1);
+    const value = solution.evaluate(p[0]!, pt)[0]!;
+    return { t: p[0]!, x: pt[0]!, y: pt.length > 1 ? pt[1]! : null, value };
+  });
+  return { steps, probes, rate: observedRate(steps), solution, set, stopReason };
+}

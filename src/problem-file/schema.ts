@@ -1,0 +1,212 @@
+/**
+ * The problem-file format (JSON): field names, types, defaults and the checks made before any
+ * work. Every error is an {@link InvalidArgumentError} whose message starts with the field path
+ * (`domain.cells`, `probes[2]`) and says what was expected; unknown fields get the nearest valid
+ * name as a suggestion.
+ */
+import { InvalidArgumentError } from '../errors';
+import { compileExpression, type CompiledExpression } from './expression';
+import { nearestName } from './nearest-name';
+
+/** Spatial domain of a problem file. */
+export type DomainSpec =
+  | { shape: 'interval'; from: number; to: number; cells: number }
+  | { shape: 'rectangle'; from: [number, number]; to: [number, number]; cells: [number, number] }
+  | { shape: 'lshape'; cells: number }
+  | { shape: 'mesh'; points: number[][]; triangles: number[][] };
+
+/** A validated problem file with its expressions compiled. */
+export interface ProblemSpec {
+  title: string | null;
+  description: string | null;
+  domain: DomainSpec;
+  horizon: number;
+  diffusion: CompiledExpression;
+  reaction: CompiledExpression;
+  source: CompiledExpression;
+  initial: CompiledExpression;
+  insulated: CompiledExpression | null;
+  strategy: 'adaptive' | 'sparse' | 'full';
+  tolerance: number;
+  maxDofs: number;
+  maxSeconds: number;
+  maxSteps: number;
+  bulk: number;
+  /** Probe points as [t, x] or [t, x, y]. */
+  probes: number[][];
+  slices: number[];
+}
+
+/** Top-level fields of a problem file (the contract of the command line; additions only). */
+export const PROBLEM_FIELDS = [
+  'title', 'description', 'domain', 'horizon', 'diffusion', 'reaction', 'source', 'initial', 'insulated',
+  'strategy', 'tolerance', 'maxDofs', 'maxSeconds', 'maxSteps', 'bulk', 'probes', 'slices',
+] as const;
+
+const DOMAIN_FIELDS: Record<DomainSpec['shape'], string[]> = {
+  interval: ['shape', 'from', 'to', 'cells'],
+  rectangle: ['shape', 'from', 'to', 'cells'],
+  lshape: ['shape', 'cells'],
+  mesh: ['shape', 'points', 'triangles'],
+};
+
+/** Defaults of the optional fields. */
+export const PROBLEM_DEFAULTS = {
+  diffusion: '1', reaction: '0', source: '0', initial: '0', strategy: 'adaptive',
+  tolerance: 0, maxDofs: 20000, maxSeconds: 60, maxSteps: 200, bulk: 0.5,
+} as const;
+
+function bad(field: string, message: string, received?: unknown): never {
+  throw new InvalidArgumentError(`${field}: ${message}`, { field, received });
+}
+
+function typeName(v: unknown): string {
+  if (v === null) return 'null';
+  if (Array.isArray(v)) return 'an array';
+  if (typeof v === 'string') return `the string ${JSON.stringify(v.length > 30 ? v.slice(0, 30) + '…' : v)}`;
+  if (typeof v === 'object') return 'an object';
+  return `${typeof v} ${String(v)}`;
+}
+
+function checkKeys(obj: Record<string, unknown>, allowed: readonly string[], where: string): void {
+  for (const k of Object.keys(obj)) {
+    if (allowed.includes(k)) continue;
+    const hint = nearestName(k, allowed);
+    bad(where ? `${where}.${k}` : k, `unknown field${hint ? `; did you mean '${hint}'?` : ''} (valid: ${allowed.join(', ')})`, k);
+  }
+}
+
+function num(v: unknown, field: string, range: string, ok: (x: number) => boolean): number {
+  if (typeof v !== 'number' || !Number.isFinite(v)) bad(field, `must be a number ${range}, found ${typeName(v)}`, v);
+  if (!ok(v)) bad(field, `must be ${range}, found ${v}`, v);
+  return v;
+}
+
+function int(v: unknown, field: string, lo: number, hi: number): number {
+  return num(v, field, `(an integer in [${lo}, ${hi}])`, (x) => Number.isInteger(x) && x >= lo && x <= hi);
+}
+
+function pair(v: unknown, field: string): [number, number] {
+  if (!Array.isArray(v) || v.length !== 2) bad(field, `must be a pair [x, y], found ${typeName(v)}`, v);
+  return [num(v[0], `${field}[0]`, '(finite)', () => true), num(v[1], `${field}[1]`, '(finite)', () => true)];
+}
+
+function expression(obj: Record<string, unknown>, field: string, fallback: string, vars: ('t' | 'x' | 'y')[]): CompiledExpression {
+  const v = obj[field] ?? fallback;
+  if (typeof v !== 'string' && typeof v !== 'number') bad(field, `must be an expression string such as "1 + x*y" or a number, found ${typeName(v)}`, v);
+  return compileExpression(String(v), field, vars);
+}
+
+function parseDomain(v: unknown): DomainSpec {
+  if (v === undefined) bad('domain', 'is required, e.g. {"shape": "interval", "from": 0, "to": 1, "cells": 2}');
+  if (v === null || typeof v !== 'object' || Array.isArray(v)) bad('domain', `must be an object with a "shape", found ${typeName(v)}`, v);
+  const d = v as Record<string, unknown>;
+  const shapes = Object.keys(DOMAIN_FIELDS);
+  if (typeof d.shape !== 'string' || !shapes.includes(d.shape)) {
+    const hint = typeof d.shape === 'string' ? nearestName(d.shape, shapes) : null;
+    bad('domain.shape', `must be one of ${shapes.map((s) => `"${s}"`).join(', ')}, found ${typeName(d.shape)}${hint ? `; did you mean "${hint}"?` : ''}`, d.shape);
+  }
+  const shape = d.shape as DomainSpec['shape'];
+  checkKeys(d, DOMAIN_FIELDS[shape], 'domain');
+  switch (shape) {
+    case 'interval': {
+      const from = num(d.from, 'domain.from', '(finite)', () => true);
+      const to = num(d.to, 'domain.to', `(greater than domain.from = ${from})`, (x) => x > from);
+      const cells = d.cells === undefined ? 2 : int(d.cells, 'domain.cells', 1, 10000);
+      return { shape, from, to, cells };
+    }
+    case 'rectangle': {
+      const from = pair(d.from, 'domain.from');
+      const to = pair(d.to, 'domain.to');
+      if (!(to[0] > from[0] && to[1] > from[1])) bad('domain.to', `must exceed domain.from in both coordinates, found from ${JSON.stringify(from)} to ${JSON.stringify(to)}`);
+      let cells: [number, number];
+      if (d.cells === undefined) {
+        const w = to[0] - from[0], h = to[1] - from[1];
+        cells = [Math.max(1, Math.round(w / h)), Math.max(1, Math.round(h / w))];
+      } else {
+        if (!Array.isArray(d.cells) || d.cells.length !== 2) bad('domain.cells', `must be a pair [nx, ny], found ${typeName(d.cells)}`, d.cells);
+        cells = [int(d.cells[0], 'domain.cells[0]', 1, 10000), int(d.cells[1], 'domain.cells[1]', 1, 10000)];
+      }
+      return { shape, from, to, cells };
+    }
+    case 'lshape':
+      return { shape, cells: d.cells === undefined ? 1 : int(d.cells, 'domain.cells', 1, 1000) };
+    case 'mesh': {
+      if (!Array.isArray(d.points) || d.points.length < 3) bad('domain.points', `must be a list of at least 3 points [x, y], found ${typeName(d.points)}`, d.points);
+      if (!Array.isArray(d.triangles) || d.triangles.length < 1) bad('domain.triangles', `must be a list of triangles [i, j, k], found ${typeName(d.triangles)}`, d.triangles);
+      const points = (d.points as unknown[]).map((p, i) => pair(p, `domain.points[${i}]`));
+      const n = points.length;
+      const triangles = (d.triangles as unknown[]).map((tri, i) => {
+        if (!Array.isArray(tri) || tri.length !== 3) bad(`domain.triangles[${i}]`, `must be three point indices [i, j, k], found ${typeName(tri)}`, tri);
+        return tri.map((k, j) => int(k, `domain.triangles[${i}][${j}]`, 0, n - 1));
+      });
+      return { shape, points, triangles };
+    }
+  }
+}
+
+/**
+ * Validates a parsed problem file and compiles its expressions. Probes and slices are checked
+ * against the horizon here; probe points outside the domain are checked when the domain is built.
+ *
+ * @example
+ * ```ts
+ * import { parseProblem } from 'chronomesh/problem-file';
+ * const spec = parseProblem({ domain: { shape: 'interval', from: 0, to: 1, cells: 2 }, horizon: 1, initial: '1' });
+ * console.log(spec.strategy, spec.maxDofs); // → adaptive 20000
+ * ```
+ */
+export function parseProblem(json: unknown): ProblemSpec {
+  if (json === null || typeof json !== 'object' || Array.isArray(json)) bad('(top level)', `must be a JSON object, found ${typeName(json)}`);
+  const o = json as Record<string, unknown>;
+  checkKeys(o, PROBLEM_FIELDS, '');
+  const domain = parseDomain(o.domain);
+  if (o.horizon === undefined) bad('horizon', 'is required (the final time T > 0)');
+  const horizon = num(o.horizon, 'horizon', '> 0 (the final time T)', (x) => x > 0);
+  const dim = domain.shape === 'interval' ? 1 : 2;
+  const space: ('x' | 'y')[] = dim === 1 ? ['x'] : ['x', 'y'];
+  const strategies = ['adaptive', 'sparse', 'full'];
+  const strategy = o.strategy ?? PROBLEM_DEFAULTS.strategy;
+  if (typeof strategy !== 'string' || !strategies.includes(strategy)) {
+    const hint = typeof strategy === 'string' ? nearestName(strategy, strategies) : null;
+    bad('strategy', `must be "adaptive", "sparse" or "full", found ${typeName(strategy)}${hint ? `; did you mean "${hint}"?` : ''}`, strategy);
+  }
+  const text = (f: 'title' | 'description'): string | null => {
+    const v = o[f];
+    if (v === undefined) return null;
+    if (typeof v !== 'string') bad(f, `must be a string, found ${typeName(v)}`, v);
+    return v;
+  };
+  const list = (f: string): unknown[] => {
+    const v = o[f];
+    if (v === undefined) return [];
+    if (!Array.isArray(v)) bad(f, `must be a list, found ${typeName(v)}`, v);
+    return v;
+  };
+  const time = (v: unknown, field: string) => num(v, field, `in [0, horizon = ${horizon}]`, (t) => t >= 0 && t <= horizon);
+  const probes = list('probes').map((p, i) => {
+    const f = `probes[${i}]`;
+    if (!Array.isArray(p) || p.length !== dim + 1) bad(f, `must be ${dim === 1 ? '[t, x]' : '[t, x, y]'}, found ${typeName(p)}`, p);
+    return [time(p[0], `${f}[0] (t)`), ...p.slice(1).map((c, j) => num(c, `${f}[${j + 1}]`, '(finite)', () => true))];
+  });
+  const slices = list('slices').map((t, i) => time(t, `slices[${i}]`));
+  return {
+    title: text('title'),
+    description: text('description'),
+    domain,
+    horizon,
+    diffusion: expression(o, 'diffusion', PROBLEM_DEFAULTS.diffusion, space),
+    reaction: expression(o, 'reaction', PROBLEM_DEFAULTS.reaction, space),
+    source: expression(o, 'source', PROBLEM_DEFAULTS.source, ['t', ...space]),
+    initial: expression(o, 'initial', PROBLEM_DEFAULTS.initial, space),
+    insulated: o.insulated === undefined ? null : expression(o, 'insulated', '0', space),
+    strategy: strategy as ProblemSpec['strategy'],
+    tolerance: o.tolerance === undefined ? PROBLEM_DEFAULTS.tolerance : num(o.tolerance, 'tolerance', '≥ 0', (x) => x >= 0),
+    maxDofs: o.maxDofs === undefined ? PROBLEM_DEFAULTS.maxDofs : int(o.maxDofs, 'maxDofs', 1, 1e8),
+    maxSeconds: o.maxSeconds === undefined ? PROBLEM_DEFAULTS.maxSeconds : num(o.maxSeconds, 'maxSeconds', '> 0', (x) => x > 0),
+    maxSteps: o.maxSteps === undefined ? PROBLEM_DEFAULTS.maxSteps : int(o.maxSteps, 'maxSteps', 1, 10000),
+    bulk: o.bulk === undefined ? PROBLEM_DEFAULTS.bulk : num(o.bulk, 'bulk', 'in (0, 1) (the Dörfler parameter θ)', (x) => x > 0 && x < 1),
+    probes,
+    slices,
+  };
+}

@@ -1,0 +1,102 @@
+/** `chronomesh solve` end to end through the real command line, checked against a closed form. */
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { ROOT, runCli } from './spawn';
+
+const dir = mkdtempSync(join(tmpdir(), 'chronomesh-solve-'));
+
+/** u(t, x) for u0 ≡ 1 on (0, 1), u = 0 at both ends (Fourier series; Carslaw & Jaeger, Conduction of Heat in Solids, §3.3). */
+function rodSeries(t: number, x: number): number {
+  let s = 0;
+  for (let n = 1; n < 4001; n += 2) s += (4 / (n * Math.PI)) * Math.sin(n * Math.PI * x) * Math.exp(-n * n * Math.PI * Math.PI * t);
+  return s;
+}
+
+describe('chronomesh solve', () => {
+  const problem = join(dir, 'rod.json');
+  writeFileSync(problem, JSON.stringify({
+    domain: { shape: 'interval', from: 0, to: 1, cells: 2 }, horizon: 1, initial: '1', maxDofs: 3000,
+    probes: [[0.05, 0.5], [0.1, 0.1], [0.3, 0.5]], slices: [0.02, 0.5],
+  }));
+  const out = join(dir, 'out');
+  const json = runCli(['solve', problem, '--json', `--out=${out}`]);
+  const quiet = runCli(['solve', problem, '--json', '--quiet']);
+
+  it('--json prints exactly one JSON document with steps, probes and rate; progress goes to stderr', async () => {
+    const r = await json;
+    expect(r.status, r.stderr).toBe(0);
+    const lines = r.stdout.trimEnd().split('\n');
+    expect(lines.length).toBe(1);
+    const doc = JSON.parse(lines[0]!) as { steps: { dofs: number; estimate: number; iterations: number; seconds: number }[]; probes: { t: number; x: number; y: number | null; value: number }[]; rate: number };
+    expect(Object.keys(doc)).toEqual(['steps', 'probes', 'rate']);
+    expect(doc.steps.length).toBeGreaterThan(3);
+    for (const s of doc.steps) expect(Object.keys(s)).toEqual(['dofs', 'estimate', 'iterations', 'seconds']);
+    expect(doc.steps[doc.steps.length - 1]!.dofs).toBeLessThanOrEqual(3000);
+    // One progress line per step on stderr.
+    expect(r.stderr.trimEnd().split('\n').filter((l) => /^step \d+: \d+ dofs/.test(l)).length).toBe(doc.steps.length);
+    // Probe values against the Fourier series (the adaptive solution is accurate to a few per mille here).
+    for (const p of doc.probes) {
+      expect(p.y).toBeNull();
+      expect(Math.abs(p.value - rodSeries(p.t, p.x))).toBeLessThan(0.02);
+    }
+    // rate = least-squares slope of −log E against log N over the second half of the steps.
+    const tail = doc.steps.slice(Math.floor(doc.steps.length / 2));
+    const X = tail.map((s) => Math.log(s.dofs)), Y = tail.map((s) => -Math.log(s.estimate));
+    const n = X.length, sx = X.reduce((a, b) => a + b), sy = Y.reduce((a, b) => a + b);
+    const sxy = X.reduce((a, x, i) => a + x * Y[i]!, 0), sxx = X.reduce((a, x) => a + x * x, 0);
+    expect(doc.rate).toBeCloseTo((n * sxy - sx * sy) / (n * sxx - sx * sx), 10);
+    expect(doc.rate).toBeGreaterThan(0.3); // the adaptive estimator decreases (README: about N^-0.8 for this problem)
+  }, 300000);
+
+  it('--quiet keeps stderr empty', async () => {
+    const r = await quiet;
+    expect(r.status).toBe(0);
+    expect(r.stderr).toBe('');
+  }, 300000);
+
+  it('--out writes history (JSON, CSV), probes (CSV), slices (.vtu + .pvd) and SVG pictures', async () => {
+    expect((await json).status).toBe(0);
+    for (const f of ['history.json', 'history.csv', 'probes.csv', 'slices.pvd', 'slice-0000.vtu', 'slice-0001.vtu', 'slice-0000.svg', 'history.svg']) {
+      expect(existsSync(join(out, f)), f).toBe(true);
+    }
+    const csv = readFileSync(join(out, 'probes.csv'), 'utf8').trim().split('\n');
+    expect(csv[0]).toBe('t,x,y,value');
+    expect(csv.length).toBe(4);
+    const pvd = readFileSync(join(out, 'slices.pvd'), 'utf8');
+    expect(pvd).toContain('timestep="0.02"');
+    expect(pvd).toContain('file="slice-0001.vtu"');
+    const hist = readFileSync(join(out, 'history.csv'), 'utf8').trim().split('\n');
+    expect(hist[0]).toBe('step,dofs,estimate,iterations,seconds');
+  }, 300000);
+});
+
+describe('chronomesh --version and --help', () => {
+  const runs = Promise.all([['--version'], ['--help'], ['solve', '--help'], ['bench', '--help'], ['demo', '--help'], []].map((a) => runCli(a)));
+  it('--version prints the package version', async () => {
+    const [v] = await runs;
+    expect(v!.status).toBe(0);
+    expect(v!.stdout.trim()).toBe(JSON.parse(readFileSync(join(ROOT, 'package.json'), 'utf8')).version);
+  }, 120000);
+  it('--help on each command exits 0 and the solve/main help carry the safety caution', async () => {
+    const [, main, solve, bench, demo, none] = await runs;
+    for (const r of [main!, solve!, bench!, demo!]) expect(r.status).toBe(0);
+    expect(solve!.stdout).toMatch(/usage: chronomesh solve PROBLEM\.json/);
+    expect(bench!.stdout).toMatch(/usage: chronomesh bench/);
+    for (const r of [main!, solve!, demo!]) {
+      expect(r.stdout).toMatch(/thermal safety/);
+      expect(r.stdout).toMatch(/medical heating/);
+      expect(r.stdout).toMatch(/fire\s+protection/);
+      expect(r.stdout).toMatch(/licensed engineer/);
+    }
+    expect(none!.status).toBe(2); // no command: help, status 2
+  }, 120000);
+  it('bench runs the expr. rows as JSON', async () => {
+    const r = await runCli(['bench', 'expr.', '--json', '--quick']);
+    expect(r.status, r.stderr).toBe(0);
+    const rows = JSON.parse(r.stdout.trim()).rows as { component: string; nsPerUnit: number }[];
+    expect(rows.map((x) => x.component)).toEqual(['expr.source-gaussian', 'expr.source-moving', 'expr.coefficient-layers']);
+    for (const x of rows) expect(x.nsPerUnit).toBeGreaterThan(0);
+  }, 120000);
+});
