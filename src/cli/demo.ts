@@ -100,7 +100,7 @@ function bracketHotSpot(quick: boolean, out: string): void {
   }
   const times = Array.from({ length: 11 }, (_, i) => i / 10);
   saveSlices(out, 'bracket', solution, times);
-  for (const t of [0.05, 0.5]) save(out, `bracket-t${t}.svg`, sliceToSvg(solution.slice(t), { title: `L-shaped bracket, temperature at t = ${t}`, range: [0, 1] }));
+  for (const t of [0.05, 0.5]) save(out, `bracket-t${t}.svg`, sliceToSvg(solution.slice(t), { title: `L-shaped bracket, temperature at t = ${t}`, quantity: 'temperature' }));
   save(out, 'bracket-probes.csv', probeTableCsv(solution, times, [[-0.5, 0.5], [0.5, 0.5], [-0.5, -0.5]]));
 }
 
@@ -181,7 +181,7 @@ function adaptiveBracket(quick: boolean, out: string): void {
   for (const t of [1e-3, 0.05]) {
     const slice = res.solution.slice(t);
     console.log(`  slice t = ${t}: leaf mesh with ${slice.mesh.vertexCount} vertices, ${slice.mesh.elementCount} triangles`);
-    save(out, `bracket-adaptive-t${t}.svg`, sliceToSvg(slice, { title: `adaptive solution at t = ${t}`, range: [0, 1] }));
+    save(out, `bracket-adaptive-t${t}.svg`, sliceToSvg(slice, { title: `adaptive solution at t = ${t}`, quantity: 'temperature' }));
   }
   save(out, 'bracket-adaptive.json', JSON.stringify(res.history, null, 2) + '\n');
 }

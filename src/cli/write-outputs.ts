@@ -1,7 +1,7 @@
 /** Files written by `chronomesh solve --out DIR`. */
 import { accessSync, constants, mkdirSync, unlinkSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { convergencePlotSvg, sliceToSvg, sliceToVtu, vtkCollection } from '../index';
+import { convergencePlotSvg, indexSetToSvg, sliceToSvg, sliceToVtu, vtkCollection } from '../index';
 import type { ProblemSpec, RunResult } from '../problem-file/index';
 import { CliError } from './cli-error';
 
@@ -44,11 +44,17 @@ export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): st
     const file = `slice-${String(i).padStart(4, '0')}.vtu`;
     const slice = run.solution.slice(t);
     save(file, sliceToVtu(slice, 'u'));
-    save(`slice-${String(i).padStart(4, '0')}.svg`, sliceToSvg(slice, { title: `${name}, t = ${t}` }));
+    save(`slice-${String(i).padStart(4, '0')}.svg`, sliceToSvg(slice, { title: `${name}, t = ${t}`, quantity: 'u' }));
     return { t, file };
   });
   save('slices.pvd', vtkCollection(entries));
   const pts = run.steps.filter((s) => s.estimate > 0).map((s) => [s.dofs, s.estimate] as [number, number]);
   if (pts.length > 0) save('history.svg', convergencePlotSvg([{ label: spec.strategy, points: pts }], { title: `${name}: residual estimator`, yLabel: 'estimator E' }));
+  const dim = run.solution.domain.dim;
+  const meshTimes = times.filter((t) => t > 0).slice(0, 3);
+  save('index-set.svg', indexSetToSvg(run.solution.domain, run.set, spec.horizon, {
+    title: `${name}: space-time index set (${run.set.size} unknowns)`,
+    ...(dim === 1 ? { logTime: true } : meshTimes.length > 0 ? { times: meshTimes } : {}),
+  }));
   return written;
 }

@@ -4,3 +4,4 @@ export { sliceToVtu, vtkCollection } from './vtk';
 export { spatialIntegral, regionIntegral, probeTableCsv } from './probes';
 export { convergencePlotSvg, type PlotSeries, type PlotOptions } from './svg-plot';
 export { sliceToSvg, type SliceSvgOptions } from './svg-slice';
+export { indexSetToSvg, type IndexSetSvgOptions } from './svg-index-set';
