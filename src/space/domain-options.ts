@@ -1,4 +1,5 @@
 /** Options shared by all spatial domain constructors (docs/method.md §1, §4.1). */
+import type { BoundaryPart } from './boundary';
 
 /**
  * A coefficient given as one constant, one value per initial element, or a function sampled at
@@ -36,4 +37,9 @@ export interface DomainOptions {
    * or a list of boundary edges `[i, j]` by initial vertex index (in 1D: `[i]` with i = 0 or `cells`).
    */
   insulated?: ((mx: number, my: number) => boolean) | number[][];
+  /**
+   * Boundary parts with prescribed value, flux or convection (see {@link BoundaryPart}), applied in
+   * order after `insulated`; a later part overrides an earlier one on the edges both select.
+   */
+  boundary?: BoundaryPart[];
 }

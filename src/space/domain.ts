@@ -13,6 +13,7 @@ import { extractLeafMesh } from './leaf-mesh-extraction';
 import { LeafLocator } from './point-location';
 import { adaptedSet, refineAll, refineInterior, refineTowards, uniformSet } from './refinement';
 import { VertexClosure } from './vertex-closure';
+import type { BoundaryPart } from './boundary';
 
 /**
  * A spatial domain Ω with its lazily grown bisection forest. Build one with
@@ -47,6 +48,11 @@ export class SpatialDomain {
     this.forest = new BisectionForest(init);
     this.closure = new VertexClosure(this.forest);
     this.locator = new LeafLocator(this.closure);
+  }
+
+  /** The boundary parts this domain was built with (value, flux, convection; see {@link BoundaryPart}). */
+  get boundaryParts(): readonly BoundaryPart[] {
+    return this.forest.boundary.parts.map((p) => p.spec);
   }
 
   /** Vertices created so far (grows as the forest is refined). */

@@ -11,6 +11,7 @@
  * coordinate differences (which lose accuracy at large depth). Per element the loops read three
  * vertex indices, a class id, a material id and a generation byte; the tables are small.
  */
+import { applyRobinNodal, robinSegments, type RobinSegments } from './boundary-segments';
 import type { BisectionForest } from './forest';
 import type { LeafMesh } from './leaf-mesh';
 
@@ -33,6 +34,8 @@ export interface ElementTables {
   /** 2^{−g} and 2^{g} for g = 0 … 255. */
   readonly pow2neg: Float64Array;
   readonly pow2pos: Float64Array;
+  /** Convection boundary mass h ∫_Γ u v (part of the stiffness A; see ./boundary). */
+  readonly robin: RobinSegments;
 }
 
 const POW2NEG = Float64Array.from({ length: 256 }, (_, g) => 2 ** -g);
@@ -73,6 +76,7 @@ export function elementTables(forest: BisectionForest, mesh: LeafMesh & { readon
     stiffBase,
     pow2neg: POW2NEG,
     pow2pos: POW2POS,
+    robin: robinSegments(mesh),
   };
 }
 
@@ -92,6 +96,7 @@ export function applyElementsNodal(t: ElementTables, u: Float64Array, r: Float64
       r[i0] = r[i0]! + du + m * (2 * u0 + u1);
       r[i1] = r[i1]! - du + m * (u0 + 2 * u1);
     }
+    if (t.robin.count > 0) applyRobinNodal(t.robin, u, r, wa);
     return;
   }
   const sk = t.shapeK, sh = t.shape;
@@ -107,6 +112,7 @@ export function applyElementsNodal(t: ElementTables, u: Float64Array, r: Float64
     r[i1] = r[i1]! + k * (k01 * u0 + k11 * u1 + k12 * u2) + m * (u1 + s);
     r[i2] = r[i2]! + k * (k02 * u0 + k12 * u1 + k22 * u2) + m * (u2 + s);
   }
+  if (t.robin.count > 0) applyRobinNodal(t.robin, u, r, wa);
 }
 
 /** rM += M u and rA += (K + C) u. */
@@ -128,6 +134,7 @@ export function applyElementsNodalSplit(t: ElementTables, u: Float64Array, rM: F
       rA[i0] = rA[i0]! + du + c * a0;
       rA[i1] = rA[i1]! - du + c * a1;
     }
+    if (t.robin.count > 0) applyRobinNodal(t.robin, u, rA, 1);
     return;
   }
   const sk = t.shapeK, sh = t.shape;
@@ -147,6 +154,7 @@ export function applyElementsNodalSplit(t: ElementTables, u: Float64Array, rM: F
     rA[i1] = rA[i1]! + k * (k01 * u0 + k11 * u1 + k12 * u2) + c * a1;
     rA[i2] = rA[i2]! + k * (k02 * u0 + k12 * u1 + k22 * u2) + c * a2;
   }
+  if (t.robin.count > 0) applyRobinNodal(t.robin, u, rA, 1);
 }
 
 /** r += M uM + (K + C) uA. */
@@ -165,6 +173,7 @@ export function applyElementsNodalSum(t: ElementTables, uM: Float64Array, uA: Fl
       r[i0] = r[i0]! + du + m * (2 * p0 + p1) + c * (2 * q0 + q1);
       r[i1] = r[i1]! - du + m * (p0 + 2 * p1) + c * (q0 + 2 * q1);
     }
+    if (t.robin.count > 0) applyRobinNodal(t.robin, uA, r, 1);
     return;
   }
   const sk = t.shapeK, sh = t.shape;
@@ -181,4 +190,5 @@ export function applyElementsNodalSum(t: ElementTables, uM: Float64Array, uA: Fl
     r[i1] = r[i1]! + k * (k01 * q0 + k11 * q1 + k12 * q2) + m * (p1 + sp) + c * (q1 + sq);
     r[i2] = r[i2]! + k * (k02 * q0 + k12 * q1 + k22 * q2) + m * (p2 + sp) + c * (q2 + sq);
   }
+  if (t.robin.count > 0) applyRobinNodal(t.robin, uA, r, 1);
 }

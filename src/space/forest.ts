@@ -18,7 +18,8 @@
  * measures are exact: |child| = |parent| / 2.
  */
 import { InvalidMeshError } from '../errors';
-import { DIRICHLET_EDGE, INSULATED_EDGE, type InitialMesh } from './initial-mesh';
+import type { BoundaryTables } from './boundary';
+import { DIRICHLET_EDGE, type InitialMesh } from './initial-mesh';
 
 export class BisectionForest {
   readonly dim: 1 | 2;
@@ -27,6 +28,8 @@ export class BisectionForest {
   readonly initialElementCount: number;
   readonly kappa: Float64Array;
   readonly reaction: Float64Array;
+  /** Boundary parts per initial boundary edge (./boundary). */
+  readonly boundary: BoundaryTables;
 
   vertexCount = 0;
   elementCount = 0;
@@ -68,6 +71,7 @@ export class BisectionForest {
     this.initialElementCount = neInit;
     this.kappa = init.kappa;
     this.reaction = init.reaction;
+    this.boundary = init.boundary;
     const vc = Math.max(16, 2 * nvInit);
     const ec = Math.max(16, 2 * neInit);
     this.vCoord = new Float64Array(vc * d);
@@ -314,9 +318,9 @@ export class BisectionForest {
       nb2[3 * t1] = n2;
       nb2[3 * t2 + 1] = n1;
     } else {
-      const code = n === INSULATED_EDGE ? INSULATED_EDGE : DIRICHLET_EDGE;
-      this.eNb[3 * t1] = code;
-      this.eNb[3 * t2 + 1] = code;
+      // Both halves of a boundary edge keep its code (Dirichlet, insulated or natural edge b).
+      this.eNb[3 * t1] = n;
+      this.eNb[3 * t2 + 1] = n;
     }
     return m;
   }

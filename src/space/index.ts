@@ -1,5 +1,6 @@
 /** Public exports of the space module (re-exported by src/index.ts). */
 export type { Coefficient, DomainOptions } from './domain-options';
+export type { BoundaryData, BoundarySelector, BoundaryPart, ValuePart, FluxPart, ConvectionPart } from './boundary';
 export { SpatialDomain } from './domain';
 export { intervalDomain, triangulatedDomain, rectangleDomain, lShapeDomain, squareWithHoleDomain } from './generators';
 export { SpatialOperatorPlan } from './operator-plan';

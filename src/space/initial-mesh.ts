@@ -9,6 +9,7 @@ import { InvalidArgumentError, InvalidMeshError, describeValue } from '../errors
 import type { Coefficient, DomainOptions } from './domain-options';
 import { checkNoHangingNodes } from './hanging-nodes';
 import { checkNoOverlap } from './mesh-overlap';
+import { EdgeKind, buildBoundaryTables, isValueKind, naturalEdgeCode, type BoundaryTables } from './boundary';
 
 /** Neighbour code of a Dirichlet boundary edge. */
 export const DIRICHLET_EDGE = -1;
@@ -26,6 +27,8 @@ export interface InitialMesh {
   readonly vertexFree: Uint8Array;
   readonly kappa: Float64Array;
   readonly reaction: Float64Array;
+  /** Boundary parts per initial boundary edge (see ./boundary). */
+  readonly boundary: BoundaryTables;
   /** Number of clockwise input triangles that were reoriented. */
   readonly reoriented: number;
 }
@@ -131,15 +134,16 @@ export function sampleCoefficient(
   return out;
 }
 
-function requireSomeDirichletOrReaction(vertexFree: Uint8Array, reaction: Float64Array): void {
+function requireSomeDirichletOrReaction(vertexFree: Uint8Array, reaction: Float64Array, boundary: BoundaryTables): void {
   let anyDirichlet = false;
   for (let i = 0; i < vertexFree.length; i++) if (vertexFree[i] === 0) anyDirichlet = true;
-  if (anyDirichlet) return;
+  if (anyDirichlet || boundary.hasConvection) return;
   for (let e = 0; e < reaction.length; e++) if (reaction[e]! > 0) return;
   throw new InvalidMeshError(
-    'the whole boundary is insulated and the reaction coefficient is zero everywhere: the spatial form is then not coercive ' +
-      '(constants have zero energy), so the problem has no unique solution; declare part of the boundary Dirichlet or give reaction > 0 somewhere',
-    { field: 'insulated', expected: 'some Dirichlet boundary, or reaction > 0 on some element', received: 'all boundary insulated' },
+    'the whole boundary is insulated (or carries a prescribed flux, or convects with h = 0) and the reaction coefficient is zero everywhere: ' +
+      'the spatial form is then not coercive (constants have zero energy), so the problem has no unique solution; ' +
+      'hold part of the boundary at a value, give a convective part h > 0, or give reaction > 0 somewhere',
+    { field: 'boundary', expected: 'some value part, some convection with h > 0, or reaction > 0 on some element', received: 'all boundary insulated or flux' },
   );
 }
 
@@ -198,10 +202,15 @@ export function buildIntervalMesh(a: number, b: number, cells: number, opts: Dom
       }
     });
   }
-  vertexFree[0] = insA ? 1 : 0;
-  vertexFree[cells] = insB ? 1 : 0;
-  requireSomeDirichletOrReaction(vertexFree, reaction);
-  return { dim: 1, coords, elements, neighbors: new Int32Array(0), vertexFree, kappa, reaction, reoriented: 0 };
+  const edges = Int32Array.from([0, 0, cells, cells]);
+  const boundary = buildBoundaryTables(1, coords, cells + 1, edges, Uint8Array.from([insA ? 1 : 0, insB ? 1 : 0]), opts.boundary, (item) => {
+    const i = Array.isArray(item) && item.length === 1 ? item[0] : NaN;
+    return i === 0 ? 0 : i === cells ? 1 : -1;
+  });
+  vertexFree[0] = isValueKind(boundary.edgeKind[0]!) ? 0 : 1;
+  vertexFree[cells] = isValueKind(boundary.edgeKind[1]!) ? 0 : 1;
+  requireSomeDirichletOrReaction(vertexFree, reaction, boundary);
+  return { dim: 1, coords, elements, neighbors: new Int32Array(0), vertexFree, kappa, reaction, boundary, reoriented: 0 };
 }
 
 /** Edge bookkeeping uses Maps, which hold at most 2^24 entries; ~1.5 edges per triangle. */
@@ -241,12 +250,13 @@ export function buildTriangulation(
   checkConnected(neighbors);
   checkNoOverlap(coords, elements, neighbors);
   labelBoundaryKinds(opts.insulated, coords, bEdges, neighbors);
+  const boundary = applyBoundaryParts(opts, coords, bEdges, neighbors);
   const vertexFree = freeVertices(nv, bEdges, neighbors);
   const centroids = elementCentroids(coords, elements);
   const kappa = sampleCoefficient(opts.kappa, 1, centroids, 'kappa');
   const reaction = sampleCoefficient(opts.reaction, 0, centroids, 'reaction');
-  requireSomeDirichletOrReaction(vertexFree, reaction);
-  return { dim: 2, coords, elements, neighbors, vertexFree, kappa, reaction, reoriented };
+  requireSomeDirichletOrReaction(vertexFree, reaction, boundary);
+  return { dim: 2, coords, elements, neighbors, vertexFree, kappa, reaction, boundary, reoriented };
 }
 
 /** Every coordinate is a finite number. */
@@ -457,6 +467,30 @@ function labelBoundaryKinds(ins: DomainOptions['insulated'], coords: Float64Arra
       neighbors[slot] = INSULATED_EDGE;
     });
   }
+}
+
+/** Boundary parts (./boundary) override the insulated / zero-value defaults edge by edge. */
+function applyBoundaryParts(opts: DomainOptions, coords: Float64Array, bEdges: number[], neighbors: Int32Array): BoundaryTables {
+  const nv = coords.length / 2;
+  const nbe = bEdges.length / 3;
+  const edgeVerts = new Int32Array(2 * nbe);
+  const insulatedDefault = new Uint8Array(nbe);
+  const edgeIndex = new Map<number, number>();
+  for (let b = 0; b < nbe; b++) {
+    edgeVerts[2 * b] = bEdges[3 * b + 1]!;
+    edgeVerts[2 * b + 1] = bEdges[3 * b + 2]!;
+    insulatedDefault[b] = neighbors[bEdges[3 * b]!] === INSULATED_EDGE ? 1 : 0;
+    edgeIndex.set(edgeKey(bEdges[3 * b + 1]!, bEdges[3 * b + 2]!, nv), b);
+  }
+  const boundary = buildBoundaryTables(2, coords, nv, edgeVerts, insulatedDefault, opts.boundary, (item) => {
+    const ok = Array.isArray(item) && item.length === 2 && Number.isInteger(item[0]) && Number.isInteger(item[1]);
+    return ok ? (edgeIndex.get(edgeKey(item[0] as number, item[1] as number, nv)) ?? -1) : -1;
+  });
+  for (let b = 0; b < nbe; b++) {
+    const k = boundary.edgeKind[b]!;
+    neighbors[bEdges[3 * b]!] = isValueKind(k) ? DIRICHLET_EDGE : k === EdgeKind.Insulated ? INSULATED_EDGE : naturalEdgeCode(b);
+  }
+  return boundary;
 }
 
 /** Free flags: every vertex of a Dirichlet edge carries no unknown. */

@@ -2,6 +2,7 @@
  * Extraction of the leaf mesh of a closed vertex set from the bisection forest, in the local
  * numbering of ./leaf-mesh.ts (docs/method.md §4.1–4.2). Linear in the size of the closure.
  */
+import { leafBoundarySegments } from './boundary-segments';
 import type { LeafMesh } from './leaf-mesh';
 import type { VertexClosure } from './vertex-closure';
 
@@ -55,11 +56,13 @@ export function extractLeafMesh(closure: VertexClosure, set: Int32Array, field =
     for (let k = 0; k < nv; k++) elements[i * nv + k] = local[f.eVert[e * nv + k]!]!;
     elementMaterial[i] = f.eMat[e]!;
   }
+  const boundarySegments = leafBoundarySegments(f, forestElement, local);
   const memberLocal = new Int32Array(set.length);
   for (let i = 0; i < set.length; i++) memberLocal[i] = local[set[i]!]!;
   for (let i = 0; i < n; i++) local[globalId[i]!] = -1;
   closure.unmark(n);
   return {
+    boundarySegments,
     dim: closure.dim,
     vertexCount: n,
     globalId,

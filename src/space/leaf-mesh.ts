@@ -1,3 +1,5 @@
+import type { BoundarySegments } from './boundary-segments';
+
 /**
  * The leaf mesh of a closed vertex set (docs/method.md §4.1–4.2) in local numbering.
  *
@@ -31,4 +33,6 @@ export interface LeafMesh {
   readonly kappa: Float64Array;
   /** Reaction coefficient c per initial element. */
   readonly reaction: Float64Array;
+  /** Leaf-element edges on flux / convection parts of the boundary (absent if the domain has none). */
+  readonly boundarySegments?: BoundarySegments;
 }

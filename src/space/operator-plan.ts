@@ -146,6 +146,18 @@ export class SpatialOperatorPlan {
     this.gatherBack(this.r2, yA, yAOff);
   }
 
+  /**
+   * r += M uM + A uA for NODAL vectors of length `mesh.vertexCount` (no transforms, no gathers);
+   * used for boundary-value liftings whose nodal values sit on Dirichlet vertices.
+   */
+  addNodalSum(uM: Float64Array, uA: Float64Array, r: Float64Array): void {
+    const n = this.mesh.vertexCount;
+    this.check(uM, 0, n, 'uM');
+    this.check(uA, 0, n, 'uA');
+    this.check(r, 0, n, 'r');
+    applyElementsNodalSum(this.rec, uM, uA, r);
+  }
+
   /** y = M xM + A xA with one transposed transform. */
   applySum(xM: Float64Array, xMOff: number, xA: Float64Array, xAOff: number, y: Float64Array, yOff: number): void {
     this.check(xM, xMOff, this.inSet.length, 'xM');

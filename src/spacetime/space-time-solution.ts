@@ -7,6 +7,9 @@
  * used in, their fibre functions combine on the union of their fibres by
  * adding coefficients. Finding those functions scans every temporal node of
  * the set (O(#nodes) per time; a descent from the roots would be O(levels)).
+ *
+ * With prescribed boundary values the coefficients are those of w = u − G, G the lifting of
+ * the values (src/space/boundary-lifting.ts); evaluation, grids and slices return u = w + G.
  */
 import { ndarray } from '../vendor/ndarray';
 import type { GridView } from './grid-view';
@@ -15,6 +18,7 @@ import { evaluateTemporal } from '../time/index';
 import { SpatialDomain, evaluateAt, nodalValues } from '../space/index';
 import { checkSetOnDomain } from '../spacetime/set-checks';
 import type { LeafMesh } from '../space/leaf-mesh';
+import { liftingOf } from '../space/boundary-lifting';
 import type { DoubleTree } from './double-tree';
 import { positionsIn, unionSorted } from './fibre-pool';
 import { checkFloat64Array, checkInstance, checkMemory, checkNumber, checkNumberArray, checkOptions } from '../validation/index';
@@ -79,7 +83,9 @@ export class SpaceTimeSolution {
   /** u(t, x) at the given points (`[x0, x1, …]` in 1D, `[x0, y0, x1, y1, …]` in 2D). */
   evaluate(t: number, points: ArrayLike<number>): Float64Array {
     const { set, coeffs } = this.spatialCoefficients(t);
-    return evaluateAt(this.domain, set, coeffs, points);
+    const out = evaluateAt(this.domain, set, coeffs, points);
+    liftingOf(this.domain.forest).addAtPoints(t, points, out);
+    return out;
   }
 
   /**
@@ -128,6 +134,7 @@ export class SpaceTimeSolution {
       const { set, coeffs } = this.spatialCoefficients(times[k]!);
       const view = data.subarray(k * nx * ny, (k + 1) * nx * ny);
       evaluateAt(this.domain, set, coeffs, pts, view, { outside });
+      liftingOf(this.domain.forest).addAtPoints(times[k]!, pts, view);
     }
     return ndarray(data, d === 1 ? [times.length, nx] : [times.length, nx, ny]);
   }
@@ -136,6 +143,7 @@ export class SpaceTimeSolution {
   slice(t: number): TimeSlice {
     const { set, coeffs } = this.spatialCoefficients(t);
     const { mesh, values } = nodalValues(this.domain, set, coeffs);
+    liftingOf(this.domain.forest).addNodal(mesh, t, values);
     return { t, mesh, values };
   }
 }

@@ -18,6 +18,7 @@ import { validateSolveOptions, type SystemSolveOptions } from './pcg-options';
 import { validateSystemOptions } from './system-options';
 import { checkSetOnDomain } from '../spacetime/set-checks';
 import { BYTES_PER_SYSTEM_UNKNOWN, checkInstance, checkMemory } from '../validation/index';
+import { addBoundaryLoads, subtractInitialLifting } from './boundary-data-load';
 import { initialLoad, sourceLoad } from './right-hand-side';
 import { SchurOperator } from './schur-operator';
 import { TestInnerProductInverse } from './test-inner-product-inverse';
@@ -125,22 +126,34 @@ export class SpaceTimeSystem {
    */
   rightHandSide(data?: Pick<HeatProblemSpec, 'initial' | 'source'>): Float64Array {
     const problem = data ? new HeatProblem({ domain: this.problem.domain, T: this.problem.T, ...data }) : this.problem;
-    const lf = data ? sourceLoad(problem, this.testSet) : this.ownSourceLoad();
+    const lf = data ? this.dataSourceLoad(problem) : this.ownSourceLoad();
     const v = new Float64Array(this.testSet.size);
     this.KY.apply(lf, v);
     const b = new Float64Array(this.trialSet.size);
     this.Bt.apply(v, b);
-    this.G.addTraced(data ? initialLoad(problem, this.G.traceFibre) : this.ownInitialLoad(), b, 1);
+    this.G.addTraced(data ? this.dataInitialLoad(problem) : this.ownInitialLoad(), b, 1);
     return b;
   }
 
   private lf: Float64Array | null = null;
   private l0: Float64Array | null = null;
   private ownSourceLoad(): Float64Array {
-    return (this.lf ??= sourceLoad(this.problem, this.testSet));
+    return (this.lf ??= this.dataSourceLoad(this.problem));
   }
   private ownInitialLoad(): Float64Array {
-    return (this.l0 ??= initialLoad(this.problem, this.G.traceFibre));
+    return (this.l0 ??= this.dataInitialLoad(this.problem));
+  }
+  /** ℓ_f plus the boundary data (flux, convection, lifting of held values: ./boundary-data-load). */
+  private dataSourceLoad(problem: HeatProblem): Float64Array {
+    const lf = sourceLoad(problem, this.testSet);
+    addBoundaryLoads(problem.domain, problem.T, this.testSet, this.plans, lf);
+    return lf;
+  }
+  /** ℓ_0 minus the lifting's initial trace ∫ G(0) φ. */
+  private dataInitialLoad(problem: HeatProblem): Float64Array {
+    const l0 = initialLoad(problem, this.G.traceFibre);
+    if (l0.length > 0) subtractInitialLifting(problem.domain, this.plans, this.trialSet.pool.intern(this.G.traceFibre), l0);
+    return l0;
   }
 
   /**

@@ -15,6 +15,7 @@
  * have passed `validateLeafMesh` (indices, materials, coefficients).
  */
 import { InvalidMeshError } from '../../errors';
+import { robinSegments } from '../boundary-segments';
 import type { LeafMesh } from '../leaf-mesh';
 import { PairedRows } from './paired-rows';
 
@@ -48,8 +49,33 @@ export function assemblePair(mesh: LeafMesh, reserve = 0, capacity: Int32Array =
   const sizes = exactSizes(mesh);
   if (mesh.dim === 1) assemble1d(mesh, rows, sizes);
   else assemble2d(mesh, rows, sizes);
+  addConvection(mesh, rows);
   return rows;
 }
+
+/**
+ * Adds the convection boundary mass h ∫_Γ u v (h|s|/6 [2 1; 1 2] per segment, ../boundary) to K
+ * on the free vertices, so the V-cycle's fine matrix, its Galerkin coarse matrices and the exact
+ * coarse solve all carry the boundary term.
+ */
+function addConvection(mesh: LeafMesh, rows: PairedRows): void {
+  const rs = robinSegments(mesh);
+  const free = mesh.isFree;
+  for (let s = 0; s < rs.count; s++) {
+    const a = rs.vertices[2 * s]!, b = rs.vertices[2 * s + 1]!, w = rs.weight[s]!;
+    if (a === b) {
+      if (free[a]) rows.diag[2 * a] = rows.diag[2 * a]! + 6 * w;
+      continue;
+    }
+    if (free[a]) rows.diag[2 * a] = rows.diag[2 * a]! + 2 * w;
+    if (free[b]) rows.diag[2 * b] = rows.diag[2 * b]! + 2 * w;
+    if (free[a] && free[b]) {
+      rows.add(a, b, w, 0);
+      rows.add(b, a, w, 0);
+    }
+  }
+}
+
 
 /**
  * Exact element sizes (see the file comment) without a per-element array: the size of leaf e is
