@@ -16,6 +16,21 @@ const domains: [string, () => SpatialDomain][] = [
     [[0, 1, 3], [1, 2, 3], [0, 3, 4], [3, 2, 5], [3, 5, 4]],
     { kappa: [1, 2, 3, 4, 5], insulated: [[0, 1]] },
   )],
+  ['interval, value / convection ends', () => intervalDomain(0, 1, 3, { boundary: [{ kind: 'value', where: [[0]], value: 2 }, { kind: 'convection', where: [[3]], transferCoefficient: 4, ambient: 1 }] })],
+  ['interval, convection both ends, c = 0', () => intervalDomain(0, 1, 2, { kappa: [1, 3], boundary: [{ kind: 'convection', where: () => true, transferCoefficient: 0.7 }] })],
+  ['square, value + flux + convection (h varies per edge)', () => rectangleDomain(0, 1, 0, 1, 2, 2, {
+    kappa: (x) => (x < 0.5 ? 1 : 2),
+    boundary: [
+      { kind: 'value', where: (mx) => mx < 1e-9, value: (t, _x, y) => t + y },
+      { kind: 'convection', where: (mx) => mx > 1 - 1e-9, transferCoefficient: (_mx, my) => 1 + 3 * my, ambient: 0.5 },
+      { kind: 'flux', where: (_mx, my) => my < 1e-9, flux: 2 },
+    ],
+  })],
+  ['unstructured polygon, all boundary convective', () => triangulatedDomain(
+    [0, 0, 2, 0, 3, 1, 1.2, 0.9, 0, 2, 2.5, 2.4],
+    [[0, 1, 3], [1, 2, 3], [0, 3, 4], [3, 2, 5], [3, 5, 4]],
+    { boundary: [{ kind: 'convection', where: () => true, transferCoefficient: 2 }, { kind: 'value', where: [[0, 1]] }] },
+  )],
 ];
 
 describe('SpatialOperatorPlan vs dense reference', () => {

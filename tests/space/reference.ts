@@ -121,7 +121,99 @@ export function denseNodalMatrices(domain: SpatialDomain, set: Int32Array): { M:
       }
     }
   }
+  addConvectionReference(domain, mesh.coords, mesh.elements, mesh.elementCount, A);
   return { M, A, globalId: mesh.globalId };
+}
+
+/**
+ * Transfer coefficient h on each initial boundary edge, re-derived from the user's parts
+ * (`domain.boundaryParts`, applied in order, later parts override): initial boundary edges are
+ * the initial-element edges used once (2D) or the two extreme vertices (1D).
+ */
+export function initialTransfer(domain: SpatialDomain): { a: number; b: number; h: number }[] {
+  const parts = domain.boundaryParts;
+  const xy = (v: number): [number, number] => [domain.coordinate(v, 0), domain.dim === 2 ? domain.coordinate(v, 1) : 0];
+  const edges: [number, number][] = [];
+  if (domain.dim === 1) {
+    let lo = 0, hi = 0;
+    for (let v = 0; v < domain.initialVertexCount; v++) {
+      if (domain.coordinate(v, 0) < domain.coordinate(lo, 0)) lo = v;
+      if (domain.coordinate(v, 0) > domain.coordinate(hi, 0)) hi = v;
+    }
+    edges.push([lo, lo], [hi, hi]);
+  } else {
+    const count = new Map<string, [number, number, number]>();
+    const buf = new Int32Array(3);
+    for (let e = 0; e < domain.initialElementCount; e++) {
+      const t = Array.from(domain.initialElement(e, buf));
+      for (let k = 0; k < 3; k++) {
+        const a = t[k]!, b = t[(k + 1) % 3]!;
+        const key = `${Math.min(a, b)},${Math.max(a, b)}`;
+        const c = count.get(key);
+        count.set(key, c ? [a, b, c[2] + 1] : [a, b, 1]);
+      }
+    }
+    for (const [a, b, c] of count.values()) if (c === 1) edges.push([a, b]);
+  }
+  return edges.map(([a, b]) => {
+    const [ax, ay] = xy(a), [bx, by] = xy(b);
+    const mx = 0.5 * (ax + bx), my = 0.5 * (ay + by);
+    let h = 0;
+    for (const p of parts) {
+      const sel = typeof p.where === 'function'
+        ? p.where(mx, my)
+        : p.where.some((it) => (domain.dim === 1 ? it[0] === a : (it[0] === a && it[1] === b) || (it[0] === b && it[1] === a)));
+      if (!sel) continue;
+      h = p.kind === 'convection' ? (typeof p.transferCoefficient === 'function' ? p.transferCoefficient(mx, my) : p.transferCoefficient) : 0;
+    }
+    return { a, b, h };
+  });
+}
+
+/**
+ * A += h ∫_Γ λ_i λ_j ds on the leaf mesh: boundary segments are leaf-element edges used by one
+ * element; each is matched to the initial boundary edge that contains it (collinearity test), and
+ * contributes the 1D P1 mass h|s|/6 [2 1; 1 2] (common practice); in 1D the term is h u v at the
+ * boundary point.
+ */
+function addConvectionReference(domain: SpatialDomain, xy: Float64Array, elements: Int32Array, ne: number, A: number[][]): void {
+  const init = initialTransfer(domain).filter((e) => e.h > 0);
+  if (init.length === 0) return;
+  if (domain.dim === 1) {
+    const n = xy.length;
+    for (const e of init) {
+      const x = domain.coordinate(e.a, 0);
+      for (let i = 0; i < n; i++) if (xy[i] === x) A[i]![i]! += e.h;
+    }
+    return;
+  }
+  const count = new Map<string, [number, number, number]>();
+  for (let e = 0; e < ne; e++) {
+    for (let k = 0; k < 3; k++) {
+      const a = elements[3 * e + k]!, b = elements[3 * e + ((k + 1) % 3)]!;
+      const key = `${Math.min(a, b)},${Math.max(a, b)}`;
+      const c = count.get(key);
+      count.set(key, c ? [a, b, c[2] + 1] : [a, b, 1]);
+    }
+  }
+  for (const [a, b, c] of count.values()) {
+    if (c !== 1) continue;
+    const ax = xy[2 * a]!, ay = xy[2 * a + 1]!, bx = xy[2 * b]!, by = xy[2 * b + 1]!;
+    const mx = 0.5 * (ax + bx), my = 0.5 * (ay + by);
+    for (const e of init) {
+      const px = domain.coordinate(e.a, 0), py = domain.coordinate(e.a, 1), qx = domain.coordinate(e.b, 0), qy = domain.coordinate(e.b, 1);
+      const L2 = (qx - px) ** 2 + (qy - py) ** 2;
+      const cross = (qx - px) * (my - py) - (qy - py) * (mx - px);
+      const along = ((mx - px) * (qx - px) + (my - py) * (qy - py)) / L2;
+      if (Math.abs(cross) > 1e-12 * L2 || along <= 0 || along >= 1) continue;
+      const w = (e.h * Math.hypot(bx - ax, by - ay)) / 6;
+      A[a]![a]! += 2 * w;
+      A[b]![b]! += 2 * w;
+      A[a]![b]! += w;
+      A[b]![a]! += w;
+      break;
+    }
+  }
 }
 
 /** Explicit hierarchical transform: T[w][j] = hat of set[j] at leaf-mesh vertex w. */

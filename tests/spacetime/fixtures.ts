@@ -5,8 +5,22 @@ import { FibrePool } from '../../src/spacetime/fibre-pool';
 
 export type TreeShape = 'uniform' | 'sparse' | 'graded-start' | 'graded-end' | 'random';
 
-/** Small test domains: variant 0 has a κ jump, 1 is the L-shape (2D), 2 has an insulated part and reaction. */
+/**
+ * Small test domains: variant 0 has a κ jump, 1 is the L-shape (2D), 2 has an insulated part and
+ * reaction, 3 has all three kinds of boundary part (value, flux, convection).
+ */
 export function smallDomain(dim: 1 | 2, variant = 0): SpatialDomain {
+  if (variant === 3) {
+    return dim === 1
+      ? intervalDomain(0, 1, 2, { kappa: (x) => (x < 0.5 ? 1 : 2), boundary: [{ kind: 'value', where: [[0]], value: 1 }, { kind: 'convection', where: [[2]], transferCoefficient: 3, ambient: 0.5 }] })
+      : rectangleDomain(0, 1, 0, 1, 1, 1, {
+        boundary: [
+          { kind: 'value', where: (mx) => mx < 1e-9, value: (t) => t },
+          { kind: 'convection', where: (mx) => mx > 1 - 1e-9, transferCoefficient: 2.5, ambient: 1 },
+          { kind: 'flux', where: (_mx, my) => my > 1 - 1e-9, flux: 1 },
+        ],
+      });
+  }
   if (dim === 1) {
     return variant === 2
       ? intervalDomain(0, 2, 3, { insulated: (x) => x > 1.5, reaction: 0.3, kappa: (x) => 1 + x })

@@ -15,9 +15,9 @@ const T = 1.7;
 
 describe.each([1, 2] as const)('tensor-product apply, d = %i', (dim) => {
   it.each(shapes)('B and Bᵀ equal dense assembly on %s double trees (rel. error ≤ 1e-12)', (shape) => {
-    for (let seed = 1; seed <= (shape === 'uniform' || shape === 'sparse' ? 1 : 3); seed++) {
+    for (const seed of shape === 'uniform' || shape === 'sparse' ? [1, 3] : [1, 2, 3, 4]) {
       const rand = seededRandom(1000 * dim + seed);
-      const domain = smallDomain(dim, seed % 3);
+      const domain = smallDomain(dim, seed % 4);
       const trial = randomDoubleTree(domain, shape, rand);
       const test = testIndexSet(trial);
       const cache = new SpatialPlanCache(domain, trial.pool);
