@@ -113,3 +113,32 @@ export function applyRobinNodal(rs: RobinSegments, u: Float64Array, r: Float64Ar
     r[b] = r[b]! + c * (ua + 2 * ub);
   }
 }
+
+/**
+ * h ∫_Γ λ_k² over the convective boundary edges of forest element e that contain its local vertex k
+ * (∫ λ² = |s|/3 on an edge s; in 1D h at a boundary end): the convection part of the diagonal of the
+ * hierarchical stiffness, element by element (see ./hierarchical-diagonals). 0 if none.
+ */
+export function convectionDiagonal(forest: BisectionForest, e: number, k: number): number {
+  const tb = forest.boundary;
+  if (!tb.hasConvection) return 0;
+  if (forest.dim === 1) {
+    if (e >= forest.initialElementCount) return 0; // bisection vertices are interior
+    const v = forest.eVert[2 * e + k]!;
+    let s = 0;
+    for (let b = 0; b < tb.edgeCount; b++) if (tb.edgeVertices[2 * b] === v && tb.edgeKind[b] === EdgeKind.Convection) s += tb.transfer[b]!;
+    return s;
+  }
+  let s = 0;
+  for (const j of [(k + 1) % 3, (k + 2) % 3]) {
+    // edge opposite local vertex j contains vertex k
+    const b = naturalEdgeIndex(forest.eNb[3 * e + j]!);
+    if (b < 0) continue;
+    const h = tb.transfer[b]!;
+    if (!(h > 0)) continue;
+    const p = forest.eVert[3 * e + ((j + 1) % 3)]!, q = forest.eVert[3 * e + ((j + 2) % 3)]!;
+    const len = Math.hypot(forest.vCoord[2 * q]! - forest.vCoord[2 * p]!, forest.vCoord[2 * q + 1]! - forest.vCoord[2 * p + 1]!);
+    s += (h * len) / 3;
+  }
+  return s;
+}

@@ -8,9 +8,11 @@
  * vertex. So a(φ̂_m, φ̂_m) and (φ̂_m, φ̂_m) are sums of element integrals of one barycentric
  * coordinate (P1 formulas, common practice: on a triangle T with the vertex opposite edge e,
  * ∫_T |∇λ|² = |e|² / (4|T|) and ∫_T λ² = |T|/6; on an interval of length h, 1/h and h/3), weighted
- * by κ and c of the element's material. They are accumulated once per forest element, as the forest
+ * by κ and c of the element's material, plus h ∫ λ² on its convective boundary edges (./boundary).
+ * They are accumulated once per forest element, as the forest
  * grows, so a lookup costs O(1) per vertex and nothing is rebuilt per set.
  */
+import { convectionDiagonal } from './boundary-segments';
 import type { SpatialDomain } from './domain';
 
 interface State {
@@ -39,7 +41,7 @@ function addElement(s: State, domain: SpatialDomain, e: number, k: number): void
   const v = f.eVert[e * nv + k]!;
   if (f.dim === 1) {
     const h = Math.abs(f.vCoord[f.eVert[e * 2 + 1]!]! - f.vCoord[f.eVert[e * 2]!]!);
-    s.A[v]! += kappa / h + (c * h) / 3;
+    s.A[v]! += kappa / h + (c * h) / 3 + convectionDiagonal(f, e, k);
     s.M[v]! += h / 3;
     return;
   }
@@ -51,7 +53,7 @@ function addElement(s: State, domain: SpatialDomain, e: number, k: number): void
   // Edge opposite local vertex k.
   const [ax, ay, bx, by] = k === 0 ? [x1, y1, x2, y2] : k === 1 ? [x2, y2, x0, y0] : [x0, y0, x1, y1];
   const e2 = (bx - ax) ** 2 + (by - ay) ** 2;
-  s.A[v]! += (kappa * e2) / (4 * area) + (c * area) / 6;
+  s.A[v]! += (kappa * e2) / (4 * area) + (c * area) / 6 + convectionDiagonal(f, e, k);
   s.M[v]! += area / 6;
 }
 

@@ -17,6 +17,8 @@ import { addNodalBoundaryLoad } from '../space/boundary-load';
 import { liftingOf } from '../space/boundary-lifting';
 import { hierarchicalToNodal, hierarchicalToNodalTransposed } from '../space/hierarchical';
 import type { DoubleTree } from '../spacetime/double-tree';
+import type { HeatProblem } from './heat-problem';
+import { initialLoad, sourceLoad } from './right-hand-side';
 import type { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import { gaussLegendre01 } from './gauss-legendre';
 
@@ -141,4 +143,18 @@ export function subtractInitialLifting(domain: SpatialDomain, plans: SpatialPlan
   hierarchicalToNodalTransposed(mesh, r);
   const loc = plan.outLocal;
   for (let p = 0; p < n; p++) l0[p] = l0[p]! - r[loc[p]!]!;
+}
+
+/** ℓ_f plus the boundary data on a test index set (source, flux, convection, lifting). */
+export function sourceLoadWithBoundary(problem: HeatProblem, testSet: DoubleTree, plans: SpatialPlanCache): Float64Array {
+  const lf = sourceLoad(problem, testSet);
+  addBoundaryLoads(problem.domain, problem.T, testSet, plans, lf);
+  return lf;
+}
+
+/** ℓ_0 − ∫ G(0) φ on a trace fibre (interned in the plans' pool). */
+export function initialLoadWithLifting(problem: HeatProblem, traceFibre: Int32Array, plans: SpatialPlanCache): Float64Array {
+  const l0 = initialLoad(problem, traceFibre);
+  if (l0.length > 0) subtractInitialLifting(problem.domain, plans, plans.pool.intern(traceFibre), l0);
+  return l0;
 }

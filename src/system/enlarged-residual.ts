@@ -16,7 +16,7 @@ import { testIndexSet } from '../spacetime/test-index-set';
 import { FibreInverseCache, type InnerSolver } from './fibre-inverse';
 import type { HeatProblem } from './heat-problem';
 import { InitialTraceOperator } from './initial-trace';
-import { initialLoad, sourceLoad } from './right-hand-side';
+import { initialLoadWithLifting, sourceLoadWithBoundary } from './boundary-data-load';
 
 /**
  * r = b̲ − S̲ ũ on `enlarged` for the coefficients `u` on `set` (both of one fibre pool, set ⊆
@@ -37,7 +37,7 @@ export function enlargedResidual(
   const test = testIndexSet(enlarged);
   const plans = new SpatialPlanCache(domain, pool);
   // w = ℓ_f − B ũ on Λ̲_Y, with B applied from Λ (where ũ lives).
-  const w = sourceLoad(problem, test);
+  const w = sourceLoadWithBoundary(problem, test, plans); // with boundary data (./boundary-data-load)
   {
     const Bu = new Float64Array(test.size);
     new TensorOperatorPlan('derivIn', 'mass', set, test, plans, T).apply(u, Bu);
@@ -59,7 +59,7 @@ export function enlargedResidual(
   const r = new Float64Array(enlarged.size);
   new TensorOperatorPlan('derivOut', 'mass', test, enlarged, plans, T).apply(v, r);
   const G = new InitialTraceOperator(enlarged, plans, T);
-  G.addTraced(initialLoad(problem, G.traceFibre), r, 1);
+  G.addTraced(initialLoadWithLifting(problem, G.traceFibre, plans), r, 1);
   const ut = new Float64Array(enlarged.size);
   for (let p = 0; p < map.length; p++) ut[map[p]!] = u[p]!;
   G.applyAdd(ut, r, -1);

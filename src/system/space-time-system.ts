@@ -18,8 +18,7 @@ import { validateSolveOptions, type SystemSolveOptions } from './pcg-options';
 import { validateSystemOptions } from './system-options';
 import { checkSetOnDomain } from '../spacetime/set-checks';
 import { BYTES_PER_SYSTEM_UNKNOWN, checkInstance, checkMemory } from '../validation/index';
-import { addBoundaryLoads, subtractInitialLifting } from './boundary-data-load';
-import { initialLoad, sourceLoad } from './right-hand-side';
+import { initialLoadWithLifting, sourceLoadWithBoundary } from './boundary-data-load';
 import { SchurOperator } from './schur-operator';
 import { TestInnerProductInverse } from './test-inner-product-inverse';
 import { TrialPreconditioner } from './trial-preconditioner';
@@ -145,15 +144,11 @@ export class SpaceTimeSystem {
   }
   /** ℓ_f plus the boundary data (flux, convection, lifting of held values: ./boundary-data-load). */
   private dataSourceLoad(problem: HeatProblem): Float64Array {
-    const lf = sourceLoad(problem, this.testSet);
-    addBoundaryLoads(problem.domain, problem.T, this.testSet, this.plans, lf);
-    return lf;
+    return sourceLoadWithBoundary(problem, this.testSet, this.plans);
   }
   /** ℓ_0 minus the lifting's initial trace ∫ G(0) φ. */
   private dataInitialLoad(problem: HeatProblem): Float64Array {
-    const l0 = initialLoad(problem, this.G.traceFibre);
-    if (l0.length > 0) subtractInitialLifting(problem.domain, this.plans, this.trialSet.pool.intern(this.G.traceFibre), l0);
-    return l0;
+    return initialLoadWithLifting(problem, this.G.traceFibre, this.plans);
   }
 
   /**

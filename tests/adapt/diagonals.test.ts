@@ -10,6 +10,16 @@ describe('hierarchical diagonals', () => {
     ['interval with variable κ and reaction', () => intervalDomain(0, 2, 3, { kappa: (x) => 1 + x, reaction: 0.7 })],
     ['square, graded', () => rectangleDomain(0, 1, 0, 1, 2, 2, { kappa: (x, y) => (x + y < 1 ? 1 : 4), reaction: 1 })],
     ['L-shape', () => lShapeDomain(1)],
+    ['interval with convection at one end, held value at the other', () => intervalDomain(0, 2, 3, { boundary: [{ kind: 'convection', where: [[3]], transferCoefficient: 2.5 }, { kind: 'value', where: [[0]], value: 1 }] })],
+    ['square with value, flux and convection parts (h varies)', () => rectangleDomain(0, 1, 0, 1, 2, 2, {
+      kappa: (x) => (x < 0.5 ? 1 : 3),
+      boundary: [
+        { kind: 'convection', where: (_mx, my) => my < 1e-9, transferCoefficient: (mx) => 1 + 4 * mx },
+        { kind: 'convection', where: (mx) => mx < 1e-9, transferCoefficient: 0.5 },
+        { kind: 'flux', where: (_mx, my) => my > 1 - 1e-9, flux: 1 },
+        { kind: 'value', where: (mx) => mx > 1 - 1e-9, value: 2 },
+      ],
+    })],
   ] as const)('%s', (_name, make) => {
     const domain = make();
     let set = domain.uniformSet(2);
@@ -32,6 +42,16 @@ describe('per-vertex hierarchical diagonals from the forest', () => {
     ['interval with variable κ and reaction', () => intervalDomain(0, 2, 3, { kappa: (x) => 1 + x, reaction: 0.7 })],
     ['square, graded, two materials', () => rectangleDomain(0, 1, 0, 1, 2, 2, { kappa: (x, y) => (x + y < 1 ? 1 : 4), reaction: 1 })],
     ['L-shape', () => lShapeDomain(1)],
+    ['interval with convection at one end, held value at the other', () => intervalDomain(0, 2, 3, { boundary: [{ kind: 'convection', where: [[3]], transferCoefficient: 2.5 }, { kind: 'value', where: [[0]], value: 1 }] })],
+    ['square with value, flux and convection parts (h varies)', () => rectangleDomain(0, 1, 0, 1, 2, 2, {
+      kappa: (x) => (x < 0.5 ? 1 : 3),
+      boundary: [
+        { kind: 'convection', where: (_mx, my) => my < 1e-9, transferCoefficient: (mx) => 1 + 4 * mx },
+        { kind: 'convection', where: (mx) => mx < 1e-9, transferCoefficient: 0.5 },
+        { kind: 'flux', where: (_mx, my) => my > 1 - 1e-9, flux: 1 },
+        { kind: 'value', where: (mx) => mx > 1 - 1e-9, value: 2 },
+      ],
+    })],
   ] as const)('%s: equal the dense reference', (_name, make) => {
     const domain = make();
     let set = domain.uniformSet(2);

@@ -110,7 +110,17 @@ describe('the one-pass estimator without a system on Λ̲', () => {
     const { rng } = await import('../helpers/random');
     const { estimateResidual, rectangleDomain } = await import('../../src/index');
     const random = rng(11);
-    for (const domain of [intervalDomain(0, 1, 2, { reaction: 0.5 }), rectangleDomain(0, 1, 0, 1, 2, 2)]) {
+    const withParts = [
+      intervalDomain(0, 1, 2, { boundary: [{ kind: 'value', where: [[0]], value: (t) => 1 + t }, { kind: 'convection', where: [[2]], transferCoefficient: 2, ambient: (t) => Math.cos(t) }] }),
+      rectangleDomain(0, 1, 0, 1, 2, 2, {
+        boundary: [
+          { kind: 'value', where: (mx) => mx < 1e-9, value: (t) => 2 - t },
+          { kind: 'convection', where: (mx) => mx > 1 - 1e-9, transferCoefficient: 3, ambient: (t, _x, y) => t * y },
+          { kind: 'flux', where: (_mx, my) => my > 1 - 1e-9, flux: (t) => Math.sin(t) },
+        ],
+      }),
+    ];
+    for (const domain of [intervalDomain(0, 1, 2, { reaction: 0.5 }), rectangleDomain(0, 1, 0, 1, 2, 2), ...withParts]) {
       const problem = new HeatProblem({ domain, T: 0.7, initial: (x) => 1 + x, source: (t, x) => Math.sin(3 * t + x) });
       const set = DoubleTree.sparseGrid(domain, domain.dim === 1 ? 5 : 3);
       const u = Float64Array.from({ length: set.size }, () => random() - 0.5);
