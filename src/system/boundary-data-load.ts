@@ -20,7 +20,7 @@ import type { DoubleTree } from '../spacetime/double-tree';
 import type { HeatProblem } from './heat-problem';
 import { initialLoad, sourceLoad } from './right-hand-side';
 import type { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
-import { gaussLegendre01 } from './gauss-legendre';
+import { gaussLegendre01 } from '../numerics/gauss-legendre';
 
 const TIME_POINTS = 4;
 
