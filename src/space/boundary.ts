@@ -66,7 +66,8 @@ export type BoundarySelector = ((mx: number, my: number) => boolean) | number[][
  * // rod at 0, its end x = 0 raised linearly to 1 over t ∈ (0, 1); the end x = 1 stays at 0
  * const domain = intervalDomain(0, 1, 2, { boundary: [{ kind: 'value', where: [[0]], value: (t) => t }] });
  * const { solution } = new SpaceTimeSystem(new HeatProblem({ domain, T: 1 }), DoubleTree.sparseGrid(domain, 5)).solve();
- * console.log(solution.evaluate(1, [0, 0.5])); // [1, ≈ 0.4]
+ * // prints the held end (exactly 1) and the middle (about 0.4)
+ * console.log(solution.evaluate(1, [0, 0.5]));
  * ```
  */
 export interface ValuePart {
@@ -86,7 +87,8 @@ export interface ValuePart {
  * // heat flux 1 into the end x = 1, end x = 0 held at 0: steady state u = x
  * const domain = intervalDomain(0, 1, 2, { boundary: [{ kind: 'flux', where: (x) => x > 0.5, flux: 1 }] });
  * const { solution } = new SpaceTimeSystem(new HeatProblem({ domain, T: 4 }), DoubleTree.sparseGrid(domain, 6)).solve();
- * console.log(solution.evaluate(4, [1])[0]); // ≈ 1
+ * // prints about 1
+ * console.log(solution.evaluate(4, [1])[0]);
  * ```
  */
 export interface FluxPart {
@@ -108,7 +110,8 @@ export interface FluxPart {
  * // slab at 1 cooled on both faces by surroundings at 0 (Biot number hL/κ = 1 with L = 1/2)
  * const domain = intervalDomain(0, 1, 2, { boundary: [{ kind: 'convection', where: () => true, transferCoefficient: 2, ambient: 0 }] });
  * const { solution } = new SpaceTimeSystem(new HeatProblem({ domain, T: 1, initial: () => 1 }), DoubleTree.sparseGrid(domain, 6)).solve();
- * console.log(solution.evaluate(0.5, [0, 0.5])); // surface cooler than the centre
+ * // the surface is cooler than the centre
+ * console.log(solution.evaluate(0.5, [0, 0.5]));
  * ```
  */
 export interface ConvectionPart {
@@ -134,7 +137,7 @@ export interface ConvectionPart {
  *   { kind: 'flux', where: (_mx, my) => my < 1e-9 || my > 1 - 1e-9 },                  // insulated
  * ];
  * const domain = rectangleDomain(0, 1, 0, 1, 2, 2, { boundary: parts });
- * console.log(domain.boundaryParts.length); // 3
+ * console.log(domain.boundaryParts.length); // → 3
  * ```
  */
 export type BoundaryPart = ValuePart | FluxPart | ConvectionPart;
