@@ -18,6 +18,7 @@ import { supportOf } from '../time/nodes';
 import type { SpatialDomain } from '../space/index';
 import type { LeafMesh } from '../space/leaf-mesh';
 import { hierarchicalToNodal } from '../space/hierarchical';
+import { liftingOf } from '../space/boundary-lifting';
 import type { SpaceTimeSolution } from '../spacetime/space-time-solution';
 
 export class BreakpointSlices {
@@ -135,6 +136,9 @@ export class BreakpointSlices {
       for (let p = o0; p < o1; p++) out[loc[p]!] += w * coef[p]!;
     }
     hierarchicalToNodal(this.mesh, out);
+    // held boundary values: u = w + G (src/space/boundary-lifting.ts); G is linearly interpolated
+    // between breakpoints like u_δ (exact when g is affine in t between them)
+    liftingOf(this.solution.domain.forest).addNodal(this.mesh, t, out);
   }
 }
 
