@@ -11,6 +11,16 @@
  */
 import { benchCommand } from '../src/cli/bench-command';
 import { CliError } from '../src/cli/cli-error';
+import { runCompare } from './compare';
+
+const args = process.argv.slice(2);
+const prefixes = args.filter((a) => !a.startsWith('--'));
+// compare.: adaptive solver against time stepping, a one-shot table of its own (long; runs only
+// when asked for by prefix, from a repository checkout).
+if (prefixes.some((p) => p.startsWith('compare'))) {
+  runCompare(prefixes, args.includes('--quick'));
+  process.exit(0);
+}
 
 try {
   process.exitCode = benchCommand(process.argv.slice(2));
