@@ -17,7 +17,7 @@ import type { KnownSolution } from '../src/output/error-norms';
 import { elementTables, applyElementsNodal, type ElementTables } from '../src/space/element-matrices';
 import { MultilevelPreconditioner, type LeafMesh, type SpatialDomain } from '../src/space/index';
 import { INTERVAL_POINTS, INTERVAL_WEIGHTS, TRIANGLE_POINTS, TRIANGLE_WEIGHTS } from '../src/space/quadrature';
-import { gaussLegendre01 } from '../src/system/gauss-legendre';
+import { gaussLegendre01 } from '../src/numerics/gauss-legendre';
 
 export interface SteppingOptions {
   method: 'euler' | 'crank-nicolson';
