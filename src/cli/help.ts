@@ -27,7 +27,8 @@ ${CAUTION}`;
 export const SOLVE_HELP = `usage: chronomesh solve PROBLEM.json [--json] [--out DIR] [--quiet] [--debug]
 
 Solves ∂t u − ∇·(κ∇u) + c u = f on (0, T) × Ω with u = 0 on the boundary
-except its insulated part (zero flux), u(0) = u0, as described by PROBLEM.json.
+except its insulated part (zero flux) and its boundary parts, u(0) = u0, as
+described by PROBLEM.json.
 
   --json        print exactly one JSON document on stdout:
                 {"steps":[{"dofs","estimate","iterations","seconds"}…],
@@ -51,6 +52,12 @@ problem file fields (JSON object):
   initial     u0(x, y), default "${PROBLEM_DEFAULTS.initial}"
   insulated   predicate on boundary-edge midpoints (nonzero = insulated),
               e.g. "y > 0.999"; the rest of the boundary has u = 0
+  boundary    list of parts, applied in order after "insulated"; "where" is an
+              expression in x, y, nonzero on the boundary edges to select:
+              {"kind":"value","where":…,"value":g(t,x,y)}        u = g
+              {"kind":"flux","where":…,"flux":q(t,x,y)}          κ∂u/∂n = q (q > 0 heats)
+              {"kind":"convection","where":…,"transferCoefficient":h(x,y),
+               "ambient":u∞(t,x,y)}                               κ∂u/∂n = h(u∞ − u)
   strategy    "adaptive" (default), "sparse" or "full" (grids of growing level)
   tolerance   stop when the estimator E ≤ tolerance (default ${PROBLEM_DEFAULTS.tolerance})
   maxDofs     unknown budget (default ${PROBLEM_DEFAULTS.maxDofs})

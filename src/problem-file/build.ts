@@ -6,10 +6,10 @@
  */
 import {
   HeatProblem, InvalidArgumentError, InvalidMeshError, evaluateAt, intervalDomain, lShapeDomain, rectangleDomain,
-  triangulatedDomain, type DomainOptions, type SpatialDomain,
+  triangulatedDomain, type BoundaryPart, type DomainOptions, type SpatialDomain,
 } from './core';
 import type { CompiledExpression } from './expression';
-import type { ProblemSpec } from './schema';
+import type { BoundaryPartSpec, ProblemSpec } from './schema';
 
 /** The domain and problem built from a {@link ProblemSpec}. */
 export interface BuiltProblem {
@@ -47,6 +47,23 @@ function spatial(e: CompiledExpression, field: string, dim: number, ok: (v: numb
 
 const finite = (v: number) => Number.isFinite(v);
 
+/** A problem-file boundary part as the core's {@link BoundaryPart}, with every value checked where it is used. */
+function boundaryPart(b: BoundaryPartSpec, field: string, dim: number): BoundaryPart {
+  const whereFn = spatial(b.where, `${field}.where`, dim, finite, 'a finite number (nonzero = selected)');
+  const where = (mx: number, my: number): boolean => whereFn(mx, my) !== 0;
+  const g = b.data.fn;
+  const dataField = `${field}.${b.kind === 'value' ? 'value' : b.kind === 'flux' ? 'flux' : 'ambient'}`;
+  const data = (t: number, x: number, y: number): number => {
+    const v = g(t, x, y);
+    if (!Number.isFinite(v)) pointError(b.data, dataField, dim, t, x, y, v, 'a finite number');
+    return v;
+  };
+  if (b.kind === 'value') return { kind: 'value', where, value: data };
+  if (b.kind === 'flux') return { kind: 'flux', where, flux: data };
+  const h = spatial(b.transferCoefficient!, `${field}.transferCoefficient`, dim, (v) => v >= 0 && Number.isFinite(v), 'a finite number ≥ 0');
+  return { kind: 'convection', where, transferCoefficient: h, ambient: data };
+}
+
 /**
  * Builds the domain and problem of a validated spec and evaluates every expression at the initial
  * mesh's vertices and element centroids (the source also at t = 0, T/2, T) before any work.
@@ -69,6 +86,7 @@ export function buildProblem(spec: ProblemSpec): BuiltProblem {
     const ins = spatial(spec.insulated, 'insulated', dim, finite, 'a finite number (nonzero = insulated)');
     opts.insulated = (mx, my) => ins(mx, my) !== 0;
   }
+  if (spec.boundary.length > 0) opts.boundary = spec.boundary.map((b, i) => boundaryPart(b, `boundary[${i}]`, dim));
   let domain: SpatialDomain;
   try {
     switch (d.shape) {

@@ -15,6 +15,26 @@ export type DomainSpec =
   | { shape: 'lshape'; cells: number }
   | { shape: 'mesh'; points: number[][]; triangles: number[][] };
 
+/**
+ * One boundary part of a problem file: `where` selects initial boundary edges by their midpoint
+ * (nonzero = selected); `value` (u = g(t, x, y)), `flux` (κ∂u/∂n = q(t, x, y)) or
+ * `transferCoefficient` h(x, y) ≥ 0 with `ambient` u∞(t, x, y) (κ∂u/∂n = h(u∞ − u)).
+ */
+export interface BoundaryPartSpec {
+  kind: 'value' | 'flux' | 'convection';
+  where: CompiledExpression;
+  /** g, q or u∞ (default 0). */
+  data: CompiledExpression;
+  /** h (convection only). */
+  transferCoefficient: CompiledExpression | null;
+}
+
+const BOUNDARY_FIELDS: Record<BoundaryPartSpec['kind'], string[]> = {
+  value: ['kind', 'where', 'value'],
+  flux: ['kind', 'where', 'flux'],
+  convection: ['kind', 'where', 'transferCoefficient', 'ambient'],
+};
+
 /** A validated problem file with its expressions compiled. */
 export interface ProblemSpec {
   title: string | null;
@@ -26,6 +46,8 @@ export interface ProblemSpec {
   source: CompiledExpression;
   initial: CompiledExpression;
   insulated: CompiledExpression | null;
+  /** Boundary parts (value, flux, convection), applied in order after `insulated`. */
+  boundary: BoundaryPartSpec[];
   strategy: 'adaptive' | 'sparse' | 'full';
   tolerance: number;
   maxDofs: number;
@@ -40,7 +62,7 @@ export interface ProblemSpec {
 /** Top-level fields of a problem file (the contract of the command line; additions only). */
 export const PROBLEM_FIELDS = [
   'title', 'description', 'domain', 'horizon', 'diffusion', 'reaction', 'source', 'initial', 'insulated',
-  'strategy', 'tolerance', 'maxDofs', 'maxSeconds', 'maxSteps', 'bulk', 'probes', 'slices',
+  'boundary', 'strategy', 'tolerance', 'maxDofs', 'maxSeconds', 'maxSteps', 'bulk', 'probes', 'slices',
 ] as const;
 
 const DOMAIN_FIELDS: Record<DomainSpec['shape'], string[]> = {
@@ -95,6 +117,32 @@ function expression(obj: Record<string, unknown>, field: string, fallback: strin
   const v = obj[field] ?? fallback;
   if (typeof v !== 'string' && typeof v !== 'number') bad(field, `must be an expression string such as "1 + x*y" or a number, found ${typeName(v)}`, v);
   return compileExpression(String(v), field, vars);
+}
+
+function parseBoundaryPart(v: unknown, field: string, space: ('x' | 'y')[]): BoundaryPartSpec {
+  if (v === null || typeof v !== 'object' || Array.isArray(v)) bad(field, `must be an object with a "kind", found ${typeName(v)}`, v);
+  const o = v as Record<string, unknown>;
+  const kinds = Object.keys(BOUNDARY_FIELDS);
+  if (typeof o.kind !== 'string' || !kinds.includes(o.kind)) {
+    const hint = typeof o.kind === 'string' ? nearestName(o.kind, kinds) : null;
+    bad(`${field}.kind`, `must be "value", "flux" or "convection", found ${typeName(o.kind)}${hint ? `; did you mean "${hint}"?` : ''}`, o.kind);
+  }
+  const kind = o.kind as BoundaryPartSpec['kind'];
+  checkKeys(o, BOUNDARY_FIELDS[kind], field);
+  if (o.where === undefined) bad(`${field}.where`, 'is required: an expression in x, y, nonzero on the edges to select (e.g. "x < 0.01")');
+  if (kind === 'convection' && o.transferCoefficient === undefined) bad(`${field}.transferCoefficient`, 'is required for a convection part (h ≥ 0)');
+  const sub = (name: string, fallback: string, vars: ('t' | 'x' | 'y')[]) => {
+    const w = o[name] ?? fallback;
+    if (typeof w !== 'string' && typeof w !== 'number') bad(`${field}.${name}`, `must be an expression string or a number, found ${typeName(w)}`, w);
+    return compileExpression(String(w), `${field}.${name}`, vars);
+  };
+  const dataName = kind === 'value' ? 'value' : kind === 'flux' ? 'flux' : 'ambient';
+  return {
+    kind,
+    where: sub('where', '0', space),
+    data: sub(dataName, '0', ['t', ...space]),
+    transferCoefficient: kind === 'convection' ? sub('transferCoefficient', '0', space) : null,
+  };
 }
 
 function parseDomain(v: unknown): DomainSpec {
@@ -200,6 +248,7 @@ export function parseProblem(json: unknown): ProblemSpec {
     source: expression(o, 'source', PROBLEM_DEFAULTS.source, ['t', ...space]),
     initial: expression(o, 'initial', PROBLEM_DEFAULTS.initial, space),
     insulated: o.insulated === undefined ? null : expression(o, 'insulated', '0', space),
+    boundary: list('boundary').map((p, i) => parseBoundaryPart(p, `boundary[${i}]`, space)),
     strategy: strategy as ProblemSpec['strategy'],
     tolerance: o.tolerance === undefined ? PROBLEM_DEFAULTS.tolerance : num(o.tolerance, 'tolerance', '≥ 0', (x) => x >= 0),
     maxDofs: o.maxDofs === undefined ? PROBLEM_DEFAULTS.maxDofs : int(o.maxDofs, 'maxDofs', 1, 1e8),

@@ -17,6 +17,9 @@ function file(name: string, content: unknown): string {
 }
 
 const CASES: [string, string[], RegExp][] = [
+  ['unknown field in a boundary part', ['solve', file('bnd-field.json', { ...rod, boundary: [{ kind: 'flux', where: 'x > 0.5', flx: '1' }] })], /boundary\[0\]\.flx: unknown field; did you mean 'flux'\?/],
+  ['unknown boundary kind', ['solve', file('bnd-kind.json', { ...rod, boundary: [{ kind: 'convektion', where: '1' }] })], /boundary\[0\]\.kind: must be "value", "flux" or "convection".*did you mean "convection"\?/],
+  ['negative transfer coefficient', ['solve', file('bnd-h.json', { ...rod, boundary: [{ kind: 'convection', where: 'x > 0.5', transferCoefficient: '-2' }] })], /boundary\[0\]\.transferCoefficient/],
   ['unreadable file', ['solve', join(dir, 'missing.json')], /missing\.json: cannot read the problem file \(ENOENT\)/],
   ['invalid JSON', ['solve', file('bad.json', '{"horizon": 1,,}')], /bad\.json: invalid JSON/],
   ['unknown field with suggestion', ['solve', file('unknown.json', { ...rod, horizn: 1 })], /horizn: unknown field; did you mean 'horizon'\?/],

@@ -1,0 +1,34 @@
+/**
+ * Boundary parts in problem files (value, flux, convection) against closed forms of steady
+ * conduction in a rod (common practice: with κ constant the steady temperature is linear in x).
+ * The initial state is the steady state itself, so the exact solution is constant in time and
+ * linear in space, and the computed probes must reproduce it up to the solver tolerance.
+ */
+import { describe, expect, it } from 'vitest';
+import { buildProblem, parseProblem, runProblem } from '../../src/problem-file/index';
+
+const base = { domain: { shape: 'interval', from: 0, to: 1, cells: 2 }, horizon: 0.5, strategy: 'sparse', maxDofs: 400, probes: [[0.25, 0.5], [0.5, 0.25]] };
+
+describe('problem-file boundary parts', () => {
+  it('held value at x = 0, heat flux q into the rod at x = 1: u = 1 + q x', () => {
+    // κ ∂u/∂n = q at x = 1 (n = +x): u′ = q; u(0) = 1.
+    const spec = parseProblem({ ...base, initial: '1 + 0.5*x', boundary: [
+      { kind: 'value', where: 'x < 0.5', value: '1' },
+      { kind: 'flux', where: 'x > 0.5', flux: '0.5' },
+    ] });
+    const r = runProblem(buildProblem(spec));
+    expect(r.probes[0]!.value).toBeCloseTo(1.25, 4);
+    expect(r.probes[1]!.value).toBeCloseTo(1.125, 4);
+  });
+
+  it('held value at x = 0, convection to u∞ = 0 with h = 1 at x = 1: slope s = h(u∞ − 1)/(κ + h) = −1/2', () => {
+    // κ u′(1) = h (u∞ − u(1)) with u = 1 + s x  ⇒  κ s = h (u∞ − 1 − s).
+    const spec = parseProblem({ ...base, initial: '1 - 0.5*x', boundary: [
+      { kind: 'value', where: 'x < 0.5', value: '1' },
+      { kind: 'convection', where: 'x > 0.5', transferCoefficient: '1', ambient: '0' },
+    ] });
+    const r = runProblem(buildProblem(spec));
+    expect(r.probes[0]!.value).toBeCloseTo(0.75, 4);
+    expect(r.probes[1]!.value).toBeCloseTo(0.875, 4);
+  });
+});
