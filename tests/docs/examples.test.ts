@@ -11,7 +11,7 @@ import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { format } from 'node:util';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { outputMatches, readmeBlocks, statedOutputs, tsdocExamples, unmarkedClaims } from '../../scripts/examples.mjs';
 
 const root = join(__dirname, '..', '..');
@@ -29,6 +29,17 @@ globalThis.__chronomeshExampleOut = (key, line, ...args) => {
   if (!m.has(line)) m.set(line, format(...args));
   printed.set(key, m);
 };
+
+// Examples print nothing during the test run. Some start asynchronous work that finishes after
+// their module has loaded (`solveAdaptiveAsync(…).then(…)` with an AbortSignal.timeout of at most
+// 3 s); console.log stays silenced until that work has settled, so no output arrives while the
+// worker shuts down.
+const realLog = console.log;
+console.log = () => {};
+afterAll(async () => {
+  await new Promise((resolve) => setTimeout(resolve, 4000));
+  console.log = realLog;
+}, 20_000);
 
 describe('TSDoc and README examples', () => {
   it('there are examples to run', () => expect(all.length).toBeGreaterThan(30));
@@ -53,13 +64,7 @@ describe('TSDoc and README examples', () => {
     const code = lines.join('\n');
     const path = join(scratch, `${ex.file.replace(/[\\/.]/g, '_')}_${ex.line}.ts`);
     writeFileSync(path, code.includes('import ') ? code : `${code}\nexport {};\n`);
-    const log = console.log;
-    console.log = () => {};
-    try {
-      await import(pathToFileURL(path).href);
-    } finally {
-      console.log = log;
-    }
+    await import(pathToFileURL(path).href);
     for (const { line, expected } of stated) {
       const actual = printed.get(name)?.get(line);
       expect(actual, `${name} line ${line} never printed`).toBeDefined();
