@@ -6,6 +6,7 @@
  * (the `adaptive.` suite of bench/run.ts reads them).
  */
 import { HeatProblem, intervalDomain, rectangleDomain, solveAdaptive } from '../src/index';
+import { observedRate } from '../src/problem-file/run';
 
 const [which = 'd2', maxU = '1e6', maxS = '300'] = process.argv.slice(2);
 const domain = which === 'd1' ? intervalDomain(0, 1, 2) : rectangleDomain(0, 1, 0, 1, 2, 2);
@@ -30,19 +31,13 @@ const result = solveAdaptive(problem, {
   },
 });
 const h = result.history;
-const half = h.slice(Math.floor(h.length / 2));
-// Least-squares slope of −log E against log N over the second half of the steps.
-const xs = half.map((s) => Math.log(s.unknowns));
-const ys = half.map((s) => -Math.log(s.estimate));
-const mx = xs.reduce((a, b) => a + b, 0) / xs.length;
-const my = ys.reduce((a, b) => a + b, 0) / ys.length;
-let num = 0, den = 0;
-for (let i = 0; i < xs.length; i++) { num += (xs[i]! - mx) * (ys[i]! - my); den += (xs[i]! - mx) ** 2; }
+// Least-squares slope of −log E against log N over the second half of the steps (the CLI's rate).
+const rate = observedRate(h.map((s) => ({ dofs: s.unknowns, estimate: s.estimate }))) ?? NaN;
 const seconds = (performance.now() - t0) / 1000;
 const final = h.at(-1)!;
 const peak = process.resourceUsage().maxRSS * 1024;
 console.log(JSON.stringify({
   component: `${component}.run`, size: final.unknowns, nsPerUnit: (seconds * 1e9) / final.unknowns, steps: h.length, seconds, cpuSeconds: cpu(),
-  estimate: final.estimate, rate: den > 0 ? num / den : NaN, stopReason: result.stopReason,
+  estimate: final.estimate, rate, stopReason: result.stopReason,
   peakRssBytes: peak, rssBytesPerUnknown: peak / final.unknowns,
 }));
