@@ -264,6 +264,9 @@ class AdaptiveRun {
     solveTo(Number.isFinite(this.lastEstimate) ? v.fraction * this.lastEstimate : 0);
     let t2 = performance.now();
     system = null;
+    // What the previous step built and this one did not reuse serves no more (docs/adaptivity.md §5).
+    caches.plans.prune();
+    caches.inverses.prune();
     // ESTIMATE on the enlarged set Λ̲.
     this.checkpoint('estimate');
     const bigSet = enlargeDoubleTree(domain, set, this.opts.enlargement);

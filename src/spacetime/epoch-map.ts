@@ -23,6 +23,11 @@ export class EpochMap<V> {
     for (const [key, item] of this.items) if (item.epoch < this.epoch - keep) this.items.delete(key);
   }
 
+  /** Deletes the entries not used during the current epoch (what the current step did not ask for). */
+  prune(): void {
+    for (const [key, item] of this.items) if (item.epoch < this.epoch) this.items.delete(key);
+  }
+
   get size(): number {
     return this.items.size;
   }

@@ -10,58 +10,90 @@ import type { DoubleTree } from './double-tree';
 import type { SpatialPlanCache } from './spatial-plan-cache';
 
 export class SpatialPassPlan {
-  private readonly plans: (SpatialOperatorPlan | null)[];
+  // Resolved plans (null for an empty fibre), or, for a one-shot pass, the fibre ids per function
+  // and the plans built during the sweep (docs/adaptivity.md §3: the estimator keeps no plans).
+  private readonly plans: (SpatialOperatorPlan | null)[] | null;
+  private readonly inIds: Int32Array;
+  private readonly outIds: Int32Array;
+  private readonly cache: SpatialPlanCache;
   private readonly inOff: Int32Array;
   private readonly outOff: Int32Array;
   readonly inSize: number;
   readonly outSize: number;
 
-  constructor(input: DoubleTree, output: DoubleTree, cache: SpatialPlanCache) {
+  /**
+   * @param transient build each spatial plan when the sweep reaches it and drop it after use, so
+   *   that at most one plan is alive (for passes applied once: the cost is the same, the memory is
+   *   one plan instead of all of them); consecutive functions with the same fibre pair share it.
+   */
+  constructor(input: DoubleTree, output: DoubleTree, cache: SpatialPlanCache, transient = false) {
     if (input.tree.size !== output.tree.size || input.kind !== output.kind) {
       throw new InvalidArgumentError('spatial pass needs two double trees with the same temporal projection', { field: 'output' });
     }
     const nf = input.functionCount;
-    this.plans = new Array(nf);
+    this.cache = cache;
     this.inOff = input.functionOffset;
     this.outOff = output.functionOffset;
     this.inSize = input.size;
     this.outSize = output.size;
+    this.inIds = new Int32Array(nf);
+    this.outIds = new Int32Array(nf);
+    this.plans = transient ? null : new Array<SpatialOperatorPlan | null>(nf);
     for (let f = 0; f < nf; f++) {
       const a = input.functionFibre[f]!;
       const b = output.functionFibre[f]!;
       const empty = input.pool.get(a).length === 0 || output.pool.get(b).length === 0;
-      this.plans[f] = empty ? null : cache.get(a, b);
+      this.inIds[f] = empty ? -1 : a;
+      this.outIds[f] = b;
+      if (this.plans) this.plans[f] = empty ? null : cache.get(a, b);
+    }
+  }
+
+  /** Calls `visit` with the plan of every function that has one, in function order. */
+  private sweep(visit: (p: SpatialOperatorPlan, f: number) => void): void {
+    const { plans, inIds, outIds } = this;
+    if (plans) {
+      for (let f = 0; f < plans.length; f++) {
+        const p = plans[f];
+        if (p) visit(p, f);
+      }
+      return;
+    }
+    let last: SpatialOperatorPlan | null = null;
+    let lastA = -1;
+    let lastB = -1;
+    for (let f = 0; f < inIds.length; f++) {
+      const a = inIds[f]!;
+      if (a < 0) continue;
+      const b = outIds[f]!;
+      if (a !== lastA || b !== lastB) {
+        last = this.cache.build(a, b);
+        lastA = a;
+        lastB = b;
+      }
+      visit(last!, f);
     }
   }
 
   /** y = (I ⊗ (wm·M + wa·A)) x (overwrites y). */
   apply(x: Float64Array, y: Float64Array, massWeight: number, stiffWeight: number): void {
     y.fill(0, 0, this.outSize);
-    const { plans, inOff, outOff } = this;
-    for (let f = 0; f < plans.length; f++) {
-      const p = plans[f];
-      if (p) p.apply(x, inOff[f]!, y, outOff[f]!, massWeight, stiffWeight);
-    }
+    const { inOff, outOff } = this;
+    this.sweep((p, f) => p.apply(x, inOff[f]!, y, outOff[f]!, massWeight, stiffWeight));
   }
 
   /** yM = (I ⊗ M) x and yA = (I ⊗ A) x (overwrite). */
   applySplit(x: Float64Array, yM: Float64Array, yA: Float64Array): void {
     yM.fill(0, 0, this.outSize);
     yA.fill(0, 0, this.outSize);
-    const { plans, inOff, outOff } = this;
-    for (let f = 0; f < plans.length; f++) {
-      const p = plans[f];
-      if (p) p.applySplit(x, inOff[f]!, yM, outOff[f]!, yA, outOff[f]!);
-    }
+    const { inOff, outOff } = this;
+    this.sweep((p, f) => p.applySplit(x, inOff[f]!, yM, outOff[f]!, yA, outOff[f]!));
   }
 
   /** y = (I ⊗ M) xM + (I ⊗ A) xA (overwrites y). */
   applySum(xM: Float64Array, xA: Float64Array, y: Float64Array): void {
     y.fill(0, 0, this.outSize);
-    const { plans, inOff, outOff } = this;
-    for (let f = 0; f < plans.length; f++) {
-      const p = plans[f];
-      if (p) p.applySum(xM, inOff[f]!, xA, inOff[f]!, y, outOff[f]!);
-    }
+    const { inOff, outOff } = this;
+    this.sweep((p, f) => p.applySum(xM, inOff[f]!, xA, inOff[f]!, y, outOff[f]!));
   }
 }

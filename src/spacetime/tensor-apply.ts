@@ -68,8 +68,10 @@ export class TensorOperatorPlan implements LinearOperator {
    *   derivative form D, since B = D ⊗ M_x + N ⊗ A_x)
    * @param timeFormWithStiffness temporal factor of the term with the spatial stiffness A_x
    *   (for B: the mass form N)
+   * @param opts.oneShot build each spatial plan during the apply and drop it afterwards (for a
+   *   plan applied once, as in the estimator: same cost, one spatial plan alive instead of all)
    */
-  constructor(timeFormWithMass: TemporalForm, timeFormWithStiffness: TemporalForm, input: DoubleTree, output: DoubleTree, cache: SpatialPlanCache, T: number) {
+  constructor(timeFormWithMass: TemporalForm, timeFormWithStiffness: TemporalForm, input: DoubleTree, output: DoubleTree, cache: SpatialPlanCache, T: number, opts: { oneShot?: boolean } = {}) {
     this.input = input;
     this.output = output;
     this.inSize = input.size;
@@ -80,8 +82,8 @@ export class TensorOperatorPlan implements LinearOperator {
     this.spaceFirstSet = sigma;
     const forms = [timeFormWithMass, timeFormWithStiffness] as const;
     this.upperTime = new TemporalPassPlan(forms, input, theta, 'upper', T);
-    this.upperSpace = new SpatialPassPlan(theta, output, cache);
-    this.lowerSpace = new SpatialPassPlan(input, sigma, cache);
+    this.upperSpace = new SpatialPassPlan(theta, output, cache, opts.oneShot === true);
+    this.lowerSpace = new SpatialPassPlan(input, sigma, cache, opts.oneShot === true);
     this.lowerTime = new TemporalPassPlan(forms, sigma, output, 'lower', T);
     this.zM = new Float64Array(theta.size);
     this.zA = new Float64Array(theta.size);

@@ -40,12 +40,12 @@ export function enlargedResidual(
   const w = sourceLoadWithBoundary(problem, test, plans); // with boundary data (./boundary-data-load)
   {
     const Bu = new Float64Array(test.size);
-    new TensorOperatorPlan('derivIn', 'mass', set, test, plans, T).apply(u, Bu);
+    new TensorOperatorPlan('derivIn', 'mass', set, test, plans, T, { oneShot: true }).apply(u, Bu);
     for (let i = 0; i < w.length; i++) w[i]! -= Bu[i]!;
   }
-  plans.advanceEpoch(0); // B's spatial plans are no longer needed
-  // v = K_Y w, one test node (two functions, one fibre) at a time.
-  const v = new Float64Array(test.size);
+  plans.advanceEpoch(0); // the load's spatial plans are no longer needed
+  // v = K_Y w, one test node (two functions, one fibre) at a time; in place (w is not needed after).
+  const v = w;
   const inverses = new FibreInverseCache(domain, pool, plans, inner);
   for (let f = 0; f < test.functionCount; f++) {
     const o = test.functionOffset[f]!;
@@ -57,7 +57,7 @@ export function enlargedResidual(
   plans.advanceEpoch(0);
   // r = Bᵀ v on Λ̲, then the initial-trace terms γ0ᵀ u0 − G ũ.
   const r = new Float64Array(enlarged.size);
-  new TensorOperatorPlan('derivOut', 'mass', test, enlarged, plans, T).apply(v, r);
+  new TensorOperatorPlan('derivOut', 'mass', test, enlarged, plans, T, { oneShot: true }).apply(v, r);
   const G = new InitialTraceOperator(enlarged, plans, T);
   G.addTraced(initialLoadWithLifting(problem, G.traceFibre, plans), r, 1);
   const ut = new Float64Array(enlarged.size);

@@ -146,4 +146,9 @@ export class FibreInverseCache {
   advanceEpoch(keep = 1): void {
     this.items.advance(keep);
   }
+
+  /** Releases the inverses not used during the current epoch. */
+  prune(): void {
+    this.items.prune();
+  }
 }

@@ -149,6 +149,36 @@ describe('adaptive loop: caches across steps', () => {
     expect(inverses.size).toBe(0);
   });
 
+  it('prune keeps exactly what the current epoch asked for', () => {
+    const domain = intervalDomain(0, 1, 2);
+    const big = DoubleTree.sparseGrid(domain, 5);
+    const small = DoubleTree.sparseGrid(domain, 2, big.pool);
+    const problem = new HeatProblem({ domain, T: 1, initial: () => 1 });
+    const use = (set: DoubleTree, caches: { plans: SpatialPlanCache; inverses: FibreInverseCache }): void => {
+      const sys = new SpaceTimeSystem(problem, set, { caches });
+      const x = new Float64Array(set.size).fill(1);
+      sys.KX.apply(x, new Float64Array(set.size));
+      sys.S.apply(x, new Float64Array(set.size));
+    };
+    const fresh = (): { plans: SpatialPlanCache; inverses: FibreInverseCache } => {
+      const plans = new SpatialPlanCache(domain, big.pool);
+      return { plans, inverses: new FibreInverseCache(domain, big.pool, plans, { kind: 'multigrid' }) };
+    };
+    const reference = fresh();
+    use(small, reference); // what the small set asks for, counted in caches of its own
+    const shared = fresh();
+    use(big, shared);
+    expect(shared.plans.size).toBeGreaterThan(reference.plans.size);
+    shared.plans.advanceEpoch(1);
+    shared.inverses.advanceEpoch(1);
+    use(small, shared);
+    expect(shared.plans.size).toBeGreaterThan(reference.plans.size); // the big set's plans are still kept
+    shared.plans.prune();
+    shared.inverses.prune();
+    expect(shared.plans.size).toBe(reference.plans.size);
+    expect(shared.inverses.size).toBe(reference.inverses.size);
+  });
+
   it('refuses caches of another fibre pool', () => {
     const domain = intervalDomain(0, 1, 2);
     const a = DoubleTree.sparseGrid(domain, 3);

@@ -38,6 +38,16 @@ describe.each([1, 2] as const)('tensor-product apply, d = %i', (dim) => {
       // Intermediate sets stay proportional to the input and output (linear cost, §5.2).
       const io = trial.size + test.size;
       expect(B.timeFirstSet.size + B.spaceFirstSet.size).toBeLessThan(4 * io);
+      // One-shot plans (spatial plans built during the apply and dropped, as the estimator does)
+      // against the same dense reference; their cache stays empty.
+      const oneShot = new SpatialPlanCache(domain, trial.pool);
+      const y1 = new Float64Array(test.size);
+      new TensorOperatorPlan('derivIn', 'mass', trial, test, oneShot, T, { oneShot: true }).apply(x, y1);
+      expect(relativeError(y1, matVec(Bd, x))).toBeLessThan(1e-12);
+      const w1 = new Float64Array(trial.size);
+      new TensorOperatorPlan('derivOut', 'mass', test, trial, oneShot, T, { oneShot: true }).apply(v, w1);
+      expect(relativeError(w1, matVec(Btd, v))).toBeLessThan(1e-12);
+      expect(oneShot.size).toBe(0);
     }
   });
 
