@@ -6,7 +6,8 @@ import { defineConfig, type Options } from 'tsup';
  * - src/vendor/* (third-party packages without `sideEffects: false`, see those
  *   files): emitted as dist/vendor/NAME.js|.cjs, so a user's bundler can drop
  *   them with the rest of an unused part of chronomesh (tree shaking);
- * - the CLI's and the problem-file layer's import of the public entry ('../index'): they run on
+ * - the CLI's, the problem-file layer's and the file layer's (src/files, node-only) import of the
+ *   public entry ('../index'): they run on
  *   dist/index.js instead of carrying a second copy of the library (one class identity for
  *   `instanceof`, and the core bundle never contains the expression parser);
  * - the CLI's (and its bench code's) import of the problem-file layer: dist/problem-file.js.
@@ -24,7 +25,7 @@ function separateFiles(cliUsesIndex: boolean): NonNullable<Options['esbuildPlugi
       }));
       if (cliUsesIndex) {
         build.onResolve({ filter: /^\.\.\/index$/ }, (args) =>
-          /\/src\/(cli|problem-file)\//.test(args.importer) ? { path: `./index.${ext}`, external: true } : undefined);
+          /\/src\/(cli|problem-file|files)\//.test(args.importer) ? { path: `./index.${ext}`, external: true } : undefined);
         build.onResolve({ filter: /^\.\.\/(src\/)?problem-file\/index$/ }, (args) =>
           /\/(src\/cli|bench)\//.test(args.importer) ? { path: `./problem-file.${ext}`, external: true } : undefined);
       }
@@ -49,9 +50,9 @@ export default defineConfig([
   // dist/index.*): ESM + CommonJS + declarations (dist/ is emptied by the build script).
   {
     ...common,
-    entry: { index: 'src/index.ts', 'problem-file': 'src/problem-file/index.ts' },
+    entry: { index: 'src/index.ts', 'problem-file': 'src/problem-file/index.ts', files: 'src/files/index.ts' },
     format: ['esm', 'cjs'],
-    dts: { entry: { index: 'src/index.ts', 'problem-file': 'src/problem-file/index.ts' } },
+    dts: { entry: { index: 'src/index.ts', 'problem-file': 'src/problem-file/index.ts', files: 'src/files/index.ts' } },
     esbuildPlugins: [separateFiles(true)],
   },
   // The vendored re-exports, one small file per package and format.

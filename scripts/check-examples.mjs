@@ -34,7 +34,9 @@ writeFileSync(join(dir, 'tsconfig.json'), JSON.stringify({
     types: ['node'], typeRoots: [join(root, 'node_modules', '@types')],
     strict: true, isolatedModules: true, esModuleInterop: true,
     skipLibCheck: false, noEmit: true, baseUrl: root,
-    paths: { chronomesh: [join(root, 'src', 'index.ts')] },
+    // chronomesh/files maps to src/ too, so that its types are the same declarations as the core's
+    // (chronomesh/problem-file resolves to dist/ through the package's exports).
+    paths: { chronomesh: [join(root, 'src', 'index.ts')], 'chronomesh/files': [join(root, 'src', 'files', 'index.ts')] },
   },
   include: ['*.ts', join(root, 'src', 'types', '*.d.ts')],
 }, null, 2));

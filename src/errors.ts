@@ -184,6 +184,36 @@ export class NotConvergedError extends ConvergenceError {
   }
 }
 
+/** What is wrong with a file refused by {@link CorruptFileError}. */
+export type FileProblem = 'foreign' | 'truncated' | 'checksum' | 'version' | 'malformed' | 'mismatch';
+
+/**
+ * A file (or byte array) is not a readable chronomesh file: another format (`'foreign'`), cut
+ * short (`'truncated'`), altered (`'checksum'`), written by another version of the format
+ * (`'version'`), internally inconsistent (`'malformed'`), or it does not replay on this build
+ * (`'mismatch'`). `problem` says which; `field` names the part of the file, `offset` the byte
+ * position where it was detected (when there is one), `expected` / `received` what was expected
+ * and what was found.
+ *
+ * @example
+ * ```ts
+ * import { CorruptFileError, decodeSolution } from 'chronomesh';
+ * try { decodeSolution(new TextEncoder().encode('{"hello": 1}')); }
+ * catch (e) { if (e instanceof CorruptFileError) console.log(e.problem, e.offset); } // → foreign 0
+ * ```
+ */
+export class CorruptFileError extends ChronomeshError {
+  /** Kind of defect. */
+  readonly problem: FileProblem;
+  /** Byte offset where the defect was detected, if any. */
+  readonly offset: number | undefined;
+  constructor(message: string, problem: FileProblem, details: ErrorDetails & { offset?: number } = {}) {
+    super('corrupt-file', message, details);
+    this.problem = problem;
+    this.offset = details.offset;
+  }
+}
+
 /** Formats a value for an error message without dumping large arrays. */
 export function describeValue(v: unknown): string {
   if (typeof v === 'number') return Number.isNaN(v) ? 'NaN' : String(v);

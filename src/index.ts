@@ -7,6 +7,8 @@
 export {
   ChronomeshError,
   ConvergenceError,
+  CorruptFileError,
+  type FileProblem,
   InvalidArgumentError,
   InvalidIndexSetError,
   InvalidMeshError,

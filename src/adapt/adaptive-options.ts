@@ -13,6 +13,7 @@ import type { AdaptiveOptions } from './adaptive-solver';
 const ADAPTIVE_KEYS: Record<keyof Required<AdaptiveOptions>, true> = {
   theta: true, tolerance: true, maxUnknowns: true, maxSteps: true, maxSeconds: true,
   initialSet: true, solverFraction: true, inner: true, onStep: true, onProgress: true, signal: true, enlargement: true, markSeparately: true,
+  checkpoint: true, resume: true,
 };
 
 /** Checks `solveAdaptive(problem, opts)`: the problem, then the options (`undefined` gives `{}`). */
@@ -34,6 +35,13 @@ export function validateAdaptiveOptions(opts: unknown, problem: HeatProblem, fie
   if (o.enlargement !== undefined) {
     const e = checkOptions<{ spatialGenerations?: number }>(o.enlargement, `${field}.enlargement`, ['spatialGenerations']);
     if (e.spatialGenerations !== undefined) checkInteger(e.spatialGenerations, `${field}.enlargement.spatialGenerations`, 1, 8);
+  }
+  if (o.checkpoint !== undefined) checkFunction(o.checkpoint, `${field}.checkpoint`, 'a function (bytes, info) => void');
+  if (o.resume !== undefined && !(o.resume instanceof Uint8Array)) {
+    throw new InvalidArgumentError(`${field}.resume must be the bytes of a checkpoint (a Uint8Array)`, { field: `${field}.resume`, expected: 'Uint8Array', received: o.resume === null ? 'null' : typeof o.resume });
+  }
+  if (o.resume !== undefined && o.initialSet !== undefined) {
+    throw new InvalidArgumentError(`give either ${field}.initialSet or ${field}.resume, not both (a resumed run continues with the saved set)`, { field: `${field}.initialSet`, expected: 'undefined when resume is given', received: 'a DoubleTree' });
   }
   if (o.initialSet !== undefined) checkSetOnDomain(o.initialSet, problem.domain, `${field}.initialSet`);
   return o;

@@ -11,6 +11,7 @@
  *   - the estimator costs one application of B, K_Y and Bᵀ on Λ̲ (no preconditioner on Λ̲).
  */
 import { InvalidArgumentError, RunInterruptedError, SolverBreakdownError } from '../errors';
+import { BYTES_PER_SYSTEM_UNKNOWN, memoryBudget } from '../validation/index';
 import { DoubleTree } from '../spacetime/double-tree';
 import { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import { SpaceTimeSolution } from '../spacetime/space-time-solution';
@@ -25,6 +26,30 @@ import { enlargeDoubleTree, type EnlargementOptions } from './enlargement';
 import { embeddingMap, prolongCoefficients } from './embedding';
 import { estimateResidual } from './estimator';
 import { refineDoubleTree } from './refine';
+import { decodeCheckpoint, encodeCheckpoint, type AdaptiveCheckpointInfo } from './checkpoint';
+
+/**
+ * Peak bytes per unknown of the enlarged set Λ̲ while the estimator works on it: Λ̲ with its test
+ * set (about twice as many functions) and the vectors of B, K_Y and Bᵀ on both — taken as three
+ * times the per-unknown cost of a space-time system (BYTES_PER_SYSTEM_UNKNOWN).
+ */
+export const BYTES_PER_ENLARGED_UNKNOWN = 3 * BYTES_PER_SYSTEM_UNKNOWN;
+
+/**
+ * Estimated peak memory in bytes of an adaptive step on `unknowns` = #Λ whose enlarged set has
+ * `enlargedUnknowns` = #Λ̲: the system on Λ with its solve (800 B per unknown, the figure the
+ * space-time system's own check uses) and the estimator on Λ̲ (2400 B per unknown). `solveAdaptive`
+ * stops with reason `'memory'` before a step whose estimate exceeds the memory budget.
+ *
+ * @example
+ * ```ts
+ * import { adaptiveStepBytes } from 'chronomesh';
+ * console.log(adaptiveStepBytes(1e5, 5e5) / 1024 ** 3 < 2); // → true — a 1e5-unknown step with #Λ̲ = 5e5 fits in 2 GiB
+ * ```
+ */
+export function adaptiveStepBytes(unknowns: number, enlargedUnknowns: number): number {
+  return unknowns * BYTES_PER_SYSTEM_UNKNOWN + enlargedUnknowns * BYTES_PER_ENLARGED_UNKNOWN;
+}
 
 /** One pass of the adaptive loop, as recorded in the history. */
 export interface AdaptiveStep {
@@ -103,6 +128,23 @@ export interface AdaptiveOptions {
    * {@link solveAdaptiveAsync}, which lets timers and other events run between steps.
    */
   signal?: AbortSignal;
+  /**
+   * Called after every completed step with a checkpoint of the run (bytes in the solution-file
+   * format, docs/solution-files.md): the step's solution, the set of the next step and the history.
+   * Store it (e.g. `checkpointToFile(path)` of `chronomesh/files` writes it atomically) and pass it
+   * as `resume` to continue the run later. With this option the set of the next step is also built
+   * after the last step, so that a finished run can be continued with larger limits.
+   */
+  checkpoint?: (bytes: Uint8Array, info: AdaptiveCheckpointInfo) => void;
+  /**
+   * Continue the run saved in this checkpoint (bytes from the `checkpoint` option) instead of
+   * starting anew: the problem must be the same (checked by its fingerprint) and its domain built
+   * like the saved one and not refined since (the saved bisections are replayed into it). The
+   * history starts with the saved steps and the next step is the saved step + 1; `maxSteps`
+   * counts all steps, `maxSeconds` this process's time. Not together with `initialSet`. A
+   * checkpoint of a run that could not continue (E = 0) returns its saved result at once.
+   */
+  resume?: Uint8Array;
 }
 
 /** Result of {@link solveAdaptive}. */
@@ -113,10 +155,12 @@ export interface AdaptiveResult {
   /**
    * Why the loop stopped: `'tolerance'` (E ≤ tolerance), `'unknowns'` (the next set would exceed
    * maxUnknowns), `'steps'` (maxSteps), `'time'` (maxSeconds; the step in progress is discarded),
-   * `'callback'` (onStep returned false) or `'aborted'` (the signal fired; the step in progress is
-   * discarded).
+   * `'callback'` (onStep returned false), `'aborted'` (the signal fired; the step in progress is
+   * discarded) or `'memory'` (the next step's estimated memory — the system on Λ and the estimator
+   * on Λ̲, see {@link adaptiveStepBytes}, with #Λ̲ extrapolated from this step's ratio #Λ̲/#Λ —
+   * would exceed the memory budget, see {@link setMemoryBudget}; the last completed step is returned).
    */
-  stopReason: 'tolerance' | 'unknowns' | 'steps' | 'time' | 'callback' | 'aborted';
+  stopReason: 'tolerance' | 'unknowns' | 'steps' | 'time' | 'callback' | 'aborted' | 'memory';
 }
 
 class Interrupted {
@@ -182,8 +226,8 @@ class AdaptiveRun {
   private readonly v: Validated;
   private readonly caches: SpatialCaches;
   private readonly start = performance.now();
-  private set: DoubleTree;
-  private u: Float64Array;
+  private set!: DoubleTree;
+  private u!: Float64Array;
   private lastEstimate = Infinity;
   private stepNo = 0;
   readonly history: AdaptiveStep[] = [];
@@ -192,11 +236,28 @@ class AdaptiveRun {
 
   constructor(private readonly problem: HeatProblem, private readonly opts: AdaptiveOptions) {
     this.v = validate(opts, problem);
-    this.set = opts.initialSet ?? defaultInitialSet(problem);
+    if (opts.resume !== undefined) {
+      const saved = decodeCheckpoint(opts.resume, problem, 'opts.resume');
+      this.history.push(...saved.history);
+      this.stepNo = saved.history.length;
+      this.lastEstimate = saved.history[saved.history.length - 1]!.estimate;
+      this.best = { solution: saved.solution, set: saved.solution.trialSet };
+      if (saved.next) {
+        this.set = saved.next;
+        // The prolongation the interrupted run made after the saved step.
+        this.u = prolongCoefficients(embeddingMap(saved.solution.trialSet, saved.next), saved.solution.coefficients, saved.next.size);
+      } else {
+        this.set = saved.solution.trialSet;
+        this.u = saved.solution.coefficients;
+        this.stopReason = saved.stopReason ?? 'tolerance';
+      }
+    } else {
+      this.set = opts.initialSet ?? defaultInitialSet(problem);
+      this.u = new Float64Array(this.set.size);
+    }
     if (this.set.size === 0) throw new InvalidArgumentError('the initial index set has no unknowns (the mesh has no free vertex at the sparse-grid levels tried)', { field: 'initialSet' });
     const plans = new SpatialPlanCache(problem.domain, this.set.pool);
     this.caches = { plans, inverses: new FibreInverseCache(problem.domain, this.set.pool, plans, opts.inner ?? { kind: 'multigrid' }) };
-    this.u = new Float64Array(this.set.size);
   }
 
   private elapsed(): number {
@@ -307,12 +368,17 @@ class AdaptiveRun {
     else if (this.stepNo + 1 >= v.maxSteps) stop = 'steps';
     else if (this.elapsed() >= v.maxSeconds) stop = 'time';
     let next: DoubleTree | null = null;
-    if (!stop) {
-      this.checkpoint('refine');
+    // With checkpoints the next set is built after the last step too, so a finished run can be
+    // continued; it is computed after everything this step reports, so the results are the same.
+    if (!stop || (this.opts.checkpoint && ind.estimate > 0)) {
+      if (!stop) this.checkpoint('refine');
       const marked = this.opts.markSeparately ? markSeparately(ind.eta2, spatialCandidates(set, bigSet), v.theta) : dorflerMark(ind.eta2, v.theta);
-      record.marked = marked.length;
+      if (!stop) record.marked = marked.length;
       next = refineDoubleTree(domain, set, bigSet, marked);
-      if (next.size > v.maxUnknowns) stop = 'unknowns';
+      if (!stop && next.size > v.maxUnknowns) stop = 'unknowns';
+      // The next step would hold the system on next and the estimator on its enlarged set, whose
+      // size is extrapolated with this step's ratio #Λ̲/#Λ.
+      else if (!stop && adaptiveStepBytes(next.size, (next.size * bigSet.size) / set.size) > memoryBudget()) stop = 'memory';
     }
     const t4 = performance.now();
     record.timings.refine = (t4 - t3) / 1000;
@@ -322,6 +388,10 @@ class AdaptiveRun {
     this.best = { solution, set };
     if (this.opts.onStep && this.opts.onStep(record, solution) === false) stop = 'callback';
     if (!stop && this.opts.signal?.aborted) stop = 'aborted';
+    if (this.opts.checkpoint) {
+      const bytes = encodeCheckpoint(problem, { solution, next, history: this.history, stopReason: stop });
+      this.opts.checkpoint(bytes, { step: this.stepNo, unknowns: set.size, estimate: ind.estimate, bytes: bytes.length });
+    }
     this.stepNo++;
     if (stop || !next) {
       this.stopReason = stop ?? 'steps';

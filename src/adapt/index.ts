@@ -2,6 +2,7 @@
 export {
   solveAdaptive,
   solveAdaptiveAsync,
+  adaptiveStepBytes,
   type AdaptiveOptions,
   type AdaptiveProgress,
   type AdaptiveResult,
@@ -12,3 +13,4 @@ export { estimateResidual, residualIndicators, type ResidualIndicators } from '.
 export { dorflerMark } from './dorfler';
 export { refineDoubleTree } from './refine';
 export { embeddingMap, prolongCoefficients } from './embedding';
+export type { AdaptiveCheckpointInfo } from './checkpoint';

@@ -30,6 +30,8 @@ export class BisectionForest {
   readonly reaction: Float64Array;
   /** Boundary parts per initial boundary edge (./boundary). */
   readonly boundary: BoundaryTables;
+  /** The labelled initial mesh the forest grew from (kept for serialisation, see ./forest-log). */
+  readonly initialMesh: InitialMesh;
 
   vertexCount = 0;
   elementCount = 0;
@@ -72,6 +74,7 @@ export class BisectionForest {
     this.kappa = init.kappa;
     this.reaction = init.reaction;
     this.boundary = init.boundary;
+    this.initialMesh = init;
     const vc = Math.max(16, 2 * nvInit);
     const ec = Math.max(16, 2 * neInit);
     this.vCoord = new Float64Array(vc * d);

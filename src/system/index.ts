@@ -9,3 +9,4 @@ export { TrialPreconditioner } from './trial-preconditioner';
 export { InitialTraceOperator } from './initial-trace';
 export { pcg, type PcgOptions, type PcgProgress, type PcgResult } from './pcg';
 export { measureOperatorCost, type OperatorCost, type OperatorCostOptions } from './operator-cost';
+export { problemFingerprint } from './problem-fingerprint';

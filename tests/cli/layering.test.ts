@@ -32,6 +32,13 @@ describe('layering', () => {
     expect([...g.files].filter((f) => f.includes('/problem-file/') || f.includes('/cli/'))).toEqual([]);
     expect(g.packages.has('jsep')).toBe(false);
   });
+  it('src/index.ts reaches neither src/files nor any node: module (the core runs in browsers and workers)', () => {
+    const g = importGraph(join(ROOT, 'src/index.ts'));
+    expect([...g.files].filter((f) => f.includes('/src/files/'))).toEqual([]);
+    expect([...g.packages].filter((p) => p.startsWith('node:') || ['fs', 'path', 'os'].includes(p))).toEqual([]);
+    // the file layer does use node:fs (so the check above is meaningful)
+    expect(importGraph(join(ROOT, 'src/files/index.ts')).packages.has('node:fs')).toBe(true);
+  });
   it('the problem-file layer does use jsep (so the check above is meaningful)', () => {
     expect(importGraph(join(ROOT, 'src/problem-file/index.ts')).packages.has('jsep')).toBe(true);
   });

@@ -57,7 +57,8 @@ describe('TSDoc and README examples', () => {
     mkdirSync(scratch, { recursive: true });
     const index = pathToFileURL(join(root, 'src', 'index.ts')).href;
     const problemFile = pathToFileURL(join(root, 'src', 'problem-file', 'index.ts')).href;
-    const lines = ex.code.replace(/from 'chronomesh\/problem-file'/g, `from '${problemFile}'`).replace(/from 'chronomesh'/g, `from '${index}'`).split('\n');
+    const files = pathToFileURL(join(root, 'src', 'files', 'index.ts')).href;
+    const lines = ex.code.replace(/from 'chronomesh\/problem-file'/g, `from '${problemFile}'`).replace(/from 'chronomesh\/files'/g, `from '${files}'`).replace(/from 'chronomesh'/g, `from '${index}'`).split('\n');
     for (const { line } of stated) {
       lines[line - 1] = lines[line - 1]!.replace('console.log(', `globalThis.__chronomeshExampleOut!(${JSON.stringify(name)}, ${line}, `);
     }
