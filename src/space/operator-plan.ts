@@ -65,6 +65,20 @@ function subsetLocal(set: Int32Array, setLocal: Int32Array, sub: Int32Array): In
  * plan.apply(x, 0, y, 0, 0, 1); // y = A x
  * ```
  */
+/** A leaf mesh with its element tables, shared by several {@link SpatialOperatorPlan}s. @internal */
+export interface SharedLeafMesh {
+  /** The closed vertex set the mesh resolves (sorted). */
+  readonly union: Int32Array;
+  readonly mesh: LeafMesh & { readonly memberLocal: Int32Array; readonly forestElement: Int32Array };
+  readonly tables: ElementTables;
+}
+
+/** The leaf mesh and element tables of a closed vertex set, for {@link SpatialOperatorPlan}'s `shared`. @internal */
+export function sharedLeafMesh(domain: SpatialDomain, union: Int32Array): SharedLeafMesh {
+  const mesh = domain.leafMesh(union);
+  return { union, mesh, tables: elementTables(domain.forest, mesh) };
+}
+
 export class SpatialOperatorPlan {
   readonly domain: SpatialDomain;
   readonly inSet: Int32Array;
@@ -80,19 +94,33 @@ export class SpatialOperatorPlan {
   private readonly r: Float64Array;
   private readonly r2: Float64Array;
 
-  constructor(domain: SpatialDomain, inSet: Int32Array, outSet: Int32Array) {
+  /**
+   * @param shared (internal) the leaf mesh and element tables of a closed superset of both sets,
+   *   built once for several plans (one-shot passes group their plans by fibre union); the plan then
+   *   works on that mesh, which is exact because hierarchical M and A do not depend on the mesh
+   *   they are assembled on as long as it resolves every basis function involved.
+   */
+  constructor(domain: SpatialDomain, inSet: Int32Array, outSet: Int32Array, shared?: SharedLeafMesh) {
     checkInstance(domain, SpatialDomain, 'domain', 'a SpatialDomain');
-    domain.checkSet(inSet, 'inSet');
-    if (outSet !== inSet) domain.checkSet(outSet, 'outSet');
     this.domain = domain;
     this.inSet = inSet;
     this.outSet = outSet;
-    const union = unionOfTwoSorted(inSet, outSet);
-    const mesh = domain.leafMesh(union); // validates: both closed ⇒ union closed
+    let union: Int32Array;
+    let mesh: LeafMesh & { readonly memberLocal: Int32Array; readonly forestElement: Int32Array };
+    if (shared) {
+      union = shared.union;
+      mesh = shared.mesh;
+      this.rec = shared.tables;
+    } else {
+      domain.checkSet(inSet, 'inSet');
+      if (outSet !== inSet) domain.checkSet(outSet, 'outSet');
+      union = unionOfTwoSorted(inSet, outSet);
+      mesh = domain.leafMesh(union); // validates: both closed ⇒ union closed
+      this.rec = elementTables(domain.forest, mesh);
+    }
     this.mesh = mesh;
     this.inLocal = inSet === union ? mesh.memberLocal : subsetLocal(union, mesh.memberLocal, inSet);
     this.outLocal = outSet === inSet ? this.inLocal : outSet === union ? mesh.memberLocal : subsetLocal(union, mesh.memberLocal, outSet);
-    this.rec = elementTables(domain.forest, mesh);
     const n = this.mesh.vertexCount;
     this.u = new Float64Array(n);
     this.u2 = new Float64Array(n);

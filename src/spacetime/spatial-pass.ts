@@ -5,7 +5,9 @@
  * coordinates. The per-function plans are resolved once at construction.
  */
 import { InvalidArgumentError } from '../errors';
-import type { SpatialOperatorPlan } from '../space/index';
+import { SpatialOperatorPlan } from '../space/index';
+import { sharedLeafMesh, unionOfTwoSorted, type SharedLeafMesh } from '../space/operator-plan';
+import { FibrePool } from './fibre-pool';
 import type { DoubleTree } from './double-tree';
 import type { SpatialPlanCache } from './spatial-plan-cache';
 
@@ -15,6 +17,12 @@ export class SpatialPassPlan {
   private readonly plans: (SpatialOperatorPlan | null)[] | null;
   private readonly inIds: Int32Array;
   private readonly outIds: Int32Array;
+  // One-shot passes visit the functions grouped by the union of their two fibres, then by fibre
+  // pair, so that each distinct leaf mesh and each distinct plan is built once (fibres repeat across
+  // temporal nodes: a few dozen distinct ones serve hundreds of nodes, and many pairs share a union).
+  private readonly order: Int32Array | null;
+  private readonly unionOf: Int32Array | null;
+  private readonly unions: Int32Array[];
   private readonly cache: SpatialPlanCache;
   private readonly inOff: Int32Array;
   private readonly outOff: Int32Array;
@@ -24,7 +32,8 @@ export class SpatialPassPlan {
   /**
    * @param transient build each spatial plan when the sweep reaches it and drop it after use, so
    *   that at most one plan is alive (for passes applied once: the cost is the same, the memory is
-   *   one plan instead of all of them); consecutive functions with the same fibre pair share it.
+   *   one plan instead of all of them); the sweep visits the functions grouped by fibre pair, so
+   *   each distinct plan is built once.
    */
   constructor(input: DoubleTree, output: DoubleTree, cache: SpatialPlanCache, transient = false) {
     if (input.tree.size !== output.tree.size || input.kind !== output.kind) {
@@ -47,6 +56,16 @@ export class SpatialPassPlan {
       this.outIds[f] = b;
       if (this.plans) this.plans[f] = empty ? null : cache.get(a, b);
     }
+    this.unions = [];
+    if (transient) {
+      const grouping = groupByUnion(input.pool, this.inIds, this.outIds);
+      this.order = grouping.order;
+      this.unionOf = grouping.unionOf;
+      this.unions = grouping.unions;
+    } else {
+      this.order = null;
+      this.unionOf = null;
+    }
   }
 
   /** Calls `visit` with the plan of every function that has one, in function order. */
@@ -62,12 +81,22 @@ export class SpatialPassPlan {
     let last: SpatialOperatorPlan | null = null;
     let lastA = -1;
     let lastB = -1;
-    for (let f = 0; f < inIds.length; f++) {
+    let mesh: SharedLeafMesh | null = null;
+    let lastU = -1;
+    const order = this.order!;
+    const unionOf = this.unionOf!;
+    const pool = this.cache.pool;
+    for (let q = 0; q < order.length; q++) {
+      const f = order[q]!;
       const a = inIds[f]!;
-      if (a < 0) continue;
       const b = outIds[f]!;
+      const u = unionOf[f]!;
+      if (u !== lastU) {
+        mesh = sharedLeafMesh(this.cache.domain, this.unions[u]!);
+        lastU = u;
+      }
       if (a !== lastA || b !== lastB) {
-        last = this.cache.build(a, b);
+        last = new SpatialOperatorPlan(this.cache.domain, pool.get(a), pool.get(b), mesh!);
         lastA = a;
         lastB = b;
       }
@@ -96,4 +125,28 @@ export class SpatialPassPlan {
     const { inOff, outOff } = this;
     this.sweep((p, f) => p.applySum(xM, inOff[f]!, xA, inOff[f]!, y, outOff[f]!));
   }
+}
+
+/**
+ * For the functions with a plan (a[f] ≥ 0): the union of their two fibres as an index into
+ * `unions` (equal unions share one index), and the functions sorted by (union, a, b, f).
+ */
+function groupByUnion(pool: FibrePool, a: Int32Array, b: Int32Array): { order: Int32Array; unionOf: Int32Array; unions: Int32Array[] } {
+  const unionOf = new Int32Array(a.length).fill(-1);
+  const local = new FibrePool(); // unions interned only for this pass
+  const byPair = new Map<number, number>();
+  const idx: number[] = [];
+  for (let f = 0; f < a.length; f++) {
+    if (a[f]! < 0) continue;
+    const key = a[f]! * 0x200000 + b[f]!;
+    let u = byPair.get(key);
+    if (u === undefined) {
+      u = local.intern(unionOfTwoSorted(pool.get(a[f]!), pool.get(b[f]!)));
+      byPair.set(key, u);
+    }
+    unionOf[f] = u;
+    idx.push(f);
+  }
+  idx.sort((p, q) => unionOf[p]! - unionOf[q]! || a[p]! - a[q]! || b[p]! - b[q]! || p - q);
+  return { order: Int32Array.from(idx), unionOf, unions: local.fibres };
 }

@@ -13,7 +13,7 @@ import type { DoubleTree } from '../spacetime/double-tree';
 import { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import { TensorOperatorPlan } from '../spacetime/tensor-apply';
 import { testIndexSet } from '../spacetime/test-index-set';
-import { FibreInverseCache, type InnerSolver } from './fibre-inverse';
+import { FibreInverseCache, type FibreInverse, type InnerSolver } from './fibre-inverse';
 import type { HeatProblem } from './heat-problem';
 import { InitialTraceOperator } from './initial-trace';
 import { initialLoadWithLifting, sourceLoadWithBoundary } from './boundary-data-load';
@@ -44,16 +44,25 @@ export function enlargedResidual(
     for (let i = 0; i < w.length; i++) w[i]! -= Bu[i]!;
   }
   plans.advanceEpoch(0); // the load's spatial plans are no longer needed
-  // v = K_Y w, one test node (two functions, one fibre) at a time; in place (w is not needed after).
+  // v = K_Y w in place (w is not needed after), block by block. K_Y is block diagonal, so the blocks
+  // may go in any order: grouped by fibre, each distinct fibre's inverse is built once and only one
+  // is alive at a time (a few dozen distinct fibres serve hundreds of test functions).
   const v = w;
   const inverses = new FibreInverseCache(domain, pool, plans, inner);
-  for (let f = 0; f < test.functionCount; f++) {
+  const byFibre: number[] = [];
+  for (let f = 0; f < test.functionCount; f++) if (test.functionOffset[f + 1]! > test.functionOffset[f]!) byFibre.push(f);
+  byFibre.sort((a, b) => test.functionFibre[a]! - test.functionFibre[b]! || a - b);
+  let current = -1;
+  let inverse: FibreInverse | null = null;
+  for (const f of byFibre) {
+    const id = test.functionFibre[f]!;
+    if (id !== current) {
+      inverse = inverses.build(id);
+      current = id;
+    }
     const o = test.functionOffset[f]!;
-    if (test.functionOffset[f + 1]! === o) continue;
-    if ((f & 1) === 0) inverses.advanceEpoch(0);
-    inverses.get(test.functionFibre[f]!).apply(w, o, v, o, 0);
+    inverse!.apply(w, o, v, o, 0);
   }
-  inverses.advanceEpoch(0);
   plans.advanceEpoch(0);
   // r = Bᵀ v on Λ̲, then the initial-trace terms γ0ᵀ u0 − G ũ.
   const r = new Float64Array(enlarged.size);

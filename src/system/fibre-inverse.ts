@@ -126,7 +126,8 @@ export class FibreInverseCache {
     return this.items.getOrMake(fibreId, () => this.build(fibreId));
   }
 
-  private build(fibreId: number): FibreInverse {
+  /** A new inverse on fibre `fibreId`, not kept (for one-shot sweeps such as the estimator's K_Y). */
+  build(fibreId: number): FibreInverse {
     if (this.solver.kind === 'exact') {
       const { M, A } = denseFibreMatrices(this.plans, fibreId);
       return new ExactFibreInverse(M, A);
