@@ -102,9 +102,23 @@ const GP = gaussLegendre01(5);
  * on a fixed leaf mesh, for nodal values given as (1 − θ)·va + θ·vb.
  */
 export class SliceIntegrator {
-  /** Results of the last {@link SliceIntegrator.integrate}. */
+  /**
+   * Results of the last {@link SliceIntegrator.integrate}: ∫|∇(u − u_h)|² and ∫(u − u_h)²; after
+   * {@link SliceIntegrator.integrateCross}: the cross terms ∫∇u·∇v and ∫u v.
+   */
   g2 = 0;
   v2 = 0;
+  /** After {@link SliceIntegrator.integrateCross}: ∫|∇u|² and ∫u² with the same rule. */
+  a2 = 0;
+  b2 = 0;
+  /** Exact-solution evaluations so far (all calls). */
+  evaluations = 0;
+  private cross = false;
+  private ea = 0;
+  private eb = 0;
+  /** Times the spatial rule is chosen for: layer widths from tLo, the tail's reach from tHi. */
+  private tLo = 0;
+  private tHi = 0;
   private readonly flags: Int32Array;
   private readonly size: Float64Array;
   private readonly corner: Uint8Array;
@@ -203,15 +217,37 @@ export class SliceIntegrator {
   /** Integrates over all elements at time t (t > 0 is the time since the initial singularity). */
   integrate(t: number, va: Float64Array, vb: Float64Array, theta: number): void {
     this.t = t;
+    this.tLo = t;
+    this.tHi = t;
+    this.cross = false;
     this.g2 = 0;
     this.v2 = 0;
     if (this.mesh.dim === 1) this.integrate1D(va, vb, theta);
     else this.integrate2D(va, vb, theta);
   }
 
-  /** Layer width √(κt) on element e. */
+  /**
+   * Cross terms at time t for a nodal field v: g2 = ∫∇u·∇v, v2 = ∫u v, a2 = ∫|∇u|², b2 = ∫u², with
+   * the rule every time in [tLo, tHi] would get (the finer of the two choices per element), so that
+   * one rule serves a whole time panel (./error-panels).
+   */
+  integrateCross(t: number, tLo: number, tHi: number, v: Float64Array): void {
+    this.t = t;
+    this.tLo = tLo;
+    this.tHi = tHi;
+    this.cross = true;
+    this.g2 = 0;
+    this.v2 = 0;
+    this.a2 = 0;
+    this.b2 = 0;
+    if (this.mesh.dim === 1) this.integrate1D(v, v, 0);
+    else this.integrate2D(v, v, 0);
+    this.cross = false;
+  }
+
+  /** Layer width √(κ t_lo) on element e (the thinnest layer of the times the rule serves). */
   private width(e: number): number {
-    return Math.sqrt(this.mesh.kappa[this.mesh.elementMaterial[e]!]! * this.t);
+    return Math.sqrt(this.mesh.kappa[this.mesh.elementMaterial[e]!]! * this.tLo);
   }
 
   /** Halvings toward the boundary for an element touching it (0: the plain rule suffices). */
@@ -228,8 +264,9 @@ export class SliceIntegrator {
    */
   private nearSplits(e: number): number {
     const width = this.width(e);
+    const reach = Math.sqrt(this.mesh.kappa[this.mesh.elementMaterial[e]!]! * this.tHi);
     const h = this.size[e]!;
-    if (!(this.dist[e]! < 8 * width) || !(width < h)) return 1;
+    if (!(this.dist[e]! < 8 * reach) || !(width < h)) return 1;
     return Math.min(4, Math.max(2, Math.ceil((2 * h) / width)));
   }
 
@@ -254,9 +291,20 @@ export class SliceIntegrator {
       ex.gradient(this.t, x, y, g);
       u = ex.value(this.t, x, y);
     }
+    this.evaluations++;
     const uh = this.u0 + this.gx * (x - this.x0) + this.gy * (y - this.y0);
-    const d0 = g[0]! - this.gx;
-    const d1 = this.mesh.dim === 1 ? 0 : g[1]! - this.gy;
+    const g0 = g[0]!;
+    const g1 = this.mesh.dim === 1 ? 0 : g[1]!;
+    if (this.cross) {
+      if (!Number.isFinite(g0 + g1 + u)) this.reportNonFinite(u, x, y);
+      this.eg += w * (g0 * this.gx + g1 * this.gy);
+      this.ev += w * u * uh;
+      this.ea += w * (g0 * g0 + g1 * g1);
+      this.eb += w * u * u;
+      return;
+    }
+    const d0 = g0 - this.gx;
+    const d1 = g1 - this.gy;
     const dv = u - uh;
     if (!Number.isFinite(d0 + d1 + dv)) this.reportNonFinite(u, x, y);
     this.eg += w * (d0 * d0 + d1 * d1);
@@ -283,6 +331,8 @@ export class SliceIntegrator {
       this.gy = 0;
       this.eg = 0;
       this.ev = 0;
+      this.ea = 0;
+      this.eb = 0;
       const f = this.flags[e]!;
       const m = f === 0 ? 0 : this.depth(e);
       const split = f === 0 ? this.nearSplits(e) : 1;
@@ -298,6 +348,8 @@ export class SliceIntegrator {
       else this.graded1D(xb, xa, m);
       this.g2 += this.eg;
       this.v2 += this.ev;
+      this.a2 += this.ea;
+      this.b2 += this.eb;
     }
   }
 
@@ -340,6 +392,8 @@ export class SliceIntegrator {
       this.y0 = y0;
       this.eg = 0;
       this.ev = 0;
+      this.ea = 0;
+      this.eb = 0;
       const f = this.flags[e]!;
       const m = f === 0 ? 0 : this.depth(e);
       const area = 0.5 * Math.abs(det);
@@ -350,6 +404,8 @@ export class SliceIntegrator {
       else this.vertexGraded(f, m, x0, y0, x1, y1, x2, y2, area);
       this.g2 += this.eg;
       this.v2 += this.ev;
+      this.a2 += this.ea;
+      this.b2 += this.eb;
     }
   }
 

@@ -30,7 +30,7 @@ export class BreakpointSlices {
   private readonly activeStart: Int32Array;
   private readonly activeNode: Int32Array;
   /** Local mesh vertex of every coefficient (aligned with the solution's coefficient vector). */
-  private readonly localOf: Int32Array;
+  readonly localOf: Int32Array;
   private readonly solution: SpaceTimeSolution;
 
   constructor(solution: SpaceTimeSolution, extra: ArrayLike<number> = []) {
