@@ -1,69 +1,61 @@
 /**
  * Benchmark cases of the output module (`output.` rows): one call of
- * spaceTimeErrors per unknown, against the smooth closed form
- * u = (1 + t²) Π sin(π x_i) (cheap to evaluate, so the rows show the
- * library's own cost). Sparse grids of the unit interval / square, and d = 1
- * adaptive sets for u0 ≡ 1 (where the adaptive loop refines toward t = 0).
+ * spaceTimeErrors per unknown, against the exact solution of u0 ≡ 1 with zero
+ * boundary values (tests/helpers/heat-exact.ts — singular at t = 0, error-function
+ * series, the realistic cost of a verification run). Sparse grids of the unit
+ * interval / square, and adaptive sets for u0 ≡ 1 (refined toward t = 0).
+ * Coefficients do not change the cost: sparse-grid rows use a fixed pseudo-random vector.
  *
- * Extra fields: `slices` (time points evaluated), `elements` (union leaf mesh),
- * `nsPerCell` = time / (slices × elements) — the direct evaluation visits every
- * element of the union mesh at every time point, so for sparse grids the cost
- * grows like (2^L)² in d = 1 against L·2^L unknowns.
+ * Extra fields: `times` (times at which the exact solution is sampled on the whole mesh),
+ * `elements` (union leaf mesh), `evalsPerUnknown` (exact-solution evaluations per unknown).
+ * The `.direct` rows run the reference rule (Gauss points on every breakpoint interval, the
+ * evaluation before time panels) for comparison: its cost grows like (2^L)² in d = 1 against
+ * L·2^L unknowns.
  */
 import { DoubleTree } from '../src/spacetime/double-tree';
 import { intervalDomain, rectangleDomain } from '../src/space/index';
 import { SpaceTimeSolution } from '../src/spacetime/space-time-solution';
-import { spaceTimeErrors, type KnownSolution } from '../src/output/error-norms';
+import { evaluateErrors } from '../src/output/error-norms';
 import { BreakpointSlices } from '../src/output/error-slices';
 import { HeatProblem } from '../src/system/heat-problem';
 import { solveAdaptive } from '../src/adapt/index';
+import { heatExact1D, heatExact2D } from '../tests/helpers/heat-exact';
 import type { BenchCase, BenchInstance } from './harness';
 
-const PI = Math.PI;
+const T = 0.5;
 
-function smooth(dim: 1 | 2): KnownSolution {
-  return {
-    value: (t, x, y) => (1 + t * t) * Math.sin(PI * x) * (dim === 2 ? Math.sin(PI * y) : 1),
-    gradient: (t, x, y, g) => {
-      const a = (1 + t * t) * PI;
-      if (dim === 1) g[0] = a * Math.cos(PI * x);
-      else {
-        g[0] = a * Math.cos(PI * x) * Math.sin(PI * y);
-        g[1] = a * Math.sin(PI * x) * Math.cos(PI * y);
-      }
-    },
-  };
-}
-
-function instance(solution: SpaceTimeSolution, dim: 1 | 2): BenchInstance {
-  const exact = smooth(dim);
+function instance(solution: SpaceTimeSolution, dim: 1 | 2, mode: 'panels' | 'direct'): BenchInstance {
+  const exact = dim === 1 ? heatExact1D() : heatExact2D();
   const elements = new BreakpointSlices(solution).mesh.elementCount;
-  const first = spaceTimeErrors(solution, exact);
+  const first = evaluateErrors(solution, exact, {}, mode);
+  const n = solution.trialSet.size;
   return {
-    units: solution.trialSet.size,
-    run: () => { spaceTimeErrors(solution, exact); },
-    extra: { slices: first.slices, elements, cells: first.slices * elements },
+    units: n,
+    run: () => { evaluateErrors(solution, exact, {}, mode); },
+    extra: { times: first.slices, elements, evalsPerUnknown: Math.round(first.exactEvaluations / n) },
   };
 }
 
-function sparse(dim: 1 | 2, L: number): BenchInstance {
+function sparse(dim: 1 | 2, L: number, mode: 'panels' | 'direct'): BenchInstance {
   const domain = dim === 1 ? intervalDomain(0, 1, 2) : rectangleDomain(0, 1, 0, 1, 2, 2);
   const set = DoubleTree.sparseGrid(domain, L);
-  const coef = new Float64Array(set.size).map((_, i) => Math.sin(0.37 * i + 0.1));
-  return instance(new SpaceTimeSolution(domain, set, coef, 1), dim);
+  const coef = new Float64Array(set.size).map((_, i) => 1e-3 * Math.sin(0.37 * i + 0.1));
+  return instance(new SpaceTimeSolution(domain, set, coef, T), dim, mode);
 }
 
-function adaptive(maxUnknowns: number): BenchInstance {
-  const domain = intervalDomain(0, 1, 2);
-  const res = solveAdaptive(new HeatProblem({ domain, T: 1, initial: () => 1 }), { maxUnknowns, solverFraction: 0.05 });
-  return instance(res.solution, 1);
+function adaptive(dim: 1 | 2, maxUnknowns: number): BenchInstance {
+  const domain = dim === 1 ? intervalDomain(0, 1, 2) : rectangleDomain(0, 1, 0, 1, 2, 2);
+  const res = solveAdaptive(new HeatProblem({ domain, T, initial: () => 1 }), { maxUnknowns });
+  return instance(res.solution, dim, 'panels');
 }
 
 /** `sizes` are sparse-grid levels, or unknown budgets for the adaptive rows. */
 export function outputCases(quick: boolean): BenchCase[] {
   return [
-    { component: 'output.errors.d1.sparse', sizes: quick ? [5] : [6, 8, 10], setup: (L) => sparse(1, L) },
-    { component: 'output.errors.d2.sparse', sizes: quick ? [2] : [3, 4, 5], setup: (L) => sparse(2, L) },
-    { component: 'output.errors.d1.adaptive', sizes: quick ? [300] : [1000, 4000, 16000], setup: (n) => adaptive(n) },
+    { component: 'output.errors.d1.sparse', sizes: quick ? [5] : [8, 10, 12], setup: (L) => sparse(1, L, 'panels') },
+    { component: 'output.errors.d1.sparse.direct', sizes: quick ? [5] : [8, 10], setup: (L) => sparse(1, L, 'direct') },
+    { component: 'output.errors.d2.sparse', sizes: quick ? [2] : [3, 4, 5], setup: (L) => sparse(2, L, 'panels') },
+    { component: 'output.errors.d1.adaptive', sizes: quick ? [300] : [1000, 4000], setup: (n) => adaptive(1, n) },
+    { component: 'output.errors.d2.adaptive', sizes: quick ? [300] : [1500, 6000], setup: (n) => adaptive(2, n) },
   ];
 }
