@@ -1,15 +1,17 @@
 /**
  * Space-time error norms of a discrete solution against a known solution,
  * for verification studies: ‖u − u_δ‖_{L2(I; H¹₀)} (gradient part) and
- * ‖u − u_δ‖_{L2(I; L2)}.
+ * ‖u − u_δ‖_{L2(I; L2)} (docs/error-norms.md).
  *
  * u_δ is linear in t between consecutive breakpoints of its trial functions,
  * and all its time slices live on one leaf mesh (the union of the fibres):
- * nodal vectors are formed once per breakpoint (./error-slices) and slices in
- * between are interpolated. Time integrals use Gauss points on every interval,
- * graded with t = a + s² on intervals touching t = 0 or a user-named singular
- * time; space integrals use degree-5 rules, graded toward the Dirichlet boundary
- * while the boundary layer √(κt) is thinner than the element (./error-quadrature).
+ * nodal vectors are formed once per breakpoint (./error-slices). Near t = 0 and
+ * user-named singular times every breakpoint interval gets Gauss points, graded
+ * with t = a + s² on intervals touching the singular time (the direct rule);
+ * elsewhere runs of breakpoint intervals are grouped into time panels where the
+ * exact solution is sampled at 12 Gauss times only (./error-panels). Space
+ * integrals use degree-5 rules, graded toward the Dirichlet boundary while the
+ * boundary layer √(κt) is thinner than the element (./error-quadrature).
  */
 import { InvalidArgumentError } from '../errors';
 import { checkFunction, checkInstance, checkObject, checkOptions } from '../validation/index';
@@ -58,9 +60,11 @@ export interface SpaceTimeErrorOptions {
  * Accuracy: for u0 ≡ 1 on (0, 1) and (0, 1)² with zero boundary values (‖∇u(t)‖² ~ t^{-1/2}),
  * the error of the zero function reproduces ∫₀ᵀ‖∇u‖² dt = (‖u0‖² − ‖u(T)‖²)/2 to about 1e-9
  * relative in 1D and 1e-7 in 2D with the defaults (tests/output/error-norms.test.ts).
- * Cost: (number of breakpoint intervals × Gauss points + graded panels) × elements of the union
- * mesh; for sparse grids that product grows faster than the number of unknowns (see the
- * `output.errors` bench rows).
+ * Cost: exact-solution evaluations at (graded times near t = 0 + 12 per time panel) × quadrature
+ * points of the union mesh — about 150 per unknown on 1D sparse grids of 10³–10⁵ unknowns — plus
+ * arithmetic on every breakpoint interval × mesh element without exact evaluations
+ * (docs/error-norms.md, `output.errors` bench rows). Away from singular times the exact solution
+ * must be smooth in t on the scale of T/16 (name other singular times in `singularTimes`).
  *
  * @example
  * ```ts
