@@ -93,6 +93,13 @@ export interface AdaptiveProgress {
 export interface AdaptiveOptions {
   /** Dörfler bulk parameter θ ∈ (0,1) (default 0.5). */
   theta?: number;
+  /**
+   * Least number of candidates marked per step, as a fraction of #Λ (default 0: Dörfler alone).
+   * The bulk set is lengthened by the next-largest indicators until it holds `minGrowth`·#Λ
+   * candidates, so each step grows Λ by at least about that fraction; fewer, larger steps make the
+   * whole run cheaper (its cost is about 1/(1 − 1/g) times the last step's for growth g per step).
+   */
+  minGrowth?: number;
   /** Stop when E ≤ tolerance (default 0: run until another limit). */
   tolerance?: number;
   /** Stop before a step whose Λ would exceed this many unknowns (default 2e5). */
@@ -169,6 +176,7 @@ class Interrupted {
 
 interface Validated {
   theta: number;
+  minGrowth: number;
   tol: number;
   maxUnknowns: number;
   maxSteps: number;
@@ -180,6 +188,7 @@ function validate(opts: AdaptiveOptions, problem: HeatProblem): Validated {
   const o = validateAdaptiveOptions(opts, problem);
   return {
     theta: o.theta ?? 0.5,
+    minGrowth: o.minGrowth ?? 0,
     tol: o.tolerance ?? 0,
     maxUnknowns: o.maxUnknowns ?? 2e5,
     maxSteps: o.maxSteps ?? 40,
@@ -372,7 +381,8 @@ class AdaptiveRun {
     // continued; it is computed after everything this step reports, so the results are the same.
     if (!stop || (this.opts.checkpoint && ind.estimate > 0)) {
       if (!stop) this.checkpoint('refine');
-      const marked = this.opts.markSeparately ? markSeparately(ind.eta2, spatialCandidates(set, bigSet), v.theta) : dorflerMark(ind.eta2, v.theta);
+      const least = v.minGrowth * set.size;
+      const marked = this.opts.markSeparately ? markSeparately(ind.eta2, spatialCandidates(set, bigSet), v.theta, least) : dorflerMark(ind.eta2, v.theta, least);
       if (!stop) record.marked = marked.length;
       next = refineDoubleTree(domain, set, bigSet, marked);
       if (!stop && next.size > v.maxUnknowns) stop = 'unknowns';
@@ -404,12 +414,12 @@ class AdaptiveRun {
 }
 
 /** Dörfler marking within each class of candidates (kind[i] = 1 spatial, 0 temporal). */
-function markSeparately(eta2: Float64Array, kind: Uint8Array, theta: number): Int32Array {
+function markSeparately(eta2: Float64Array, kind: Uint8Array, theta: number, least: number): Int32Array {
   const a = new Float64Array(eta2.length);
   const b = new Float64Array(eta2.length);
   for (let i = 0; i < eta2.length; i++) (kind[i] ? a : b)[i] = eta2[i]!;
-  const ma = dorflerMark(a, theta);
-  const mb = dorflerMark(b, theta);
+  const ma = dorflerMark(a, theta, least / 2);
+  const mb = dorflerMark(b, theta, least / 2);
   const out = new Int32Array(ma.length + mb.length);
   out.set(ma);
   out.set(mb, ma.length);
