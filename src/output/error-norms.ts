@@ -19,6 +19,8 @@ import { SpaceTimeSolution as SolutionClass } from '../spacetime/space-time-solu
 import { BreakpointSlices } from './error-slices';
 import { SliceIntegrator, TimeRule } from './error-quadrature';
 import { MAX_PANEL, TimePanels, intervalQuadratic } from './error-panels';
+import { CellEnergy } from './error-energy';
+import { liftingOf } from '../space/boundary-lifting';
 type SpaceTimeSolution = SolutionClass;
 
 /** A known solution: value and spatial gradient (writes `dim` components into `grad`). */
@@ -155,8 +157,8 @@ export function evaluateErrors(solution: SpaceTimeSolution, exact: KnownSolution
     const side = left || right ? 0 : near(br[k]!, br[k + 1]!);
     graded[k] = left || right ? 3 : side < 0 ? 1 : side > 0 ? 2 : 0;
   }
-  // Panel [br[k0], b] (./error-panels): at most T/16 long and at most half its distance to the
-  // nearest singular time.
+  // Panels (./error-panels): dyadic cells [c·2^-m, (c+1)·2^-m] of breakpoint intervals, at most
+  // T/16 long and at most half their distance to the nearest singular time.
   const fits = (a: number, b: number): boolean => {
     const len = b - a;
     if (len > MAX_PANEL) return false;
@@ -166,12 +168,35 @@ export function evaluateErrors(solution: SpaceTimeSolution, exact: KnownSolution
     }
     return true;
   };
+  let panelLevel = 0;
+  let panelIndex = 0;
+  /** End breakpoint of the largest admissible dyadic panel starting at breakpoint k, or −1. */
+  const dyadicPanel = (k: number): number => {
+    const a = br[k]!;
+    for (let m = Math.round(-Math.log2(MAX_PANEL)); m <= 62; m++) {
+      const h = 2 ** -m;
+      if (h < br[k + 1]! - a) break;
+      const c = a / h;
+      if (c !== Math.floor(c) || !fits(a, a + h)) continue;
+      const k1 = lowerBound(br, a + h);
+      if (k1 >= br.length || br[k1] !== a + h) continue;
+      let ok = true;
+      for (let j = k; j < k1 && ok; j++) ok = graded[j] === 0;
+      if (!ok) continue;
+      panelLevel = m;
+      panelIndex = c;
+      return k1;
+    }
+    return -1;
+  };
   const nv = slices.mesh.vertexCount;
   let va = new Float64Array(nv);
   let vb = new Float64Array(nv);
   const integ = new SliceIntegrator(slices.mesh, exactIn);
   const rule = new TimeRule(nq, panels);
   const panelRule = mode === 'panels' ? new TimePanels(solution, slices, integ) : null;
+  // held boundary values are linear between all breakpoints: their panels are summed per interval
+  const cellEnergy = mode === 'panels' && liftingOf(solution.domain.forest).isZero ? new CellEnergy(solution) : null;
   const quad = new Float64Array(2);
   let g2 = 0;
   let v2 = 0;
@@ -180,14 +205,22 @@ export function evaluateErrors(solution: SpaceTimeSolution, exact: KnownSolution
   let k = 0;
   while (k < nI) {
     if (panelRule !== null && graded[k] === 0) {
-      let k1 = k + 1;
-      while (k1 < nI && graded[k1] === 0 && fits(br[k]!, br[k1 + 1]!)) k1++;
+      const k1 = dyadicPanel(k);
       // a panel only where it needs fewer exact-solution times than the direct rule
-      if ((k1 - k) * nq > panelRule.points) {
+      if (k1 > 0 && (k1 - k) * nq > panelRule.points) {
         panelRule.panel(k, k1);
         g2 += panelRule.g;
         v2 += panelRule.v;
         count += panelRule.points;
+        if (cellEnergy !== null) {
+          // ∫‖∇u_δ‖², ∫‖u_δ‖² over the dyadic panel without visiting its breakpoints
+          cellEnergy.energy(panelLevel, panelIndex);
+          g2 += cellEnergy.g;
+          v2 += cellEnergy.v;
+          k = k1;
+          slices.nodalAt(k, va);
+          continue;
+        }
         for (; k < k1; k++) {
           slices.nodalAt(k + 1, vb);
           intervalQuadratic(slices.mesh, va, vb, (br[k + 1]! - br[k]!) * T, quad);
@@ -240,4 +273,16 @@ function timeReversed(solution: SpaceTimeSolution): boolean {
   throw new InvalidArgumentError('solution maps time to its trial set in a way spaceTimeErrors cannot follow (only t and T − t are supported)', {
     field: 'solution', expected: 'a SpaceTimeSolution, or a subclass reading its trial set at t or at T − t',
   });
+}
+
+/** First index with a[i] ≥ x (a sorted). */
+function lowerBound(a: Float64Array, x: number): number {
+  let l = 0;
+  let r = a.length;
+  while (l < r) {
+    const m = (l + r) >> 1;
+    if (a[m]! < x) l = m + 1;
+    else r = m;
+  }
+  return l;
 }

@@ -14,7 +14,7 @@
  *   points per interval agree to 4e-10 beyond the graded intervals).
  */
 import { describe, expect, it } from 'vitest';
-import { DoubleTree, HeatProblem, SpaceTimeSolution, SpaceTimeSystem, intervalDomain, rectangleDomain, type SpatialDomain } from '../../src/index';
+import { DoubleTree, HeatProblem, SpaceTimeSolution, SpaceTimeSystem, intervalDomain, rectangleDomain, solveAdaptive, type SpatialDomain } from '../../src/index';
 import { evaluateErrors, type KnownSolution } from '../../src/output/error-norms';
 import { heatExact1D, heatExact2D } from '../helpers/heat-exact';
 
@@ -40,7 +40,7 @@ function compare(sol: SpaceTimeSolution, exact: KnownSolution, opts = {}) {
 }
 
 describe('time panels = direct rule where both are exact', () => {
-  it('1D sparse grid, 2D full grid, held boundary values: to 1e-12 relative', () => {
+  it('1D sparse grid, 2D full grid, 1D adaptive set, held boundary values: to 1e-12 relative', { timeout: 60_000 }, () => {
     const d1 = intervalDomain(0, 1, 2);
     const d2 = rectangleDomain(0, 1, 0, 1, 2, 2);
     const held = intervalDomain(0, 1, 2, { boundary: [{ kind: 'value', where: [[0]], value: (t: number) => 1 + 3 * t * t }] });
@@ -48,6 +48,7 @@ describe('time panels = direct rule where both are exact', () => {
       ['1D sparse L = 8', randomSolution(d1, DoubleTree.sparseGrid(d1, 8), 0.5)],
       ['2D full grid, time level 7, space level 1', randomSolution(d2, DoubleTree.fullGrid(d2, 7, 1), 1)],
       ['1D sparse L = 7, held value 1 + 3t² at x = 0', randomSolution(held, DoubleTree.sparseGrid(held, 7), 1)],
+      ['1D adaptive set (u0 ≡ 1, 4000 unknowns at most)', randomSolution(d1, solveAdaptive(new HeatProblem({ domain: d1, T: 0.5, initial: () => 1 }), { maxUnknowns: 4000 }).solution.trialSet, 0.5)],
     ] as const;
     for (const [name, sol] of cases) {
       const r = compare(sol, poly);
