@@ -63,9 +63,10 @@ export interface SpaceTimeErrorOptions {
  * the error of the zero function reproduces ∫₀ᵀ‖∇u‖² dt = (‖u0‖² − ‖u(T)‖²)/2 to about 1e-9
  * relative in 1D and 1e-7 in 2D with the defaults (tests/output/error-norms.test.ts).
  * Cost: exact-solution evaluations at (graded times near t = 0 + 12 per time panel) × quadrature
- * points of the union mesh — about 150 per unknown on 1D sparse grids of 10³–10⁵ unknowns — plus
- * arithmetic on every breakpoint interval × mesh element without exact evaluations
- * (docs/error-norms.md, `output.errors` bench rows). Away from singular times the exact solution
+ * points of the union mesh — about 160 per unknown on 1D sparse grids of 10³–3·10⁵ unknowns —
+ * plus work linear in the coefficients for the discrete solution's own energy (per breakpoint
+ * interval × element when held boundary values are non-zero) (docs/error-norms.md, `output.errors`
+ * bench rows). Away from singular times the exact solution
  * must be smooth in t on the scale of T/16 (name other singular times in `singularTimes`).
  *
  * @example

@@ -17,8 +17,8 @@
  * with Q the spatial rule, W_j the Gauss weights of P, and V_j = ∫_P ℓ_j(t) u_δ(t) dt
  * (ℓ_j the Lagrange basis at the τ_j): the first sum is exact because |∇I_P u|²
  * has degree 2p − 2 and equals |∇u|² at the nodes; the second is exact because
- * I_P u = Σ_j ℓ_j u(τ_j); the last term needs no exact solution and is summed
- * exactly per breakpoint interval by the caller. So the result is the error
+ * I_P u = Σ_j ℓ_j u(τ_j); the last term needs no exact solution and is computed
+ * exactly by the caller (./error-energy, or per breakpoint interval with held boundary values). So the result is the error
  * of I_P u instead of u — by the triangle inequality it differs from the
  * direct value by at most ‖∇(u − I_P u)‖ on the panel, not by a multiple of
  * ‖∇u‖² as an expansion with independent rules would.
@@ -28,7 +28,7 @@
  * each integrated with a 7-point Gauss rule, exact for degree 13 ≥ p), plus the
  * held boundary values, linear in t between breakpoints as in the direct rule.
  *
- * Panel sizes (caller): length ≤ half the distance to the nearest singular
+ * Panels (caller): dyadic cells of whole breakpoint intervals, length ≤ half the distance to the nearest singular
  * time, so the interpolated functions are analytic in the Bernstein ellipse of
  * parameter ρ ≈ 9.9 around P (for heat-type solutions: Re t > 0 there), and
  * the interpolation error is about ρ^-p ≈ 1e-12 relative for p = 12
