@@ -24,7 +24,7 @@ export const adaptiveRuns: RunSuite = {
   run(quick, selected, onRow) {
     const runs: [string, number, number][] = quick
       ? [['d1', 1500, 30], ['d2', 1500, 30]]
-      : [['d1', 1e5, 300], ['d2', 1e6, 300]];
+      : [['d1', 1e5, 300], ['d2', 1.5e6, 600]];
     for (const [which, maxUnknowns, maxSeconds] of runs) {
       if (!selected(`adaptive.${which}.run`) && !selected(`adaptive.${which}.step`)) continue;
       const p = spawnSync(process.execPath, ['--import', 'tsx', child, which, String(maxUnknowns), String(maxSeconds)], {

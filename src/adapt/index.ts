@@ -3,6 +3,7 @@ export {
   solveAdaptive,
   solveAdaptiveAsync,
   adaptiveStepBytes,
+  defaultBulk,
   type AdaptiveOptions,
   type AdaptiveProgress,
   type AdaptiveResult,

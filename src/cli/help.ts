@@ -63,7 +63,7 @@ problem file fields (JSON object):
   maxDofs     unknown budget (default ${PROBLEM_DEFAULTS.maxDofs})
   maxSeconds  wall-time budget (default ${PROBLEM_DEFAULTS.maxSeconds})
   maxSteps    step budget (default ${PROBLEM_DEFAULTS.maxSteps})
-  bulk        Dörfler parameter θ in (0, 1) (default ${PROBLEM_DEFAULTS.bulk})
+  bulk        Dörfler parameter θ in (0, 1) (default 0.5 in 1D, 0.7 in 2D)
   probes      list of [t, x] or [t, x, y]
   slices      list of times to export with --out
   title, description   free text

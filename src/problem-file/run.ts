@@ -83,7 +83,7 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
   let stopReason: string;
   if (spec.strategy === 'adaptive') {
     const r = solveAdaptive(problem, {
-      theta: spec.bulk, tolerance: spec.tolerance, maxUnknowns: spec.maxDofs, maxSteps: spec.maxSteps, maxSeconds: spec.maxSeconds,
+      ...(spec.bulk === null ? {} : { theta: spec.bulk }), tolerance: spec.tolerance, maxUnknowns: spec.maxDofs, maxSteps: spec.maxSteps, maxSeconds: spec.maxSeconds,
       onStep: (h) => {
         const s = { dofs: h.unknowns, estimate: h.estimate, iterations: h.pcgIterations, seconds: h.seconds };
         steps.push(s);

@@ -53,7 +53,8 @@ export interface ProblemSpec {
   maxDofs: number;
   maxSeconds: number;
   maxSteps: number;
-  bulk: number;
+  /** Dörfler θ, or null for the library's default (0.5 in 1D, 0.7 in 2D). */
+  bulk: number | null;
   /** Probe points as [t, x] or [t, x, y]. */
   probes: number[][];
   slices: number[];
@@ -75,7 +76,7 @@ const DOMAIN_FIELDS: Record<DomainSpec['shape'], string[]> = {
 /** Defaults of the optional fields. */
 export const PROBLEM_DEFAULTS = {
   diffusion: '1', reaction: '0', source: '0', initial: '0', strategy: 'adaptive',
-  tolerance: 0, maxDofs: 20000, maxSeconds: 60, maxSteps: 200, bulk: 0.5,
+  tolerance: 0, maxDofs: 20000, maxSeconds: 60, maxSteps: 200, bulk: null,
 } as const;
 
 function bad(field: string, message: string, received?: unknown): never {
