@@ -5,9 +5,10 @@ import { spaceCases } from './space';
 import { spaceMultigridCases } from './space-multigrid';
 import { spacetimeCases } from './spacetime';
 import { outputCases } from './output';
+import { solutionFileCases } from './solution-file';
 import { estimationCases } from './estimation';
 import { exprCases } from './expr';
 
 export type Suite = (quick: boolean) => BenchCase[];
 
-export const suites: Suite[] = [timeCases, spaceCases, spaceMultigridCases, spacetimeCases, outputCases, estimationCases, exprCases];
+export const suites: Suite[] = [timeCases, spaceCases, spaceMultigridCases, spacetimeCases, outputCases, solutionFileCases, estimationCases, exprCases];

@@ -24,7 +24,8 @@ options:
 
 ${CAUTION}`;
 
-export const SOLVE_HELP = `usage: chronomesh solve PROBLEM.json [--json] [--out DIR] [--quiet] [--debug]
+export const SOLVE_HELP = `usage: chronomesh solve PROBLEM.json [--json] [--out DIR] [--checkpoint FILE]
+                       [--resume FILE] [--quiet] [--debug]
 
 Solves ∂t u − ∇·(κ∇u) + c u = f on (0, T) × Ω with u = 0 on the boundary
 except its insulated part (zero flux) and its boundary parts, u(0) = u0, as
@@ -37,6 +38,11 @@ described by PROBLEM.json.
                 second half of the steps; y is null in 1D)
   --out DIR     write history (JSON, CSV), probe table (CSV), slices (VTK XML
                 .vtu + .pvd) and pictures (SVG) into DIR (checked writable first)
+  --checkpoint FILE
+                adaptive strategy: after every step, save the run to FILE
+                (replaced atomically, so it always holds a complete step)
+  --resume FILE continue the adaptive run saved in FILE (same problem file;
+                the step budget counts the saved steps too)
   --quiet       no progress lines on stderr
   --debug       print stack traces of errors
 

@@ -1,7 +1,8 @@
-/** `chronomesh solve PROBLEM.json [--json] [--out DIR] [--quiet] [--debug]`. */
+/** `chronomesh solve PROBLEM.json [--json] [--out DIR] [--checkpoint FILE] [--resume FILE] [--quiet] [--debug]`. */
 import { readFileSync } from 'node:fs';
 import { buildProblem, parseProblem, runProblem, type RunResult } from '../problem-file/index';
 import { ChronomeshError } from '../index';
+import { checkpointToFile, readFileBytes } from '../files/index';
 import { parseCommandArgs } from './args';
 import { CliError } from './cli-error';
 import { SOLVE_HELP } from './help';
@@ -12,6 +13,10 @@ export interface SolveFileOptions {
   json?: boolean;
   out?: string;
   quiet?: boolean;
+  /** Write a checkpoint of the adaptive run to this file after every step (atomically). */
+  checkpoint?: string;
+  /** Continue the adaptive run saved in this checkpoint file. */
+  resume?: string;
   /** Caps on the file's budgets (the smaller value wins), e.g. for the demo's quick mode. */
   budget?: { maxDofs?: number; maxSeconds?: number };
   /** Where progress and human-readable output go (defaults: process streams). */
@@ -49,12 +54,28 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     return inputError(e);
   }
   if (opts.out !== undefined) checkWritable(opts.out);
+  if ((opts.checkpoint !== undefined || opts.resume !== undefined) && built.spec.strategy !== 'adaptive') {
+    throw new CliError(`${file}: --checkpoint and --resume need the adaptive strategy, the file asks for '${built.spec.strategy}'`);
+  }
+  let resume: Uint8Array | undefined;
+  if (opts.resume !== undefined) {
+    try {
+      resume = readFileBytes(opts.resume, '--resume');
+    } catch (e) {
+      throw new CliError((e as Error).message);
+    }
+  }
   let run: RunResult;
   try {
     run = runProblem(built, (s, i) => {
       if (!opts.quiet) progress(`step ${i}: ${s.dofs} dofs, estimate ${s.estimate.toExponential(3)}, ${s.iterations} PCG iterations, ${s.seconds.toFixed(2)} s`);
+    }, {
+      ...(opts.checkpoint !== undefined ? { checkpoint: checkpointToFile(opts.checkpoint) } : {}),
+      ...(resume !== undefined ? { resume } : {}),
     });
   } catch (e) {
+    // A damaged or foreign checkpoint, or one of another problem, is an input error.
+    if (e instanceof ChronomeshError && (e.code === 'corrupt-file' || (opts.resume !== undefined && e.field === 'problem'))) throw new CliError(`${opts.resume}: ${e.message}`);
     // Expression values met during the solve (NaN, ∞, κ ≤ 0) are input errors too.
     if (e instanceof ChronomeshError && e.code === 'invalid-argument') return inputError(e);
     throw e;
@@ -76,12 +97,19 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
 export function solveCommand(argv: string[]): number {
   const { values, positionals } = parseCommandArgs('solve', argv, {
     json: { type: 'boolean' }, out: { type: 'string' }, quiet: { type: 'boolean' }, debug: { type: 'boolean' }, help: { type: 'boolean', short: 'h' },
+    checkpoint: { type: 'string' }, resume: { type: 'string' },
   });
   if (values.help) {
     console.log(SOLVE_HELP);
     return 0;
   }
   if (positionals.length !== 1) throw new CliError(`solve: expected one problem file, found ${positionals.length} (see \`chronomesh solve --help\`)`);
-  solveFile(positionals[0]!, { json: values.json === true, quiet: values.quiet === true, ...(typeof values.out === 'string' ? { out: values.out } : {}) });
+  solveFile(positionals[0]!, {
+    json: values.json === true,
+    quiet: values.quiet === true,
+    ...(typeof values.out === 'string' ? { out: values.out } : {}),
+    ...(typeof values.checkpoint === 'string' ? { checkpoint: values.checkpoint } : {}),
+    ...(typeof values.resume === 'string' ? { resume: values.resume } : {}),
+  });
   return 0;
 }

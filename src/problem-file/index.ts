@@ -8,4 +8,4 @@ export { compileExpression, type CompiledExpression, type ExpressionVariable } f
 export { nearestName } from './nearest-name';
 export { parseProblem, PROBLEM_FIELDS, PROBLEM_DEFAULTS, type ProblemSpec, type DomainSpec } from './schema';
 export { buildProblem, type BuiltProblem } from './build';
-export { runProblem, observedRate, type RunResult, type RunStep, type ProbeValue } from './run';
+export { runProblem, observedRate, type RunResult, type RunStep, type ProbeValue, type RunAdaptiveOptions } from './run';

@@ -5,7 +5,7 @@
  */
 import {
   DoubleTree, InvalidArgumentError, SpaceTimeSystem, enlargeDoubleTree, residualIndicators, solveAdaptive,
-  type SpaceTimeSolution,
+  type AdaptiveOptions, type AdaptiveStep, type SpaceTimeSolution,
 } from './core';
 import type { BuiltProblem } from './build';
 
@@ -64,8 +64,12 @@ export function observedRate(steps: { dofs: number; estimate: number }[]): numbe
   return sxx > 0 ? sxy / sxx : null;
 }
 
+/** Checkpoint and resume of the adaptive strategy (see `AdaptiveOptions.checkpoint` / `resume`). */
+export type RunAdaptiveOptions = Pick<AdaptiveOptions, 'checkpoint' | 'resume'>;
+
 /**
- * Solves a built problem with its file's strategy and budgets.
+ * Solves a built problem with its file's strategy and budgets; with the adaptive strategy,
+ * `adaptive` can save a checkpoint after every step and resume from one.
  *
  * @example
  * ```ts
@@ -75,21 +79,25 @@ export function observedRate(steps: { dofs: number; estimate: number }[]): numbe
  * console.log(run.steps.length, run.probes[0]?.value);
  * ```
  */
-export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: number) => void): RunResult {
+export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: number) => void, adaptive: RunAdaptiveOptions = {}): RunResult {
   const { spec, domain, problem } = built;
   const steps: RunStep[] = [];
   let solution: SpaceTimeSolution;
   let set: DoubleTree;
   let stopReason: string;
+  const toStep = (h: AdaptiveStep): RunStep => ({ dofs: h.unknowns, estimate: h.estimate, iterations: h.pcgIterations, seconds: h.seconds });
+  if (spec.strategy !== 'adaptive' && (adaptive.checkpoint !== undefined || adaptive.resume !== undefined)) {
+    throw new InvalidArgumentError(`checkpoints need the adaptive strategy; this problem's strategy is '${spec.strategy}'`, { field: 'strategy', expected: "'adaptive'", received: spec.strategy });
+  }
   if (spec.strategy === 'adaptive') {
     const r = solveAdaptive(problem, {
       ...(spec.bulk === null ? {} : { theta: spec.bulk }), tolerance: spec.tolerance, maxUnknowns: spec.maxDofs, maxSteps: spec.maxSteps, maxSeconds: spec.maxSeconds,
-      onStep: (h) => {
-        const s = { dofs: h.unknowns, estimate: h.estimate, iterations: h.pcgIterations, seconds: h.seconds };
-        steps.push(s);
-        onStep?.(s, steps.length - 1);
-      },
+      ...(adaptive.checkpoint ? { checkpoint: adaptive.checkpoint } : {}),
+      ...(adaptive.resume ? { resume: adaptive.resume } : {}),
+      onStep: (h) => onStep?.(toStep(h), h.step),
     });
+    // with resume the history starts with the saved steps
+    steps.push(...r.history.map(toStep));
     ({ solution, set } = r);
     stopReason = r.stopReason;
   } else {

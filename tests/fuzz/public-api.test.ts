@@ -25,6 +25,12 @@ const solR = new SpaceTimeSystem(pR, setR).solve().solution;
 const sliceI = solI.slice(0.5);
 const sliceR = solR.slice(0.25);
 const uI = dI.uniformSet(2);
+const solIBytes = cm.encodeSolution(solI);
+const checkpoints: Uint8Array[] = [];
+cm.solveAdaptive(new HeatProblem({ domain: cm.intervalDomain(0, 1, 2), T: 1, initial: () => 1 }), { maxSteps: 2, checkpoint: (b) => { checkpoints.push(b); } });
+const checkpointI = checkpoints[0]!;
+/** A copy with one bit of its last section flipped. */
+const flipped = (b: Uint8Array): Uint8Array => { const c = b.slice(); c[c.length - 1]! ^= 2; return c; };
 const uR = dR.uniformSet(1);
 
 // ---------------------------------------------------------------- slot builders
@@ -356,9 +362,29 @@ const entries: Entry[] = [
     runs: 12,
     slots: [
       fixed('problem', [pI], [null, 5, {}, dI], /^problem/),
-      opts('opts', [{ maxSteps: 2 }, { maxUnknowns: 80 }], [{ theta: '0.5' }, { maxSteps: 2.5 }, { maxSeconds: NaN }, { onStep: 5 }, { thetta: 0.5 }, { initialSet: setR }, { tolerance: -1 }]),
+      opts('opts', [{ maxSteps: 2 }, { maxUnknowns: 80 }, { maxSteps: 2, checkpoint: () => {} }, { maxSteps: 3, resume: checkpointI }], [
+        { theta: '0.5' }, { maxSteps: 2.5 }, { maxSeconds: NaN }, { onStep: 5 }, { thetta: 0.5 }, { initialSet: setR }, { tolerance: -1 },
+        { checkpoint: 'file' }, { resume: [1, 2] }, { resume: solIBytes }, { resume: checkpointI, initialSet: setI }, { resume: flipped(checkpointI) }, { resume: checkpointI.subarray(0, 50) },
+      ], /^(opts|problem|coefficients|header|signature|preamble|data)/),
     ],
     call: ([p, o]) => cm.solveAdaptive(p as never, o as never).history.map((h) => h.estimate),
+  },
+  {
+    name: 'encodeSolution',
+    slots: [
+      fixed('solution', [solI], [null, 5, {}, setI, pI], /^solution/),
+      opts('opts', [undefined, { description: 'x' }, { problem: pI }], [{ description: 5 }, { problem: pR }, { problem: {} }, { descripton: 'x' }], /^opts/),
+    ],
+    call: ([u, o]) => [cm.encodeSolution(u as never, o as never).length],
+  },
+  {
+    name: 'decodeSolution',
+    slots: [
+      fixed('bytes', [solIBytes], [null, 'bytes', [1, 2], new Uint8Array(0), flipped(solIBytes), solIBytes.subarray(0, solIBytes.length - 8), new TextEncoder().encode('{"format":"chronomesh-solution"}'), new Uint8Array(64).fill(0x89)],
+        /^(bytes|signature|preamble|header|data|set|coefficients|domain|boundary|forest)/),
+      opts('opts', [undefined, {}], [{ domain: 5 }, { domain: dR }, { domian: dI }], /^opts/),
+    ],
+    call: ([b, o]) => cm.decodeSolution(b as never, o as never).solution.evaluate(0.5, [0.5]),
   },
 ];
 
