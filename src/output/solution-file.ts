@@ -426,7 +426,7 @@ function checkpointStep(h: Record<string, unknown>): number {
  * import { CorruptFileError, HeatProblem, decodeSolution, encodeSolution, rectangleDomain, solve } from 'chronomesh';
  * const { solution } = solve(new HeatProblem({ domain: rectangleDomain(0, 1, 0, 1, 2, 2), T: 1, initial: () => 1 }), 4);
  * const bytes = encodeSolution(solution);
- * bytes[bytes.length - 3] ^= 1; // flip one bit in the coefficients
+ * bytes[bytes.length - 3]! ^= 1; // flip one bit in the coefficients
  * try { decodeSolution(bytes); } catch (e) { if (e instanceof CorruptFileError) console.log(e.problem, e.field); } // → checksum coefficients
  * ```
  */
