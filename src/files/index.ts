@@ -16,7 +16,7 @@ import {
   type EncodeSolutionOptions,
   type SpaceTimeSolution,
 } from '../index';
-import { writeFileAtomic } from './atomic-write';
+import { writeFileAtomic as atomicWrite } from './atomic-write';
 
 /**
  * Writes `solution` to `path` atomically, in the format of `encodeSolution`. Returns the number of bytes written.
@@ -38,11 +38,22 @@ import { writeFileAtomic } from './atomic-write';
  */
 export function writeSolutionFile(path: string, solution: SpaceTimeSolution, opts: EncodeSolutionOptions = {}): number {
   const bytes = encodeSolution(solution, opts);
-  writeFileAtomic(path, bytes);
+  atomicWrite(path, bytes);
   return bytes.length;
 }
 
-/** Reads a file's bytes; a missing or unreadable file is an InvalidArgumentError naming `field`. */
+/**
+ * Reads a file's bytes (e.g. a checkpoint for `solveAdaptive`'s `resume`); a missing or
+ * unreadable file is an InvalidArgumentError naming `field`.
+ *
+ * @example
+ * ```ts
+ * import { InvalidArgumentError } from 'chronomesh';
+ * import { readFileBytes } from 'chronomesh/files';
+ * try { readFileBytes('/no/such/run.cmsol', '--resume'); }
+ * catch (e) { if (e instanceof InvalidArgumentError) console.log(e.field); } // → --resume
+ * ```
+ */
 export function readFileBytes(path: string, field = 'path'): Uint8Array {
   if (typeof path !== 'string' || path.length === 0) throw new InvalidArgumentError(`${field} must be a non-empty file path`, { field, expected: 'a file path', received: typeof path });
   try {
@@ -94,7 +105,22 @@ export function readSolutionFile(path: string, opts: DecodeSolutionOptions = {})
  */
 export function checkpointToFile(path: string): (bytes: Uint8Array, info: AdaptiveCheckpointInfo) => void {
   if (typeof path !== 'string' || path.length === 0) throw new InvalidArgumentError('path must be a non-empty file path', { field: 'path', expected: 'a file path', received: typeof path });
-  return (bytes) => writeFileAtomic(path, bytes, 'checkpoint path');
+  return (bytes) => atomicWrite(path, bytes, 'checkpoint path');
 }
 
-export { writeFileAtomic };
+/**
+ * Writes bytes to a file atomically: temporary file in the same directory, fsync, rename over the
+ * target, fsync of the directory; a reader sees the old or the new file, never a partial one.
+ *
+ * @example
+ * ```ts
+ * import { writeFileAtomic } from 'chronomesh/files';
+ * import { mkdtempSync, readFileSync } from 'node:fs';
+ * import { tmpdir } from 'node:os';
+ * import { join } from 'node:path';
+ * const file = join(mkdtempSync(join(tmpdir(), 'cm-')), 'data.bin');
+ * writeFileAtomic(file, Uint8Array.of(1, 2, 3));
+ * console.log(readFileSync(file).length); // → 3
+ * ```
+ */
+export const writeFileAtomic: (path: string, bytes: Uint8Array, field?: string) => void = atomicWrite;

@@ -27,7 +27,16 @@ import { readContainer, writeContainer, type Container, type SectionArray } from
 
 /** Format name in the header of every solution file and checkpoint. */
 export const SOLUTION_FORMAT = 'chronomesh-solution';
-/** The one version this build writes and reads. */
+/**
+ * The one version of the solution-file format this build writes and reads (a file of another
+ * version is refused with a `CorruptFileError` of problem `'version'`).
+ *
+ * @example
+ * ```ts
+ * import { SOLUTION_FORMAT, SOLUTION_FORMAT_VERSION } from 'chronomesh';
+ * console.log(SOLUTION_FORMAT, SOLUTION_FORMAT_VERSION); // → chronomesh-solution 1
+ * ```
+ */
 export const SOLUTION_FORMAT_VERSION = 1;
 
 /** Options of {@link encodeSolution}. */
