@@ -38,7 +38,7 @@ function rodProblem(): HeatProblem {
 }
 
 /**
- * A user triangulation of the unit square minus its upper-right quarter (an L), 8 triangles, with
+ * A user triangulation of the unit square minus its upper-right quarter (an L), 6 triangles, with
  * a held face, an insulated face and a flux face.
  */
 function lTriangulation(): SpatialDomain {
