@@ -52,7 +52,7 @@ function adaptive(dim: 1 | 2, maxUnknowns: number): BenchInstance {
 /** `sizes` are sparse-grid levels, or unknown budgets for the adaptive rows. */
 export function outputCases(quick: boolean): BenchCase[] {
   return [
-    { component: 'output.errors.d1.sparse', sizes: quick ? [5] : [8, 10, 12], setup: (L) => sparse(1, L, 'panels') },
+    { component: 'output.errors.d1.sparse', sizes: quick ? [5] : [8, 10, 12, 13], setup: (L) => sparse(1, L, 'panels') },
     { component: 'output.errors.d1.sparse.direct', sizes: quick ? [5] : [8, 10], setup: (L) => sparse(1, L, 'direct') },
     { component: 'output.errors.d2.sparse', sizes: quick ? [2] : [3, 4, 5], setup: (L) => sparse(2, L, 'panels') },
     { component: 'output.errors.d1.adaptive', sizes: quick ? [300] : [1000, 4000], setup: (n) => adaptive(1, n) },
