@@ -44,7 +44,10 @@ function subsetLocal(set: Int32Array, setLocal: Int32Array, sub: Int32Array): In
   let j = 0;
   for (let i = 0; i < sub.length; i++) {
     const v = sub[i]!;
-    while (set[j]! < v) j++;
+    while (j < set.length && set[j]! < v) j++;
+    if (set[j] !== v) {
+      throw new InvalidArgumentError(`vertex ${v} (entry ${i}) is not in the set the leaf mesh was built for`, { field: `set[${i}]`, expected: 'a subset of the mesh set', received: v });
+    }
     out[i] = setLocal[j]!;
   }
   return out;

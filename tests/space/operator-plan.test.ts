@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import {
   SpatialOperatorPlan, intervalDomain, lShapeDomain, rectangleDomain, squareWithHoleDomain, triangulatedDomain, type SpatialDomain,
 } from '../../src/space/index';
+import { sharedLeafMesh } from '../../src/space/operator-plan';
 import { denseSpatialMatrices } from './reference';
 import { growForest, matVec, randomClosedSubset, randomVector, relErr, rng } from './random-sets';
 
@@ -62,9 +63,23 @@ describe('SpatialOperatorPlan vs dense reference', () => {
         const ys = new Float64Array(sOut.length);
         plan.applySum(x, 0, x2, 0, ys, 0);
         expect(relErr(ys, Mx.map((v, i) => v + Ax2[i]!))).toBeLessThan(1e-12);
+        // The same operator on the leaf mesh of a closed superset (the whole grown forest), as the
+        // estimator's one-shot passes use it: the hierarchical M and A do not depend on the mesh.
+        const onSuper = new SpatialOperatorPlan(dom, sIn, sOut, sharedLeafMesh(dom, grown));
+        const yS = new Float64Array(sOut.length), ySA = new Float64Array(sOut.length);
+        onSuper.applySplit(x, 0, yS, 0, ySA, 0);
+        expect(relErr(yS, Mx)).toBeLessThan(1e-12);
+        expect(relErr(ySA, Ax)).toBeLessThan(1e-12);
       }
     });
   }
+
+  it('a shared leaf mesh that does not cover the sets is refused', () => {
+    const dom = rectangleDomain(0, 1, 0, 1, 2, 2);
+    const fine = dom.uniformSet(3);
+    const coarse = dom.uniformSet(1);
+    expect(() => new SpatialOperatorPlan(dom, fine, fine, sharedLeafMesh(dom, coarse))).toThrow(/not in the set the leaf mesh was built for/);
+  });
 
   it('deep grading (60 generations toward a corner, 50 levels in 1D) stays exact', () => {
     // dyadic coordinates keep the reference's geometry exact at this depth
