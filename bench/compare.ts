@@ -55,8 +55,11 @@ function steppingRuns(dim: 1 | 2, quick: boolean, exact: HeatExact, maxError: nu
       for (const q of [2, 3]) {
         // steps: balance the temporal error against h (IE: τ ~ h², graded; CN: τ ~ h)
         const base = Math.ceil(0.25 / h);
+        let lastK = 0;
         for (const f of quick ? [1] : method === 'euler' ? [1, 4, 16] : [0.5, 1, 2]) {
           const K = Math.max(8, Math.round(base * f));
+          if (K === lastK) continue; // small meshes: the floor of 8 steps repeats a configuration
+          lastK = K;
           if (dim === 2 && K * 4 ** L > 6e6) continue;
           const opts: SteppingOptions = { method, steps: K, grading: q, damping: 4 };
           const t0 = performance.now();
@@ -165,17 +168,21 @@ function extrapolatedStepping(ts: Run[], target: number): string {
     if (K === Math.ceil(0.25 * 2 ** (L + 1))) byL.set(L, r);
   }
   const Ls = [...byL.keys()].sort((a, b) => a - b);
-  if (Ls.length < 2) return 'not enough meshes to extrapolate';
+  // Error rate from the two finest meshes whose error was computed, cost growth from the two
+  // finest timed meshes (the finest may carry an extrapolated error; it is not used for the rate).
+  const measured = Ls.filter((L) => !byL.get(L)!.extrapolated);
+  if (measured.length < 2 || Ls.length < 2) return 'not enough meshes to extrapolate';
+  const m1 = byL.get(measured[measured.length - 2]!)!;
+  const m2 = byL.get(measured[measured.length - 1]!)!;
+  const errRate = Math.log2(m1.error / m2.error) / (measured[measured.length - 1]! - measured[measured.length - 2]!);
   const L1 = Ls[Ls.length - 2]!;
   const L2 = Ls[Ls.length - 1]!;
-  const r1 = byL.get(L1)!;
-  const r2 = byL.get(L2)!;
-  const errRate = Math.log2(r1.error / r2.error) / (L2 - L1);
-  const costFactor = (r2.cpu / r1.cpu) ** (1 / (L2 - L1));
+  const costFactor = (byL.get(L2)!.cpu / byL.get(L1)!.cpu) ** (1 / (L2 - L1));
   if (!(errRate > 0)) return 'error not decreasing with h';
-  const levels = Math.ceil(Math.log2(r2.error / target) / errRate);
-  const cpu = r2.cpu * costFactor ** levels;
-  return `level ${L2 + levels} (h = 2^-${L2 + levels + 1}), ≈ ${cpu.toExponential(1)} cpu-s (error rate ${errRate.toFixed(2)} per level, cost ×${costFactor.toFixed(1)} per level, from L = ${L1}, ${L2})`;
+  const Lm = measured[measured.length - 1]!;
+  const levels = Math.max(1, Math.ceil(Math.log2(m2.error / target) / errRate));
+  const cpu = byL.get(Lm)!.cpu * costFactor ** levels;
+  return `level ${Lm + levels} (h = 2^-${Lm + levels + 1}), ≈ ${cpu.toExponential(1)} cpu-s (error rate ${errRate.toFixed(2)} per level from L = ${measured[measured.length - 2]}, ${Lm}; cost ×${costFactor.toFixed(1)} per level from L = ${L1}, ${L2})`;
 }
 
 function cheapest(runs: Run[], target: number): Run | null {
