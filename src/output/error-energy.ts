@@ -19,11 +19,11 @@
  * below |λ| the cell recursion passes through).
  */
 import { evaluateTemporal } from '../time/index';
-import { supportOf } from '../time/nodes';
 import { hierarchicalToNodal, hierarchicalToNodalTransposed } from '../space/hierarchical';
 import type { LeafMesh } from '../space/leaf-mesh';
 import type { SpaceTimeSolution } from '../spacetime/space-time-solution';
 import { intervalQuadratic } from './error-panels';
+import { trialSupports } from './error-slices';
 
 const G2 = [0.5 - Math.sqrt(3) / 6, 0.5 + Math.sqrt(3) / 6];
 
@@ -37,16 +37,7 @@ export class CellEnergy {
   v = 0;
 
   constructor(private readonly solution: SpaceTimeSolution) {
-    const tree = solution.trialSet.tree;
-    this.lo = new Float64Array(tree.size);
-    this.hi = new Float64Array(tree.size);
-    const sup = new Float64Array(2);
-    for (let i = 0; i < tree.size; i++) {
-      const l = tree.level[i]!;
-      supportOf('trial', l, tree.index[i]!, sup);
-      this.lo[i] = sup[0]! * 2 ** -l;
-      this.hi[i] = sup[1]! * 2 ** -l;
-    }
+    ({ lo: this.lo, hi: this.hi } = trialSupports(solution.trialSet.tree));
   }
 
   /** ∫ over the dyadic cell [c·2^-m, (c+1)·2^-m]·T of ‖∇u_δ‖² and ‖u_δ‖² (held boundary values excluded) into g, v. */

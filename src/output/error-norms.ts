@@ -16,7 +16,7 @@
 import { InvalidArgumentError } from '../errors';
 import { checkFunction, checkInstance, checkObject, checkOptions } from '../validation/index';
 import { SpaceTimeSolution as SolutionClass } from '../spacetime/space-time-solution';
-import { BreakpointSlices } from './error-slices';
+import { BreakpointSlices, lowerBound } from './error-slices';
 import { SliceIntegrator, TimeRule } from './error-quadrature';
 import { MAX_PANEL, TimePanels, intervalQuadratic } from './error-panels';
 import { CellEnergy } from './error-energy';
@@ -274,16 +274,4 @@ function timeReversed(solution: SpaceTimeSolution): boolean {
   throw new InvalidArgumentError('solution maps time to its trial set in a way spaceTimeErrors cannot follow (only t and T − t are supported)', {
     field: 'solution', expected: 'a SpaceTimeSolution, or a subclass reading its trial set at t or at T − t',
   });
-}
-
-/** First index with a[i] ≥ x (a sorted). */
-function lowerBound(a: Float64Array, x: number): number {
-  let l = 0;
-  let r = a.length;
-  while (l < r) {
-    const m = (l + r) >> 1;
-    if (a[m]! < x) l = m + 1;
-    else r = m;
-  }
-  return l;
 }

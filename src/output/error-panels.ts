@@ -36,13 +36,12 @@
  * Thm. 8.2); length ≤ T/16 in any case.
  */
 import { evaluateTemporal } from '../time/index';
-import { supportOf } from '../time/nodes';
 import { hierarchicalToNodal } from '../space/hierarchical';
 import { liftingOf } from '../space/boundary-lifting';
 import type { LeafMesh } from '../space/leaf-mesh';
 import { gaussLegendre01 } from '../numerics/gauss-legendre';
 import type { SpaceTimeSolution } from '../spacetime/space-time-solution';
-import type { BreakpointSlices } from './error-slices';
+import { trialSupports, type BreakpointSlices } from './error-slices';
 import type { SliceIntegrator } from './error-quadrature';
 
 /** Gauss nodes per time panel. */
@@ -86,16 +85,7 @@ export class TimePanels {
     this.gamma = new Float64Array(p);
     const nv = slices.mesh.vertexCount;
     this.V = Array.from({ length: p }, () => new Float64Array(nv));
-    const tree = solution.trialSet.tree;
-    this.lo = new Float64Array(tree.size);
-    this.hi = new Float64Array(tree.size);
-    const sup = new Float64Array(2);
-    for (let i = 0; i < tree.size; i++) {
-      const l = tree.level[i]!;
-      supportOf('trial', l, tree.index[i]!, sup);
-      this.lo[i] = sup[0]! * 2 ** -l;
-      this.hi[i] = sup[1]! * 2 ** -l;
-    }
+    ({ lo: this.lo, hi: this.hi } = trialSupports(solution.trialSet.tree));
     this.liftG = new Float64Array(liftingOf(solution.domain.forest).vertices.length);
   }
 

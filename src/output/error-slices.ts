@@ -142,8 +142,8 @@ export class BreakpointSlices {
   }
 }
 
-/** First index with a[i] ≥ x (a sorted). */
-function lowerBound(a: Float64Array, x: number): number {
+/** First index with a[i] ≥ x (a sorted). @internal */
+export function lowerBound(a: Float64Array, x: number): number {
   let l = 0;
   let r = a.length;
   while (l < r) {
@@ -152,4 +152,18 @@ function lowerBound(a: Float64Array, x: number): number {
     else r = m;
   }
   return l;
+}
+
+/** Supports [lo[i], hi[i]] (as fractions of T) of every trial wavelet of `tree`. @internal */
+export function trialSupports(tree: { size: number; level: ArrayLike<number>; index: ArrayLike<number> }): { lo: Float64Array; hi: Float64Array } {
+  const lo = new Float64Array(tree.size);
+  const hi = new Float64Array(tree.size);
+  const sup = new Float64Array(2);
+  for (let i = 0; i < tree.size; i++) {
+    const l = tree.level[i]!;
+    supportOf('trial', l, tree.index[i]!, sup);
+    lo[i] = sup[0]! * 2 ** -l;
+    hi[i] = sup[1]! * 2 ** -l;
+  }
+  return { lo, hi };
 }
