@@ -11,7 +11,7 @@ import { validateInnerSolver } from '../system/system-options';
 import type { AdaptiveOptions } from './adaptive-solver';
 
 const ADAPTIVE_KEYS: Record<keyof Required<AdaptiveOptions>, true> = {
-  theta: true, minGrowth: true, tolerance: true, maxUnknowns: true, maxSteps: true, maxSeconds: true,
+  theta: true, tolerance: true, maxUnknowns: true, maxSteps: true, maxSeconds: true,
   initialSet: true, solverFraction: true, inner: true, onStep: true, onProgress: true, signal: true, enlargement: true, markSeparately: true,
   checkpoint: true, resume: true,
 };
@@ -21,7 +21,6 @@ export function validateAdaptiveOptions(opts: unknown, problem: HeatProblem, fie
   checkInstance(problem, HeatProblem, 'problem', 'a HeatProblem');
   const o = checkOptions<AdaptiveOptions>(opts, field, ADAPTIVE_KEYS);
   if (o.theta !== undefined) checkNumber(o.theta, `${field}.theta`, { min: 0, max: 1, minOpen: true, maxOpen: true });
-  if (o.minGrowth !== undefined) checkNumber(o.minGrowth, `${field}.minGrowth`, { min: 0, max: 10 });
   if (o.tolerance !== undefined) checkNumber(o.tolerance, `${field}.tolerance`, { min: 0 });
   if (o.maxUnknowns !== undefined) checkInteger(o.maxUnknowns, `${field}.maxUnknowns`, 1, 2 ** 31 - 1);
   if (o.maxSteps !== undefined) checkInteger(o.maxSteps, `${field}.maxSteps`, 1, 1e6);

@@ -98,13 +98,6 @@ export interface AdaptiveOptions {
    * docs/adaptivity.md §7).
    */
   theta?: number;
-  /**
-   * Least number of candidates marked per step, as a fraction of #Λ (default 0: Dörfler alone).
-   * The bulk set is lengthened by the next-largest indicators until it holds `minGrowth`·#Λ
-   * candidates, so each step grows Λ by at least about that fraction; fewer, larger steps make the
-   * whole run cheaper (its cost is about 1/(1 − 1/g) times the last step's for growth g per step).
-   */
-  minGrowth?: number;
   /** Stop when E ≤ tolerance (default 0: run until another limit). */
   tolerance?: number;
   /** Stop before a step whose Λ would exceed this many unknowns (default 2e5). */
@@ -181,7 +174,6 @@ class Interrupted {
 
 interface Validated {
   theta: number;
-  minGrowth: number;
   tol: number;
   maxUnknowns: number;
   maxSteps: number;
@@ -193,7 +185,6 @@ function validate(opts: AdaptiveOptions, problem: HeatProblem): Validated {
   const o = validateAdaptiveOptions(opts, problem);
   return {
     theta: o.theta ?? defaultBulk(problem.domain.dim),
-    minGrowth: o.minGrowth ?? 0,
     tol: o.tolerance ?? 0,
     maxUnknowns: o.maxUnknowns ?? 2e5,
     maxSteps: o.maxSteps ?? 40,
@@ -401,8 +392,7 @@ class AdaptiveRun {
     // continued; it is computed after everything this step reports, so the results are the same.
     if (!stop || (this.opts.checkpoint && ind.estimate > 0)) {
       if (!stop) this.checkpoint('refine');
-      const least = v.minGrowth * set.size;
-      const marked = this.opts.markSeparately ? markSeparately(ind.eta2, spatialCandidates(set, bigSet), v.theta, least) : dorflerMark(ind.eta2, v.theta, least);
+      const marked = this.opts.markSeparately ? markSeparately(ind.eta2, spatialCandidates(set, bigSet), v.theta) : dorflerMark(ind.eta2, v.theta);
       if (!stop) record.marked = marked.length;
       next = refineDoubleTree(domain, set, bigSet, marked);
       if (!stop && next.size > v.maxUnknowns) stop = 'unknowns';
@@ -434,12 +424,12 @@ class AdaptiveRun {
 }
 
 /** Dörfler marking within each class of candidates (kind[i] = 1 spatial, 0 temporal). */
-function markSeparately(eta2: Float64Array, kind: Uint8Array, theta: number, least: number): Int32Array {
+function markSeparately(eta2: Float64Array, kind: Uint8Array, theta: number): Int32Array {
   const a = new Float64Array(eta2.length);
   const b = new Float64Array(eta2.length);
   for (let i = 0; i < eta2.length; i++) (kind[i] ? a : b)[i] = eta2[i]!;
-  const ma = dorflerMark(a, theta, least / 2);
-  const mb = dorflerMark(b, theta, least / 2);
+  const ma = dorflerMark(a, theta);
+  const mb = dorflerMark(b, theta);
   const out = new Int32Array(ma.length + mb.length);
   out.set(ma);
   out.set(mb, ma.length);

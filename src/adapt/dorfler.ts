@@ -17,11 +17,10 @@ const BINS = 64;
  * dorflerMark(Float64Array.of(1, 100, 4, 0.01), 0.5); // Int32Array [1]
  * ```
  */
-export function dorflerMark(eta2: Float64Array, theta: number, minCount = 0): Int32Array {
+export function dorflerMark(eta2: Float64Array, theta: number): Int32Array {
   checkFloat64Array(eta2, 'eta2', { finite: false }); // the loop below names a bad indicator
   checkNumber(theta, 'theta', { min: 0, max: 1, minOpen: true, maxOpen: true });
   if (!(theta > 0 && theta < 1)) throw new InvalidArgumentError(`Dörfler parameter theta = ${theta} must lie in (0, 1)`, { field: 'theta', expected: '(0, 1)', received: theta });
-  checkNumber(minCount, 'minCount', { min: 0 });
   let total = 0;
   let max = 0;
   let positive = 0;
@@ -50,11 +49,10 @@ export function dorflerMark(eta2: Float64Array, theta: number, minCount = 0): In
   const order = new Int32Array(positive);
   for (let i = 0; i < eta2.length; i++) if (bin[i]! !== 255) order[count[bin[i]!]!++] = i;
   // The shortest prefix with Σ η² ≥ θ² Σ η² (within a factor 2 of the minimal set: bins are
-  // powers of two), lengthened to at least minCount entries.
+  // powers of two).
   const target = theta * theta * total;
   let acc = 0;
   let k = 0;
   while (k < positive && acc < target) acc += eta2[order[k++]!]!;
-  k = Math.max(k, Math.min(positive, Math.ceil(minCount)));
   return order.slice(0, k).sort();
 }

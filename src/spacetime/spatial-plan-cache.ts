@@ -31,12 +31,7 @@ export class SpatialPlanCache {
 
   /** The plan from fibre `inId` to fibre `outId` (built on first use). */
   get(inId: number, outId: number): SpatialOperatorPlan {
-    return this.plans.getOrMake(inId * 0x200000 + outId, () => this.build(inId, outId));
-  }
-
-  /** A new plan from fibre `inId` to fibre `outId`, not kept (for one-shot passes). */
-  build(inId: number, outId: number): SpatialOperatorPlan {
-    return new SpatialOperatorPlan(this.domain, this.pool.get(inId), this.pool.get(outId));
+    return this.plans.getOrMake(inId * 0x200000 + outId, () => new SpatialOperatorPlan(this.domain, this.pool.get(inId), this.pool.get(outId)));
   }
 
   /**
