@@ -32,8 +32,8 @@ export class SpatialPassPlan {
   /**
    * @param transient build each spatial plan when the sweep reaches it and drop it after use, so
    *   that at most one plan is alive (for passes applied once: the cost is the same, the memory is
-   *   one plan instead of all of them); the sweep visits the functions grouped by fibre pair, so
-   *   each distinct plan is built once.
+   *   one plan instead of all of them); the sweep visits the functions grouped by fibre union,
+   *   then by pair, so each distinct leaf mesh and each distinct plan is built once.
    */
   constructor(input: DoubleTree, output: DoubleTree, cache: SpatialPlanCache, transient = false) {
     if (input.tree.size !== output.tree.size || input.kind !== output.kind) {
