@@ -73,6 +73,9 @@ export class TemporalPassPlan {
   private readonly bufIn: Float64Array;
   private readonly bufOut: Float64Array;
   private readonly bufAcc: Float64Array;
+  // One scratch for all groups' 1D programs (a scratch per program would add up to several times
+  // the size of the coefficient vectors; the groups run one after the other).
+  private readonly work: Float64Array;
   readonly inSize: number;
   readonly outSize: number;
 
@@ -103,6 +106,7 @@ export class TemporalPassPlan {
     let nScatter = 0;
     let maxIn = 0;
     let maxOut = 0;
+    let maxWork = 0;
     const specs: { vertices: number[]; group: Group }[] = [];
     for (const vertices of byKey.values()) {
       const v0 = vertices[0]!;
@@ -121,6 +125,7 @@ export class TemporalPassPlan {
       nScatter += group.outFunctions * batch;
       maxIn = Math.max(maxIn, group.inFunctions * batch);
       maxOut = Math.max(maxOut, group.outFunctions * batch);
+      for (const p of plans) maxWork = Math.max(maxWork, p.workSize * batch);
       specs.push({ vertices, group });
       this.groups.push(group);
     }
@@ -133,6 +138,7 @@ export class TemporalPassPlan {
     this.bufIn = new Float64Array(maxIn);
     this.bufOut = new Float64Array(maxOut);
     this.bufAcc = new Float64Array(maxOut);
+    this.work = new Float64Array(maxWork);
   }
 
   /** Number of vertex groups (distinct temporal fibre shapes). */
@@ -143,13 +149,13 @@ export class TemporalPassPlan {
   /** ys[f] = (C_f ⊗ I) x for every form f (overwrites each ys[f]). */
   applyEach(x: Float64Array, ys: Float64Array[]): void {
     for (const y of ys) y.fill(0, 0, this.outSize);
-    const { gather, scatter, bufIn, bufOut } = this;
+    const { gather, scatter, bufIn, bufOut, work } = this;
     for (const g of this.groups) {
       const nIn = g.inFunctions * g.batch;
       const nOut = g.outFunctions * g.batch;
       for (let k = 0, o = g.gatherStart; k < nIn; k++, o++) bufIn[k] = x[gather[o]!]!;
       for (let f = 0; f < g.plans.length; f++) {
-        g.plans[f]!.apply(bufIn, bufOut, g.batch);
+        g.plans[f]!.applyWithWork(bufIn, bufOut, g.batch, work);
         const y = ys[f]!;
         for (let k = 0, o = g.scatterStart; k < nOut; k++, o++) y[scatter[o]!] = bufOut[k]!;
       }
@@ -159,14 +165,14 @@ export class TemporalPassPlan {
   /** y (+)= Σ_f (C_f ⊗ I) xs[f]; overwrites y unless `accumulate`. */
   applySummed(xs: Float64Array[], y: Float64Array, accumulate: boolean): void {
     if (!accumulate) y.fill(0, 0, this.outSize);
-    const { gather, scatter, bufIn, bufOut, bufAcc } = this;
+    const { gather, scatter, bufIn, bufOut, bufAcc, work } = this;
     for (const g of this.groups) {
       const nIn = g.inFunctions * g.batch;
       const nOut = g.outFunctions * g.batch;
       for (let f = 0; f < g.plans.length; f++) {
         const x = xs[f]!;
         for (let k = 0, o = g.gatherStart; k < nIn; k++, o++) bufIn[k] = x[gather[o]!]!;
-        g.plans[f]!.apply(bufIn, f === 0 ? bufAcc : bufOut, g.batch);
+        g.plans[f]!.applyWithWork(bufIn, f === 0 ? bufAcc : bufOut, g.batch, work);
         if (f > 0) for (let k = 0; k < nOut; k++) bufAcc[k]! += bufOut[k]!;
       }
       for (let k = 0, o = g.scatterStart; k < nOut; k++, o++) y[scatter[o]!]! += bufAcc[k]!;

@@ -68,10 +68,8 @@ export class TensorOperatorPlan implements LinearOperator {
    *   derivative form D, since B = D ⊗ M_x + N ⊗ A_x)
    * @param timeFormWithStiffness temporal factor of the term with the spatial stiffness A_x
    *   (for B: the mass form N)
-   * @param opts.oneShot build each spatial plan during the apply and drop it afterwards (for a
-   *   plan applied once, as in the estimator: same cost, one spatial plan alive instead of all)
    */
-  constructor(timeFormWithMass: TemporalForm, timeFormWithStiffness: TemporalForm, input: DoubleTree, output: DoubleTree, cache: SpatialPlanCache, T: number, opts: { oneShot?: boolean } = {}) {
+  constructor(timeFormWithMass: TemporalForm, timeFormWithStiffness: TemporalForm, input: DoubleTree, output: DoubleTree, cache: SpatialPlanCache, T: number) {
     this.input = input;
     this.output = output;
     this.inSize = input.size;
@@ -82,8 +80,8 @@ export class TensorOperatorPlan implements LinearOperator {
     this.spaceFirstSet = sigma;
     const forms = [timeFormWithMass, timeFormWithStiffness] as const;
     this.upperTime = new TemporalPassPlan(forms, input, theta, 'upper', T);
-    this.upperSpace = new SpatialPassPlan(theta, output, cache, opts.oneShot === true);
-    this.lowerSpace = new SpatialPassPlan(input, sigma, cache, opts.oneShot === true);
+    this.upperSpace = new SpatialPassPlan(theta, output, cache);
+    this.lowerSpace = new SpatialPassPlan(input, sigma, cache);
     this.lowerTime = new TemporalPassPlan(forms, sigma, output, 'lower', T);
     this.zM = new Float64Array(theta.size);
     this.zA = new Float64Array(theta.size);
@@ -104,3 +102,36 @@ export class TensorOperatorPlan implements LinearOperator {
   }
 
 }
+
+/**
+ * y = C x as {@link TensorOperatorPlan} computes it, for an operator applied once (the estimator,
+ * docs/adaptivity.md §3): the two halves run one after the other and each builds its intermediate
+ * set, temporal plan and scratch only while it runs, and its spatial plans one at a time during the
+ * sweep (nothing is added to `cache`). Same cost as building the plan and applying it once; the
+ * memory alive at any time is one half's instead of the whole plan's. @internal
+ */
+export function applyTensorOperatorOnce(
+  timeFormWithMass: TemporalForm, timeFormWithStiffness: TemporalForm,
+  input: DoubleTree, output: DoubleTree, cache: SpatialPlanCache, T: number,
+  x: Float64Array, y: Float64Array,
+): void {
+  checkNotAliased(x, y, 'applyTensorOperatorOnce');
+  const forms = [timeFormWithMass, timeFormWithStiffness] as const;
+  {
+    // Time first: z = (U ⊗ I) x on Θ, then y = (I ⊗ M_x) z_M + (I ⊗ A_x) z_A.
+    const theta = DoubleTree.fromNodeFibres(output.kind, output.tree, overlapUnionFibres(output.tree, input, 0), input.pool);
+    const zM = new Float64Array(theta.size);
+    const zA = new Float64Array(theta.size);
+    new TemporalPassPlan(forms, input, theta, 'upper', T).applyEach(x, [zM, zA]);
+    new SpatialPassPlan(theta, output, cache, true).applySum(zM, zA, y);
+  }
+  {
+    // Space first: w = (I ⊗ M_x) x, (I ⊗ A_x) x on Σ, then y += (L ⊗ I) w.
+    const sigma = DoubleTree.fromNodeFibres(input.kind, input.tree, overlapUnionFibres(input.tree, output, 1), input.pool);
+    const wM = new Float64Array(sigma.size);
+    const wA = new Float64Array(sigma.size);
+    new SpatialPassPlan(input, sigma, cache, true).applySplit(x, wM, wA);
+    new TemporalPassPlan(forms, sigma, output, 'lower', T).applySummed([wM, wA], y, true);
+  }
+}
+

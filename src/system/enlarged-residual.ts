@@ -11,7 +11,7 @@
  */
 import type { DoubleTree } from '../spacetime/double-tree';
 import { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
-import { TensorOperatorPlan } from '../spacetime/tensor-apply';
+import { applyTensorOperatorOnce } from '../spacetime/tensor-apply';
 import { testIndexSet } from '../spacetime/test-index-set';
 import { FibreInverseCache, type FibreInverse, type InnerSolver } from './fibre-inverse';
 import type { HeatProblem } from './heat-problem';
@@ -40,7 +40,7 @@ export function enlargedResidual(
   const w = sourceLoadWithBoundary(problem, test, plans); // with boundary data (./boundary-data-load)
   {
     const Bu = new Float64Array(test.size);
-    new TensorOperatorPlan('derivIn', 'mass', set, test, plans, T, { oneShot: true }).apply(u, Bu);
+    applyTensorOperatorOnce('derivIn', 'mass', set, test, plans, T, u, Bu);
     for (let i = 0; i < w.length; i++) w[i]! -= Bu[i]!;
   }
   plans.advanceEpoch(0); // the load's spatial plans are no longer needed
@@ -66,7 +66,7 @@ export function enlargedResidual(
   plans.advanceEpoch(0);
   // r = Bᵀ v on Λ̲, then the initial-trace terms γ0ᵀ u0 − G ũ.
   const r = new Float64Array(enlarged.size);
-  new TensorOperatorPlan('derivOut', 'mass', test, enlarged, plans, T, { oneShot: true }).apply(v, r);
+  applyTensorOperatorOnce('derivOut', 'mass', test, enlarged, plans, T, v, r);
   const G = new InitialTraceOperator(enlarged, plans, T);
   G.addTraced(initialLoadWithLifting(problem, G.traceFibre, plans), r, 1);
   const ut = new Float64Array(enlarged.size);

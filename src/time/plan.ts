@@ -38,8 +38,10 @@ export class TreeOperatorPlan {
   readonly part: LevelPart;
   readonly T: number;
   private readonly program: SparseProgram;
-  private work: Float64Array;
-  private workBatch = 1;
+  // Own scratch, allocated on the first `apply` (callers that run many plans in a row pass one
+  // shared scratch to `applyWithWork` instead, so no plan keeps a buffer of its own).
+  private work: Float64Array | null = null;
+  private workBatch = 0;
 
   constructor(form: TemporalForm, inTree: TemporalTree, outTree: TemporalTree, part: LevelPart, T = 1) {
     if (!FORMS.includes(form)) {
@@ -69,7 +71,11 @@ export class TreeOperatorPlan {
     if (part !== 'upper') c.lower();
     if (part !== 'lower') c.upper();
     this.program = b.finish();
-    this.work = new Float64Array(this.program.workSize);
+  }
+
+  /** Scratch entries one column needs (`applyWithWork` takes ≥ workSize · batch). @internal */
+  get workSize(): number {
+    return this.program.workSize;
   }
 
   /** Number of stored matrix entries of the compiled program (a measure of its cost). */
@@ -108,13 +114,20 @@ export class TreeOperatorPlan {
         field: 'y', expected: `Float64Array, length ≥ ${nOut}`, received: y instanceof Float64Array ? y.length : y,
       });
     }
-    if (batch > this.workBatch) {
+    if (this.work === null || batch > this.workBatch) {
       this.work = new Float64Array(this.program.workSize * batch);
       this.workBatch = batch;
     }
-    const need = this.program.workSize * batch;
-    this.work.fill(0, 0, need);
-    y.fill(0, 0, nOut);
-    runProgram(this.program, x, this.work, y, batch);
+    this.applyWithWork(x, y, batch, this.work);
+  }
+
+  /**
+   * `apply` without argument checks, with caller-owned scratch of ≥ workSize · batch entries (its
+   * contents are overwritten). For hot loops that run many plans in a row. @internal
+   */
+  applyWithWork(x: Float64Array, y: Float64Array, batch: number, work: Float64Array): void {
+    work.fill(0, 0, this.program.workSize * batch);
+    y.fill(0, 0, this.outTree.functionCount * batch);
+    runProgram(this.program, x, work, y, batch);
   }
 }
