@@ -28,6 +28,11 @@ export class EpochMap<V> {
     for (const [key, item] of this.items) if (item.epoch < this.epoch) this.items.delete(key);
   }
 
+  /** Deletes every entry. */
+  clear(): void {
+    this.items.clear();
+  }
+
   get size(): number {
     return this.items.size;
   }

@@ -47,6 +47,11 @@ export class SpatialPlanCache {
     this.plans.prune();
   }
 
+  /** Releases every plan. */
+  clear(): void {
+    this.plans.clear();
+  }
+
   get size(): number {
     return this.plans.size;
   }

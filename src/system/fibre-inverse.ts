@@ -152,4 +152,9 @@ export class FibreInverseCache {
   prune(): void {
     this.items.prune();
   }
+
+  /** Releases every inverse. */
+  clear(): void {
+    this.items.clear();
+  }
 }
