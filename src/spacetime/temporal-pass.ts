@@ -11,15 +11,16 @@
 import { TemporalTree, TreeOperatorPlan, type LevelPart, type TemporalForm } from '../time/index';
 import type { DoubleTree } from './double-tree';
 
-/** Per-vertex temporal fibres of a double tree: node positions and coefficient offsets (slot 0). */
-interface VertexFibres {
+/** Per-vertex temporal fibres of a double tree: node positions and coefficient offsets (slot 0). @internal */
+export interface VertexFibres {
   start: Int32Array; // by vertex id, length maxVertex + 2
   node: Int32Array;
   offset: Int32Array; // offset of (node, vertex) for slot 0; slot 1 adds the fibre length
   fibreLen: Int32Array;
 }
 
-function vertexFibres(dt: DoubleTree, vertexBound: number): VertexFibres {
+/** @internal */
+export function vertexFibres(dt: DoubleTree, vertexBound: number): VertexFibres {
   const { tree } = dt;
   const fpn = dt.kind === 'test' ? 2 : 1;
   const start = new Int32Array(vertexBound + 2);
@@ -88,27 +89,14 @@ export class TemporalPassPlan {
     const vout = vertexFibres(output, vb);
     const fin = input.kind === 'test' ? 2 : 1;
     const fout = output.kind === 'test' ? 2 : 1;
-    // Group vertices by the shape of their (input, output) temporal fibres.
-    const byKey = new Map<string, number[]>();
-    for (let v = 0; v < vb; v++) {
-      const a0 = vin.start[v]!, a1 = vin.start[v + 1]!;
-      const b0 = vout.start[v]!, b1 = vout.start[v + 1]!;
-      if (a0 === a1 || b0 === b1) continue;
-      let key = '';
-      for (let s = a0; s < a1; s++) key += vin.node[s]! + ',';
-      key += '|';
-      for (let s = b0; s < b1; s++) key += vout.node[s]! + ',';
-      let g = byKey.get(key);
-      if (g === undefined) byKey.set(key, (g = []));
-      g.push(v);
-    }
+    const byShape = groupByFibreShape(vb, vin, vout);
     let nGather = 0;
     let nScatter = 0;
     let maxIn = 0;
     let maxOut = 0;
     let maxWork = 0;
     const specs: { vertices: number[]; group: Group }[] = [];
-    for (const vertices of byKey.values()) {
+    for (const vertices of byShape) {
       const v0 = vertices[0]!;
       const inNodes = vin.node.subarray(vin.start[v0]!, vin.start[v0 + 1]!);
       const outNodes = vout.node.subarray(vout.start[v0]!, vout.start[v0 + 1]!);
@@ -178,6 +166,61 @@ export class TemporalPassPlan {
       for (let k = 0, o = g.scatterStart; k < nOut; k++, o++) y[scatter[o]!]! += bufAcc[k]!;
     }
   }
+}
+
+/**
+ * The vertices with non-empty input and output fibres, grouped by the shape of their pair of
+ * temporal fibres (the node positions of both), in order of first occurrence. Shapes are hashed
+ * (32-bit, over both position lists) and compared in full on a hash match, so equal hashes of
+ * different shapes stay apart (`hash` is replaceable so that tests can force collisions). @internal
+ */
+export function groupByFibreShape(vb: number, vin: VertexFibres, vout: VertexFibres, hash: (v: number) => number = (v) => shapeHash(vin, vout, v)): number[][] {
+  const groups: number[][] = [];
+  const firstOfHash = new Map<number, number>(); // hash → first group with it
+  const nextSameHash: number[] = []; // group → next group with the same hash, or -1
+  const sameShape = (v: number, w: number): boolean =>
+    sameRun(vin, v, w) && sameRun(vout, v, w);
+  for (let v = 0; v < vb; v++) {
+    const a0 = vin.start[v]!, a1 = vin.start[v + 1]!;
+    const b0 = vout.start[v]!, b1 = vout.start[v + 1]!;
+    if (a0 === a1 || b0 === b1) continue;
+    const h = hash(v);
+    let g = firstOfHash.get(h);
+    let last = -1;
+    while (g !== undefined && g >= 0 && !sameShape(groups[g]![0]!, v)) {
+      last = g;
+      g = nextSameHash[g]!;
+    }
+    if (g === undefined || g < 0) {
+      g = groups.length;
+      groups.push([]);
+      nextSameHash.push(-1);
+      if (last < 0) firstOfHash.set(h, g);
+      else nextSameHash[last] = g;
+    }
+    groups[g]!.push(v);
+  }
+  return groups;
+}
+
+/** 32-bit FNV-style hash of vertex v's pair of temporal fibres (lengths and node positions). */
+function shapeHash(vin: VertexFibres, vout: VertexFibres, v: number): number {
+  const a0 = vin.start[v]!, a1 = vin.start[v + 1]!;
+  const b0 = vout.start[v]!, b1 = vout.start[v + 1]!;
+  let h = 0x811c9dc5 ^ (a1 - a0);
+  for (let s = a0; s < a1; s++) h = Math.imul(h ^ vin.node[s]!, 0x01000193);
+  h = Math.imul(h ^ 0x5bd1e995 ^ (b1 - b0), 0x01000193);
+  for (let s = b0; s < b1; s++) h = Math.imul(h ^ vout.node[s]!, 0x01000193);
+  return h;
+}
+
+/** Whether vertices v and w have the same temporal fibre (node positions) in `vf`. */
+function sameRun(vf: VertexFibres, v: number, w: number): boolean {
+  const a0 = vf.start[v]!, n = vf.start[v + 1]! - a0;
+  const b0 = vf.start[w]!;
+  if (vf.start[w + 1]! - b0 !== n) return false;
+  for (let k = 0; k < n; k++) if (vf.node[a0 + k] !== vf.node[b0 + k]) return false;
+  return true;
 }
 
 /** The temporal tree formed by the given (ascending) node positions of `tree`. */
