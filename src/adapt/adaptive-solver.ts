@@ -359,6 +359,8 @@ class AdaptiveRun {
       const ts = performance.now();
       solveTo(v.fraction * ind.estimate);
       system = null;
+      caches.plans.clear();
+      caches.inverses.clear();
       t2 += performance.now() - ts;
       const te = performance.now();
       ind = estimateResidual(problem, set, solved!.solution, bigSet, inner);
