@@ -13,6 +13,7 @@
 import { InvalidArgumentError, RunInterruptedError, SolverBreakdownError } from '../errors';
 import { BYTES_PER_SYSTEM_UNKNOWN, memoryBudget } from '../validation/index';
 import { DoubleTree } from '../spacetime/double-tree';
+import { MAX_TEMPORAL_LEVEL } from '../time/index';
 import { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import { SpaceTimeSolution } from '../spacetime/space-time-solution';
 import type { HeatProblem } from '../system/heat-problem';
@@ -163,9 +164,13 @@ export interface AdaptiveResult {
    * `'callback'` (onStep returned false), `'aborted'` (the signal fired; the step in progress is
    * discarded) or `'memory'` (the next step's estimated memory — the system on Λ and the estimator
    * on Λ̲, see {@link adaptiveStepBytes}, with #Λ̲ extrapolated from this step's ratio #Λ̲/#Λ —
-   * would exceed the memory budget, see {@link setMemoryBudget}; the last completed step is returned).
+   * would exceed the memory budget, see {@link setMemoryBudget}; the last completed step is returned)
+   * or `'resolution'` (the next set would reach the deepest temporal level, MAX_TEMPORAL_LEVEL = 52,
+   * i.e. time scales of T·2⁻⁵²: there the estimator would have no finer temporal candidates and
+   * could no longer see the error below that scale; the last completed step, whose estimate is
+   * complete, is returned — docs/adaptivity.md §6).
    */
-  stopReason: 'tolerance' | 'unknowns' | 'steps' | 'time' | 'callback' | 'aborted' | 'memory';
+  stopReason: 'tolerance' | 'unknowns' | 'steps' | 'time' | 'callback' | 'aborted' | 'memory' | 'resolution';
 }
 
 class Interrupted {
@@ -398,6 +403,9 @@ class AdaptiveRun {
       if (!stop) record.marked = marked.length;
       next = refineDoubleTree(domain, set, bigSet, marked);
       if (!stop && next.size > v.maxUnknowns) stop = 'unknowns';
+      // Children of nodes on the deepest level cannot be candidates: the next estimate would be
+      // blind to the error on time scales below T·2^-52 (docs/adaptivity.md §6).
+      else if (!stop && next.tree.maxLevel >= MAX_TEMPORAL_LEVEL) stop = 'resolution';
       // The next step would hold the system on next and the estimator on its enlarged set, whose
       // size is extrapolated with this step's ratio #Λ̲/#Λ.
       else if (!stop && adaptiveStepBytes(next.size, (next.size * bigSet.size) / set.size) > memoryBudget()) stop = 'memory';

@@ -45,7 +45,7 @@ export function encodeCheckpoint(problem: HeatProblem, s: CheckpointState): Uint
 }
 
 const STEP_NUMBERS: (keyof AdaptiveStep)[] = ['step', 'unknowns', 'estimate', 'pcgIterations', 'algebraicError', 'maxTimeLevel', 'maxSpaceGeneration', 'spatialVertices', 'enlargedUnknowns', 'marked', 'seconds'];
-const STOP_REASONS: AdaptiveResult['stopReason'][] = ['tolerance', 'unknowns', 'steps', 'time', 'callback', 'aborted', 'memory'];
+const STOP_REASONS: AdaptiveResult['stopReason'][] = ['tolerance', 'unknowns', 'steps', 'time', 'callback', 'aborted', 'memory', 'resolution'];
 
 function bad(field: string, what: string): CorruptFileError {
   return new CorruptFileError(`the checkpoint's ${field} is malformed: ${what}`, 'malformed', { field, expected: what });

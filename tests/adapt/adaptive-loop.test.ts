@@ -6,13 +6,26 @@ import { describe, expect, it } from 'vitest';
 import {
   DoubleTree, FibreInverseCache, HeatProblem, RunInterruptedError, SpaceTimeSystem, SpatialPlanCache, dorflerMark, embeddingMap,
   SpaceTimeSolution, enlargeDoubleTree, intervalDomain, prolongCoefficients, rectangleDomain, refineDoubleTree, solveAdaptive, solveAdaptiveAsync,
-  type AdaptiveStep,
+  MAX_TEMPORAL_LEVEL, type AdaptiveStep,
 } from '../../src/index';
 import { rng } from '../helpers/random';
 
 const problem1d = () => new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 0.5, initial: () => 1 });
 
 describe('adaptive loop: stop reasons and callbacks', () => {
+  it("stops with 'resolution' before a set reaches the deepest temporal level (its estimate would be blind below T·2^-52)", () => {
+    // κT/L² = 1e14: the initial layer of u0 ≡ 1 (incompatible with u = 0) lives at t ≲ L²/κ = 1e-14·T,
+    // about 47 temporal levels below T, so the run is driven to the deepest level within a few steps.
+    const p = new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 1e14, initial: () => 1 });
+    const r = solveAdaptive(p, { maxSteps: 200 });
+    expect(r.stopReason).toBe('resolution');
+    const last = r.history.at(-1)!;
+    // The returned step still had candidates one level deeper, so its estimate saw every scale.
+    expect(last.maxTimeLevel).toBe(MAX_TEMPORAL_LEVEL - 1);
+    expect(r.history.every((s) => s.maxTimeLevel < MAX_TEMPORAL_LEVEL)).toBe(true);
+    expect(last.estimate).toBeGreaterThan(0);
+  });
+
   it('stops on each of its limits and says which', () => {
     const p = problem1d();
     expect(solveAdaptive(p, { maxSteps: 3 }).stopReason).toBe('steps');
