@@ -162,6 +162,26 @@ describe('adaptive loop: caches across steps', () => {
     expect(inverses.size).toBe(0);
   });
 
+  it('clear() empties both caches, and a system built from them afterwards gives the same S (what the loop does before each estimate)', () => {
+    const domain = intervalDomain(0, 1, 2);
+    const set = DoubleTree.sparseGrid(domain, 4);
+    const problem = new HeatProblem({ domain, T: 1, initial: () => 1 });
+    const plans = new SpatialPlanCache(domain, set.pool);
+    const inverses = new FibreInverseCache(domain, set.pool, plans, { kind: 'multigrid' });
+    const x = Float64Array.from({ length: set.size }, (_, i) => Math.sin(i + 1));
+    const before = new Float64Array(set.size);
+    new SpaceTimeSystem(problem, set, { caches: { plans, inverses } }).S.apply(x, before);
+    expect(plans.size).toBeGreaterThan(0);
+    expect(inverses.size).toBeGreaterThan(0);
+    plans.clear();
+    inverses.clear();
+    expect(plans.size).toBe(0);
+    expect(inverses.size).toBe(0);
+    const after = new Float64Array(set.size);
+    new SpaceTimeSystem(problem, set, { caches: { plans, inverses } }).S.apply(x, after);
+    expect(Array.from(after)).toEqual(Array.from(before));
+  });
+
   it('prune keeps exactly what the current epoch asked for', () => {
     const domain = intervalDomain(0, 1, 2);
     const big = DoubleTree.sparseGrid(domain, 5);
