@@ -31,9 +31,10 @@ export interface SpaceTimeSystemOptions {
   preconditionerInner?: InnerSolver;
   /**
    * Spatial plan and fibre-inverse caches to draw from instead of fresh ones (they must belong to
-   * the trial set's fibre pool and use the same inner solver). Systems on successive index sets of
-   * one adaptive run share them, so leaf meshes, spatial operator plans and V-cycle hierarchies of
-   * fibres that did not change are built once.
+   * the trial set's fibre pool and use the same inner solver). Systems that share them build the
+   * leaf meshes, spatial operator plans and V-cycle hierarchies of common fibres once. The adaptive
+   * loop shares them within a step (the system and, if PCG resumes, its rebuild) and empties them
+   * before each estimate (docs/adaptivity.md §5).
    */
   caches?: SpatialCaches;
 }
