@@ -74,8 +74,8 @@ export class TensorOperatorPlan implements LinearOperator {
     this.output = output;
     this.inSize = input.size;
     this.outSize = output.size;
-    const theta = DoubleTree.fromNodeFibres(output.kind, output.tree, overlapUnionFibres(output.tree, input, 0), input.pool);
-    const sigma = DoubleTree.fromNodeFibres(input.kind, input.tree, overlapUnionFibres(input.tree, output, 1), input.pool);
+    const theta = timeFirstSet(input, output);
+    const sigma = spaceFirstSet(input, output);
     this.timeFirstSet = theta;
     this.spaceFirstSet = sigma;
     const forms = [timeFormWithMass, timeFormWithStiffness] as const;
@@ -119,7 +119,7 @@ export function applyTensorOperatorOnce(
   const forms = [timeFormWithMass, timeFormWithStiffness] as const;
   {
     // Time first: z = (U ⊗ I) x on Θ, then y = (I ⊗ M_x) z_M + (I ⊗ A_x) z_A.
-    const theta = DoubleTree.fromNodeFibres(output.kind, output.tree, overlapUnionFibres(output.tree, input, 0), input.pool);
+    const theta = timeFirstSet(input, output);
     const zM = new Float64Array(theta.size);
     const zA = new Float64Array(theta.size);
     new TemporalPassPlan(forms, input, theta, 'upper', T).applyEach(x, [zM, zA]);
@@ -127,7 +127,7 @@ export function applyTensorOperatorOnce(
   }
   {
     // Space first: w = (I ⊗ M_x) x, (I ⊗ A_x) x on Σ, then y += (L ⊗ I) w.
-    const sigma = DoubleTree.fromNodeFibres(input.kind, input.tree, overlapUnionFibres(input.tree, output, 1), input.pool);
+    const sigma = spaceFirstSet(input, output);
     const wM = new Float64Array(sigma.size);
     const wA = new Float64Array(sigma.size);
     new SpatialPassPlan(input, sigma, cache, true).applySplit(x, wM, wA);
@@ -135,3 +135,12 @@ export function applyTensorOperatorOnce(
   }
 }
 
+/** Θ of the module comment: the temporal projection of Λ_out with the overlapping input fibres. */
+function timeFirstSet(input: DoubleTree, output: DoubleTree): DoubleTree {
+  return DoubleTree.fromNodeFibres(output.kind, output.tree, overlapUnionFibres(output.tree, input, 0), input.pool);
+}
+
+/** Σ of the module comment: the temporal projection of Λ_in with the overlapping output fibres one level finer. */
+function spaceFirstSet(input: DoubleTree, output: DoubleTree): DoubleTree {
+  return DoubleTree.fromNodeFibres(input.kind, input.tree, overlapUnionFibres(input.tree, output, 1), input.pool);
+}
