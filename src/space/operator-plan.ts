@@ -148,10 +148,11 @@ export class SpatialOperatorPlan {
     hierarchicalToNodal(this.mesh, u);
   }
 
-  private gatherBack(r: Float64Array, y: Float64Array, yOff: number): void {
+  private gatherBack(r: Float64Array, y: Float64Array, yOff: number, accumulate = false): void {
     hierarchicalToNodalTransposed(this.mesh, r);
     const ol = this.outLocal;
-    for (let i = 0; i < ol.length; i++) y[yOff + i] = r[ol[i]!]!;
+    if (accumulate) for (let i = 0; i < ol.length; i++) y[yOff + i]! += r[ol[i]!]!;
+    else for (let i = 0; i < ol.length; i++) y[yOff + i] = r[ol[i]!]!;
   }
 
   /** y[yOff …] = (wm·M + wa·A) x[xOff …] (overwrites). */
@@ -189,8 +190,8 @@ export class SpatialOperatorPlan {
     applyElementsNodalSum(this.rec, uM, uA, r);
   }
 
-  /** y = M xM + A xA with one transposed transform. */
-  applySum(xM: Float64Array, xMOff: number, xA: Float64Array, xAOff: number, y: Float64Array, yOff: number): void {
+  /** y = M xM + A xA with one transposed transform (y += … with `accumulate`). */
+  applySum(xM: Float64Array, xMOff: number, xA: Float64Array, xAOff: number, y: Float64Array, yOff: number, accumulate = false): void {
     this.check(xM, xMOff, this.inSet.length, 'xM');
     this.check(xA, xAOff, this.inSet.length, 'xA');
     this.check(y, yOff, this.outSet.length, 'y');
@@ -198,6 +199,6 @@ export class SpatialOperatorPlan {
     this.scatterForward(xA, xAOff, this.u2);
     this.r.fill(0);
     applyElementsNodalSum(this.rec, this.u, this.u2, this.r);
-    this.gatherBack(this.r, y, yOff);
+    this.gatherBack(this.r, y, yOff, accumulate);
   }
 }

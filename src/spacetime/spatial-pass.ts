@@ -119,11 +119,11 @@ export class SpatialPassPlan {
     this.sweep((p, f) => p.applySplit(x, inOff[f]!, yM, outOff[f]!, yA, outOff[f]!));
   }
 
-  /** y = (I ⊗ M) xM + (I ⊗ A) xA (overwrites y). */
-  applySum(xM: Float64Array, xA: Float64Array, y: Float64Array): void {
-    y.fill(0, 0, this.outSize);
+  /** y (+)= (I ⊗ M) xM + (I ⊗ A) xA (overwrites y unless `accumulate`). */
+  applySum(xM: Float64Array, xA: Float64Array, y: Float64Array, accumulate = false): void {
+    if (!accumulate) y.fill(0, 0, this.outSize);
     const { inOff, outOff } = this;
-    this.sweep((p, f) => p.applySum(xM, inOff[f]!, xA, inOff[f]!, y, outOff[f]!));
+    this.sweep((p, f) => p.applySum(xM, inOff[f]!, xA, inOff[f]!, y, outOff[f]!, accumulate));
   }
 }
 

@@ -104,7 +104,7 @@ export class TensorOperatorPlan implements LinearOperator {
 }
 
 /**
- * y = C x as {@link TensorOperatorPlan} computes it, for an operator applied once (the estimator,
+ * y = C x (or y += C x with `accumulate`) as {@link TensorOperatorPlan} computes it, for an operator applied once (the estimator,
  * docs/adaptivity.md §3): the two halves run one after the other and each builds its intermediate
  * set, temporal plan and scratch only while it runs, and its spatial plans one at a time during the
  * sweep (nothing is added to `cache`). Same cost as building the plan and applying it once; the
@@ -113,7 +113,7 @@ export class TensorOperatorPlan implements LinearOperator {
 export function applyTensorOperatorOnce(
   timeFormWithMass: TemporalForm, timeFormWithStiffness: TemporalForm,
   input: DoubleTree, output: DoubleTree, cache: SpatialPlanCache, T: number,
-  x: Float64Array, y: Float64Array,
+  x: Float64Array, y: Float64Array, accumulate = false,
 ): void {
   checkNotAliased(x, y, 'applyTensorOperatorOnce');
   const forms = [timeFormWithMass, timeFormWithStiffness] as const;
@@ -123,7 +123,7 @@ export function applyTensorOperatorOnce(
     const zM = new Float64Array(theta.size);
     const zA = new Float64Array(theta.size);
     new TemporalPassPlan(forms, input, theta, 'upper', T).applyEach(x, [zM, zA]);
-    new SpatialPassPlan(theta, output, cache, true).applySum(zM, zA, y);
+    new SpatialPassPlan(theta, output, cache, true).applySum(zM, zA, y, accumulate);
   }
   {
     // Space first: w = (I ⊗ M_x) x, (I ⊗ A_x) x on Σ, then y += (L ⊗ I) w.

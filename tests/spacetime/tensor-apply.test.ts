@@ -47,6 +47,12 @@ describe.each([1, 2] as const)('tensor-product apply, d = %i', (dim) => {
       const w1 = new Float64Array(trial.size);
       applyTensorOperatorOnce('derivOut', 'mass', test, trial, oneShot, T, v, w1);
       expect(relativeError(w1, matVec(Btd, v))).toBeLessThan(1e-12);
+      // Accumulating into a vector that already holds something (the estimator's w += B(−u)).
+      const start = randomVector(test.size, rand);
+      const y2 = Float64Array.from(start);
+      applyTensorOperatorOnce('derivIn', 'mass', trial, test, oneShot, T, x, y2, true);
+      const Bx = matVec(Bd, x);
+      expect(relativeError(y2, Float64Array.from(start, (s0, i) => s0 + Bx[i]!))).toBeLessThan(1e-12);
       expect(oneShot.size).toBe(0);
     }
   });
