@@ -11,7 +11,22 @@ export function extractLeafMesh(closure: VertexClosure, set: Int32Array, field =
   const n = closure.markSet(set, field);
   const f = closure.forest;
   const d = closure.dim;
-  const globalId = byGenerationThenId(closure.work, n, f.vGen);
+  // order (generation, id): bucket by generation, then sort each bucket
+  let maxG = 0;
+  for (let k = 0; k < n; k++) {
+    const g = f.vGen[closure.work[k]!]!;
+    if (g > maxG) maxG = g;
+  }
+  const start = new Int32Array(maxG + 2);
+  for (let k = 0; k < n; k++) start[f.vGen[closure.work[k]!]! + 1]!++;
+  for (let g = 0; g <= maxG; g++) start[g + 1] = start[g + 1]! + start[g]!;
+  const globalId = new Int32Array(n);
+  const fill = start.slice(0, maxG + 1);
+  for (let k = 0; k < n; k++) {
+    const v = closure.work[k]!;
+    globalId[fill[f.vGen[v]!]!++] = v;
+  }
+  for (let g = 0; g <= maxG; g++) globalId.subarray(start[g]!, start[g + 1]!).sort();
   const generation = new Int32Array(n);
   const coords = new Float64Array(n * d);
   const isFree = new Uint8Array(n);
@@ -64,47 +79,4 @@ export function extractLeafMesh(closure: VertexClosure, set: Int32Array, field =
     forestElement,
     memberLocal,
   };
-}
-
-/**
- * The n vertex ids work[0..n) in (generation, id) order, in linear time: a least-significant-digit
- * radix sort by id (two passes of 16 bits), then a stable counting sort by generation (common
- * practice; a comparison sort per generation made the leaf mesh cost grow like n log n).
- * @internal
- */
-export function byGenerationThenId(work: Int32Array, n: number, vGen: Int32Array): Int32Array {
-  // Small sets (most fibres): bucket by generation and sort each bucket; the radix passes' tables
-  // would cost more than the sort.
-  if (n < 1 << 14) return bucketedSort(work, n, vGen);
-  const a = work.slice(0, n);
-  const b = new Int32Array(n);
-  const count = new Int32Array(65537);
-  for (const shift of [0, 16]) {
-    count.fill(0);
-    for (let k = 0; k < n; k++) count[((a[k]! >>> shift) & 0xffff) + 1]!++;
-    for (let d = 0; d < 65536; d++) count[d + 1]! += count[d]!;
-    for (let k = 0; k < n; k++) b[count[(a[k]! >>> shift) & 0xffff]!++] = a[k]!;
-    a.set(b);
-  }
-  let maxG = 0;
-  for (let k = 0; k < n; k++) if (vGen[a[k]!]! > maxG) maxG = vGen[a[k]!]!;
-  const start = new Int32Array(maxG + 2);
-  for (let k = 0; k < n; k++) start[vGen[a[k]!]! + 1]!++;
-  for (let g = 0; g <= maxG; g++) start[g + 1]! += start[g]!;
-  for (let k = 0; k < n; k++) b[start[vGen[a[k]!]!]!++] = a[k]!;
-  return b;
-}
-
-/** The same order by generation buckets and a comparison sort of each (n log n, fast for small n). */
-function bucketedSort(work: Int32Array, n: number, vGen: Int32Array): Int32Array {
-  let maxG = 0;
-  for (let k = 0; k < n; k++) if (vGen[work[k]!]! > maxG) maxG = vGen[work[k]!]!;
-  const start = new Int32Array(maxG + 2);
-  for (let k = 0; k < n; k++) start[vGen[work[k]!]! + 1]!++;
-  for (let g = 0; g <= maxG; g++) start[g + 1]! += start[g]!;
-  const out = new Int32Array(n);
-  const fill = start.slice(0, maxG + 1);
-  for (let k = 0; k < n; k++) out[fill[vGen[work[k]!]!]!++] = work[k]!;
-  for (let g = 0; g <= maxG; g++) out.subarray(start[g]!, start[g + 1]!).sort();
-  return out;
 }
