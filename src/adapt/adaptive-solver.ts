@@ -321,8 +321,16 @@ class AdaptiveRun {
     const t0 = performance.now();
     this.checkpoint('setup');
     // The system on Λ lives only while PCG runs: it is dropped before the estimate (whose own
-    // structures on Λ̲ are several times larger) and rebuilt from the caches if PCG must resume.
+    // structures on Λ̲ are several times larger) and rebuilt if PCG must resume.
     let system: SpaceTimeSystem | null = new SpaceTimeSystem(problem, set, { caches });
+    // Releases the system and its spatial plans and fibre inverses before an estimate: kept for the
+    // next step they would hold ≈ 1.2 KB per unknown through the estimate (the step's peak), and
+    // measured over whole runs the reuse saved no CPU time (docs/adaptivity.md §5).
+    const release = (): void => {
+      system = null;
+      caches.plans.clear();
+      caches.inverses.clear();
+    };
     const b = system.rightHandSide();
     const t1 = performance.now();
     // SOLVE: nested iteration from the previous solution, stopped on the S-energy error estimate.
@@ -347,12 +355,7 @@ class AdaptiveRun {
     };
     solveTo(Number.isFinite(this.lastEstimate) ? v.fraction * this.lastEstimate : 0);
     let t2 = performance.now();
-    system = null;
-    // The system's spatial plans and fibre inverses are released before the estimate: kept for the
-    // next step they would hold ≈ 1.2 KB per unknown through the estimate (the step's peak), and
-    // measured over whole runs the reuse saved no CPU time (docs/adaptivity.md §5).
-    caches.plans.clear();
-    caches.inverses.clear();
+    release();
     // ESTIMATE on the enlarged set Λ̲.
     this.checkpoint('estimate');
     const bigSet = enlargeDoubleTree(domain, set, this.opts.enlargement);
@@ -363,9 +366,7 @@ class AdaptiveRun {
     for (let round = 0; round < 4 && !(solved!.energyError <= v.fraction * ind.estimate); round++) {
       const ts = performance.now();
       solveTo(v.fraction * ind.estimate);
-      system = null;
-      caches.plans.clear();
-      caches.inverses.clear();
+      release();
       t2 += performance.now() - ts;
       const te = performance.now();
       ind = estimateResidual(problem, set, solved!.solution, bigSet, inner);
