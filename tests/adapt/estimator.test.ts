@@ -94,12 +94,15 @@ describe('adaptive loop', () => {
   it('d = 2 square, u0 ≡ 1: the adaptive set beats the sparse grid of the same size by the estimator', () => {
     const domain = rectangleDomain(0, 1, 0, 1, 2, 2);
     const problem = new HeatProblem({ domain, T: 1, initial: () => 1 });
-    const set5 = DoubleTree.sparseGrid(domain, 5);
-    const { pcg } = new SpaceTimeSystem(problem, set5).solve({ relTol: 1e-8 });
-    const sparseE = residualIndicators(new SpaceTimeSystem(problem, enlargeDoubleTree(domain, set5)), set5, pcg.solution).estimate;
+    // Level 6 (#Λ = 39 617), not 5: at level 5 (9 633) the ratio is 0.49–0.51 depending on which
+    // sets the run happens to pass through (any change to the solves shifts them), so a factor-2
+    // claim there sits in that scatter; at level 6 the measured ratio is 0.34–0.35.
+    const set6 = DoubleTree.sparseGrid(domain, 6);
+    const { pcg } = new SpaceTimeSystem(problem, set6).solve({ relTol: 1e-8 });
+    const sparseE = residualIndicators(new SpaceTimeSystem(problem, enlargeDoubleTree(domain, set6)), set6, pcg.solution).estimate;
     // Run past the sparse grid's size and compare at the same N: E interpolated log-linearly in N
     // between the two steps that bracket #sparse grid (steps grow Λ by 10–90 %).
-    const N = set5.size;
+    const N = set6.size;
     const h = solveAdaptive(problem, { maxUnknowns: 4 * N, maxSteps: 200, onStep: (s) => s.unknowns < N }).history;
     const above = h[h.length - 1]!;
     const below = h[h.length - 2]!;
@@ -107,8 +110,8 @@ describe('adaptive loop', () => {
     expect(above.unknowns).toBeGreaterThanOrEqual(N);
     const w = Math.log(N / below.unknowns) / Math.log(above.unknowns / below.unknowns);
     const atN = Math.exp((1 - w) * Math.log(below.estimate) + w * Math.log(above.estimate));
-    console.log(`d = 2: adaptive E = ${atN.toFixed(4)} at N = ${N} (between steps at ${below.unknowns} and ${above.unknowns}); sparse grid L = 5: E = ${sparseE.toFixed(4)}`);
-    expect(atN).toBeLessThan(0.5 * sparseE);
+    console.log(`d = 2: adaptive E = ${atN.toFixed(4)} at N = ${N} (between steps at ${below.unknowns} and ${above.unknowns}); sparse grid L = 6: E = ${sparseE.toFixed(4)}`);
+    expect(atN).toBeLessThan(0.45 * sparseE);
   }, 120_000);
 });
 
