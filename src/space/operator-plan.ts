@@ -68,18 +68,27 @@ function subsetLocal(set: Int32Array, setLocal: Int32Array, sub: Int32Array): In
  * plan.apply(x, 0, y, 0, 0, 1); // y = A x
  * ```
  */
-/** A leaf mesh with its element tables, shared by several {@link SpatialOperatorPlan}s. @internal */
+/**
+ * A leaf mesh with its element tables and nodal scratch, shared by several
+ * {@link SpatialOperatorPlan}s. Plans run one at a time, so plans on one mesh share its scratch:
+ * `u` (nodal input), `r` (nodal output) and `w`, the second input of applySum or the second output
+ * of applySplit (never both at once). @internal
+ */
 export interface SharedLeafMesh {
   /** The closed vertex set the mesh resolves (sorted). */
   readonly union: Int32Array;
   readonly mesh: LeafMesh & { readonly memberLocal: Int32Array; readonly forestElement: Int32Array };
   readonly tables: ElementTables;
+  readonly u: Float64Array;
+  readonly r: Float64Array;
+  readonly w: Float64Array;
 }
 
-/** The leaf mesh and element tables of a closed vertex set, for {@link SpatialOperatorPlan}'s `shared`. @internal */
+/** The leaf mesh, element tables and scratch of a closed vertex set, for {@link SpatialOperatorPlan}'s `shared`. @internal */
 export function sharedLeafMesh(domain: SpatialDomain, union: Int32Array): SharedLeafMesh {
   const mesh = domain.leafMesh(union);
-  return { union, mesh, tables: elementTables(domain.forest, mesh) };
+  const n = mesh.vertexCount;
+  return { union, mesh, tables: elementTables(domain.forest, mesh), u: new Float64Array(n), r: new Float64Array(n), w: new Float64Array(n) };
 }
 
 export class SpatialOperatorPlan {
@@ -91,6 +100,8 @@ export class SpatialOperatorPlan {
   /** Local mesh index of each input / output vertex. */
   readonly inLocal: Int32Array;
   readonly outLocal: Int32Array;
+  /** The mesh, tables and scratch this plan works on (possibly shared with other plans). @internal */
+  readonly shared: SharedLeafMesh;
   private readonly rec: ElementTables;
   private readonly u: Float64Array;
   private readonly u2: Float64Array;
@@ -108,27 +119,22 @@ export class SpatialOperatorPlan {
     this.domain = domain;
     this.inSet = inSet;
     this.outSet = outSet;
-    let union: Int32Array;
-    let mesh: LeafMesh & { readonly memberLocal: Int32Array; readonly forestElement: Int32Array };
-    if (shared) {
-      union = shared.union;
-      mesh = shared.mesh;
-      this.rec = shared.tables;
-    } else {
+    if (!shared) {
       domain.checkSet(inSet, 'inSet');
       if (outSet !== inSet) domain.checkSet(outSet, 'outSet');
-      union = unionOfTwoSorted(inSet, outSet);
-      mesh = domain.leafMesh(union); // validates: both closed ⇒ union closed
-      this.rec = elementTables(domain.forest, mesh);
+      shared = sharedLeafMesh(domain, unionOfTwoSorted(inSet, outSet)); // validates: both closed ⇒ union closed
     }
+    const { union, mesh } = shared;
+    this.shared = shared;
+    this.rec = shared.tables;
     this.mesh = mesh;
     this.inLocal = inSet === union ? mesh.memberLocal : subsetLocal(union, mesh.memberLocal, inSet);
     this.outLocal = outSet === inSet ? this.inLocal : outSet === union ? mesh.memberLocal : subsetLocal(union, mesh.memberLocal, outSet);
-    const n = this.mesh.vertexCount;
-    this.u = new Float64Array(n);
-    this.u2 = new Float64Array(n);
-    this.r = new Float64Array(n);
-    this.r2 = new Float64Array(n);
+    // u2 (applySum's second input) and r2 (applySplit's second output) are never alive together.
+    this.u = shared.u;
+    this.r = shared.r;
+    this.u2 = shared.w;
+    this.r2 = shared.w;
   }
 
   private check(a: Float64Array, off: number, len: number, field: string): void {

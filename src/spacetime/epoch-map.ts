@@ -33,6 +33,11 @@ export class EpochMap<V> {
     this.items.clear();
   }
 
+  /** The values currently held. */
+  *values(): IterableIterator<V> {
+    for (const item of this.items.values()) yield item.value;
+  }
+
   get size(): number {
     return this.items.size;
   }

@@ -3,8 +3,9 @@
  * fibre pool, so that identical spatial applications share one plan.
  */
 import { SpatialOperatorPlan, type SpatialDomain } from '../space/index';
+import { sharedLeafMesh, unionOfTwoSorted, type SharedLeafMesh } from '../space/operator-plan';
 import { EpochMap } from './epoch-map';
-import type { FibrePool } from './fibre-pool';
+import { hashInts, sameInts, type FibrePool } from './fibre-pool';
 
 /**
  * Spatial operator plans per (input fibre, output fibre) pair, built on first use.
@@ -23,6 +24,10 @@ export class SpatialPlanCache {
   readonly domain: SpatialDomain;
   readonly pool: FibrePool;
   private readonly plans = new EpochMap<SpatialOperatorPlan>();
+  // Leaf meshes (with element tables and scratch) by the content of the union they resolve: plans
+  // whose fibre pairs have the same union share one (in an adaptive step about 4 plans per mesh,
+  // docs/adaptivity.md §5). Holds exactly the meshes of the cached plans.
+  private meshes = new Map<number, SharedLeafMesh[]>();
 
   constructor(domain: SpatialDomain, pool: FibrePool) {
     this.domain = domain;
@@ -31,7 +36,38 @@ export class SpatialPlanCache {
 
   /** The plan from fibre `inId` to fibre `outId` (built on first use). */
   get(inId: number, outId: number): SpatialOperatorPlan {
-    return this.plans.getOrMake(inId * 0x200000 + outId, () => new SpatialOperatorPlan(this.domain, this.pool.get(inId), this.pool.get(outId)));
+    return this.plans.getOrMake(inId * 0x200000 + outId, () => {
+      const a = this.pool.get(inId);
+      const b = this.pool.get(outId);
+      return new SpatialOperatorPlan(this.domain, a, b, this.meshFor(unionOfTwoSorted(a, b)));
+    });
+  }
+
+  /** The shared leaf mesh of `union` (built and validated on first use: the union must be closed). */
+  private meshFor(union: Int32Array): SharedLeafMesh {
+    const h = hashInts(union);
+    let bucket = this.meshes.get(h);
+    if (bucket === undefined) {
+      bucket = [];
+      this.meshes.set(h, bucket);
+    }
+    for (const m of bucket) if (sameInts(m.union, union)) return m;
+    const m = sharedLeafMesh(this.domain, union);
+    bucket.push(m);
+    return m;
+  }
+
+  /** Keeps the meshes of the plans still cached, drops the others. */
+  private syncMeshes(): void {
+    const kept = new Map<number, SharedLeafMesh[]>();
+    for (const p of this.plans.values()) {
+      const m = p.shared;
+      const h = hashInts(m.union);
+      const bucket = kept.get(h);
+      if (bucket === undefined) kept.set(h, [m]);
+      else if (!bucket.includes(m)) bucket.push(m);
+    }
+    this.meshes = kept;
   }
 
   /**
@@ -40,16 +76,19 @@ export class SpatialPlanCache {
    */
   advanceEpoch(keep = 1): void {
     this.plans.advance(keep);
+    this.syncMeshes();
   }
 
   /** Releases the plans not requested during the current epoch. */
   prune(): void {
     this.plans.prune();
+    this.syncMeshes();
   }
 
   /** Releases every plan. */
   clear(): void {
     this.plans.clear();
+    this.meshes = new Map();
   }
 
   get size(): number {
