@@ -63,8 +63,7 @@ export class FibrePool {
   }
 }
 
-/** 32-bit FNV-1a hash of the length and entries. @internal */
-export function hashInts(a: Int32Array): number {
+function hashInts(a: Int32Array): number {
   let h = 0x811c9dc5 ^ a.length;
   for (let i = 0; i < a.length; i++) {
     h ^= a[i]!;
@@ -73,8 +72,7 @@ export function hashInts(a: Int32Array): number {
   return h >>> 0;
 }
 
-/** Equal length and entries. @internal */
-export function sameInts(a: Int32Array, b: Int32Array): boolean {
+function sameInts(a: Int32Array, b: Int32Array): boolean {
   if (a.length !== b.length) return false;
   for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
   return true;

@@ -5,7 +5,7 @@
 import { SpatialOperatorPlan, type SpatialDomain } from '../space/index';
 import { sharedLeafMesh, unionOfTwoSorted, type SharedLeafMesh } from '../space/operator-plan';
 import { EpochMap } from './epoch-map';
-import { hashInts, sameInts, type FibrePool } from './fibre-pool';
+import { FibrePool } from './fibre-pool';
 
 /**
  * Spatial operator plans per (input fibre, output fibre) pair, built on first use.
@@ -26,8 +26,10 @@ export class SpatialPlanCache {
   private readonly plans = new EpochMap<SpatialOperatorPlan>();
   // Leaf meshes (with element tables and scratch) by the content of the union they resolve: plans
   // whose fibre pairs have the same union share one (in an adaptive step about 4 plans per mesh,
-  // docs/adaptivity.md §5). Holds exactly the meshes of the cached plans.
-  private meshes = new Map<number, SharedLeafMesh[]>();
+  // docs/adaptivity.md §5). The unions are interned in a pool of their own, rebuilt whenever plans
+  // are released, so that it holds exactly the meshes of the cached plans.
+  private unions = new FibrePool();
+  private meshes: SharedLeafMesh[] = [];
 
   constructor(domain: SpatialDomain, pool: FibrePool) {
     this.domain = domain;
@@ -45,29 +47,15 @@ export class SpatialPlanCache {
 
   /** The shared leaf mesh of `union` (built and validated on first use: the union must be closed). */
   private meshFor(union: Int32Array): SharedLeafMesh {
-    const h = hashInts(union);
-    let bucket = this.meshes.get(h);
-    if (bucket === undefined) {
-      bucket = [];
-      this.meshes.set(h, bucket);
-    }
-    for (const m of bucket) if (sameInts(m.union, union)) return m;
-    const m = sharedLeafMesh(this.domain, union);
-    bucket.push(m);
-    return m;
+    const id = this.unions.intern(union);
+    return (this.meshes[id] ??= sharedLeafMesh(this.domain, this.unions.get(id)));
   }
 
   /** Keeps the meshes of the plans still cached, drops the others. */
   private syncMeshes(): void {
-    const kept = new Map<number, SharedLeafMesh[]>();
-    for (const p of this.plans.values()) {
-      const m = p.shared;
-      const h = hashInts(m.union);
-      const bucket = kept.get(h);
-      if (bucket === undefined) kept.set(h, [m]);
-      else if (!bucket.includes(m)) bucket.push(m);
-    }
-    this.meshes = kept;
+    this.unions = new FibrePool();
+    this.meshes = [];
+    for (const p of this.plans.values()) this.meshes[this.unions.intern(p.shared.union)] ??= p.shared;
   }
 
   /**
@@ -88,7 +76,7 @@ export class SpatialPlanCache {
   /** Releases every plan. */
   clear(): void {
     this.plans.clear();
-    this.meshes = new Map();
+    this.syncMeshes();
   }
 
   get size(): number {
