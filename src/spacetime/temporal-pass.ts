@@ -56,6 +56,12 @@ function maxVertex(dt: DoubleTree): number {
   return m;
 }
 
+/**
+ * Entries of a batch buffer at most (unless a single vertex needs more, then one vertex per batch):
+ * 2¹⁵ doubles, 256 KB, keep each buffer within a core's L2 cache.
+ */
+const BATCH_ENTRIES = 1 << 15;
+
 interface Group {
   batch: number;
   plans: TreeOperatorPlan[]; // one per form
@@ -80,7 +86,8 @@ export class TemporalPassPlan {
   readonly inSize: number;
   readonly outSize: number;
 
-  constructor(forms: readonly TemporalForm[], input: DoubleTree, output: DoubleTree, part: LevelPart, T: number) {
+  /** @param batchEntries bound on the entries of a batch buffer (tests lower it to force many batches) */
+  constructor(forms: readonly TemporalForm[], input: DoubleTree, output: DoubleTree, part: LevelPart, T: number, batchEntries = BATCH_ENTRIES) {
     this.forms = forms;
     this.inSize = input.size;
     this.outSize = output.size;
@@ -96,26 +103,32 @@ export class TemporalPassPlan {
     let maxOut = 0;
     let maxWork = 0;
     const specs: { vertices: number[]; group: Group }[] = [];
-    for (const vertices of byShape) {
-      const v0 = vertices[0]!;
+    for (const shape of byShape) {
+      const v0 = shape[0]!;
       const inNodes = vin.node.subarray(vin.start[v0]!, vin.start[v0 + 1]!);
       const outNodes = vout.node.subarray(vout.start[v0]!, vout.start[v0 + 1]!);
       const inTree = subTree(input.tree, inNodes);
       const outTree = subTree(output.tree, outNodes);
       const plans = forms.map((f) => new TreeOperatorPlan(f, inTree, outTree, part, T));
-      const batch = vertices.length;
-      const group: Group = {
-        batch, plans,
-        inFunctions: inTree.functionCount, outFunctions: outTree.functionCount,
-        gatherStart: nGather, scatterStart: nScatter,
-      };
-      nGather += group.inFunctions * batch;
-      nScatter += group.outFunctions * batch;
-      maxIn = Math.max(maxIn, group.inFunctions * batch);
-      maxOut = Math.max(maxOut, group.outFunctions * batch);
-      for (const p of plans) maxWork = Math.max(maxWork, p.workSize * batch);
-      specs.push({ vertices, group });
-      this.groups.push(group);
+      const inFunctions = inTree.functionCount;
+      const outFunctions = outTree.functionCount;
+      // Vertices of one shape run in batches of bounded size, so that the batch buffers stay small
+      // (one shape often holds most vertices; sized to it, the buffers took ≈ 0.2 KB per unknown).
+      let widest = Math.max(inFunctions, outFunctions);
+      for (const p of plans) widest = Math.max(widest, p.workSize);
+      const chunk = Math.max(1, Math.floor(batchEntries / widest));
+      for (let c0 = 0; c0 < shape.length; c0 += chunk) {
+        const vertices = shape.slice(c0, c0 + chunk);
+        const batch = vertices.length;
+        const group: Group = { batch, plans, inFunctions, outFunctions, gatherStart: nGather, scatterStart: nScatter };
+        nGather += inFunctions * batch;
+        nScatter += outFunctions * batch;
+        maxIn = Math.max(maxIn, inFunctions * batch);
+        maxOut = Math.max(maxOut, outFunctions * batch);
+        for (const p of plans) maxWork = Math.max(maxWork, p.workSize * batch);
+        specs.push({ vertices, group });
+        this.groups.push(group);
+      }
     }
     this.gather = new Int32Array(nGather);
     this.scatter = new Int32Array(nScatter);
@@ -129,7 +142,7 @@ export class TemporalPassPlan {
     this.work = new Float64Array(maxWork);
   }
 
-  /** Number of vertex groups (distinct temporal fibre shapes). */
+  /** Number of vertex batches (vertices of one temporal fibre shape, in batches of bounded size). */
   get groupCount(): number {
     return this.groups.length;
   }

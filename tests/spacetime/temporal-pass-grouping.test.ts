@@ -5,7 +5,7 @@
  * hashing: equal hashes must not merge different keys, so a constant hash is the worst case).
  */
 import { describe, expect, it } from 'vitest';
-import { groupByFibreShape, vertexFibres } from '../../src/spacetime/temporal-pass';
+import { groupByFibreShape, TemporalPassPlan, vertexFibres } from '../../src/spacetime/temporal-pass';
 import { testIndexSet } from '../../src/spacetime/test-index-set';
 import { randomDoubleTree, smallDomain, type TreeShape } from './fixtures';
 import { seededRandom } from './reference';
@@ -42,5 +42,47 @@ describe('temporal pass: vertices grouped by fibre shape', () => {
         }
       });
     }
+  }
+});
+
+describe('temporal pass: vertices of one shape in batches of bounded size', () => {
+  // Batching only splits the independent columns of the same 1D programs, so the result must be
+  // the same however the vertices of a shape are split, up to rounding (a batch of one column sums
+  // each row before adding it; the unsplit plan is checked against dense matrices in
+  // tensor-apply.test.ts).
+  const close = (a: Float64Array, b: Float64Array): void => {
+    let scale = 0;
+    let diff = 0;
+    for (let i = 0; i < a.length; i++) {
+      scale = Math.max(scale, Math.abs(b[i]!));
+      diff = Math.max(diff, Math.abs(a[i]! - b[i]!));
+    }
+    expect(scale).toBeGreaterThan(0);
+    expect(diff).toBeLessThanOrEqual(1e-14 * scale);
+  };
+  for (const dim of [1, 2] as const) {
+    it(`d = ${dim}: a plan with batches of one vertex gives the same results`, () => {
+      const rnd = seededRandom(77 + dim);
+      const trial = randomDoubleTree(smallDomain(dim), 'sparse', rnd);
+      const test = testIndexSet(trial);
+      for (const [input, output, part] of [[trial, test, 'upper'], [test, trial, 'lower']] as const) {
+        const whole = new TemporalPassPlan(['derivIn', 'mass'], input, output, part, 0.7);
+        const split = new TemporalPassPlan(['derivIn', 'mass'], input, output, part, 0.7, 1);
+        expect(split.groupCount).toBeGreaterThan(whole.groupCount);
+        const x = Float64Array.from({ length: input.size }, () => rnd() - 0.5);
+        const x2 = Float64Array.from({ length: input.size }, () => rnd() - 0.5);
+        const ys = [new Float64Array(output.size), new Float64Array(output.size)];
+        const zs = [new Float64Array(output.size), new Float64Array(output.size)];
+        whole.applyEach(x, ys);
+        split.applyEach(x, zs);
+        close(zs[0]!, ys[0]!);
+        close(zs[1]!, ys[1]!);
+        const y = new Float64Array(output.size).fill(1);
+        const z = new Float64Array(output.size).fill(1);
+        whole.applySummed([x, x2], y, true);
+        split.applySummed([x, x2], z, true);
+        close(z, y);
+      }
+    });
   }
 });
