@@ -8,7 +8,7 @@ import { CholeskyDecomposition, Matrix } from 'ml-matrix';
 import { InvalidArgumentError } from '../errors';
 import type { SpatialDomain } from '../space/index';
 import type { LeafMesh } from '../space/leaf-mesh';
-import { MultilevelPreconditioner } from '../space/multigrid/index';
+import { CycleScratch, FIRST_CALLER_SLOT, MultilevelPreconditioner } from '../space/multigrid/index';
 import { localIndices } from '../space/operator-plan';
 import type { FibrePool } from '../spacetime/fibre-pool';
 import type { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
@@ -28,15 +28,17 @@ export interface FibreInverse {
 
 class MultigridFibreInverse implements FibreInverse {
   private readonly local: Int32Array;
-  private readonly rLoc: Float64Array;
-  private readonly zLoc: Float64Array;
-  constructor(domain: SpatialDomain, mesh: LeafMesh, fibre: Int32Array, private readonly mg: MultilevelPreconditioner) {
+  private readonly n: number;
+  // The local vectors live in the scratch the cache's cycles share (one inverse runs at a time).
+  constructor(domain: SpatialDomain, mesh: LeafMesh, fibre: Int32Array, private readonly mg: MultilevelPreconditioner, private readonly scratch: CycleScratch) {
     this.local = localIndices(domain, mesh, fibre);
-    this.rLoc = new Float64Array(mesh.vertexCount);
-    this.zLoc = new Float64Array(mesh.vertexCount);
+    this.n = mesh.vertexCount;
   }
   apply(r: Float64Array, rOff: number, z: Float64Array, zOff: number, alpha: number): void {
-    const { local, rLoc, zLoc } = this;
+    const { local, n } = this;
+    // Views of exactly n entries (the cycle checks the lengths); two small objects per apply.
+    const rLoc = this.scratch.get(FIRST_CALLER_SLOT, n).subarray(0, n);
+    const zLoc = this.scratch.get(FIRST_CALLER_SLOT + 1, n).subarray(0, n);
     rLoc.fill(0);
     for (let p = 0; p < local.length; p++) rLoc[local[p]!] = r[rOff + p]!;
     this.mg.applyHierarchical(rLoc, zLoc, alpha);
@@ -115,6 +117,8 @@ export function denseFibreMatrices(cache: SpatialPlanCache, fibreId: number): { 
  */
 export class FibreInverseCache {
   private readonly items = new EpochMap<FibreInverse>();
+  // Work vectors shared by the V-cycles of all inverses built here (./cycle-scratch in space/multigrid).
+  private readonly scratch = new CycleScratch();
   constructor(
     private readonly domain: SpatialDomain,
     readonly pool: FibrePool,
@@ -134,8 +138,8 @@ export class FibreInverseCache {
     }
     const fibre = this.pool.get(fibreId);
     const mesh = this.domain.leafMesh(fibre);
-    const mg = new MultilevelPreconditioner(mesh, { cycles: this.solver.cycles ?? 1 });
-    return new MultigridFibreInverse(this.domain, mesh, fibre, mg);
+    const mg = new MultilevelPreconditioner(mesh, { cycles: this.solver.cycles ?? 1 }).useScratch(this.scratch);
+    return new MultigridFibreInverse(this.domain, mesh, fibre, mg, this.scratch);
   }
 
   /** Number of fibre inverses held. */
@@ -156,5 +160,6 @@ export class FibreInverseCache {
   /** Releases every inverse. */
   clear(): void {
     this.items.clear();
+    this.scratch.release();
   }
 }

@@ -25,6 +25,7 @@
  */
 import type { LeafMesh } from '../leaf-mesh';
 import type { PairedRows } from './paired-rows';
+import { compactRows } from './value-pairs';
 
 export interface LevelHierarchy {
   /** Number of generations (maximal generation + 1). */
@@ -45,13 +46,15 @@ export interface LevelHierarchy {
   readonly narrowEnd: Int32Array;
   readonly setVerts: Int32Array;
   /**
-   * Row of A_g, M_g for the set entry k: off-diagonals rowCols/rowVals[rowStart[k] .. rowEnd[k]),
-   * values interleaved (A, M). The arrays are the row pool of the setup; other slots are unused.
+   * Row of A_g, M_g for the set entry k: off-diagonal entries [rowStart[k] .. rowEnd[k]) with
+   * columns rowCols and values (pairValues[2p], pairValues[2p + 1]) = (A, M) for p = rowPair of
+   * the entry (distinct value pairs stored once: ./value-pairs.ts).
    */
   readonly rowStart: Int32Array;
   readonly rowEnd: Int32Array;
   readonly rowCols: Int32Array;
-  readonly rowVals: Float64Array;
+  readonly rowPair: Uint16Array | Int32Array;
+  readonly pairValues: Float64Array;
   /** Diagonal (A, M) of each set entry. */
   readonly rowDiag: Float64Array;
   /** Free initial vertices (local indices) and their Galerkin matrices A_0, M_0 in CSR over that numbering. */
@@ -216,8 +219,10 @@ export function buildHierarchy(mesh: LeafMesh, rows: PairedRows): LevelHierarchy
     coarseDiag[2 * i] = rows.diag[2 * v]!;
     coarseDiag[2 * i + 1] = rows.diag[2 * v + 1]!;
   }
+  const compact = compactRows(rowStart, rowEnd, rows.cols, rows.vals);
   return {
-    levels, levelStart, setBegin, setEnd, narrowEnd, setVerts, rowStart, rowEnd, rowCols: rows.cols, rowVals: rows.vals,
+    levels, levelStart, setBegin, setEnd, narrowEnd, setVerts,
+    rowStart: compact.rowStart, rowEnd: compact.rowEnd, rowCols: compact.cols, rowPair: compact.pair, pairValues: compact.pairValues,
     rowDiag, coarseVerts, coarsePtr, coarseCols, coarseVals, coarseDiag,
   };
 }

@@ -24,6 +24,16 @@ import { assemblePair, rowCapacity } from './assemble-pair';
 import { CoarseSolver } from './coarse-solver';
 import { buildHierarchy, copyPairedRows, snapshotReserve, type LevelHierarchy, type PairedCsr } from './galerkin-hierarchy';
 import { validateLeafMesh } from './validate-leaf-mesh';
+import { CycleScratch } from './cycle-scratch';
+
+// Slots of the work vectors in a CycleScratch.
+const RES = 0;
+const HBUF = 1;
+const RCOPY = 2;
+const CORR = 3;
+const RHO = 4;
+const EPRE = 5;
+const JTMP = 6;
 import { checkOptions } from '../../validation/index';
 
 /**
@@ -94,17 +104,15 @@ export class MultilevelPreconditioner {
   private readonly h: LevelHierarchy;
   private readonly coarse: CoarseSolver;
   private readonly fine: PairedCsr | null;
-  private readonly res: Float64Array;
-  private readonly rho: Float64Array;
-  private readonly epre: Float64Array;
-  private readonly hbuf: Float64Array;
-  private readonly rcopy: Float64Array | null;
-  private readonly corr: Float64Array | null;
+  // Work vectors (res, hbuf, rcopy, corr: one entry per vertex; rho, epre, jtmp: one per smoothing
+  // set entry), own or shared with other preconditioners (see useScratch).
+  private scratch = new CycleScratch();
+  private readonly setEntries: number;
   private readonly smoother: 'auto' | 'gauss-seidel' | 'jacobi';
   private readonly levelA: Float64Array;
   private readonly levelM: Float64Array;
   private readonly omega: number;
-  private readonly jtmp: Float64Array;
+  private readonly pairSums: Float64Array;
 
   constructor(mesh: LeafMesh, opts: MultilevelOptions = {}) {
     checkOptions<MultilevelOptions>(opts, 'opts', MULTILEVEL_KEYS);
@@ -121,13 +129,7 @@ export class MultilevelPreconditioner {
     this.h = buildHierarchy(mesh, rows);
     this.levels = this.h.levels;
     this.coarse = new CoarseSolver(this.h);
-    this.res = new Float64Array(n);
-    const total = this.h.setVerts.length;
-    this.rho = new Float64Array(total);
-    this.epre = new Float64Array(total);
-    this.hbuf = new Float64Array(n);
-    this.rcopy = this.cycles > 1 ? new Float64Array(n) : null;
-    this.corr = this.cycles > 1 ? new Float64Array(n) : null;
+    this.setEntries = this.h.setVerts.length;
     this.smoother = opts.smoother ?? 'auto';
     if (this.smoother !== 'auto' && this.smoother !== 'gauss-seidel' && this.smoother !== 'jacobi') {
       throw new InvalidArgumentError("smoother must be 'auto', 'gauss-seidel' or 'jacobi'", { field: 'smoother', expected: "'auto' | 'gauss-seidel' | 'jacobi'", received: opts.smoother });
@@ -144,7 +146,7 @@ export class MultilevelPreconditioner {
       }
     }
     this.omega = opts.damping ?? 0.6;
-    this.jtmp = new Float64Array(total);
+    this.pairSums = new Float64Array(this.h.pairValues.length / 2);
   }
 
   /**
@@ -204,18 +206,34 @@ export class MultilevelPreconditioner {
    */
   applyNodal(r: Float64Array, z: Float64Array, alpha: number): void {
     this.checkArgs(r, z, alpha);
+    this.cyclesNodal(r, z, alpha);
+  }
+
+  /**
+   * Shares the work vectors with other preconditioners that are never applied at the same time
+   * (the fibre inverses of one cache). @internal
+   */
+  useScratch(scratch: CycleScratch): this {
+    this.scratch = scratch;
+    return this;
+  }
+
+  /** applyNodal without the argument checks. */
+  private cyclesNodal(r: Float64Array, z: Float64Array, alpha: number): void {
     if (this.cycles === 1) {
       this.vcycle(r, z, alpha);
       return;
     }
-    const rc = this.rcopy!;
-    const corr = this.corr!;
-    rc.set(r);
+    const n = this.vertexCount;
+    const rc = this.scratch.get(RCOPY, n);
+    const corr = this.scratch.get(CORR, n);
+    const hbuf = this.scratch.get(HBUF, n);
+    if (rc !== r) for (let i = 0; i < n; i++) rc[i] = r[i]!;
     this.vcycle(rc, z, alpha);
     for (let c = 1; c < this.cycles; c++) {
-      this.fineResidual(rc, z, alpha, this.hbuf);
-      this.vcycle(this.hbuf, corr, alpha);
-      for (let i = 0; i < this.vertexCount; i++) z[i] = z[i]! + corr[i]!;
+      this.fineResidual(rc, z, alpha, hbuf);
+      this.vcycle(hbuf, corr, alpha);
+      for (let i = 0; i < n; i++) z[i] = z[i]! + corr[i]!;
     }
   }
 
@@ -226,11 +244,11 @@ export class MultilevelPreconditioner {
    */
   applyHierarchical(r: Float64Array, z: Float64Array, alpha: number): void {
     this.checkArgs(r, z, alpha);
-    const w = this.cycles === 1 ? this.hbuf : this.rcopy!;
-    w.set(r);
+    const n = this.vertexCount;
+    const w = this.scratch.get(this.cycles === 1 ? HBUF : RCOPY, n);
+    for (let i = 0; i < n; i++) w[i] = r[i]!;
     nodalToHierarchicalTransposed(this.mesh, w);
-    if (this.cycles === 1) this.vcycle(w, z, alpha);
-    else this.applyNodal(w, z, alpha);
+    this.cyclesNodal(w, z, alpha);
     nodalToHierarchical(this.mesh, z);
   }
 
@@ -284,14 +302,20 @@ export class MultilevelPreconditioner {
     const rowStart = h.rowStart;
     const rowEnd = h.rowEnd;
     const cols = h.rowCols;
-    const vals = h.rowVals;
+    const pair = h.rowPair;
     const diag = h.rowDiag;
-    const res = this.res;
-    const rho = this.rho;
-    const epre = this.epre;
+    // A + αM of every distinct off-diagonal pair, computed as the rows would compute it.
+    const pv = h.pairValues;
+    const vals = this.pairSums;
+    for (let p = 0; p < vals.length; p++) vals[p] = pv[2 * p]! + alpha * pv[2 * p + 1]!;
+    const n = this.vertexCount;
+    const res = this.scratch.get(RES, n);
+    const rho = this.scratch.get(RHO, this.setEntries);
+    const epre = this.scratch.get(EPRE, this.setEntries);
+    const jt = this.scratch.get(JTMP, this.setEntries);
     const nu = this.smoothingSteps;
     const G = h.levels - 1;
-    res.set(r);
+    for (let i = 0; i < n; i++) res[i] = r[i]!;
 
     for (let g = G; g >= 1; g--) {
       const k0 = setBegin[g]!;
@@ -299,7 +323,6 @@ export class MultilevelPreconditioner {
       for (let k = k0; k < k1; k++) epre[k] = 0;
       const jac = this.useJacobi(g, alpha);
       if (jac) {
-        const jt = this.jtmp;
         const om = this.omega;
         for (let sweep = 0; sweep < nu; sweep++) {
           for (let k = k0; k < k1; k++) jt[k] = (om * res[verts[k]!]!) / (diag[2 * k]! + alpha * diag[2 * k + 1]!);
@@ -310,7 +333,7 @@ export class MultilevelPreconditioner {
             res[v] = res[v]! - (diag[2 * k]! + alpha * diag[2 * k + 1]!) * delta;
             for (let t = rowStart[k]!; t < rowEnd[k]!; t++) {
               const j = cols[t]!;
-              res[j] = res[j]! - (vals[2 * t]! + alpha * vals[2 * t + 1]!) * delta;
+              res[j] = res[j]! - vals[pair[t]!]! * delta;
             }
           }
         }
@@ -325,7 +348,7 @@ export class MultilevelPreconditioner {
             res[v] = 0;
             for (let t = rowStart[k]!; t < rowEnd[k]!; t++) {
               const j = cols[t]!;
-              res[j] = res[j]! - (vals[2 * t]! + alpha * vals[2 * t + 1]!) * delta;
+              res[j] = res[j]! - vals[pair[t]!]! * delta;
             }
           }
         }
@@ -355,14 +378,13 @@ export class MultilevelPreconditioner {
       const k1 = setEnd[g]!;
       const jac = this.useJacobi(g, alpha);
       if (jac) {
-        const jt = this.jtmp;
         const om = this.omega;
         for (let sweep = 0; sweep < nu; sweep++) {
           for (let k = k0; k < k1; k++) {
             const v = verts[k]!;
             const d = diag[2 * k]! + alpha * diag[2 * k + 1]!;
             let s = rho[k]! - d * y[v]!;
-            for (let t = rowStart[k]!; t < rowEnd[k]!; t++) s -= (vals[2 * t]! + alpha * vals[2 * t + 1]!) * y[cols[t]!]!;
+            for (let t = rowStart[k]!; t < rowEnd[k]!; t++) s -= vals[pair[t]!]! * y[cols[t]!]!;
             jt[k] = (om * s) / d;
           }
           for (let k = k0; k < k1; k++) y[verts[k]!] = y[verts[k]!]! + jt[k]!;
@@ -374,7 +396,7 @@ export class MultilevelPreconditioner {
             const v = verts[k]!;
             const d = diag[2 * k]! + alpha * diag[2 * k + 1]!;
             let s = rho[k]! - d * y[v]!;
-            for (let t = rowStart[k]!; t < rowEnd[k]!; t++) s -= (vals[2 * t]! + alpha * vals[2 * t + 1]!) * y[cols[t]!]!;
+            for (let t = rowStart[k]!; t < rowEnd[k]!; t++) s -= vals[pair[t]!]! * y[cols[t]!]!;
             y[v] = y[v]! + s / d;
           }
         }

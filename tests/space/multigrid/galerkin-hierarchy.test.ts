@@ -110,7 +110,7 @@ describe('Galerkin hierarchy', () => {
       const verts = h.setVerts.subarray(h.setBegin[g]!, h.setEnd[g]!);
       const diag = h.rowDiag.subarray(2 * h.setBegin[g]!, 2 * h.setEnd[g]!);
       const off = h.setBegin[g]!;
-      const err = maxRowError(verts, h.rowCols, h.rowVals, diag, ref, (k) => [h.rowStart[off + k]!, h.rowEnd[off + k]!]);
+      const err = maxRowError(verts, h.rowCols, pairedValues(h), diag, ref, (k) => [h.rowStart[off + k]!, h.rowEnd[off + k]!]);
       expect(err).toBeLessThan(1e-10 * scale(ref.K));
       rowsChecked += verts.length;
       // the smoothing set: free generation-g vertices and their free interpolation parents
@@ -146,3 +146,13 @@ describe('Galerkin hierarchy', () => {
     expect(h.rowCols.length).toBeLessThanOrEqual(3 * 12 * mesh.vertexCount);
   });
 });
+
+/** The interleaved (A, M) values of every stored entry, decoded from the table of distinct pairs. */
+function pairedValues(h: ReturnType<typeof buildHierarchy>): Float64Array {
+  const vals = new Float64Array(2 * h.rowPair.length);
+  for (let t = 0; t < h.rowPair.length; t++) {
+    vals[2 * t] = h.pairValues[2 * h.rowPair[t]!]!;
+    vals[2 * t + 1] = h.pairValues[2 * h.rowPair[t]! + 1]!;
+  }
+  return vals;
+}

@@ -2,7 +2,7 @@ import { Matrix, inverse, solve } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import { InvalidArgumentError, InvalidMeshError, SolverBreakdownError } from '../../../src/errors';
 import type { LeafMesh } from '../../../src/space/leaf-mesh';
-import { MultilevelPreconditioner } from '../../../src/space/multigrid/index';
+import { CycleScratch, MultilevelPreconditioner } from '../../../src/space/multigrid/index';
 import { BisectionFixture } from './fixtures';
 import { dot, denseMatrices, denseOfMap, denseSpectrum, randomVector } from './reference';
 
@@ -115,6 +115,28 @@ describe('MultilevelPreconditioner: symmetry and positivity', () => {
     const h2 = Float64Array.from(r);
     pre.applyHierarchical(h2, h2, 3);
     expect(Array.from(h2)).toEqual(Array.from(h1));
+  });
+
+  it('preconditioners sharing one set of work vectors, applied in turn, give what each gives alone', () => {
+    // The fibre inverses of one cache share their cycles' work vectors (src/space/multigrid/cycle-scratch.ts);
+    // the cycle must not depend on what another cycle left in them, for 1 and for 2 cycles.
+    const shared = new CycleScratch();
+    const cases = [meshes[2]!, meshes[3]!, meshes[0]!].flatMap(([, mk], i) => [1, 2].map((cycles) => {
+      const mesh = mk();
+      const r = randomVector(mesh, 10 + i);
+      const alone = new MultilevelPreconditioner(mesh, { cycles });
+      const z = new Float64Array(mesh.vertexCount);
+      alone.applyHierarchical(r, z, 7);
+      return { pre: new MultilevelPreconditioner(mesh, { cycles }).useScratch(shared), r, z, n: mesh.vertexCount, mesh };
+    }));
+    for (let round = 0; round < 2; round++) {
+      for (const c of cases) {
+        const got = new Float64Array(c.n).fill(Number.NaN);
+        c.pre.applyHierarchical(c.r, got, 7);
+        expect(Array.from(got)).toEqual(Array.from(c.z));
+        c.pre.applyNodal(randomVector(c.mesh, 99), got, 1e5); // leaves other data behind
+      }
+    }
   });
 });
 
