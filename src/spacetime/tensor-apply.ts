@@ -21,6 +21,7 @@
  */
 import type { TemporalForm } from '../time/index';
 import { checkNotAliased, type LinearOperator } from '../numerics/linear-operator';
+import { WorkVectors } from '../numerics/work-vectors';
 import { DoubleTree } from './double-tree';
 import { overlapUnionFibres } from './overlap-unions';
 import { SpatialPassPlan } from './spatial-pass';
@@ -54,14 +55,12 @@ export class TensorOperatorPlan implements LinearOperator {
   private readonly upperSpace: SpatialPassPlan;
   private readonly lowerSpace: SpatialPassPlan;
   private readonly lowerTime: TemporalPassPlan;
-  // Scratch on the intermediate sets, split by spatial factor: z* on Θ after the time-first pass
-  // (U of the form paired with M_x resp. A_x), w* on Σ after the space-first pass (M_x x resp. A_x x).
-  private readonly zM: Float64Array;
-  private readonly zA: Float64Array;
-  private readonly wM: Float64Array;
-  private readonly wA: Float64Array;
-  private readonly zPair: Float64Array[];
-  private readonly wPair: Float64Array[];
+  // Scratch on the intermediate sets, split by spatial factor (slot 0: with M_x, slot 1: with A_x):
+  // on Θ after the time-first pass, then on Σ after the space-first pass. Both halves use the same
+  // two vectors one after the other, and operators applied in turn (B and Bᵀ of a system) may
+  // share them (useWorkVectors).
+  private work = new WorkVectors();
+  private readonly scratchSize: number;
 
   /**
    * @param timeFormWithMass temporal factor of the term with the spatial mass M_x (for B: the
@@ -83,22 +82,28 @@ export class TensorOperatorPlan implements LinearOperator {
     this.upperSpace = new SpatialPassPlan(theta, output, cache);
     this.lowerSpace = new SpatialPassPlan(input, sigma, cache);
     this.lowerTime = new TemporalPassPlan(forms, sigma, output, 'lower', T);
-    this.zM = new Float64Array(theta.size);
-    this.zA = new Float64Array(theta.size);
-    this.wM = new Float64Array(sigma.size);
-    this.wA = new Float64Array(sigma.size);
-    this.zPair = [this.zM, this.zA];
-    this.wPair = [this.wM, this.wA];
+    this.scratchSize = Math.max(theta.size, sigma.size);
+  }
+
+  /**
+   * Shares the scratch vectors (slots 0 and 1) with other operators that are never applied at the
+   * same time, such as B and Bᵀ inside S. @internal
+   */
+  useWorkVectors(work: WorkVectors): this {
+    this.work = work;
+    return this;
   }
 
   /** y = C x on Λ_out (overwrites y; x has `input.size`, y `output.size` entries). */
   apply(x: Float64Array, y: Float64Array): void {
     checkNotAliased(x, y, 'TensorOperatorPlan');
-    const { zM, zA, wM, wA } = this;
-    this.upperTime.applyEach(x, this.zPair);
-    this.upperSpace.applySum(zM, zA, y);
-    this.lowerSpace.applySplit(x, wM, wA);
-    this.lowerTime.applySummed(this.wPair, y, true);
+    const withM = this.work.get(0, this.scratchSize);
+    const withA = this.work.get(1, this.scratchSize);
+    const pair = [withM, withA];
+    this.upperTime.applyEach(x, pair);
+    this.upperSpace.applySum(withM, withA, y);
+    this.lowerSpace.applySplit(x, withM, withA);
+    this.lowerTime.applySummed(pair, y, true);
   }
 
 }

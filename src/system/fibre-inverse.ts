@@ -8,7 +8,8 @@ import { CholeskyDecomposition, Matrix } from 'ml-matrix';
 import { InvalidArgumentError } from '../errors';
 import type { SpatialDomain } from '../space/index';
 import type { LeafMesh } from '../space/leaf-mesh';
-import { CycleScratch, FIRST_CALLER_SLOT, MultilevelPreconditioner } from '../space/multigrid/index';
+import { CYCLE_SLOTS, MultilevelPreconditioner } from '../space/multigrid/index';
+import { WorkVectors } from '../numerics/work-vectors';
 import { localIndices } from '../space/operator-plan';
 import type { FibrePool } from '../spacetime/fibre-pool';
 import type { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
@@ -30,15 +31,15 @@ class MultigridFibreInverse implements FibreInverse {
   private readonly local: Int32Array;
   private readonly n: number;
   // The local vectors live in the scratch the cache's cycles share (one inverse runs at a time).
-  constructor(domain: SpatialDomain, mesh: LeafMesh, fibre: Int32Array, private readonly mg: MultilevelPreconditioner, private readonly scratch: CycleScratch) {
+  constructor(domain: SpatialDomain, mesh: LeafMesh, fibre: Int32Array, private readonly mg: MultilevelPreconditioner, private readonly scratch: WorkVectors) {
     this.local = localIndices(domain, mesh, fibre);
     this.n = mesh.vertexCount;
   }
   apply(r: Float64Array, rOff: number, z: Float64Array, zOff: number, alpha: number): void {
     const { local, n } = this;
     // Views of exactly n entries (the cycle checks the lengths); two small objects per apply.
-    const rLoc = this.scratch.get(FIRST_CALLER_SLOT, n).subarray(0, n);
-    const zLoc = this.scratch.get(FIRST_CALLER_SLOT + 1, n).subarray(0, n);
+    const rLoc = this.scratch.get(CYCLE_SLOTS, n).subarray(0, n);
+    const zLoc = this.scratch.get(CYCLE_SLOTS + 1, n).subarray(0, n);
     rLoc.fill(0);
     for (let p = 0; p < local.length; p++) rLoc[local[p]!] = r[rOff + p]!;
     this.mg.applyHierarchical(rLoc, zLoc, alpha);
@@ -117,8 +118,8 @@ export function denseFibreMatrices(cache: SpatialPlanCache, fibreId: number): { 
  */
 export class FibreInverseCache {
   private readonly items = new EpochMap<FibreInverse>();
-  // Work vectors shared by the V-cycles of all inverses built here (./cycle-scratch in space/multigrid).
-  private readonly scratch = new CycleScratch();
+  // Work vectors shared by the V-cycles of all inverses built here (numerics/work-vectors).
+  private readonly scratch = new WorkVectors();
   constructor(
     private readonly domain: SpatialDomain,
     readonly pool: FibrePool,

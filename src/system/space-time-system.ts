@@ -8,6 +8,7 @@ export type { SystemSolveOptions } from './pcg-options';
 import { DoubleTree } from '../spacetime/double-tree';
 import { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import { TensorOperatorPlan } from '../spacetime/tensor-apply';
+import { WorkVectors } from '../numerics/work-vectors';
 import { testIndexSet } from '../spacetime/test-index-set';
 import { SpaceTimeSolution } from '../spacetime/space-time-solution';
 import { FibreInverseCache, type InnerSolver } from './fibre-inverse';
@@ -97,8 +98,10 @@ export class SpaceTimeSystem {
     this.inverses = inverses;
     const pInner = opts.preconditionerInner ?? inner;
     this.pInverses = pInner === inner ? inverses : new FibreInverseCache(problem.domain, trialSet.pool, this.plans, pInner);
-    this.B = new TensorOperatorPlan('derivIn', 'mass', trialSet, this.testSet, this.plans, T);
-    this.Bt = new TensorOperatorPlan('derivOut', 'mass', this.testSet, trialSet, this.plans, T);
+    // B and Bᵀ run one after the other (S = Bᵀ K_Y B + G, the right-hand side): one set of scratch.
+    const work = new WorkVectors();
+    this.B = new TensorOperatorPlan('derivIn', 'mass', trialSet, this.testSet, this.plans, T).useWorkVectors(work);
+    this.Bt = new TensorOperatorPlan('derivOut', 'mass', this.testSet, trialSet, this.plans, T).useWorkVectors(work);
     this.KY = new TestInnerProductInverse(this.testSet, inverses);
     this.G = new InitialTraceOperator(trialSet, this.plans, T);
     this.S = new SchurOperator(this.B, this.Bt, this.KY, this.G);

@@ -24,9 +24,9 @@ import { assemblePair, rowCapacity } from './assemble-pair';
 import { CoarseSolver } from './coarse-solver';
 import { buildHierarchy, copyPairedRows, snapshotReserve, type LevelHierarchy, type PairedCsr } from './galerkin-hierarchy';
 import { validateLeafMesh } from './validate-leaf-mesh';
-import { CycleScratch } from './cycle-scratch';
+import { WorkVectors } from '../../numerics/work-vectors';
 
-// Slots of the work vectors in a CycleScratch.
+// Slots of the cycle's work vectors.
 const RES = 0;
 const HBUF = 1;
 const RCOPY = 2;
@@ -34,6 +34,8 @@ const CORR = 3;
 const RHO = 4;
 const EPRE = 5;
 const JTMP = 6;
+/** Number of work-vector slots a cycle uses (0 … CYCLE_SLOTS − 1); code around a cycle may use the next ones. @internal */
+export const CYCLE_SLOTS = 7;
 import { checkOptions } from '../../validation/index';
 
 /**
@@ -106,7 +108,7 @@ export class MultilevelPreconditioner {
   private readonly fine: PairedCsr | null;
   // Work vectors (res, hbuf, rcopy, corr: one entry per vertex; rho, epre, jtmp: one per smoothing
   // set entry), own or shared with other preconditioners (see useScratch).
-  private scratch = new CycleScratch();
+  private scratch = new WorkVectors();
   private readonly setEntries: number;
   private readonly smoother: 'auto' | 'gauss-seidel' | 'jacobi';
   private readonly levelA: Float64Array;
@@ -213,7 +215,7 @@ export class MultilevelPreconditioner {
    * Shares the work vectors with other preconditioners that are never applied at the same time
    * (the fibre inverses of one cache). @internal
    */
-  useScratch(scratch: CycleScratch): this {
+  useScratch(scratch: WorkVectors): this {
     this.scratch = scratch;
     return this;
   }

@@ -2,7 +2,8 @@ import { Matrix, inverse, solve } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import { InvalidArgumentError, InvalidMeshError, SolverBreakdownError } from '../../../src/errors';
 import type { LeafMesh } from '../../../src/space/leaf-mesh';
-import { CycleScratch, MultilevelPreconditioner } from '../../../src/space/multigrid/index';
+import { MultilevelPreconditioner } from '../../../src/space/multigrid/index';
+import { WorkVectors } from '../../../src/numerics/work-vectors';
 import { BisectionFixture } from './fixtures';
 import { dot, denseMatrices, denseOfMap, denseSpectrum, randomVector } from './reference';
 
@@ -118,9 +119,9 @@ describe('MultilevelPreconditioner: symmetry and positivity', () => {
   });
 
   it('preconditioners sharing one set of work vectors, applied in turn, give what each gives alone', () => {
-    // The fibre inverses of one cache share their cycles' work vectors (src/space/multigrid/cycle-scratch.ts);
+    // The fibre inverses of one cache share their cycles' work vectors (src/numerics/work-vectors.ts);
     // the cycle must not depend on what another cycle left in them, for 1 and for 2 cycles.
-    const shared = new CycleScratch();
+    const shared = new WorkVectors();
     const cases = [meshes[2]!, meshes[3]!, meshes[0]!].flatMap(([, mk], i) => [1, 2].map((cycles) => {
       const mesh = mk();
       const r = randomVector(mesh, 10 + i);
