@@ -118,23 +118,25 @@ export class TensorOperatorPlan implements LinearOperator {
 export function applyTensorOperatorOnce(
   timeFormWithMass: TemporalForm, timeFormWithStiffness: TemporalForm,
   input: DoubleTree, output: DoubleTree, cache: SpatialPlanCache, T: number,
-  x: Float64Array, y: Float64Array, accumulate = false,
+  x: Float64Array, y: Float64Array, accumulate = false, work: WorkVectors = new WorkVectors(),
 ): void {
   checkNotAliased(x, y, 'applyTensorOperatorOnce');
   const forms = [timeFormWithMass, timeFormWithStiffness] as const;
+  // Both halves use the scratch slots 0 and 1 of `work` in turn (callers applying several
+  // operators once may pass one WorkVectors to all of them).
   {
     // Time first: z = (U ⊗ I) x on Θ, then y = (I ⊗ M_x) z_M + (I ⊗ A_x) z_A.
     const theta = timeFirstSet(input, output);
-    const zM = new Float64Array(theta.size);
-    const zA = new Float64Array(theta.size);
+    const zM = work.get(0, theta.size);
+    const zA = work.get(1, theta.size);
     new TemporalPassPlan(forms, input, theta, 'upper', T).applyEach(x, [zM, zA]);
     new SpatialPassPlan(theta, output, cache, true).applySum(zM, zA, y, accumulate);
   }
   {
     // Space first: w = (I ⊗ M_x) x, (I ⊗ A_x) x on Σ, then y += (L ⊗ I) w.
     const sigma = spaceFirstSet(input, output);
-    const wM = new Float64Array(sigma.size);
-    const wA = new Float64Array(sigma.size);
+    const wM = work.get(0, sigma.size);
+    const wA = work.get(1, sigma.size);
     new SpatialPassPlan(input, sigma, cache, true).applySplit(x, wM, wA);
     new TemporalPassPlan(forms, sigma, output, 'lower', T).applySummed([wM, wA], y, true);
   }

@@ -13,6 +13,7 @@ import type { DoubleTree } from '../spacetime/double-tree';
 import { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import { applyTensorOperatorOnce } from '../spacetime/tensor-apply';
 import { testIndexSet } from '../spacetime/test-index-set';
+import { WorkVectors } from '../numerics/work-vectors';
 import { FibreInverseCache, type FibreInverse, type InnerSolver } from './fibre-inverse';
 import type { HeatProblem } from './heat-problem';
 import { InitialTraceOperator } from './initial-trace';
@@ -36,13 +37,15 @@ export function enlargedResidual(
   const pool = enlarged.pool;
   const test = testIndexSet(enlarged);
   const plans = new SpatialPlanCache(domain, pool);
+  // Scratch of the one-shot applications of B and Bᵀ, sized to the largest intermediate set.
+  const work = new WorkVectors();
   // w = ℓ_f − B ũ on Λ̲_Y, with B applied from Λ (where ũ lives).
   const w = sourceLoadWithBoundary(problem, test, plans); // with boundary data (./boundary-data-load)
   {
     // w += B(−u): no second vector on the test set (the largest set of the estimate, ≈ 16 #Λ).
     const minusU = new Float64Array(u.length);
     for (let i = 0; i < u.length; i++) minusU[i] = -u[i]!;
-    applyTensorOperatorOnce('derivIn', 'mass', set, test, plans, T, minusU, w, true);
+    applyTensorOperatorOnce('derivIn', 'mass', set, test, plans, T, minusU, w, true, work);
   }
   plans.advanceEpoch(0); // the load's spatial plans are no longer needed
   // v = K_Y w in place (w is not needed after), block by block. K_Y is block diagonal, so the blocks
@@ -67,7 +70,8 @@ export function enlargedResidual(
   plans.advanceEpoch(0);
   // r = Bᵀ v on Λ̲, then the initial-trace terms γ0ᵀ u0 − G ũ.
   const r = new Float64Array(enlarged.size);
-  applyTensorOperatorOnce('derivOut', 'mass', test, enlarged, plans, T, v, r);
+  applyTensorOperatorOnce('derivOut', 'mass', test, enlarged, plans, T, v, r, false, work);
+  work.release();
   const G = new InitialTraceOperator(enlarged, plans, T);
   G.addTraced(initialLoadWithLifting(problem, G.traceFibre, plans), r, 1);
   const ut = new Float64Array(enlarged.size);
