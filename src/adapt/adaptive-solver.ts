@@ -13,6 +13,7 @@
 import { InvalidArgumentError, RunInterruptedError, SolverBreakdownError } from '../errors';
 import { BYTES_PER_SYSTEM_UNKNOWN, memoryBudget } from '../validation/index';
 import { DoubleTree } from '../spacetime/double-tree';
+import { FibrePool } from '../spacetime/fibre-pool';
 import { MAX_TEMPORAL_LEVEL } from '../time/index';
 import { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import { SpaceTimeSolution } from '../spacetime/space-time-solution';
@@ -275,7 +276,7 @@ function uniqueFibres(set: DoubleTree): Int32Array[] {
  */
 class AdaptiveRun {
   private readonly v: Validated;
-  private readonly caches: SpatialCaches;
+  private caches!: SpatialCaches;
   private readonly start = performance.now();
   private set!: DoubleTree;
   private u!: Float64Array;
@@ -307,8 +308,13 @@ class AdaptiveRun {
       this.u = new Float64Array(this.set.size);
     }
     if (this.set.size === 0) throw new InvalidArgumentError('the initial index set has no unknowns (the mesh has no free vertex at the sparse-grid levels tried)', { field: 'initialSet' });
-    const plans = new SpatialPlanCache(problem.domain, this.set.pool);
-    this.caches = { plans, inverses: new FibreInverseCache(problem.domain, this.set.pool, plans, opts.inner ?? { kind: 'multigrid' }) };
+    this.newCaches();
+  }
+
+  /** Spatial caches for the fibre pool of the current set. */
+  private newCaches(): void {
+    const plans = new SpatialPlanCache(this.problem.domain, this.set.pool);
+    this.caches = { plans, inverses: new FibreInverseCache(this.problem.domain, this.set.pool, plans, this.opts.inner ?? { kind: 'multigrid' }) };
   }
 
   private elapsed(): number {
@@ -457,8 +463,20 @@ class AdaptiveRun {
     }
     // Prolong u to the refined set (it lies between Λ and Λ̲).
     this.u = prolongCoefficients(embeddingMap(set, next), uSolved, next.size);
-    this.set = next;
+    // The run's pool has interned the fibres of this step's enlarged, test and intermediate sets
+    // too (at 3.9e5 unknowns only 4 % of its bytes belonged to the current set); the next set gets
+    // a pool of its own with its fibres only, in the same order, so u stays valid.
+    this.set = inOwnPool(next);
+    this.newCaches();
   }
+}
+
+/** The same set in a new fibre pool that holds its fibres only (the fibre arrays are shared, not copied). */
+function inOwnPool(set: DoubleTree): DoubleTree {
+  const pool = new FibrePool();
+  const ids = new Int32Array(set.nodeFibre.length);
+  for (let i = 0; i < ids.length; i++) ids[i] = pool.intern(set.pool.get(set.nodeFibre[i]!));
+  return new DoubleTree(set.kind, set.tree, ids, pool);
 }
 
 /** Dörfler marking within each class of candidates (kind[i] = 1 spatial, 0 temporal). */

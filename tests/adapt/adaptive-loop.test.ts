@@ -9,6 +9,7 @@ import {
   MAX_TEMPORAL_LEVEL, type AdaptiveStep,
 } from '../../src/index';
 import { rng } from '../helpers/random';
+import { FibrePool } from '../../src/spacetime/fibre-pool';
 
 const problem1d = () => new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 0.5, initial: () => 1 });
 
@@ -150,9 +151,12 @@ describe('adaptive loop: the algebraic error behind each E is what the step repo
 describe('adaptive loop: caches across steps', () => {
   it('systems built with shared caches equal systems built from scratch (same sequence of sets, ≤ 1e-12 relative)', () => {
     const problem = new HeatProblem({ domain: rectangleDomain(0, 1, 0, 1, 2, 2), T: 0.5, initial: () => 1 });
-    const sets: DoubleTree[] = [];
-    solveAdaptive(problem, { maxSteps: 8, onStep: (_s, sol) => { sets.push(sol.trialSet); } });
-    const pool = sets[0]!.pool;
+    const runSets: DoubleTree[] = [];
+    solveAdaptive(problem, { maxSteps: 8, onStep: (_s, sol) => { runSets.push(sol.trialSet); } });
+    // The run gives each step's set a pool of its own; caches serve one pool, so the same sets are
+    // put into one pool here.
+    const pool = new FibrePool();
+    const sets = runSets.map((s) => DoubleTree.fromNodeFibres(s.kind, s.tree, Array.from(s.nodeFibre, (id) => s.pool.get(id)), pool));
     const plans = new SpatialPlanCache(problem.domain, pool);
     const caches = { plans, inverses: new FibreInverseCache(problem.domain, pool, plans, { kind: 'multigrid' }) };
     const random = rng(7);
@@ -177,6 +181,23 @@ describe('adaptive loop: caches across steps', () => {
     }
     expect(worst).toBeLessThanOrEqual(1e-12);
     expect(sets.length).toBe(8);
+  });
+
+  it("each step's set comes in a new fibre pool that starts with the set's own fibres", () => {
+    // One pool for the whole run kept every fibre of every enlarged, test and intermediate set
+    // (96 % of its bytes at 3.9e5 unknowns were no longer used).
+    const problem = new HeatProblem({ domain: rectangleDomain(0, 1, 0, 1, 2, 2), T: 0.5, initial: () => 1 });
+    const sets: DoubleTree[] = [];
+    solveAdaptive(problem, { maxSteps: 6, onStep: (_s, sol) => { sets.push(sol.trialSet); } });
+    expect(sets.length).toBe(6);
+    for (let k = 1; k < sets.length; k++) {
+      const set = sets[k]!;
+      expect(set.pool).not.toBe(sets[k - 1]!.pool);
+      const own = new Set(set.nodeFibre);
+      // the estimate of step k added fibres after the set's own, which come first
+      expect(Math.max(...own)).toBe(own.size - 1);
+      expect(set.pool.fibres.length).toBeGreaterThan(own.size);
+    }
   });
 
   it('releases plans and inverses of fibres that the last step did not use', () => {
