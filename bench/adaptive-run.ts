@@ -44,4 +44,7 @@ console.log(JSON.stringify({
   component: `${component}.run`, size: final.unknowns, nsPerUnit: (seconds * 1e9) / final.unknowns, steps: h.length, seconds, cpuSeconds: cpu(),
   estimate: final.estimate, rate, stopReason: result.stopReason,
   peakRssBytes: peak, rssBytesPerUnknown: peak / final.unknowns,
+  // glibc's malloc keeps freed blocks of up to 32 MB in the process unless its mmap threshold is
+  // fixed (docs/adaptivity.md §5); the row says which allocator setting the run had.
+  mallocMmapThreshold: process.env.MALLOC_MMAP_THRESHOLD_ ?? 'default',
 }));

@@ -36,7 +36,8 @@ export function compactRows(rowStart: Int32Array, rowEnd: Int32Array, cols: Int3
   const start = new Int32Array(nk);
   const end = new Int32Array(nk);
   const outCols = new Int32Array(m);
-  const index = new Int32Array(m);
+  // 16-bit indices, widened to 32 bits if the table outgrows them.
+  let pair: Uint16Array | Int32Array = new Uint16Array(m);
   const table = new PairTable();
   const bits = new Uint32Array(vals.buffer, vals.byteOffset, 2 * vals.length);
   let q = 0;
@@ -44,17 +45,17 @@ export function compactRows(rowStart: Int32Array, rowEnd: Int32Array, cols: Int3
     start[k] = q;
     for (let t = rowStart[k]!; t < rowEnd[k]!; t++, q++) {
       outCols[q] = cols[t]!;
-      index[q] = table.intern(bits, 4 * t);
+      const id = table.intern(bits, 4 * t);
+      if (id === 0x10000 && pair instanceof Uint16Array) {
+        const wide = new Int32Array(m);
+        wide.set(pair.subarray(0, q));
+        pair = wide;
+      }
+      pair[q] = id;
     }
     end[k] = q;
   }
-  const pairValues = table.values();
-  let pair: Uint16Array | Int32Array = index;
-  if (pairValues.length / 2 <= 0x10000) {
-    pair = new Uint16Array(m);
-    pair.set(index);
-  }
-  return { rowStart: start, rowEnd: end, cols: outCols, pair, pairValues };
+  return { rowStart: start, rowEnd: end, cols: outCols, pair, pairValues: table.values() };
 }
 
 /** 32-bit hash of a pair's four words (multiplicative mixing, common practice). */
