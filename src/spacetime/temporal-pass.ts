@@ -11,40 +11,61 @@
 import { TemporalTree, TreeOperatorPlan, type LevelPart, type TemporalForm } from '../time/index';
 import type { DoubleTree } from './double-tree';
 
-/** Per-vertex temporal fibres of a double tree: node positions and coefficient offsets (slot 0). @internal */
+/**
+ * Per-vertex temporal fibres of a double tree, for the vertices lo ≤ v < hi: node positions and
+ * coefficient offsets (slot 0; for a test set slot 1 follows at offset + the fibre's length).
+ * @internal
+ */
 export interface VertexFibres {
-  start: Int32Array; // by vertex id, length maxVertex + 2
+  lo: number;
+  hi: number;
+  start: Int32Array; // by vertex id − lo, length hi − lo + 2
   node: Int32Array;
-  offset: Int32Array; // offset of (node, vertex) for slot 0; slot 1 adds the fibre length
-  fibreLen: Int32Array;
+  offset: Int32Array; // offset of (node, vertex) for slot 0
 }
 
 /** @internal */
-export function vertexFibres(dt: DoubleTree, vertexBound: number): VertexFibres {
+export function vertexFibres(dt: DoubleTree, vertexBound: number, lo = 0, hi = vertexBound): VertexFibres {
   const { tree } = dt;
   const fpn = dt.kind === 'test' ? 2 : 1;
-  const start = new Int32Array(vertexBound + 2);
+  const whole = lo === 0 && hi >= vertexBound;
+  const start = new Int32Array(hi - lo + 2);
   let total = 0;
   for (let i = 0; i < tree.size; i++) {
     const f = dt.fibre(i);
-    total += f.length;
-    for (let p = 0; p < f.length; p++) start[f[p]! + 2]!++;
+    // Fibres are sorted: the vertices in [lo, hi) are one run of each.
+    const a = whole ? 0 : lowerBound(f, lo);
+    const b = whole ? f.length : lowerBound(f, hi);
+    total += b - a;
+    for (let p = a; p < b; p++) start[f[p]! - lo + 2]!++;
   }
   for (let v = 2; v < start.length; v++) start[v]! += start[v - 1]!;
   const node = new Int32Array(total);
   const offset = new Int32Array(total);
-  const fibreLen = new Int32Array(total);
   for (let i = 0; i < tree.size; i++) {
     const f = dt.fibre(i);
+    const a = whole ? 0 : lowerBound(f, lo);
+    const b = whole ? f.length : lowerBound(f, hi);
     const base = dt.functionOffset[fpn * i]!;
-    for (let p = 0; p < f.length; p++) {
-      const slot = start[f[p]! + 1]!++;
+    for (let p = a; p < b; p++) {
+      const slot = start[f[p]! - lo + 1]!++;
       node[slot] = i;
       offset[slot] = base + p;
-      fibreLen[slot] = f.length;
     }
   }
-  return { start, node, offset, fibreLen };
+  return { lo, hi, start, node, offset };
+}
+
+/** First position of sorted `f` whose value is ≥ v. */
+function lowerBound(f: Int32Array, v: number): number {
+  let a = 0;
+  let b = f.length;
+  while (a < b) {
+    const m = (a + b) >>> 1;
+    if (f[m]! < v) a = m + 1;
+    else b = m;
+  }
+  return a;
 }
 
 function maxVertex(dt: DoubleTree): number {
@@ -85,18 +106,29 @@ export class TemporalPassPlan {
   private readonly work: Float64Array;
   readonly inSize: number;
   readonly outSize: number;
+  private readonly partial: boolean;
 
-  /** @param batchEntries bound on the entries of a batch buffer (tests lower it to force many batches) */
-  constructor(forms: readonly TemporalForm[], input: DoubleTree, output: DoubleTree, part: LevelPart, T: number, batchEntries = BATCH_ENTRIES) {
+  /**
+   * @param opts.vertices only the vertices lo ≤ v < hi (a part of a pass applied once in parts, to
+   *   bound its memory); such a plan writes only its vertices' outputs and never zeroes the rest
+   * @param opts.compiled 1D plans compiled by earlier parts of the same pass, reused by shape
+   * @param opts.batchEntries bound on the entries of a batch buffer (tests lower it to force many batches)
+   */
+  constructor(
+    forms: readonly TemporalForm[], input: DoubleTree, output: DoubleTree, part: LevelPart, T: number,
+    opts: { vertices?: readonly [number, number]; compiled?: CompiledShapes; batchEntries?: number } = {},
+  ) {
     this.forms = forms;
     this.inSize = input.size;
     this.outSize = output.size;
+    this.partial = opts.vertices !== undefined;
+    const batchEntries = opts.batchEntries ?? BATCH_ENTRIES;
     const vb = Math.max(maxVertex(input), maxVertex(output)) + 1;
-    const vin = vertexFibres(input, vb);
-    const vout = vertexFibres(output, vb);
-    const fin = input.kind === 'test' ? 2 : 1;
-    const fout = output.kind === 'test' ? 2 : 1;
-    const byShape = groupByFibreShape(vb, vin, vout);
+    const [lo, hi] = opts.vertices ?? [0, vb];
+    const vin = vertexFibres(input, vb, lo, Math.min(hi, vb));
+    const vout = vertexFibres(output, vb, lo, Math.min(hi, vb));
+    const byShape = groupByFibreShape(vin, vout);
+    const compiled = opts.compiled ?? new CompiledShapes();
     let nGather = 0;
     let nScatter = 0;
     let maxIn = 0;
@@ -104,14 +136,16 @@ export class TemporalPassPlan {
     let maxWork = 0;
     const specs: { vertices: number[]; group: Group }[] = [];
     for (const shape of byShape) {
-      const v0 = shape[0]!;
+      const v0 = shape[0]! - lo;
       const inNodes = vin.node.subarray(vin.start[v0]!, vin.start[v0 + 1]!);
       const outNodes = vout.node.subarray(vout.start[v0]!, vout.start[v0 + 1]!);
-      const inTree = subTree(input.tree, inNodes);
-      const outTree = subTree(output.tree, outNodes);
-      const plans = forms.map((f) => new TreeOperatorPlan(f, inTree, outTree, part, T));
-      const inFunctions = inTree.functionCount;
-      const outFunctions = outTree.functionCount;
+      const plans = compiled.get(inNodes, outNodes, () => {
+        const inTree = subTree(input.tree, inNodes);
+        const outTree = subTree(output.tree, outNodes);
+        return forms.map((f) => new TreeOperatorPlan(f, inTree, outTree, part, T));
+      });
+      const inFunctions = plans[0]!.inTree.functionCount;
+      const outFunctions = plans[0]!.outTree.functionCount;
       // Vertices of one shape run in batches of bounded size, so that the batch buffers stay small
       // (one shape often holds most vertices; sized to it, the buffers took ≈ 0.2 KB per unknown).
       let widest = Math.max(inFunctions, outFunctions);
@@ -133,8 +167,8 @@ export class TemporalPassPlan {
     this.gather = new Int32Array(nGather);
     this.scatter = new Int32Array(nScatter);
     for (const { vertices, group } of specs) {
-      fillOffsets(this.gather, group.gatherStart, vertices, vin, fin);
-      fillOffsets(this.scatter, group.scatterStart, vertices, vout, fout);
+      fillOffsets(this.gather, group.gatherStart, vertices, vin, input);
+      fillOffsets(this.scatter, group.scatterStart, vertices, vout, output);
     }
     this.bufIn = new Float64Array(maxIn);
     this.bufOut = new Float64Array(maxOut);
@@ -147,9 +181,9 @@ export class TemporalPassPlan {
     return this.groups.length;
   }
 
-  /** ys[f] = (C_f ⊗ I) x for every form f (overwrites each ys[f]). */
+  /** ys[f] = (C_f ⊗ I) x for every form f (overwrites each ys[f]; a plan of some vertices only overwrites theirs). */
   applyEach(x: Float64Array, ys: Float64Array[]): void {
-    for (const y of ys) y.fill(0, 0, this.outSize);
+    if (!this.partial) for (const y of ys) y.fill(0, 0, this.outSize);
     const { gather, scatter, bufIn, bufOut, work } = this;
     for (const g of this.groups) {
       const nIn = g.inFunctions * g.batch;
@@ -165,7 +199,7 @@ export class TemporalPassPlan {
 
   /** y (+)= Σ_f (C_f ⊗ I) xs[f]; overwrites y unless `accumulate`. */
   applySummed(xs: Float64Array[], y: Float64Array, accumulate: boolean): void {
-    if (!accumulate) y.fill(0, 0, this.outSize);
+    if (!accumulate && !this.partial) y.fill(0, 0, this.outSize);
     const { gather, scatter, bufIn, bufOut, bufAcc, work } = this;
     for (const g of this.groups) {
       const nIn = g.inFunctions * g.batch;
@@ -182,20 +216,56 @@ export class TemporalPassPlan {
 }
 
 /**
+ * 1D plans by the shape of a pair of temporal fibres (node positions in the input and output
+ * trees), so that the parts of a pass applied in parts compile each shape once. @internal
+ */
+export class CompiledShapes {
+  private readonly byHash = new Map<number, { inNodes: Int32Array; outNodes: Int32Array; plans: TreeOperatorPlan[] }[]>();
+
+  private count = 0;
+
+  /** Number of distinct shapes compiled. */
+  get size(): number {
+    return this.count;
+  }
+
+  get(inNodes: Int32Array, outNodes: Int32Array, make: () => TreeOperatorPlan[]): TreeOperatorPlan[] {
+    let h = 0x811c9dc5 ^ inNodes.length;
+    for (let k = 0; k < inNodes.length; k++) h = Math.imul(h ^ inNodes[k]!, 0x01000193);
+    h = Math.imul(h ^ 0x5bd1e995 ^ outNodes.length, 0x01000193);
+    for (let k = 0; k < outNodes.length; k++) h = Math.imul(h ^ outNodes[k]!, 0x01000193);
+    let bucket = this.byHash.get(h);
+    if (bucket === undefined) this.byHash.set(h, (bucket = []));
+    for (const e of bucket) if (sameInts(e.inNodes, inNodes) && sameInts(e.outNodes, outNodes)) return e.plans;
+    const plans = make();
+    // copies: the node arrays given are views into a part's temporary arrays
+    bucket.push({ inNodes: inNodes.slice(), outNodes: outNodes.slice(), plans });
+    this.count++;
+    return plans;
+  }
+}
+
+function sameInts(a: Int32Array, b: Int32Array): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
+}
+
+/**
  * The vertices with non-empty input and output fibres, grouped by the shape of their pair of
  * temporal fibres (the node positions of both), in order of first occurrence. Shapes are hashed
  * (32-bit, over both position lists) and compared in full on a hash match, so equal hashes of
  * different shapes stay apart (`hash` is replaceable so that tests can force collisions). @internal
  */
-export function groupByFibreShape(vb: number, vin: VertexFibres, vout: VertexFibres, hash: (v: number) => number = (v) => shapeHash(vin, vout, v)): number[][] {
+export function groupByFibreShape(vin: VertexFibres, vout: VertexFibres, hash: (v: number) => number = (v) => shapeHash(vin, vout, v)): number[][] {
   const groups: number[][] = [];
   const firstOfHash = new Map<number, number>(); // hash → first group with it
   const nextSameHash: number[] = []; // group → next group with the same hash, or -1
   const sameShape = (v: number, w: number): boolean =>
     sameRun(vin, v, w) && sameRun(vout, v, w);
-  for (let v = 0; v < vb; v++) {
-    const a0 = vin.start[v]!, a1 = vin.start[v + 1]!;
-    const b0 = vout.start[v]!, b1 = vout.start[v + 1]!;
+  for (let v = vin.lo; v < vin.hi; v++) {
+    const a0 = vin.start[v - vin.lo]!, a1 = vin.start[v - vin.lo + 1]!;
+    const b0 = vout.start[v - vout.lo]!, b1 = vout.start[v - vout.lo + 1]!;
     if (a0 === a1 || b0 === b1) continue;
     const h = hash(v);
     let g = firstOfHash.get(h);
@@ -218,8 +288,8 @@ export function groupByFibreShape(vb: number, vin: VertexFibres, vout: VertexFib
 
 /** 32-bit FNV-style hash of vertex v's pair of temporal fibres (lengths and node positions). */
 function shapeHash(vin: VertexFibres, vout: VertexFibres, v: number): number {
-  const a0 = vin.start[v]!, a1 = vin.start[v + 1]!;
-  const b0 = vout.start[v]!, b1 = vout.start[v + 1]!;
+  const a0 = vin.start[v - vin.lo]!, a1 = vin.start[v - vin.lo + 1]!;
+  const b0 = vout.start[v - vout.lo]!, b1 = vout.start[v - vout.lo + 1]!;
   let h = 0x811c9dc5 ^ (a1 - a0);
   for (let s = a0; s < a1; s++) h = Math.imul(h ^ vin.node[s]!, 0x01000193);
   h = Math.imul(h ^ 0x5bd1e995 ^ (b1 - b0), 0x01000193);
@@ -229,9 +299,9 @@ function shapeHash(vin: VertexFibres, vout: VertexFibres, v: number): number {
 
 /** Whether vertices v and w have the same temporal fibre (node positions) in `vf`. */
 function sameRun(vf: VertexFibres, v: number, w: number): boolean {
-  const a0 = vf.start[v]!, n = vf.start[v + 1]! - a0;
-  const b0 = vf.start[w]!;
-  if (vf.start[w + 1]! - b0 !== n) return false;
+  const a0 = vf.start[v - vf.lo]!, n = vf.start[v - vf.lo + 1]! - a0;
+  const b0 = vf.start[w - vf.lo]!;
+  if (vf.start[w - vf.lo + 1]! - b0 !== n) return false;
   for (let k = 0; k < n; k++) if (vf.node[a0 + k] !== vf.node[b0 + k]) return false;
   return true;
 }
@@ -248,16 +318,22 @@ function subTree(tree: TemporalTree, nodes: Int32Array): TemporalTree {
 }
 
 /** Offsets of (temporal function j, vertex b) in batch layout j * batch + b. */
-function fillOffsets(dst: Int32Array, start: number, vertices: number[], vf: VertexFibres, fpn: number): void {
+function fillOffsets(dst: Int32Array, start: number, vertices: number[], vf: VertexFibres, dt: DoubleTree): void {
   const batch = vertices.length;
+  const fpn = dt.kind === 'test' ? 2 : 1;
+  const fo = dt.functionOffset;
   for (let b = 0; b < batch; b++) {
     const v = vertices[b]!;
-    const s0 = vf.start[v]!;
-    const s1 = vf.start[v + 1]!;
+    const s0 = vf.start[v - vf.lo]!;
+    const s1 = vf.start[v - vf.lo + 1]!;
     for (let s = s0; s < s1; s++) {
       const j = (s - s0) * fpn;
       dst[start + j * batch + b] = vf.offset[s]!;
-      if (fpn === 2) dst[start + (j + 1) * batch + b] = vf.offset[s]! + vf.fibreLen[s]!;
+      if (fpn === 2) {
+        // slot 1 of a test node follows slot 0 after the fibre's length
+        const i = vf.node[s]!;
+        dst[start + (j + 1) * batch + b] = vf.offset[s]! + fo[2 * i + 1]! - fo[2 * i]!;
+      }
     }
   }
 }

@@ -19,14 +19,14 @@
  * Both intermediate sets are double trees whose temporal fibres are trees,
  * by the same ancestor argument.
  */
-import type { TemporalForm } from '../time/index';
+import type { LevelPart, TemporalForm } from '../time/index';
 import { checkNotAliased, type LinearOperator } from '../numerics/linear-operator';
 import { WorkVectors } from '../numerics/work-vectors';
 import { DoubleTree } from './double-tree';
 import { overlapUnionFibres } from './overlap-unions';
 import { SpatialPassPlan } from './spatial-pass';
 import type { SpatialPlanCache } from './spatial-plan-cache';
-import { TemporalPassPlan } from './temporal-pass';
+import { CompiledShapes, TemporalPassPlan } from './temporal-pass';
 
 /**
  * Reusable plan for C_M ⊗ M_x + C_A ⊗ A_x from one double tree to another (module comment: why it is exact).
@@ -119,6 +119,7 @@ export function applyTensorOperatorOnce(
   timeFormWithMass: TemporalForm, timeFormWithStiffness: TemporalForm,
   input: DoubleTree, output: DoubleTree, cache: SpatialPlanCache, T: number,
   x: Float64Array, y: Float64Array, accumulate = false, work: WorkVectors = new WorkVectors(),
+  partCoefficients = PART_COEFFICIENTS,
 ): void {
   checkNotAliased(x, y, 'applyTensorOperatorOnce');
   const forms = [timeFormWithMass, timeFormWithStiffness] as const;
@@ -129,7 +130,9 @@ export function applyTensorOperatorOnce(
     const theta = timeFirstSet(input, output);
     const zM = work.get(0, theta.size);
     const zA = work.get(1, theta.size);
-    new TemporalPassPlan(forms, input, theta, 'upper', T).applyEach(x, [zM, zA]);
+    zM.fill(0, 0, theta.size);
+    zA.fill(0, 0, theta.size);
+    inParts(forms, input, theta, 'upper', T, partCoefficients, (plan) => plan.applyEach(x, [zM, zA]));
     new SpatialPassPlan(theta, output, cache, true).applySum(zM, zA, y, accumulate);
   }
   {
@@ -138,8 +141,61 @@ export function applyTensorOperatorOnce(
     const wM = work.get(0, sigma.size);
     const wA = work.get(1, sigma.size);
     new SpatialPassPlan(input, sigma, cache, true).applySplit(x, wM, wA);
-    new TemporalPassPlan(forms, sigma, output, 'lower', T).applySummed([wM, wA], y, true);
+    inParts(forms, sigma, output, 'lower', T, partCoefficients, (plan) => plan.applySummed([wM, wA], y, true));
   }
+}
+
+/**
+ * Coefficients (input plus output) of one part of a one-shot time-direction pass: 2²⁰, so that the
+ * part's plan and the temporary arrays that build it take a few MB, not several bytes per
+ * coefficient of the whole sets (those temporaries set the estimator's peak, docs/adaptivity.md §5).
+ */
+const PART_COEFFICIENTS = 1 << 20;
+
+/**
+ * Builds and applies a time-direction pass once, in parts over ranges of spatial vertices (the
+ * pass is independent per vertex), each part with its own small plan; shapes are compiled once
+ * for all parts. The parts write disjoint outputs and never zero them.
+ */
+function inParts(
+  forms: readonly TemporalForm[], input: DoubleTree, output: DoubleTree, part: LevelPart, T: number,
+  partCoefficients: number, apply: (plan: TemporalPassPlan) => void,
+): void {
+  const bounds = vertexRanges(input, output, partCoefficients);
+  const compiled = new CompiledShapes();
+  for (let k = 0; k + 1 < bounds.length; k++) {
+    apply(new TemporalPassPlan(forms, input, output, part, T, { vertices: [bounds[k]!, bounds[k + 1]!], compiled }));
+  }
+}
+
+/** Vertex ids 0 = b_0 < b_1 < … < b_m = (largest vertex + 1) such that each range holds about `budget` coefficients of both sets. */
+function vertexRanges(a: DoubleTree, b: DoubleTree, budget: number): number[] {
+  let vb = 0;
+  for (const dt of [a, b]) {
+    for (let i = 0; i < dt.tree.size; i++) {
+      const f = dt.fibre(i);
+      if (f.length > 0) vb = Math.max(vb, f[f.length - 1]! + 1);
+    }
+  }
+  const count = new Int32Array(vb);
+  for (const dt of [a, b]) {
+    const fpn = dt.kind === 'test' ? 2 : 1;
+    for (let i = 0; i < dt.tree.size; i++) {
+      const f = dt.fibre(i);
+      for (let p = 0; p < f.length; p++) count[f[p]!]! += fpn;
+    }
+  }
+  const bounds = [0];
+  let acc = 0;
+  for (let v = 0; v < vb; v++) {
+    acc += count[v]!;
+    if (acc >= budget && v + 1 < vb) {
+      bounds.push(v + 1);
+      acc = 0;
+    }
+  }
+  bounds.push(vb);
+  return bounds;
 }
 
 /** Θ of the module comment: the temporal projection of Λ_out with the overlapping input fibres. */
