@@ -25,6 +25,7 @@ import { CoarseSolver } from './coarse-solver';
 import { buildHierarchy, copyPairedRows, snapshotReserve, type LevelHierarchy, type PairedCsr } from './galerkin-hierarchy';
 import { validateLeafMesh } from './validate-leaf-mesh';
 import { WorkVectors } from '../../numerics/work-vectors';
+import { checkOptions } from '../../validation/index';
 
 // Slots of the cycle's work vectors.
 const RES = 0;
@@ -36,7 +37,6 @@ const EPRE = 5;
 const JTMP = 6;
 /** Number of work-vector slots a cycle uses (0 … CYCLE_SLOTS − 1); code around a cycle may use the next ones. @internal */
 export const CYCLE_SLOTS = 7;
-import { checkOptions } from '../../validation/index';
 
 /**
  * Options of {@link MultilevelPreconditioner}.
