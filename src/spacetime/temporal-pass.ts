@@ -124,9 +124,10 @@ export class TemporalPassPlan {
     this.partial = opts.vertices !== undefined;
     const batchEntries = opts.batchEntries ?? BATCH_ENTRIES;
     const vb = Math.max(maxVertex(input), maxVertex(output)) + 1;
-    const [lo, hi] = opts.vertices ?? [0, vb];
-    const vin = vertexFibres(input, vb, lo, Math.min(hi, vb));
-    const vout = vertexFibres(output, vb, lo, Math.min(hi, vb));
+    const lo = Math.max(0, opts.vertices?.[0] ?? 0);
+    const hi = Math.max(lo, Math.min(opts.vertices?.[1] ?? vb, vb));
+    const vin = vertexFibres(input, vb, lo, hi);
+    const vout = vertexFibres(output, vb, lo, hi);
     const byShape = groupByFibreShape(vin, vout);
     const compiled = opts.compiled ?? new CompiledShapes();
     let nGather = 0;
