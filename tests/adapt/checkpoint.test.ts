@@ -80,7 +80,8 @@ describe('memory stop', () => {
     // a budget that the first steps fit and a later one does not
     const k = 5;
     const h = unlimited.history;
-    const budget = adaptiveStepBytes(h[k]!.unknowns, h[k]!.enlargedUnknowns) * 1.01;
+    const dim = plate().domain.dim;
+    const budget = adaptiveStepBytes(h[k]!.unknowns, h[k]!.enlargedUnknowns, dim) * 1.01;
     const previous = setMemoryBudget(budget);
     let limited;
     try {
@@ -97,7 +98,7 @@ describe('memory stop', () => {
     limited.history.forEach((s, i) => expect(s.unknowns).toBe(h[i]!.unknowns));
     const last = limited.history[n - 1]!;
     const nextUnknowns = h[n]!.unknowns;
-    expect(adaptiveStepBytes(nextUnknowns, (nextUnknowns * last.enlargedUnknowns) / last.unknowns)).toBeGreaterThan(budget);
+    expect(adaptiveStepBytes(nextUnknowns, (nextUnknowns * last.enlargedUnknowns) / last.unknowns, dim)).toBeGreaterThan(budget);
     expect(limited.solution.trialSet.size).toBe(last.unknowns);
   });
 });
