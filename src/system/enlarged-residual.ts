@@ -46,6 +46,9 @@ export function enlargedResidual(
     const minusU = new Float64Array(u.length);
     for (let i = 0; i < u.length; i++) minusU[i] = -u[i]!;
     applyTensorOperatorOnce('derivIn', 'mass', set, test, plans, T, minusU, w, true, work);
+    // B̲ᵀ needs larger scratch: drop B̲'s now, so that it can be collected during K̲_Y instead of
+    // sitting next to B̲ᵀ's.
+    work.release();
   }
   plans.advanceEpoch(0); // the load's spatial plans are no longer needed
   // v = K_Y w in place (w is not needed after), block by block. K_Y is block diagonal, so the blocks
