@@ -1,9 +1,10 @@
 /**
  * The adaptive loop SOLVE → ESTIMATE → MARK → REFINE (docs/adaptivity.md), with nested iteration:
- *   - one pair of spatial caches (operator plans with their leaf meshes, V-cycle hierarchies) for
- *     the run's fibre pool, shared by the system's B, Bᵀ, preconditioner and right-hand side within
- *     a step and released before the estimate (keeping them for the next step saved no time and
- *     held ≈ 1.2 KB per unknown through the estimate, docs/adaptivity.md §5);
+ *   - each step's set in a fibre pool of its own, with one pair of spatial caches (operator plans
+ *     with their leaf meshes, V-cycle hierarchies) for it, shared by the system's B, Bᵀ,
+ *     preconditioner and right-hand side within the step and released before the estimate (keeping
+ *     them for the next step saved no time and held ≈ 1.2 KB per unknown through the estimate,
+ *     docs/adaptivity.md §5);
  *   - each PCG starts from the previous solution (zero on new indices) and stops on an estimate of
  *     its algebraic error in the S-energy norm, compared with a fraction of the estimator E; when the
  *     fresh E shows the solve was not accurate enough, PCG resumes before E is reported, so no step
