@@ -72,7 +72,8 @@ function hashInts(a: Int32Array): number {
   return h >>> 0;
 }
 
-function sameInts(a: Int32Array, b: Int32Array): boolean {
+/** Whether two Int32Arrays hold the same values. @internal */
+export function sameInts(a: Int32Array, b: Int32Array): boolean {
   if (a.length !== b.length) return false;
   for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
   return true;

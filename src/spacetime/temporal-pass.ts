@@ -10,6 +10,7 @@
  */
 import { TemporalTree, TreeOperatorPlan, type LevelPart, type TemporalForm } from '../time/index';
 import type { DoubleTree } from './double-tree';
+import { sameInts } from './fibre-pool';
 
 /**
  * Per-vertex temporal fibres of a double tree, for the vertices lo ≤ v < hi: node positions and
@@ -140,7 +141,7 @@ export class TemporalPassPlan {
       const v0 = shape[0]! - lo;
       const inNodes = vin.node.subarray(vin.start[v0]!, vin.start[v0 + 1]!);
       const outNodes = vout.node.subarray(vout.start[v0]!, vout.start[v0 + 1]!);
-      const plans = compiled.get(inNodes, outNodes, () => {
+      const plans = compiled.get(shapeHash(vin, vout, shape[0]!), inNodes, outNodes, () => {
         const inTree = subTree(input.tree, inNodes);
         const outTree = subTree(output.tree, outNodes);
         return forms.map((f) => new TreeOperatorPlan(f, inTree, outTree, part, T));
@@ -230,11 +231,8 @@ export class CompiledShapes {
     return this.count;
   }
 
-  get(inNodes: Int32Array, outNodes: Int32Array, make: () => TreeOperatorPlan[]): TreeOperatorPlan[] {
-    let h = 0x811c9dc5 ^ inNodes.length;
-    for (let k = 0; k < inNodes.length; k++) h = Math.imul(h ^ inNodes[k]!, 0x01000193);
-    h = Math.imul(h ^ 0x5bd1e995 ^ outNodes.length, 0x01000193);
-    for (let k = 0; k < outNodes.length; k++) h = Math.imul(h ^ outNodes[k]!, 0x01000193);
+  /** The plans of the shape (inNodes, outNodes) whose hash is `h` (shapeHash of a vertex with it), made on first use. */
+  get(h: number, inNodes: Int32Array, outNodes: Int32Array, make: () => TreeOperatorPlan[]): TreeOperatorPlan[] {
     let bucket = this.byHash.get(h);
     if (bucket === undefined) this.byHash.set(h, (bucket = []));
     for (const e of bucket) if (sameInts(e.inNodes, inNodes) && sameInts(e.outNodes, outNodes)) return e.plans;
@@ -244,12 +242,6 @@ export class CompiledShapes {
     this.count++;
     return plans;
   }
-}
-
-function sameInts(a: Int32Array, b: Int32Array): boolean {
-  if (a.length !== b.length) return false;
-  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
-  return true;
 }
 
 /**
