@@ -75,6 +75,9 @@ export function decodeCheckpoint(bytes: Uint8Array, problem: HeatProblem, field:
     for (const k of STEP_NUMBERS) if (typeof s[k] !== 'number' || !Number.isFinite(s[k] as number)) throw bad(`adaptive.history[${i}].${k}`, 'a finite number');
     const t = s.timings as Record<string, unknown> | undefined;
     if (!t || typeof t !== 'object' || !['setup', 'solve', 'estimate', 'refine'].every((k) => typeof t[k] === 'number')) throw bad(`adaptive.history[${i}].timings`, 'setup, solve, estimate, refine seconds');
+    // Checkpoints written before the field existed have no rise checks recorded.
+    if (s.riseChecks === undefined) s.riseChecks = 0;
+    else if (typeof s.riseChecks !== 'number' || !Number.isInteger(s.riseChecks) || s.riseChecks < 0) throw bad(`adaptive.history[${i}].riseChecks`, 'a count ≥ 0');
     if (s.step !== i) throw bad(`adaptive.history[${i}].step`, `step number ${i}`);
     return s as unknown as AdaptiveStep;
   });

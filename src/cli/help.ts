@@ -71,7 +71,7 @@ problem file fields (JSON object):
   maxSteps    step budget (default ${PROBLEM_DEFAULTS.maxSteps})
               (adaptive runs also stop on "memory", the next step's estimated
               memory, and on "resolution": the next set would need time scales
-              below T·2^-49, where the estimator is unreliable; initial data that
+              below T·2^-50, where the estimator is unreliable; initial data that
               violate the boundary values with T ≫ L²/κ get there early: solve
               over a few diffusion times L²/κ and restart from the end state)
   bulk        Dörfler parameter θ in (0, 1) (default 0.5 in 1D, 0.7 in 2D)
