@@ -28,7 +28,7 @@ const result = solveAdaptive(problem, {
     const rss = process.resourceUsage().maxRSS * 1024;
     console.log(JSON.stringify({
       component: `${component}.step`, size: s.unknowns, nsPerUnit: (s.seconds * 1e9) / s.unknowns, step: s.step, estimate: s.estimate,
-      pcgIterations: s.pcgIterations, enlarged: s.enlargedUnknowns, seconds: s.seconds,
+      pcgIterations: s.pcgIterations, riseChecks: s.riseChecks, enlarged: s.enlargedUnknowns, seconds: s.seconds,
       setupShare: t.setup / s.seconds, solveShare: t.solve / s.seconds, estimateShare: t.estimate / s.seconds, refineShare: t.refine / s.seconds,
       rssBytesPerUnknown: rss / s.unknowns, elapsed: (performance.now() - t0) / 1000, cpuSeconds: cpu(),
     }));
