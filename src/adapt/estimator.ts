@@ -4,6 +4,11 @@
  *   r = b̲ − S̲ ũ  on Λ̲,    η_i = |r_i| / √d_i  for i = (λ, ν) ∈ Λ̲ \ Λ,
  *   d_i = (A_x)_{νν} + α_λ² (M_x)_{νν}² / (A_x)_{νν}   (X-norm² of σ_λ ⊗ φ_ν up to constants),
  * and E = (Σ η_i²)^{1/2}. Under the saturation assumption E is reliable and efficient.
+ *
+ * The indicators weigh the residual that an algebraic error of u leaves on the candidates far more
+ * than that error's S-energy norm (about 20× measured at κT/L² = 5·10⁻⁴: an algebraic error of
+ * 0.05 E doubled E), so u should be solved well below E; solveAdaptive re-solves whenever E rises
+ * (docs/adaptivity.md §4).
  */
 import { SolverBreakdownError } from '../errors';
 import { derivativeNorms } from '../time/index';
@@ -30,7 +35,8 @@ export interface ResidualIndicators {
 
 /**
  * Squared indicators on the enlarged set of `enlarged` (a system built on Λ̲ ⊇ Λ)
- * for the solution `u` on Λ.
+ * for the solution `u` on Λ. Solve u well below the E you expect: the indicators see its
+ * algebraic error many times magnified (docs/adaptivity.md §4).
  *
  * @example
  * ```ts
@@ -64,7 +70,9 @@ export function residualIndicators(enlarged: SpaceTimeSystem, set: DoubleTree, u
 /**
  * The estimator on Λ̲ = `enlarged` for the solution `u` on `set` without building a system on Λ̲:
  * the residual costs about one application of S there and keeps nothing afterwards (see
- * docs/adaptivity.md §3). This is what {@link solveAdaptive} uses.
+ * docs/adaptivity.md §3). This is what {@link solveAdaptive} uses. As for
+ * {@link residualIndicators}, solve u well below the E you expect: an algebraic error of a few
+ * hundredths of E (S-energy norm) was measured to double E (docs/adaptivity.md §4).
  *
  * @example
  * ```ts
