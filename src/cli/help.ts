@@ -32,7 +32,7 @@ except its insulated part (zero flux) and its boundary parts, u(0) = u0, as
 described by PROBLEM.json.
 
   --json        print exactly one JSON document on stdout:
-                {"steps":[{"dofs","estimate","iterations","seconds"}…],
+                {"steps":[{"dofs","estimate","iterations","riseChecks","seconds"}…],
                  "probes":[{"t","x","y","value"}…], "rate": r}
                 (rate: least-squares slope of −log E against log N over the
                 second half of the steps; y is null in 1D)

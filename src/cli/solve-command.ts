@@ -68,7 +68,7 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
   let run: RunResult;
   try {
     run = runProblem(built, (s, i) => {
-      if (!opts.quiet) progress(`step ${i}: ${s.dofs} dofs, estimate ${s.estimate.toExponential(3)}, ${s.iterations} PCG iterations, ${s.seconds.toFixed(2)} s`);
+      if (!opts.quiet) progress(`step ${i}: ${s.dofs} dofs, estimate ${s.estimate.toExponential(3)}, ${s.iterations} PCG iterations${s.riseChecks > 0 ? ` (re-solved ${s.riseChecks === 1 ? 'once' : 'twice'} after E rose)` : ''}, ${s.seconds.toFixed(2)} s`);
     }, {
       ...(opts.checkpoint !== undefined ? { checkpoint: checkpointToFile(opts.checkpoint) } : {}),
       ...(resume !== undefined ? { resume } : {}),

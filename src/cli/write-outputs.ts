@@ -36,7 +36,7 @@ export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): st
     written.push(join(dir, name));
   };
   save('history.json', JSON.stringify({ steps: run.steps, rate: run.rate, stopReason: run.stopReason }, null, 1) + '\n');
-  save('history.csv', [csvLine(['step', 'dofs', 'estimate', 'iterations', 'seconds']), ...run.steps.map((s, i) => csvLine([i, s.dofs, s.estimate, s.iterations, s.seconds]))].join('\n') + '\n');
+  save('history.csv', [csvLine(['step', 'dofs', 'estimate', 'iterations', 'riseChecks', 'seconds']), ...run.steps.map((s, i) => csvLine([i, s.dofs, s.estimate, s.iterations, s.riseChecks, s.seconds]))].join('\n') + '\n');
   save('probes.csv', [csvLine(['t', 'x', 'y', 'value']), ...run.probes.map((p) => csvLine([p.t, p.x, p.y, p.value]))].join('\n') + '\n');
   const times = sliceTimes(spec);
   const name = spec.title ?? 'u';

@@ -17,6 +17,11 @@ export interface RunStep {
   estimate: number;
   /** PCG iterations of the step. */
   iterations: number;
+  /**
+   * Tighter re-solves because E came out above the previous step's (adaptive runs; 0 otherwise).
+   * A step reported above its predecessor with riseChecks > 0 rose genuinely, not by the solve.
+   */
+  riseChecks: number;
   /** Wall time of the step in seconds. */
   seconds: number;
 }
@@ -85,7 +90,7 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
   let solution: SpaceTimeSolution;
   let set: DoubleTree;
   let stopReason: string;
-  const toStep = (h: AdaptiveStep): RunStep => ({ dofs: h.unknowns, estimate: h.estimate, iterations: h.pcgIterations, seconds: h.seconds });
+  const toStep = (h: AdaptiveStep): RunStep => ({ dofs: h.unknowns, estimate: h.estimate, iterations: h.pcgIterations, riseChecks: h.riseChecks, seconds: h.seconds });
   if (spec.strategy !== 'adaptive' && (adaptive.checkpoint !== undefined || adaptive.resume !== undefined)) {
     throw new InvalidArgumentError(`checkpoints need the adaptive strategy; this problem's strategy is '${spec.strategy}'`, { field: 'strategy', expected: "'adaptive'", received: spec.strategy });
   }
@@ -122,7 +127,7 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
       const t0 = performance.now();
       const solved = new SpaceTimeSystem(problem, next).solve({ relTol: 1e-8, maxIterations: 500 });
       const estimate = residualIndicators(new SpaceTimeSystem(problem, enlargeDoubleTree(domain, next)), next, solved.pcg.solution).estimate;
-      const s = { dofs: next.size, estimate, iterations: solved.pcg.iterations, seconds: (performance.now() - t0) / 1000 };
+      const s = { dofs: next.size, estimate, iterations: solved.pcg.iterations, riseChecks: 0, seconds: (performance.now() - t0) / 1000 };
       steps.push(s);
       onStep?.(s, steps.length - 1);
       last = { solution: solved.solution, set: next };

@@ -29,10 +29,10 @@ describe('chronomesh solve', () => {
     expect(r.status, r.stderr).toBe(0);
     const lines = r.stdout.trimEnd().split('\n');
     expect(lines.length).toBe(1);
-    const doc = JSON.parse(lines[0]!) as { steps: { dofs: number; estimate: number; iterations: number; seconds: number }[]; probes: { t: number; x: number; y: number | null; value: number }[]; rate: number };
+    const doc = JSON.parse(lines[0]!) as { steps: { dofs: number; estimate: number; iterations: number; riseChecks: number; seconds: number }[]; probes: { t: number; x: number; y: number | null; value: number }[]; rate: number };
     expect(Object.keys(doc)).toEqual(['steps', 'probes', 'rate']);
     expect(doc.steps.length).toBeGreaterThan(3);
-    for (const s of doc.steps) expect(Object.keys(s)).toEqual(['dofs', 'estimate', 'iterations', 'seconds']);
+    for (const s of doc.steps) expect(Object.keys(s)).toEqual(['dofs', 'estimate', 'iterations', 'riseChecks', 'seconds']);
     expect(doc.steps[doc.steps.length - 1]!.dofs).toBeLessThanOrEqual(3000);
     // One progress line per step on stderr.
     expect(r.stderr.trimEnd().split('\n').filter((l) => /^step \d+: \d+ dofs/.test(l)).length).toBe(doc.steps.length);
@@ -68,7 +68,7 @@ describe('chronomesh solve', () => {
     expect(pvd).toContain('timestep="0.02"');
     expect(pvd).toContain('file="slice-0001.vtu"');
     const hist = readFileSync(join(out, 'history.csv'), 'utf8').trim().split('\n');
-    expect(hist[0]).toBe('step,dofs,estimate,iterations,seconds');
+    expect(hist[0]).toBe('step,dofs,estimate,iterations,riseChecks,seconds');
   }, 300000);
 });
 
