@@ -7,7 +7,9 @@ import { describe, expect, it } from 'vitest';
 import {
   CorruptFileError, HeatProblem, InvalidArgumentError, adaptiveStepBytes, decodeSolution, encodeSolution, intervalDomain,
   rectangleDomain, setMemoryBudget, solveAdaptive, solveAdaptiveAsync,
+  type AdaptiveStep,
 } from '../../src/index';
+import { decodeCheckpoint, encodeCheckpoint } from '../../src/adapt/checkpoint';
 
 const rod = (T = 0.5) => new HeatProblem({ domain: intervalDomain(0, 1, 2), T, initial: (x) => (x < 0.3 ? 1 : 0) });
 const plate = () => new HeatProblem({ domain: rectangleDomain(0, 1, 0, 1, 2, 2), T: 0.5, initial: () => 1, source: (t, x) => x * t });
@@ -71,6 +73,20 @@ describe('checkpoints', () => {
     expect(() => solveAdaptive(rod(), { resume: bad })).toThrow(CorruptFileError);
     expect(() => solveAdaptive(rod(), { resume: [1, 2, 3] as never })).toThrow(/resume must be the bytes/);
     expect(() => solveAdaptive(rod(), { checkpoint: 'file.bin' as never })).toThrow(/checkpoint/);
+  });
+});
+
+describe('checkpoint history fields', () => {
+  it('a history without riseChecks (written before the field existed) reads as 0 checks; a malformed count is refused naming the field', () => {
+    const problem = rod();
+    const run = solveAdaptive(problem, { maxSteps: 3 });
+    const history = run.history.map((h) => ({ ...h }));
+    const old = history.map(({ riseChecks: _drop, ...rest }) => rest) as unknown as AdaptiveStep[];
+    const fromOld = decodeCheckpoint(encodeCheckpoint(problem, { solution: run.solution, next: null, history: old, stopReason: 'steps' }), problem, 'resume');
+    expect(fromOld.history.map((h) => h.riseChecks)).toEqual([0, 0, 0]);
+    const bad = history.map((h, i) => (i === 1 ? { ...h, riseChecks: -1 } : h));
+    expect(() => decodeCheckpoint(encodeCheckpoint(problem, { solution: run.solution, next: null, history: bad, stopReason: 'steps' }), problem, 'resume'))
+      .toThrow(/adaptive\.history\[1\]\.riseChecks/);
   });
 });
 
