@@ -18,7 +18,7 @@ import {
   HeatProblem, intervalDomain, lShapeDomain, rectangleDomain, solveAdaptive, spaceTimeErrors, squareWithHoleDomain, triangulatedDomain,
   type KnownSolution, type SpatialDomain,
 } from '../../src/index';
-import { unitInterval, unitSquare } from '../helpers/heat-exact';
+import { heatExact1D, unitInterval, unitSquare } from '../helpers/heat-exact';
 
 interface Case {
   name: string;
@@ -116,4 +116,31 @@ describe('estimator reliability on coarse initial meshes', () => {
     const ref = unitSquare.value(0.02, 0.5, 0.5);
     expect(Math.abs(r.solution.evaluate(0.02, [0.5, 0.5])[0]! - ref)).toBeLessThan(0.06);
   });
+});
+
+describe('estimator reliability over long horizons (many diffusion times)', () => {
+  // u0 ≡ 1 against u = 0 starts with a layer of width √(κt): with T ≫ h0²/κ it lives far below the
+  // sparse grid's temporal levels, where candidates one level deeper cannot see it. Before the
+  // graded start (docs/adaptivity.md §2) the first step reported E = 6.8e-3 for κT = 1e4 on (0, 1)
+  // in two cells, against a true error of 0.71 (err/E = 105), and err/E was 7.4 at κT = 50.
+  // Reference: the same series / method-of-images solution (Carslaw & Jaeger §3.3).
+  it.each([
+    ['(0, 1), two cells, κT = 1e4', () => intervalDomain(0, 1, 2), 1e4, unitInterval],
+    ['(0, 1), two cells, κ = 4, T = 12.5', () => intervalDomain(0, 1, 2, { kappa: 4 }), 12.5, heatExact1D({ kappa: 4 })],
+    ['unit square, 2 × 2, κT = 50', () => rectangleDomain(0, 1, 0, 1, 2, 2), 50, unitSquare],
+    ['unit square, two triangles, κT = 1e3', () => rectangleDomain(0, 1, 0, 1, 1, 1), 1e3, unitSquare],
+  ] as const)('%s: err/E within [0.5, 3] from the first step on', (_name, domain, T, exact) => {
+    const d = domain();
+    const ratios: number[] = [];
+    solveAdaptive(new HeatProblem({ domain: d, T, initial: () => 1 }), {
+      maxSteps: 6,
+      onStep: (s, solution) => { ratios.push(spaceTimeErrors(solution, exact).gradientL2 / s.estimate); },
+    });
+    if (process.env.CHRONOMESH_VERBOSE) console.log(_name, ratios.map((r) => r.toFixed(2)).join(' '));
+    expect(ratios.length).toBe(6);
+    for (const r of ratios) {
+      expect(r).toBeGreaterThan(0.5);
+      expect(r).toBeLessThan(3);
+    }
+  }, 120_000);
 });

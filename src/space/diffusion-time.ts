@@ -1,0 +1,27 @@
+/**
+ * The shortest diffusion time of the initial mesh, min over initial elements e of h_e² / κ_e with
+ * h_e the element's shortest edge: the time scale below which the coarsest spatial resolution can
+ * no longer follow a solution that starts off the boundary values (docs/adaptivity.md §2).
+ */
+import type { SpatialDomain } from './domain';
+
+/** @internal */
+export function shortestDiffusionTime(domain: SpatialDomain): number {
+  const f = domain.forest;
+  const nv = f.nv;
+  const d = f.dim;
+  let tau = Infinity;
+  for (let e = 0; e < f.initialElementCount; e++) {
+    let h2 = Infinity;
+    for (let a = 0; a < nv; a++) {
+      for (let b = a + 1; b < nv; b++) {
+        const p = f.eVert[e * nv + a]!, q = f.eVert[e * nv + b]!;
+        let s = 0;
+        for (let k = 0; k < d; k++) s += (f.vCoord[p * d + k]! - f.vCoord[q * d + k]!) ** 2;
+        h2 = Math.min(h2, s);
+      }
+    }
+    tau = Math.min(tau, h2 / f.kappa[f.eMat[e]!]!);
+  }
+  return tau;
+}
