@@ -288,9 +288,9 @@ function defaultInitialSet(problem: HeatProblem): DoubleTree {
 /**
  * `set` with its leftmost temporal node repeated on every level down to the shortest diffusion
  * time τ of the initial mesh (level ⌈log2(T/τ)⌉, at most DEEPEST_SET_LEVEL), with the fibre of
- * the deepest leftmost node that has one (docs/adaptivity.md §2). Without it a horizon of many diffusion times leaves the layer of
- * data that start off the boundary values far below the set's levels, and the estimator, whose
- * candidates reach one level deeper, cannot see it: u0 ≡ 1 on (0, 1) in 2 cells with κT = 10⁴
+ * the deepest leftmost node that has one (docs/adaptivity.md §2). Without it a horizon of many
+ * diffusion times leaves the layer of data that start off the boundary values far below the set's
+ * levels, and the estimator, whose candidates reach one level deeper, cannot see it: u0 ≡ 1 on (0, 1) in 2 cells with κT = 10⁴
  * gave E = 6.8·10⁻³ for a true error of 0.71 at the first step, and the run needed 13 steps of
  * growing E to reach the layer. A set already that deep, or T of a few diffusion times, is
  * returned as it is.
@@ -466,16 +466,18 @@ class AdaptiveRun {
     const inner = this.opts.inner ?? { kind: 'multigrid' as const };
     let ind = estimateResidual(problem, set, solved!.solution, bigSet, inner);
     let estimateSeconds = (performance.now() - t2) / 1000;
-    // The solve must be accurate relative to the E it is reported with; resume PCG otherwise.
-    for (let round = 0; round < 4 && !(solved!.energyError <= v.fraction * ind.estimate); round++) {
+    // Resumes PCG to `energyTol` and estimates again (the seconds go to solve and estimate).
+    const resolveAndEstimate = (energyTol: number): void => {
       const ts = performance.now();
-      solveTo(v.fraction * ind.estimate);
+      solveTo(energyTol);
       release();
       t2 += performance.now() - ts;
       const te = performance.now();
       ind = estimateResidual(problem, set, solved!.solution, bigSet, inner);
       estimateSeconds += (performance.now() - te) / 1000;
-    }
+    };
+    // The solve must be accurate relative to the E it is reported with; resume PCG otherwise.
+    for (let round = 0; round < 4 && !(solved!.energyError <= v.fraction * ind.estimate); round++) resolveAndEstimate(v.fraction * ind.estimate);
     // A rise of E may be the algebraic error seen through the indicators, which weigh it far more
     // than its S-energy norm: solve tighter and estimate again before believing it.
     let riseChecks = 0;
@@ -483,13 +485,7 @@ class AdaptiveRun {
     while (riseChecks < RISE_CHECKS && ind.estimate > this.lastEstimate && ind.estimate < RISE_MOVED * before && solved!.energyError > 0) {
       riseChecks++;
       before = ind.estimate;
-      const ts = performance.now();
-      solveTo(solved!.energyError / RISE_TIGHTENING);
-      release();
-      t2 += performance.now() - ts;
-      const te = performance.now();
-      ind = estimateResidual(problem, set, solved!.solution, bigSet, inner);
-      estimateSeconds += (performance.now() - te) / 1000;
+      resolveAndEstimate(solved!.energyError / RISE_TIGHTENING);
     }
     const t3 = performance.now();
     const uSolved = solved!.solution;
