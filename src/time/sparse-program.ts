@@ -14,12 +14,19 @@ class GrowF64 {
   data = new Float64Array(64);
   length = 0;
   push(v: number): void {
-    if (this.length === this.data.length) {
-      const d = new Float64Array(this.data.length * 2);
-      d.set(this.data);
-      this.data = d;
-    }
+    if (this.length === this.data.length) this.grow(this.length + 1);
     this.data[this.length++] = v;
+  }
+  /** Makes room for `n` entries in all (amortised doubling). */
+  grow(n: number): void {
+    if (n <= this.data.length) return;
+    const d = new Float64Array(Math.max(n, 2 * this.data.length));
+    d.set(this.data.subarray(0, this.length));
+    this.data = d;
+  }
+  release(): void {
+    this.data = new Float64Array(64);
+    this.length = 0;
   }
   toArray(): Float64Array {
     return this.data.slice(0, this.length);
@@ -30,12 +37,18 @@ class GrowI32 {
   data = new Int32Array(64);
   length = 0;
   push(v: number): void {
-    if (this.length === this.data.length) {
-      const d = new Int32Array(this.data.length * 2);
-      d.set(this.data);
-      this.data = d;
-    }
+    if (this.length === this.data.length) this.grow(this.length + 1);
     this.data[this.length++] = v;
+  }
+  grow(n: number): void {
+    if (n <= this.data.length) return;
+    const d = new Int32Array(Math.max(n, 2 * this.data.length));
+    d.set(this.data.subarray(0, this.length));
+    this.data = d;
+  }
+  release(): void {
+    this.data = new Int32Array(64);
+    this.length = 0;
   }
   toArray(): Int32Array {
     return this.data.slice(0, this.length);
@@ -46,6 +59,38 @@ class GrowI32 {
 let sortCnt = new Int32Array(256);
 let sortFill = new Int32Array(256);
 let sortOrder = new Int32Array(256);
+
+/** The growable arrays of one builder: program entries and the entries of the open step. */
+class BuilderBuffers {
+  readonly stepSrc = new GrowI32();
+  readonly stepDst = new GrowI32();
+  readonly stepRow = new GrowI32();
+  readonly stepEntry = new GrowI32();
+  readonly rowDst = new GrowI32();
+  readonly rowLen = new GrowI32();
+  readonly col = new GrowI32();
+  readonly weight = new GrowF64();
+  readonly tSrc = new GrowI32();
+  readonly tDst = new GrowI32();
+  readonly tW = new GrowF64();
+  /** Back to the initial small arrays. */
+  shrink(): void {
+    for (const g of this.all()) g.release();
+  }
+  reset(): void {
+    for (const g of this.all()) g.length = 0;
+  }
+  private all(): (GrowI32 | GrowF64)[] {
+    return [this.stepSrc, this.stepDst, this.stepRow, this.stepEntry, this.rowDst, this.rowLen, this.col, this.weight, this.tSrc, this.tDst, this.tW];
+  }
+}
+
+// Builders are made one after the other (a plan compiles in its constructor and finishes before
+// the next one starts), so one set of buffers, grown to the largest program so far, serves them
+// all: growing fresh buffers from 64 entries for every small plan was a fifth of the compile time.
+// A builder opened while another is unfinished gets buffers of its own.
+let idleBuffers: BuilderBuffers | null = new BuilderBuffers();
+const KEPT_ENTRIES = 1 << 18;
 
 /** Compiled program; see {@link runProgram}. */
 export interface SparseProgram {
@@ -69,26 +114,19 @@ export interface SparseProgram {
  */
 export class ProgramBuilder {
   workSize = 0;
-  private readonly stepSrc = new GrowI32();
-  private readonly stepDst = new GrowI32();
-  private readonly stepRow = new GrowI32();
-  private readonly stepEntry = new GrowI32();
-  private readonly rowDst = new GrowI32();
-  private readonly rowLen = new GrowI32();
-  private readonly col = new GrowI32();
-  private readonly weight = new GrowF64();
-  // entries of the open step
-  private readonly tSrc = new GrowI32();
-  private readonly tDst = new GrowI32();
-  private readonly tW = new GrowF64();
+  private buffers: BuilderBuffers | null;
   private src = -1;
   private dst = -1;
   private lo = 0;
   private hi = 0;
 
   constructor() {
-    this.stepRow.push(0);
-    this.stepEntry.push(0);
+    const own = idleBuffers ?? new BuilderBuffers();
+    idleBuffers = null;
+    own.reset();
+    this.buffers = own;
+    own.stepRow.push(0);
+    own.stepEntry.push(0);
   }
 
   /** Reserves n scratch slots; returns the first. */
@@ -104,20 +142,23 @@ export class ProgramBuilder {
     this.dst = dst;
     this.lo = dstLo;
     this.hi = dstHi;
-    this.tSrc.length = 0;
-    this.tDst.length = 0;
-    this.tW.length = 0;
+    const b = this.buffers!;
+    b.tSrc.length = 0;
+    b.tDst.length = 0;
+    b.tW.length = 0;
   }
 
   add(srcSlot: number, dstSlot: number, w: number): void {
     if (w === 0) return;
-    this.tSrc.push(srcSlot);
-    this.tDst.push(dstSlot);
-    this.tW.push(w);
+    const b = this.buffers!;
+    b.tSrc.push(srcSlot);
+    b.tDst.push(dstSlot);
+    b.tW.push(w);
   }
 
   endStep(): void {
-    const m = this.tW.length;
+    const b = this.buffers!;
+    const m = b.tW.length;
     if (m === 0) return;
     const nr = this.hi - this.lo;
     // Counting sort by destination into shared scratch (plan building is synchronous).
@@ -128,46 +169,69 @@ export class ProgramBuilder {
     const fill = sortFill;
     const order = sortOrder;
     cnt.fill(0, 0, nr + 1);
-    const td = this.tDst.data;
+    const td = b.tDst.data;
     const lo = this.lo;
     for (let e = 0; e < m; e++) cnt[td[e]! - lo + 1]!++;
+    let rows = 0;
     for (let r = 0; r < nr; r++) {
+      const len = cnt[r + 1]!;
+      if (len > 0) rows += Math.ceil(len / 255);
       cnt[r + 1]! += cnt[r]!;
       fill[r] = cnt[r]!;
     }
     for (let e = 0; e < m; e++) order[fill[td[e]! - lo]!++] = e;
-    const ts = this.tSrc.data;
-    const tw = this.tW.data;
+    const ts = b.tSrc.data;
+    const tw = b.tW.data;
+    // Room for all rows and entries of the step at once, then plain stores.
+    b.rowDst.grow(b.rowDst.length + rows);
+    b.rowLen.grow(b.rowLen.length + rows);
+    b.col.grow(b.col.length + m);
+    b.weight.grow(b.weight.length + m);
+    const rowDst = b.rowDst.data, rowLen = b.rowLen.data, col = b.col.data, weight = b.weight.data;
+    let nrow = b.rowDst.length;
+    let nent = b.col.length;
     for (let r = 0; r < nr; r++) {
       for (let q0 = cnt[r]!; q0 < cnt[r + 1]!; q0 += 255) {
         const q1 = Math.min(q0 + 255, cnt[r + 1]!);
-        this.rowDst.push(lo + r);
-        this.rowLen.push(q1 - q0);
+        rowDst[nrow] = lo + r;
+        rowLen[nrow++] = q1 - q0;
         for (let q = q0; q < q1; q++) {
           const e = order[q]!;
-          this.col.push(ts[e]!);
-          this.weight.push(tw[e]!);
+          col[nent] = ts[e]!;
+          weight[nent++] = tw[e]!;
         }
       }
     }
-    this.stepSrc.push(this.src);
-    this.stepDst.push(this.dst);
-    this.stepRow.push(this.rowDst.length);
-    this.stepEntry.push(this.col.length);
+    b.rowDst.length = nrow;
+    b.rowLen.length = nrow;
+    b.col.length = nent;
+    b.weight.length = nent;
+    b.stepSrc.push(this.src);
+    b.stepDst.push(this.dst);
+    b.stepRow.push(nrow);
+    b.stepEntry.push(nent);
   }
 
+  /** The compiled program (copies of the entries); the builder cannot be used afterwards. */
   finish(): SparseProgram {
-    return {
+    const b = this.buffers!;
+    const program: SparseProgram = {
       workSize: this.workSize,
-      stepSrc: Uint8Array.from(this.stepSrc.toArray()),
-      stepDst: Uint8Array.from(this.stepDst.toArray()),
-      stepRow: this.stepRow.toArray(),
-      stepEntry: this.stepEntry.toArray(),
-      rowDst: this.rowDst.toArray(),
-      rowLen: Uint8Array.from(this.rowLen.toArray()),
-      col: this.col.toArray(),
-      weight: this.weight.toArray(),
+      stepSrc: Uint8Array.from(b.stepSrc.data.subarray(0, b.stepSrc.length)),
+      stepDst: Uint8Array.from(b.stepDst.data.subarray(0, b.stepDst.length)),
+      stepRow: b.stepRow.toArray(),
+      stepEntry: b.stepEntry.toArray(),
+      rowDst: b.rowDst.toArray(),
+      rowLen: Uint8Array.from(b.rowLen.data.subarray(0, b.rowLen.length)),
+      col: b.col.toArray(),
+      weight: b.weight.toArray(),
     };
+    this.buffers = null;
+    // Keep the larger set for the next builder, unless an unusually large program grew it beyond
+    // KEPT_ENTRIES (it would then hold its ≈ 28 bytes per entry for the rest of the process).
+    if (b.col.data.length > KEPT_ENTRIES) b.shrink();
+    if (idleBuffers === null || idleBuffers.col.data.length < b.col.data.length) idleBuffers = b;
+    return program;
   }
 }
 
