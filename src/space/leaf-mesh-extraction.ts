@@ -11,32 +11,44 @@ export function extractLeafMesh(closure: VertexClosure, set: Int32Array, field =
   const n = closure.markSet(set, field);
   const f = closure.forest;
   const d = closure.dim;
-  // order (generation, id): bucket by generation, then sort each bucket
+  // Order (generation, id): the ids sorted, then a stable bucket pass by generation. The work list
+  // is already sorted up to the closure's additions (initial vertices, then the sorted set's other
+  // members); only those additions (Dirichlet vertices) need sorting before a merge.
+  const work = closure.work;
+  let head = 1;
+  while (head < n && work[head]! > work[head - 1]!) head++;
+  const tail = work.slice(head, n).sort();
+  const sorted = new Int32Array(n);
+  for (let i = 0, a = 0, b = 0; i < n; i++) {
+    sorted[i] = b >= tail.length || (a < head && work[a]! < tail[b]!) ? work[a++]! : tail[b++]!;
+  }
+  // One pass over the forest's generations (random access), then the buckets from local copies.
+  const vGen = f.vGen;
+  const genOf = new Int32Array(n);
   let maxG = 0;
   for (let k = 0; k < n; k++) {
-    const g = f.vGen[closure.work[k]!]!;
+    const g = vGen[sorted[k]!]!;
+    genOf[k] = g;
     if (g > maxG) maxG = g;
   }
   const start = new Int32Array(maxG + 2);
-  for (let k = 0; k < n; k++) start[f.vGen[closure.work[k]!]! + 1]!++;
+  for (let k = 0; k < n; k++) start[genOf[k]! + 1]!++;
   for (let g = 0; g <= maxG; g++) start[g + 1] = start[g + 1]! + start[g]!;
   const globalId = new Int32Array(n);
   const fill = start.slice(0, maxG + 1);
-  for (let k = 0; k < n; k++) {
-    const v = closure.work[k]!;
-    globalId[fill[f.vGen[v]!]!++] = v;
-  }
-  for (let g = 0; g <= maxG; g++) globalId.subarray(start[g]!, start[g + 1]!).sort();
+  for (let k = 0; k < n; k++) globalId[fill[genOf[k]!]!++] = sorted[k]!;
   const generation = new Int32Array(n);
+  for (let g = 0; g <= maxG; g++) generation.fill(g, start[g]!, start[g + 1]!);
   const coords = new Float64Array(n * d);
   const isFree = new Uint8Array(n);
   const local = closure.localIdx;
+  const vCoord = f.vCoord;
+  const vFree = f.vFree;
   for (let i = 0; i < n; i++) {
     const v = globalId[i]!;
-    generation[i] = f.vGen[v]!;
     local[v] = i;
-    for (let k = 0; k < d; k++) coords[i * d + k] = f.vCoord[v * d + k]!;
-    isFree[i] = f.vFree[v]!;
+    for (let k = 0; k < d; k++) coords[i * d + k] = vCoord[v * d + k]!;
+    isFree[i] = vFree[v]!;
   }
   const parentA = new Int32Array(n);
   const parentB = new Int32Array(n);

@@ -60,6 +60,21 @@ function checkConforming(dom: SpatialDomain, set: Int32Array, ids: number[]): vo
   // the naive closure of that free set (Dirichlet ids not needed as godparents are dropped)
   expect(Array.from(set)).toEqual([...naiveClosure(dom, ids)].filter((v) => dom.isFree(v)).sort((a, b) => a - b));
   expect(new Set(mesh.globalId)).toEqual(naiveClosure(dom, Array.from(set)));
+  // local numbering: by (generation, id), generations and coordinates those of the forest, parents
+  // and members mapped through it (src/space/leaf-mesh.ts)
+  for (let i = 0; i < mesh.vertexCount; i++) {
+    const v = mesh.globalId[i]!;
+    expect(mesh.generation[i]).toBe(dom.generation(v));
+    for (let k = 0; k < dom.dim; k++) expect(mesh.coords[i * dom.dim + k]).toBe(dom.coordinate(v, k));
+    expect(mesh.isFree[i]).toBe(dom.isFree(v) ? 1 : 0);
+    if (i > 0) {
+      const u = mesh.globalId[i - 1]!;
+      expect(dom.generation(u) < dom.generation(v) || (dom.generation(u) === dom.generation(v) && u < v)).toBe(true);
+    }
+    const a = dom.forest.vParentA[v]!;
+    expect(mesh.parentA[i]).toBe(a >= 0 ? Array.from(mesh.globalId).indexOf(a) : -1);
+  }
+  for (let i = 0; i < set.length; i++) expect(mesh.globalId[mesh.memberLocal[i]!]).toBe(set[i]);
   const used = new Set<number>();
   for (const v of mesh.elements) used.add(v);
   expect(used.size).toBe(mesh.vertexCount);
