@@ -8,7 +8,7 @@
  * and the gather/scatter offsets into the flat coefficient vectors, so that
  * an application is a sequence of passes over typed arrays.
  */
-import { TemporalTree, TreeOperatorPlan, type LevelPart, type TemporalForm } from '../time/index';
+import { TreeOperatorPlan, type LevelPart, type TemporalForm } from '../time/index';
 import type { DoubleTree } from './double-tree';
 import { sameInts } from './fibre-pool';
 
@@ -142,8 +142,9 @@ export class TemporalPassPlan {
       const inNodes = vin.node.subarray(vin.start[v0]!, vin.start[v0 + 1]!);
       const outNodes = vout.node.subarray(vout.start[v0]!, vout.start[v0 + 1]!);
       const plans = compiled.get(shapeHash(vin, vout, shape[0]!), inNodes, outNodes, () => {
-        const inTree = subTree(input.tree, inNodes);
-        const outTree = subTree(output.tree, outNodes);
+        // a vertex's temporal fibres are trees (docs/method.md §5.1)
+        const inTree = input.tree.subTreeAt(inNodes);
+        const outTree = output.tree.subTreeAt(outNodes);
         return forms.map((f) => new TreeOperatorPlan(f, inTree, outTree, part, T));
       });
       const inFunctions = plans[0]!.inTree.functionCount;
@@ -297,17 +298,6 @@ function sameRun(vf: VertexFibres, v: number, w: number): boolean {
   if (vf.start[w - vf.lo + 1]! - b0 !== n) return false;
   for (let k = 0; k < n; k++) if (vf.node[a0 + k] !== vf.node[b0 + k]) return false;
   return true;
-}
-
-/** The temporal tree formed by the given (ascending) node positions of `tree`. */
-function subTree(tree: TemporalTree, nodes: Int32Array): TemporalTree {
-  const levels = new Int32Array(nodes.length);
-  const indices = new Float64Array(nodes.length);
-  for (let j = 0; j < nodes.length; j++) {
-    levels[j] = tree.level[nodes[j]!]!;
-    indices[j] = tree.index[nodes[j]!]!;
-  }
-  return TemporalTree.fromNodes(tree.kind, levels, indices);
 }
 
 /** Offsets of (temporal function j, vertex b) in batch layout j * batch + b. */

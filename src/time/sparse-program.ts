@@ -119,6 +119,9 @@ export class ProgramBuilder {
   private dst = -1;
   private lo = 0;
   private hi = 0;
+  // Destination of the last entry of the open step, and whether they came in ascending order
+  private lastDst = -1;
+  private ascending = true;
 
   constructor() {
     const own = idleBuffers ?? new BuilderBuffers();
@@ -146,6 +149,8 @@ export class ProgramBuilder {
     b.tSrc.length = 0;
     b.tDst.length = 0;
     b.tW.length = 0;
+    this.lastDst = -1;
+    this.ascending = true;
   }
 
   add(srcSlot: number, dstSlot: number, w: number): void {
@@ -154,32 +159,47 @@ export class ProgramBuilder {
     b.tSrc.push(srcSlot);
     b.tDst.push(dstSlot);
     b.tW.push(w);
+    if (dstSlot < this.lastDst) this.ascending = false;
+    this.lastDst = dstSlot;
   }
 
   endStep(): void {
     const b = this.buffers!;
     const m = b.tW.length;
     if (m === 0) return;
-    const nr = this.hi - this.lo;
-    // Counting sort by destination into shared scratch (plan building is synchronous).
-    if (sortCnt.length < nr + 1) sortCnt = new Int32Array(2 * (nr + 1));
-    if (sortFill.length < nr) sortFill = new Int32Array(2 * nr);
-    if (sortOrder.length < m) sortOrder = new Int32Array(2 * m);
-    const cnt = sortCnt;
-    const fill = sortFill;
-    const order = sortOrder;
-    cnt.fill(0, 0, nr + 1);
     const td = b.tDst.data;
     const lo = this.lo;
-    for (let e = 0; e < m; e++) cnt[td[e]! - lo + 1]!++;
+    const nr = this.hi - this.lo;
+    // Entries whose destinations came in ascending order (output-driven steps) are already grouped
+    // into rows; the others are grouped by a counting sort (stable, so the order within a row is
+    // the order of `add` either way).
+    let order: Int32Array | null = null;
+    let cnt = sortCnt; // row starts of the sorted entries (counting sort only)
     let rows = 0;
-    for (let r = 0; r < nr; r++) {
-      const len = cnt[r + 1]!;
-      if (len > 0) rows += Math.ceil(len / 255);
-      cnt[r + 1]! += cnt[r]!;
-      fill[r] = cnt[r]!;
+    if (this.ascending) {
+      for (let e = 0; e < m; ) {
+        let f = e + 1;
+        while (f < m && td[f] === td[e]) f++;
+        rows += Math.ceil((f - e) / 255);
+        e = f;
+      }
+    } else {
+      if (sortCnt.length < nr + 1) sortCnt = new Int32Array(2 * (nr + 1));
+      if (sortFill.length < nr) sortFill = new Int32Array(2 * nr);
+      if (sortOrder.length < m) sortOrder = new Int32Array(2 * m);
+      cnt = sortCnt;
+      const fill = sortFill;
+      order = sortOrder;
+      cnt.fill(0, 0, nr + 1);
+      for (let e = 0; e < m; e++) cnt[td[e]! - lo + 1]!++;
+      for (let r = 0; r < nr; r++) {
+        const len = cnt[r + 1]!;
+        if (len > 0) rows += Math.ceil(len / 255);
+        cnt[r + 1]! += cnt[r]!;
+        fill[r] = cnt[r]!;
+      }
+      for (let e = 0; e < m; e++) order[fill[td[e]! - lo]!++] = e;
     }
-    for (let e = 0; e < m; e++) order[fill[td[e]! - lo]!++] = e;
     const ts = b.tSrc.data;
     const tw = b.tW.data;
     // Room for all rows and entries of the step at once, then plain stores.
@@ -190,15 +210,32 @@ export class ProgramBuilder {
     const rowDst = b.rowDst.data, rowLen = b.rowLen.data, col = b.col.data, weight = b.weight.data;
     let nrow = b.rowDst.length;
     let nent = b.col.length;
-    for (let r = 0; r < nr; r++) {
-      for (let q0 = cnt[r]!; q0 < cnt[r + 1]!; q0 += 255) {
-        const q1 = Math.min(q0 + 255, cnt[r + 1]!);
-        rowDst[nrow] = lo + r;
-        rowLen[nrow++] = q1 - q0;
-        for (let q = q0; q < q1; q++) {
-          const e = order[q]!;
-          col[nent] = ts[e]!;
-          weight[nent++] = tw[e]!;
+    if (order === null) {
+      for (let e = 0; e < m; ) {
+        let f = e + 1;
+        while (f < m && td[f] === td[e]) f++;
+        for (let q0 = e; q0 < f; q0 += 255) {
+          const q1 = Math.min(q0 + 255, f);
+          rowDst[nrow] = td[e]!;
+          rowLen[nrow++] = q1 - q0;
+          for (let q = q0; q < q1; q++) {
+            col[nent] = ts[q]!;
+            weight[nent++] = tw[q]!;
+          }
+        }
+        e = f;
+      }
+    } else {
+      for (let r = 0; r < nr; r++) {
+        for (let q0 = cnt[r]!; q0 < cnt[r + 1]!; q0 += 255) {
+          const q1 = Math.min(q0 + 255, cnt[r + 1]!);
+          rowDst[nrow] = lo + r;
+          rowLen[nrow++] = q1 - q0;
+          for (let q = q0; q < q1; q++) {
+            const e = order[q]!;
+            col[nent] = ts[e]!;
+            weight[nent++] = tw[e]!;
+          }
         }
       }
     }

@@ -148,6 +148,28 @@ export class TemporalTree {
     return TemporalTree.fromBuckets(kind, buckets, maxLevel);
   }
 
+  /**
+   * The tree of the nodes at the given ascending positions of this tree, without checks: the nodes
+   * must contain the parent of each of their nodes (as a temporal fibre of a double tree does).
+   * Equal to `fromNodes` on their levels and indices, without its buckets and sorts (the positions
+   * of a tree sorted by (level, index) are already in that order). @internal
+   */
+  subTreeAt(positions: Int32Array): TemporalTree {
+    const n = positions.length;
+    const level = new Uint8Array(n);
+    const index = new Float64Array(n);
+    for (let j = 0; j < n; j++) {
+      const p = positions[j]!;
+      level[j] = this.level[p]!;
+      index[j] = this.index[p]!;
+    }
+    const top = n > 0 ? level[n - 1]! : -1;
+    const levelStart = new Int32Array(top + 2);
+    for (let j = 0; j < n; j++) levelStart[level[j]! + 1]!++;
+    for (let l = 0; l <= top; l++) levelStart[l + 1] = levelStart[l + 1]! + levelStart[l]!;
+    return new TemporalTree(this.kind, level, index, levelStart);
+  }
+
   private static fromBuckets(kind: TemporalBasisKind, buckets: Float64Array[], top: number): TemporalTree {
     const levelStart = new Int32Array(top + 2);
     for (let l = 0; l <= top; l++) levelStart[l + 1] = levelStart[l]! + buckets[l]!.length;

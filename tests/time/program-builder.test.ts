@@ -8,7 +8,7 @@
 import { describe, expect, it } from 'vitest';
 import { TreeOperatorPlan } from '../../src/time/index';
 import { ProgramBuilder } from '../../src/time/sparse-program';
-import { gradedTree, sparseTree } from './random-trees';
+import { gradedTree, rng, sparseTree } from './random-trees';
 
 function matrixOf(plan: TreeOperatorPlan): Float64Array {
   const nI = plan.inTree.functionCount;
@@ -60,5 +60,35 @@ describe('ProgramBuilder buffer reuse', () => {
     expect(Array.from(p.rowLen)).toEqual([255, 255, 90]);
     expect(Array.from(p.rowDst)).toEqual([3, 3, 3]);
     expect(Array.from(p.col)).toEqual(Array.from({ length: 600 }, (_, k) => k));
+  });
+
+  it('groups a step by destination, stably, whether the entries came sorted or not (random steps)', () => {
+    for (let seed = 1; seed <= 20; seed++) {
+      const r = rng(seed);
+      const lo = Math.floor(r() * 5);
+      const nr = 1 + Math.floor(r() * 40);
+      const m = Math.floor(r() * 700);
+      const dst = Array.from({ length: m }, () => lo + Math.floor(r() * nr) * (r() < (seed % 4 < 2 ? 0.2 : 0.6) ? 0 : 1));
+      if (seed % 2) dst.sort((a, b) => a - b); // the ascending path
+      const b = new ProgramBuilder();
+      b.beginStep(0, 2, lo, lo + nr);
+      dst.forEach((d, e) => b.add(e, d, e + 0.5));
+      b.endStep();
+      const p = b.finish();
+      // naive reference: rows in ascending destination, entries in the order they came, ≤ 255 a row
+      const rowDst: number[] = [], rowLen: number[] = [], col: number[] = [];
+      for (let d = lo; d < lo + nr; d++) {
+        const mine = dst.map((x, e) => (x === d ? e : -1)).filter((e) => e >= 0);
+        for (let q = 0; q < mine.length; q += 255) {
+          rowDst.push(d);
+          rowLen.push(Math.min(255, mine.length - q));
+          col.push(...mine.slice(q, q + 255));
+        }
+      }
+      expect(Array.from(p.rowDst)).toEqual(rowDst);
+      expect(Array.from(p.rowLen)).toEqual(rowLen);
+      expect(Array.from(p.col)).toEqual(col);
+      expect(Array.from(p.weight)).toEqual(col.map((e) => e + 0.5));
+    }
   });
 });

@@ -80,6 +80,30 @@ describe('TemporalTree', () => {
     expect(TemporalTree.full('trial', 2).shapeKey()).not.toBe(TemporalTree.full('test', 2).shapeKey());
   });
 
+  it('subTreeAt equals fromNodes on the chosen nodes (random subtrees, both kinds, 45 levels)', () => {
+    for (const kind of ['trial', 'test'] as const) {
+      for (let seed = 1; seed <= 12; seed++) {
+        const big = seed % 2 ? gradedTree(kind, 45, 0, 3, seed) : sparseTree(kind, 12, 60, seed);
+        // a random subtree: each node kept with probability 1/2, then closed inside `big`
+        const r = rng(seed + 17);
+        const ls: number[] = [];
+        const ks: number[] = [];
+        for (let p = 0; p < big.size; p++) if (r() < 0.5) { ls.push(big.level[p]!); ks.push(big.index[p]!); }
+        const sub = TemporalTree.fromNodes(kind, ls, ks, { close: true });
+        const positions = Int32Array.from({ length: sub.size }, (_, j) => big.find(sub.level[j]!, sub.index[j]!));
+        expect(positions.every((p) => p >= 0)).toBe(true);
+        const fast = big.subTreeAt(positions);
+        expect(fast.kind).toBe(kind);
+        expect(Array.from(fast.level)).toEqual(Array.from(sub.level));
+        expect(Array.from(fast.index)).toEqual(Array.from(sub.index));
+        expect(Array.from(fast.levelStart)).toEqual(Array.from(sub.levelStart));
+        expect(fast.maxLevel).toBe(sub.maxLevel);
+        expect(fast.functionCount).toBe(sub.functionCount);
+      }
+      expect(TemporalTree.full(kind, 3).subTreeAt(new Int32Array(0)).size).toBe(0);
+    }
+  });
+
   it('full trees have 2^L + 1 (trial) and 2^L (test) nodes', () => {
     for (let L = 0; L <= 10; L++) {
       expect(TemporalTree.full('trial', L).size).toBe(2 ** L + 1);
