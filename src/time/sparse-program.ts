@@ -11,8 +11,14 @@ export const DST_WORK = 1;
 export const DST_Y = 2;
 
 class GrowF64 {
-  data = new Float64Array(64);
+  /** The array this one starts with and returns to (see {@link BuilderBuffers}). */
+  private readonly base: Float64Array;
+  data: Float64Array;
   length = 0;
+  constructor(capacity: number) {
+    this.base = new Float64Array(capacity);
+    this.data = this.base;
+  }
   push(v: number): void {
     if (this.length === this.data.length) this.grow(this.length + 1);
     this.data[this.length++] = v;
@@ -24,8 +30,9 @@ class GrowF64 {
     d.set(this.data.subarray(0, this.length));
     this.data = d;
   }
-  release(): void {
-    this.data = new Float64Array(64);
+  /** Empty, back on the initial array (a grown one is left to the collector). */
+  restore(): void {
+    this.data = this.base;
     this.length = 0;
   }
   toArray(): Float64Array {
@@ -34,20 +41,28 @@ class GrowF64 {
 }
 
 class GrowI32 {
-  data = new Int32Array(64);
+  /** The array this one starts with and returns to (see {@link BuilderBuffers}). */
+  private readonly base: Int32Array;
+  data: Int32Array;
   length = 0;
+  constructor(capacity: number) {
+    this.base = new Int32Array(capacity);
+    this.data = this.base;
+  }
   push(v: number): void {
     if (this.length === this.data.length) this.grow(this.length + 1);
     this.data[this.length++] = v;
   }
+  /** Makes room for `n` entries in all (amortised doubling). */
   grow(n: number): void {
     if (n <= this.data.length) return;
     const d = new Int32Array(Math.max(n, 2 * this.data.length));
     d.set(this.data.subarray(0, this.length));
     this.data = d;
   }
-  release(): void {
-    this.data = new Int32Array(64);
+  /** Empty, back on the initial array (a grown one is left to the collector). */
+  restore(): void {
+    this.data = this.base;
     this.length = 0;
   }
   toArray(): Int32Array {
@@ -60,37 +75,54 @@ let sortCnt = new Int32Array(256);
 let sortFill = new Int32Array(256);
 let sortOrder = new Int32Array(256);
 
-/** The growable arrays of one builder: program entries and the entries of the open step. */
+/**
+ * The growable arrays of one builder: program entries and the entries of the open step.
+ *
+ * Builders are made one after the other (a plan compiles in its constructor and finishes before the
+ * next one starts), so one set, allocated once with SHARED_CAPACITY entries per array, serves them
+ * all: growing fresh arrays from a few entries for every small plan was a fifth of the compile
+ * time. Arrays grown beyond it for a large plan are dropped when that plan is finished. Keeping the
+ * grown arrays instead (up to 2¹⁸ entries, ≈ 7 MB) raised the peak of the d = 2 reference run by
+ * ≈ 100 MB (1.45–1.47 → 1.56–1.59 GB, docs/adaptivity.md §5): long-lived blocks allocated late keep the C allocator from
+ * returning the memory freed around them. A builder opened while another is unfinished gets a set
+ * of its own.
+ */
 class BuilderBuffers {
-  readonly stepSrc = new GrowI32();
-  readonly stepDst = new GrowI32();
-  readonly stepRow = new GrowI32();
-  readonly stepEntry = new GrowI32();
-  readonly rowDst = new GrowI32();
-  readonly rowLen = new GrowI32();
-  readonly col = new GrowI32();
-  readonly weight = new GrowF64();
-  readonly tSrc = new GrowI32();
-  readonly tDst = new GrowI32();
-  readonly tW = new GrowF64();
-  /** Back to the initial small arrays. */
-  shrink(): void {
-    for (const g of this.all()) g.release();
+  readonly stepSrc: GrowI32;
+  readonly stepDst: GrowI32;
+  readonly stepRow: GrowI32;
+  readonly stepEntry: GrowI32;
+  readonly rowDst: GrowI32;
+  readonly rowLen: GrowI32;
+  readonly col: GrowI32;
+  readonly weight: GrowF64;
+  readonly tSrc: GrowI32;
+  readonly tDst: GrowI32;
+  readonly tW: GrowF64;
+  constructor(capacity: number) {
+    const steps = Math.max(16, capacity >> 4);
+    this.stepSrc = new GrowI32(steps);
+    this.stepDst = new GrowI32(steps);
+    this.stepRow = new GrowI32(steps);
+    this.stepEntry = new GrowI32(steps);
+    this.rowDst = new GrowI32(capacity);
+    this.rowLen = new GrowI32(capacity);
+    this.col = new GrowI32(capacity);
+    this.weight = new GrowF64(capacity);
+    this.tSrc = new GrowI32(capacity);
+    this.tDst = new GrowI32(capacity);
+    this.tW = new GrowF64(capacity);
   }
-  reset(): void {
-    for (const g of this.all()) g.length = 0;
-  }
-  private all(): (GrowI32 | GrowF64)[] {
-    return [this.stepSrc, this.stepDst, this.stepRow, this.stepEntry, this.rowDst, this.rowLen, this.col, this.weight, this.tSrc, this.tDst, this.tW];
+  /** Empty, on the initial arrays. */
+  restore(): void {
+    for (const g of [this.stepSrc, this.stepDst, this.stepRow, this.stepEntry, this.rowDst, this.rowLen, this.col, this.weight, this.tSrc, this.tDst, this.tW]) g.restore();
   }
 }
 
-// Builders are made one after the other (a plan compiles in its constructor and finishes before
-// the next one starts), so one set of buffers, grown to the largest program so far, serves them
-// all: growing fresh buffers from 64 entries for every small plan was a fifth of the compile time.
-// A builder opened while another is unfinished gets buffers of its own.
-let idleBuffers: BuilderBuffers | null = new BuilderBuffers();
-const KEPT_ENTRIES = 1 << 18;
+/** Entries per array of the shared set (≈ 0.6 MB in all): most time-direction plans fit. */
+const SHARED_CAPACITY = 1 << 14;
+let shared: BuilderBuffers | null = null; // made on first use
+let sharedInUse = false;
 
 /** Compiled program; see {@link runProgram}. */
 export interface SparseProgram {
@@ -124,9 +156,13 @@ export class ProgramBuilder {
   private ascending = true;
 
   constructor() {
-    const own = idleBuffers ?? new BuilderBuffers();
-    idleBuffers = null;
-    own.reset();
+    let own: BuilderBuffers;
+    if (sharedInUse) own = new BuilderBuffers(64);
+    else {
+      own = shared ??= new BuilderBuffers(SHARED_CAPACITY);
+      sharedInUse = true;
+      own.restore();
+    }
     this.buffers = own;
     own.stepRow.push(0);
     own.stepEntry.push(0);
@@ -264,10 +300,10 @@ export class ProgramBuilder {
       weight: b.weight.toArray(),
     };
     this.buffers = null;
-    // Keep the larger set for the next builder, unless an unusually large program grew it beyond
-    // KEPT_ENTRIES (it would then hold its ≈ 28 bytes per entry for the rest of the process).
-    if (b.col.data.length > KEPT_ENTRIES) b.shrink();
-    if (idleBuffers === null || idleBuffers.col.data.length < b.col.data.length) idleBuffers = b;
+    if (b === shared) {
+      b.restore();
+      sharedInUse = false;
+    }
     return program;
   }
 }
