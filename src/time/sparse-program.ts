@@ -11,13 +11,10 @@ export const DST_WORK = 1;
 export const DST_Y = 2;
 
 class GrowF64 {
-  /** The array this one starts with and returns to (see {@link BuilderBuffers}). */
-  private readonly base: Float64Array;
   data: Float64Array;
   length = 0;
   constructor(capacity: number) {
-    this.base = new Float64Array(capacity);
-    this.data = this.base;
+    this.data = new Float64Array(capacity);
   }
   push(v: number): void {
     if (this.length === this.data.length) this.grow(this.length + 1);
@@ -30,24 +27,16 @@ class GrowF64 {
     d.set(this.data.subarray(0, this.length));
     this.data = d;
   }
-  /** Empty, back on the initial array (a grown one is left to the collector). */
-  restore(): void {
-    this.data = this.base;
-    this.length = 0;
-  }
   toArray(): Float64Array {
     return this.data.slice(0, this.length);
   }
 }
 
 class GrowI32 {
-  /** The array this one starts with and returns to (see {@link BuilderBuffers}). */
-  private readonly base: Int32Array;
   data: Int32Array;
   length = 0;
   constructor(capacity: number) {
-    this.base = new Int32Array(capacity);
-    this.data = this.base;
+    this.data = new Int32Array(capacity);
   }
   push(v: number): void {
     if (this.length === this.data.length) this.grow(this.length + 1);
@@ -60,11 +49,6 @@ class GrowI32 {
     d.set(this.data.subarray(0, this.length));
     this.data = d;
   }
-  /** Empty, back on the initial array (a grown one is left to the collector). */
-  restore(): void {
-    this.data = this.base;
-    this.length = 0;
-  }
   toArray(): Int32Array {
     return this.data.slice(0, this.length);
   }
@@ -75,54 +59,31 @@ let sortCnt = new Int32Array(256);
 let sortFill = new Int32Array(256);
 let sortOrder = new Int32Array(256);
 
-/**
- * The growable arrays of one builder: program entries and the entries of the open step.
- *
- * Builders are made one after the other (a plan compiles in its constructor and finishes before the
- * next one starts), so one set, allocated once with SHARED_CAPACITY entries per array, serves them
- * all: growing fresh arrays from a few entries for every small plan was a fifth of the compile
- * time. Arrays grown beyond it for a large plan are dropped when that plan is finished. Keeping the
- * grown arrays instead (up to 2¹⁸ entries, ≈ 7 MB) raised the peak of the d = 2 reference run by
- * ≈ 100 MB (1.45–1.47 → 1.56–1.59 GB, docs/adaptivity.md §5): long-lived blocks allocated late keep the C allocator from
- * returning the memory freed around them. A builder opened while another is unfinished gets a set
- * of its own.
- */
+/** The growable arrays of one builder: program entries and the entries of the open step. */
 class BuilderBuffers {
-  readonly stepSrc: GrowI32;
-  readonly stepDst: GrowI32;
-  readonly stepRow: GrowI32;
-  readonly stepEntry: GrowI32;
-  readonly rowDst: GrowI32;
-  readonly rowLen: GrowI32;
-  readonly col: GrowI32;
-  readonly weight: GrowF64;
-  readonly tSrc: GrowI32;
-  readonly tDst: GrowI32;
-  readonly tW: GrowF64;
-  constructor(capacity: number) {
-    const steps = Math.max(16, capacity >> 4);
-    this.stepSrc = new GrowI32(steps);
-    this.stepDst = new GrowI32(steps);
-    this.stepRow = new GrowI32(steps);
-    this.stepEntry = new GrowI32(steps);
-    this.rowDst = new GrowI32(capacity);
-    this.rowLen = new GrowI32(capacity);
-    this.col = new GrowI32(capacity);
-    this.weight = new GrowF64(capacity);
-    this.tSrc = new GrowI32(capacity);
-    this.tDst = new GrowI32(capacity);
-    this.tW = new GrowF64(capacity);
-  }
-  /** Empty, on the initial arrays. */
-  restore(): void {
-    for (const g of [this.stepSrc, this.stepDst, this.stepRow, this.stepEntry, this.rowDst, this.rowLen, this.col, this.weight, this.tSrc, this.tDst, this.tW]) g.restore();
-  }
+  readonly stepSrc = new GrowI32(INITIAL_CAPACITY);
+  readonly stepDst = new GrowI32(INITIAL_CAPACITY);
+  readonly stepRow = new GrowI32(INITIAL_CAPACITY);
+  readonly stepEntry = new GrowI32(INITIAL_CAPACITY);
+  readonly rowDst = new GrowI32(INITIAL_CAPACITY);
+  readonly rowLen = new GrowI32(INITIAL_CAPACITY);
+  readonly col = new GrowI32(INITIAL_CAPACITY);
+  readonly weight = new GrowF64(INITIAL_CAPACITY);
+  readonly tSrc = new GrowI32(INITIAL_CAPACITY);
+  readonly tDst = new GrowI32(INITIAL_CAPACITY);
+  readonly tW = new GrowF64(INITIAL_CAPACITY);
 }
 
-/** Entries per array of the shared set (≈ 0.6 MB in all): most time-direction plans fit. */
-const SHARED_CAPACITY = 1 << 14;
-let shared: BuilderBuffers | null = null; // made on first use
-let sharedInUse = false;
+/**
+ * Entries each array of a builder starts with. Every builder has arrays of its own: sharing one
+ * set between the plans compiled one after the other made compiling about 30 % faster (the growth
+ * of fresh arrays for every small plan), but raised the peak of the d = 2 reference run by 60–100 MB
+ * (1.45–1.54 → 1.56–1.62 GB, both with a fixed shared capacity of 2¹⁴ entries and with one kept
+ * at its largest size), above the target of 1.5 KB per unknown: less garbage made by compiling
+ * means later garbage collections, and more of the freed system still resident during the
+ * estimate (docs/adaptivity.md §5).
+ */
+const INITIAL_CAPACITY = 64;
 
 /** Compiled program; see {@link runProgram}. */
 export interface SparseProgram {
@@ -156,16 +117,9 @@ export class ProgramBuilder {
   private ascending = true;
 
   constructor() {
-    let own: BuilderBuffers;
-    if (sharedInUse) own = new BuilderBuffers(64);
-    else {
-      own = shared ??= new BuilderBuffers(SHARED_CAPACITY);
-      sharedInUse = true;
-      own.restore();
-    }
-    this.buffers = own;
-    own.stepRow.push(0);
-    own.stepEntry.push(0);
+    this.buffers = new BuilderBuffers();
+    this.buffers.stepRow.push(0);
+    this.buffers.stepEntry.push(0);
   }
 
   /** Reserves n scratch slots; returns the first. */
@@ -300,10 +254,6 @@ export class ProgramBuilder {
       weight: b.weight.toArray(),
     };
     this.buffers = null;
-    if (b === shared) {
-      b.restore();
-      sharedInUse = false;
-    }
     return program;
   }
 }

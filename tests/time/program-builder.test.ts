@@ -1,9 +1,10 @@
 /**
- * The program builder shares one set of growable buffers between the plans compiled one after the
- * other (src/time/sparse-program.ts). What it compiles must not depend on what was compiled before
- * it, nor on a second builder being open at the same time. Checked by applying the plans to the
- * identity (a dense matrix of the fast operator), whose values the dense references of
- * operators.test.ts check independently.
+ * The program builder (src/time/sparse-program.ts): what it compiles must not depend on what was
+ * compiled before nor on a second builder being open at the same time, and a step's entries are
+ * grouped into rows by destination in the order they came, whether they came sorted (no sort) or
+ * not (counting sort). Plans are checked by applying them to the identity (a dense matrix of the
+ * fast operator), whose values the dense references of operators.test.ts check independently;
+ * single steps against a naive grouping.
  */
 import { describe, expect, it } from 'vitest';
 import { TreeOperatorPlan } from '../../src/time/index';
@@ -20,7 +21,7 @@ function matrixOf(plan: TreeOperatorPlan): Float64Array {
   return y;
 }
 
-describe('ProgramBuilder buffer reuse', () => {
+describe('ProgramBuilder', () => {
   const small = (): TreeOperatorPlan => new TreeOperatorPlan('derivIn', sparseTree('trial', 6, 12, 5), sparseTree('test', 6, 12, 6), 'full', 0.7);
   const large = (): TreeOperatorPlan => new TreeOperatorPlan('mass', gradedTree('trial', 40, 0, 3, 7), gradedTree('test', 40, 0, 3, 8), 'full', 2);
 
@@ -34,7 +35,7 @@ describe('ProgramBuilder buffer reuse', () => {
     expect(Array.from(matrixOf(large()))).toEqual(Array.from(b0));
   });
 
-  it('a builder opened while another is unfinished gets buffers of its own', () => {
+  it('a builder opened while another is unfinished does not disturb it', () => {
     const outer = new ProgramBuilder();
     outer.beginStep(0, 2, 0, 2);
     outer.add(1, 0, 2.5);
