@@ -10,12 +10,20 @@ export const SRC_WORK = 1;
 export const DST_WORK = 1;
 export const DST_Y = 2;
 
+/**
+ * Entries each growable array starts with. Every builder has arrays of its own: sharing one
+ * set between the plans compiled one after the other made compiling about 30 % faster (the growth
+ * of fresh arrays for every small plan), but raised the peak of the d = 2 reference run by 60–100 MB
+ * (1.45–1.54 → 1.56–1.62 GB, both with a fixed shared capacity of 2¹⁴ entries and with one kept
+ * at its largest size), above the target of 1.5 KB per unknown: less garbage made by compiling
+ * means later garbage collections, and more of the freed system still resident during the
+ * estimate (docs/adaptivity.md §5).
+ */
+const INITIAL_CAPACITY = 64;
+
 class GrowF64 {
-  data: Float64Array;
+  data = new Float64Array(INITIAL_CAPACITY);
   length = 0;
-  constructor(capacity: number) {
-    this.data = new Float64Array(capacity);
-  }
   push(v: number): void {
     if (this.length === this.data.length) this.grow(this.length + 1);
     this.data[this.length++] = v;
@@ -33,11 +41,8 @@ class GrowF64 {
 }
 
 class GrowI32 {
-  data: Int32Array;
+  data = new Int32Array(INITIAL_CAPACITY);
   length = 0;
-  constructor(capacity: number) {
-    this.data = new Int32Array(capacity);
-  }
   push(v: number): void {
     if (this.length === this.data.length) this.grow(this.length + 1);
     this.data[this.length++] = v;
@@ -58,32 +63,6 @@ class GrowI32 {
 let sortCnt = new Int32Array(256);
 let sortFill = new Int32Array(256);
 let sortOrder = new Int32Array(256);
-
-/** The growable arrays of one builder: program entries and the entries of the open step. */
-class BuilderBuffers {
-  readonly stepSrc = new GrowI32(INITIAL_CAPACITY);
-  readonly stepDst = new GrowI32(INITIAL_CAPACITY);
-  readonly stepRow = new GrowI32(INITIAL_CAPACITY);
-  readonly stepEntry = new GrowI32(INITIAL_CAPACITY);
-  readonly rowDst = new GrowI32(INITIAL_CAPACITY);
-  readonly rowLen = new GrowI32(INITIAL_CAPACITY);
-  readonly col = new GrowI32(INITIAL_CAPACITY);
-  readonly weight = new GrowF64(INITIAL_CAPACITY);
-  readonly tSrc = new GrowI32(INITIAL_CAPACITY);
-  readonly tDst = new GrowI32(INITIAL_CAPACITY);
-  readonly tW = new GrowF64(INITIAL_CAPACITY);
-}
-
-/**
- * Entries each array of a builder starts with. Every builder has arrays of its own: sharing one
- * set between the plans compiled one after the other made compiling about 30 % faster (the growth
- * of fresh arrays for every small plan), but raised the peak of the d = 2 reference run by 60–100 MB
- * (1.45–1.54 → 1.56–1.62 GB, both with a fixed shared capacity of 2¹⁴ entries and with one kept
- * at its largest size), above the target of 1.5 KB per unknown: less garbage made by compiling
- * means later garbage collections, and more of the freed system still resident during the
- * estimate (docs/adaptivity.md §5).
- */
-const INITIAL_CAPACITY = 64;
 
 /** Compiled program; see {@link runProgram}. */
 export interface SparseProgram {
@@ -107,7 +86,18 @@ export interface SparseProgram {
  */
 export class ProgramBuilder {
   workSize = 0;
-  private buffers: BuilderBuffers | null;
+  private readonly stepSrc = new GrowI32();
+  private readonly stepDst = new GrowI32();
+  private readonly stepRow = new GrowI32();
+  private readonly stepEntry = new GrowI32();
+  private readonly rowDst = new GrowI32();
+  private readonly rowLen = new GrowI32();
+  private readonly col = new GrowI32();
+  private readonly weight = new GrowF64();
+  // entries of the open step
+  private readonly tSrc = new GrowI32();
+  private readonly tDst = new GrowI32();
+  private readonly tW = new GrowF64();
   private src = -1;
   private dst = -1;
   private lo = 0;
@@ -117,9 +107,8 @@ export class ProgramBuilder {
   private ascending = true;
 
   constructor() {
-    this.buffers = new BuilderBuffers();
-    this.buffers.stepRow.push(0);
-    this.buffers.stepEntry.push(0);
+    this.stepRow.push(0);
+    this.stepEntry.push(0);
   }
 
   /** Reserves n scratch slots; returns the first. */
@@ -135,29 +124,26 @@ export class ProgramBuilder {
     this.dst = dst;
     this.lo = dstLo;
     this.hi = dstHi;
-    const b = this.buffers!;
-    b.tSrc.length = 0;
-    b.tDst.length = 0;
-    b.tW.length = 0;
+    this.tSrc.length = 0;
+    this.tDst.length = 0;
+    this.tW.length = 0;
     this.lastDst = -1;
     this.ascending = true;
   }
 
   add(srcSlot: number, dstSlot: number, w: number): void {
     if (w === 0) return;
-    const b = this.buffers!;
-    b.tSrc.push(srcSlot);
-    b.tDst.push(dstSlot);
-    b.tW.push(w);
+    this.tSrc.push(srcSlot);
+    this.tDst.push(dstSlot);
+    this.tW.push(w);
     if (dstSlot < this.lastDst) this.ascending = false;
     this.lastDst = dstSlot;
   }
 
   endStep(): void {
-    const b = this.buffers!;
-    const m = b.tW.length;
+    const m = this.tW.length;
     if (m === 0) return;
-    const td = b.tDst.data;
+    const td = this.tDst.data;
     const lo = this.lo;
     const nr = this.hi - this.lo;
     // Entries whose destinations came in ascending order (output-driven steps) are already grouped
@@ -190,16 +176,16 @@ export class ProgramBuilder {
       }
       for (let e = 0; e < m; e++) order[fill[td[e]! - lo]!++] = e;
     }
-    const ts = b.tSrc.data;
-    const tw = b.tW.data;
+    const ts = this.tSrc.data;
+    const tw = this.tW.data;
     // Room for all rows and entries of the step at once, then plain stores.
-    b.rowDst.grow(b.rowDst.length + rows);
-    b.rowLen.grow(b.rowLen.length + rows);
-    b.col.grow(b.col.length + m);
-    b.weight.grow(b.weight.length + m);
-    const rowDst = b.rowDst.data, rowLen = b.rowLen.data, col = b.col.data, weight = b.weight.data;
-    let nrow = b.rowDst.length;
-    let nent = b.col.length;
+    this.rowDst.grow(this.rowDst.length + rows);
+    this.rowLen.grow(this.rowLen.length + rows);
+    this.col.grow(this.col.length + m);
+    this.weight.grow(this.weight.length + m);
+    const rowDst = this.rowDst.data, rowLen = this.rowLen.data, col = this.col.data, weight = this.weight.data;
+    let nrow = this.rowDst.length;
+    let nent = this.col.length;
     if (order === null) {
       for (let e = 0; e < m; ) {
         let f = e + 1;
@@ -229,32 +215,29 @@ export class ProgramBuilder {
         }
       }
     }
-    b.rowDst.length = nrow;
-    b.rowLen.length = nrow;
-    b.col.length = nent;
-    b.weight.length = nent;
-    b.stepSrc.push(this.src);
-    b.stepDst.push(this.dst);
-    b.stepRow.push(nrow);
-    b.stepEntry.push(nent);
+    this.rowDst.length = nrow;
+    this.rowLen.length = nrow;
+    this.col.length = nent;
+    this.weight.length = nent;
+    this.stepSrc.push(this.src);
+    this.stepDst.push(this.dst);
+    this.stepRow.push(nrow);
+    this.stepEntry.push(nent);
   }
 
-  /** The compiled program (copies of the entries); the builder cannot be used afterwards. */
+  /** The compiled program (copies of the entries). */
   finish(): SparseProgram {
-    const b = this.buffers!;
-    const program: SparseProgram = {
+    return {
       workSize: this.workSize,
-      stepSrc: Uint8Array.from(b.stepSrc.data.subarray(0, b.stepSrc.length)),
-      stepDst: Uint8Array.from(b.stepDst.data.subarray(0, b.stepDst.length)),
-      stepRow: b.stepRow.toArray(),
-      stepEntry: b.stepEntry.toArray(),
-      rowDst: b.rowDst.toArray(),
-      rowLen: Uint8Array.from(b.rowLen.data.subarray(0, b.rowLen.length)),
-      col: b.col.toArray(),
-      weight: b.weight.toArray(),
+      stepSrc: Uint8Array.from(this.stepSrc.data.subarray(0, this.stepSrc.length)),
+      stepDst: Uint8Array.from(this.stepDst.data.subarray(0, this.stepDst.length)),
+      stepRow: this.stepRow.toArray(),
+      stepEntry: this.stepEntry.toArray(),
+      rowDst: this.rowDst.toArray(),
+      rowLen: Uint8Array.from(this.rowLen.data.subarray(0, this.rowLen.length)),
+      col: this.col.toArray(),
+      weight: this.weight.toArray(),
     };
-    this.buffers = null;
-    return program;
   }
 }
 
