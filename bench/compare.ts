@@ -8,8 +8,9 @@
  * True errors against the exact solution (tests/helpers/heat-exact.ts: Fourier series and the
  * method of images, Carslaw & Jaeger §3.3), computed for both methods with Gauss points in time
  * per temporal interval and the degree-5 / 3-point spatial rules per leaf element (the adaptive
- * solution with `spaceTimeErrors`). Wall times exclude the error computation. Figures taken on a
- * shared machine are rough.
+ * solution with `spaceTimeErrors`; the finest 2D stepping mesh with the same rules evaluated once
+ * per distinct coordinate, bench/separable-error.ts). Wall times exclude the error computation.
+ * Figures taken on a shared machine are rough.
  *
  * Run: `npm run -s bench -- compare.` (or `compare.1d`, `compare.2d`); `--quick` uses smaller
  * searches.
@@ -18,19 +19,18 @@ import { totalmem } from 'node:os';
 import { HeatProblem, intervalDomain, rectangleDomain, setMemoryBudget, solveAdaptive, spaceTimeErrors, type SpatialDomain } from '../src/index';
 import { unitInterval, unitSquare, type HeatExact } from '../tests/helpers/heat-exact';
 import { UniformP1, steppingGradientError, timeStep, type SteppingOptions } from './time-stepping';
+import { SeparableGradientError } from './separable-error';
 
 const T = 0.5;
 
 interface Run {
   label: string;
-  /** True L2(0,T;H¹₀) error, or NaN where it was not computed (see `extrapolated`). */
+  /** True L2(0,T;H¹₀) error. */
   error: number;
   seconds: number;
   /** CPU seconds of this process (user + system) for the same work: robust to other load. */
   cpu: number;
   unknowns: number;
-  /** The error is extrapolated from coarser meshes (error computation too costly there). */
-  extrapolated?: boolean;
 }
 
 /** CPU seconds of this process so far (user + system). */
@@ -47,9 +47,6 @@ function makeDomain(dim: 1 | 2): SpatialDomain {
 function steppingRuns(dim: 1 | 2, quick: boolean, exact: HeatExact, maxError: number): Run[] {
   const runs: Run[] = [];
   const levels = dim === 1 ? (quick ? [5, 7, 9] : [5, 6, 7, 8, 9, 10, 11, 12]) : (quick ? [3, 4] : [3, 4, 5, 6, 7]);
-  // Spatial error floor per level: the smallest error of any configuration on that mesh (the
-  // temporal error is driven below it by the larger K), used to extrapolate to finer meshes.
-  const floor = new Map<number, number>();
   for (const L of levels) {
     const h = 2 ** -(L + 1); // mesh size of uniformSet(L) on the 2-cell / 2×2 initial meshes
     for (const method of ['euler', 'crank-nicolson'] as const) {
@@ -70,42 +67,57 @@ function steppingRuns(dim: 1 | 2, quick: boolean, exact: HeatExact, maxError: nu
           const seconds = (performance.now() - t0) / 1000;
           const cpu = cpuNow() - c0;
           const error = steppingGradientError(r, exact);
-          floor.set(L, Math.min(floor.get(L) ?? Infinity, error));
           runs.push({ label: `${method === 'euler' ? 'IE' : 'CN'} L=${L} K=${K} q=${q}`, error, seconds, cpu, unknowns: r.unknowns });
           if (error < maxError * 0.5 && f >= 1) break;
         }
       }
     }
   }
-  if (dim === 2 && !quick) runs.push(...finerSteppingRuns(floor, levels[levels.length - 1]!));
+  if (dim === 2 && !quick) runs.push(...finerSteppingRuns(exact, levels[levels.length - 1]!));
   return runs;
 }
 
 /**
- * 2D meshes finer than the searched ones, where computing the error against the exact solution
- * (every step × every element × the degree-5 rule) would cost far more than the solve: the solve
- * is timed, and the error is extrapolated from the two finest searched meshes by the observed
- * rate in h (uniform P1 meshes reach about h^{1/2} on this problem: the layer of width √t at early
- * times). Marked as extrapolated in the table. Crank–Nicolson with q = 3 and K = 0.25/h, the
- * cheapest configuration that reached the floor on the searched meshes.
+ * 2D meshes finer than the searched ones. The per-point error loop would cost far more than the
+ * solve there, so the error is streamed step by step with the separable evaluator
+ * (bench/separable-error.ts: the exact solution is a product of two slab factors) and its CPU time
+ * is excluded. Crank–Nicolson with q = 3 and K = 0.25/h, the cheapest configuration that reached
+ * the floor on the searched meshes. Finer levels still: bench/stepping-run.ts.
  */
-function finerSteppingRuns(floor: Map<number, number>, finest: number): Run[] {
-  const e1 = floor.get(finest - 1);
-  const e2 = floor.get(finest);
-  if (e1 === undefined || e2 === undefined) return [];
-  const rate = Math.log2(e1 / e2); // per halving of h
+function finerSteppingRuns(exact: HeatExact, finest: number): Run[] {
   const runs: Run[] = [];
+  if (!exact.factors) return runs;
   for (const L of [finest + 1]) {
     const h = 2 ** -(L + 1);
     const K = Math.ceil(0.25 / h);
     const t0 = performance.now();
     const c0 = cpuNow();
     const d = new UniformP1(domainFor(2), uniformSetOf(2, L));
-    const r = timeStep(d, T, () => 1, { method: 'crank-nicolson', steps: K, grading: 3, damping: 4 });
-    const seconds = (performance.now() - t0) / 1000;
-    const cpu = cpuNow() - c0;
-    const error = e2 * 2 ** (-rate * (L - finest));
-    runs.push({ label: `CN L=${L} K=${K} q=3`, error, seconds, cpu, unknowns: r.unknowns, extrapolated: true });
+    let excluded = 0;
+    let excludedCpu = 0;
+    const e0 = performance.now();
+    const ec = cpuNow();
+    const evaluator = new SeparableGradientError(d.mesh, exact.factors);
+    excluded += performance.now() - e0;
+    excludedCpu += cpuNow() - ec;
+    let e2 = 0;
+    const r = timeStep(d, T, () => 1, {
+      method: 'crank-nicolson',
+      steps: K,
+      grading: 3,
+      damping: 4,
+      keepStates: false,
+      onStep: (_k, a, b, u0, u1) => {
+        const w = performance.now();
+        const c = cpuNow();
+        e2 += evaluator.interval(a, b, u0, u1);
+        excluded += performance.now() - w;
+        excludedCpu += cpuNow() - c;
+      },
+    });
+    const seconds = (performance.now() - t0 - excluded) / 1000;
+    const cpu = cpuNow() - c0 - excludedCpu;
+    runs.push({ label: `CN L=${L} K=${K} q=3`, error: Math.sqrt(e2), seconds, cpu, unknowns: r.unknowns });
   }
   return runs;
 }
@@ -174,21 +186,18 @@ function extrapolatedStepping(ts: Run[], target: number): string {
     if (K === Math.ceil(0.25 * 2 ** (L + 1))) byL.set(L, r);
   }
   const Ls = [...byL.keys()].sort((a, b) => a - b);
-  // Error rate from the two finest meshes whose error was computed, cost growth from the two
-  // finest timed meshes (the finest may carry an extrapolated error; it is not used for the rate).
-  const measured = Ls.filter((L) => !byL.get(L)!.extrapolated);
-  if (measured.length < 2 || Ls.length < 2) return 'not enough meshes to extrapolate';
-  const m1 = byL.get(measured[measured.length - 2]!)!;
-  const m2 = byL.get(measured[measured.length - 1]!)!;
-  const errRate = Math.log2(m1.error / m2.error) / (measured[measured.length - 1]! - measured[measured.length - 2]!);
+  // Error rate and cost growth from the two finest meshes.
+  if (Ls.length < 2) return 'not enough meshes to extrapolate';
   const L1 = Ls[Ls.length - 2]!;
   const L2 = Ls[Ls.length - 1]!;
+  const m1 = byL.get(L1)!;
+  const m2 = byL.get(L2)!;
+  const errRate = Math.log2(m1.error / m2.error) / (L2 - L1);
   const costFactor = (byL.get(L2)!.cpu / byL.get(L1)!.cpu) ** (1 / (L2 - L1));
   if (!(errRate > 0)) return 'error not decreasing with h';
-  const Lm = measured[measured.length - 1]!;
   const levels = Math.max(1, Math.ceil(Math.log2(m2.error / target) / errRate));
-  const cpu = byL.get(Lm)!.cpu * costFactor ** levels;
-  return `level ${Lm + levels} (h = 2^-${Lm + levels + 1}), ≈ ${cpu.toExponential(1)} cpu-s (error rate ${errRate.toFixed(2)} per level from L = ${measured[measured.length - 2]}, ${Lm}; cost ×${costFactor.toFixed(1)} per level from L = ${L1}, ${L2})`;
+  const cpu = m2.cpu * costFactor ** levels;
+  return `level ${L2 + levels} (h = 2^-${L2 + levels + 1}), ≈ ${cpu.toExponential(1)} cpu-s (error rate ${errRate.toFixed(2)} and cost ×${costFactor.toFixed(1)} per level from L = ${L1}, ${L2}; measure it with bench/stepping-run.ts)`;
 }
 
 function cheapest(runs: Run[], target: number): Run | null {
@@ -199,8 +208,7 @@ function cheapest(runs: Run[], target: number): Run | null {
 
 function fmt(r: Run | null): string {
   if (r === null) return 'not reached'.padEnd(64);
-  const err = `${r.extrapolated ? '≈' : ''}${r.error.toFixed(4)}${r.extrapolated ? ' extrapolated' : ''}`;
-  return `${r.cpu.toFixed(2).padStart(8)} cpu-s ${r.seconds.toFixed(2).padStart(8)} s ${String(r.unknowns).padStart(9)} unk (${r.label}, err ${err})`.padEnd(64);
+  return `${r.cpu.toFixed(2).padStart(8)} cpu-s ${r.seconds.toFixed(2).padStart(8)} s ${String(r.unknowns).padStart(9)} unk (${r.label}, err ${r.error.toFixed(4)})`.padEnd(64);
 }
 
 /** Runs the comparison for the selected dimensions and prints the tables. */
@@ -215,7 +223,7 @@ export function runCompare(prefixes: string[], quick: boolean): void {
     const ad = adaptiveRuns(dim, quick, exact, targets);
     console.log(`\ncompare.${dim}d  u0 ≡ 1, T = ${T}, error in L2(0,T;H¹₀); both single-threaded, compared by CPU seconds (wall seconds also shown)`);
     console.log('all time-stepping runs:');
-    for (const r of ts) console.log(`  ${r.label.padEnd(28)} err ${r.extrapolated ? '≈' : ' '}${r.error.toFixed(4)}  ${r.cpu.toFixed(2)} cpu-s  ${r.seconds.toFixed(2)} s  ${r.unknowns} unk${r.extrapolated ? '  (error extrapolated)' : ''}`);
+    for (const r of ts) console.log(`  ${r.label.padEnd(28)} err  ${r.error.toFixed(4)}  ${r.cpu.toFixed(2)} cpu-s  ${r.seconds.toFixed(2)} s  ${r.unknowns} unk`);
     console.log('all adaptive runs (errors computed near the targets):');
     for (const r of ad) console.log(`  ${r.label.padEnd(28)} err  ${r.error.toFixed(4)}  ${r.cpu.toFixed(2)} cpu-s  ${r.seconds.toFixed(2)} s  ${r.unknowns} unk`);
     console.log(`${'target'.padEnd(8)} ${'time stepping (cheapest found)'.padEnd(64)} ${'adaptive'.padEnd(64)} cpu ratio TS/adaptive   unknowns ratio TS/adaptive`);

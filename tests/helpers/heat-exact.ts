@@ -239,6 +239,14 @@ export interface HeatExact extends KnownSolution {
   l2NormSquared(t: number): number;
   /** ∫₀ᵀ ‖∇u‖²_{L2(Ω)} dt = (‖u0‖² − ‖u(T)‖²)/(2κ) (energy identity). */
   gradientEnergy(T: number): number;
+  /**
+   * 2D only: the two factors of u = f(t, x)·g(t, y), each writing (value, derivative) into out, so
+   * that error loops can evaluate them once per distinct coordinate.
+   */
+  readonly factors?: {
+    x(t: number, x: number, out: Float64Array): void;
+    y(t: number, y: number, out: Float64Array): void;
+  };
 }
 
 function checkKappa(kappa: number): void {
@@ -313,6 +321,16 @@ export function heatExact2D(opts: { x0?: number; x1?: number; y0?: number; y1?: 
       return ox[0]! * oy[0]!;
     },
     l2NormSquared: (t) => Lx * Ly * (1 - 2 * slabGradientEnergy(tx(t))) * (1 - 2 * slabGradientEnergy(ty(t))),
+    factors: {
+      x: (t, x, out) => {
+        slab(tx(t), (x - x0) / Lx, out);
+        out[1] = out[1]! / Lx;
+      },
+      y: (t, y, out) => {
+        slab(ty(t), (y - y0) / Ly, out);
+        out[1] = out[1]! / Ly;
+      },
+    },
     gradientEnergy: (T) => {
       // (|Ω| − |Ω| NₓN_y)/(2κ) with N = 1 − 2E, written without cancellation.
       const ex = slabGradientEnergy(tx(T));
