@@ -3,7 +3,7 @@
  * searches, with its true error measured, not extrapolated: the error is streamed step by step with
  * bench/separable-error.ts (no states stored) and its CPU time is excluded from the solve's.
  *
- *   node --import tsx bench/stepping-run.ts --level 9 --steps 256 [--grading 3] [--method cn|ie]
+ *   node --import tsx bench/stepping-run.ts --level 9 --steps 256 [--grading 3] [--method cn|ie] [--damping 4]
  *
  * Problem as in compare.2d: ∂t u = Δu on (0, 1)² (2 × 2 initial cells, uniform refinement of
  * level L: h = 2^-(L+1)), u0 ≡ 1, u = 0 on ∂Ω, T = 0.5; error in L2(0, T; H¹₀) against the product
@@ -25,9 +25,11 @@ const L = Number(option('level'));
 const K = Number(option('steps'));
 const q = Number(option('grading', '3'));
 const method = option('method', 'cn') === 'ie' ? 'euler' : 'crank-nicolson';
+const damping = Number(option('damping', '4'));
 if (!Number.isInteger(L) || L < 1 || L > 11) throw new Error(`stepping-run: --level ${L} must be an integer in 1..11`);
 if (!Number.isInteger(K) || K < 1) throw new Error(`stepping-run: --steps ${K} must be a positive integer`);
 if (!(q >= 1 && q <= 4)) throw new Error(`stepping-run: --grading ${q} must be in [1, 4]`);
+if (!Number.isInteger(damping) || damping < 0) throw new Error(`stepping-run: --damping ${damping} must be a non-negative integer`);
 
 const cpuNow = () => {
   const u = process.cpuUsage();
@@ -50,7 +52,7 @@ const r = timeStep(d, T, () => 1, {
   method,
   steps: K,
   grading: q,
-  damping: 4,
+  damping,
   keepStates: false,
   onStep: (_k, a, b, u0, u1) => {
     const c = cpuNow();
@@ -64,7 +66,7 @@ const cpu = cpuNow() - c0 - excludedCpu;
 const seconds = (performance.now() - t0 - excludedWall) / 1000;
 console.log(
   JSON.stringify({
-    label: `${method === 'euler' ? 'IE' : 'CN'} L=${L} K=${K} q=${q}`,
+    label: `${method === 'euler' ? 'IE' : `CN(${damping})`} L=${L} K=${K} q=${q}`,
     error: Math.sqrt(e2),
     cpu,
     seconds,

@@ -6,7 +6,8 @@
  */
 import { typed } from './vendor/typed-function';
 import { InvalidArgumentError } from './errors';
-import { solveAdaptive, type AdaptiveOptions, type AdaptiveStep } from './adapt/adaptive-solver';
+import { solveAdaptive } from './adapt/adaptive-solver';
+import type { AdaptiveOptions, AdaptiveStep } from './adapt/adaptive-options';
 import { SpaceTimeSolution } from './spacetime/space-time-solution';
 import { validateAdaptiveOptions } from './adapt/adaptive-options';
 import { DoubleTree, sparseGridUnknownEstimate } from './spacetime/double-tree';

@@ -1,14 +1,148 @@
 /**
- * Validation of the options of {@link solveAdaptive} (before any work): numbers in range,
- * integers where counts are meant, callbacks that are functions, a starting set from the
- * problem's own domain, and no unknown keys (a misspelt key is answered with the nearest name).
+ * The options, progress reports, step records and result of {@link solveAdaptive}, and the
+ * validation of the options (before any work): numbers in range, integers where counts are meant,
+ * callbacks that are functions, a starting set from the problem's own domain, and no unknown keys
+ * (a misspelt key is answered with the nearest name).
  */
 import { InvalidArgumentError } from '../errors';
 import { checkFunction, checkInstance, checkInteger, checkNumber, checkOptions } from '../validation/index';
 import { checkSetOnDomain } from '../spacetime/set-checks';
 import { HeatProblem } from '../system/heat-problem';
 import { validateInnerSolver } from '../system/system-options';
-import type { AdaptiveOptions } from './adaptive-solver';
+import type { DoubleTree } from '../spacetime/double-tree';
+import type { SpaceTimeSolution } from '../spacetime/space-time-solution';
+import type { InnerSolver } from '../system/fibre-inverse';
+import type { EnlargementOptions } from './enlargement';
+import type { AdaptiveCheckpointInfo } from './checkpoint';
+
+/** One pass of the adaptive loop, as recorded in the history. */
+export interface AdaptiveStep {
+  step: number;
+  /** #Λ of the solve in this step. */
+  unknowns: number;
+  /** Estimator E of this step's solution. */
+  estimate: number;
+  /** PCG iterations of this step (all resumptions included). */
+  pcgIterations: number;
+  /** Estimated S-energy norm of the algebraic error of the solution (≤ `solverFraction`·E). */
+  algebraicError: number;
+  /**
+   * Tighter re-solves of this step because E came out above the previous step's (0 on most steps;
+   * at most 2). A rise that persists after them is genuine, not the solve's (docs/adaptivity.md §4).
+   */
+  riseChecks: number;
+  /** Deepest temporal level in Λ. */
+  maxTimeLevel: number;
+  /** Deepest spatial vertex generation in Λ. */
+  maxSpaceGeneration: number;
+  /** Number of distinct spatial vertices used by Λ (the union of its fibres). */
+  spatialVertices: number;
+  /** #Λ̲, the size of the enlarged set the estimator worked on. */
+  enlargedUnknowns: number;
+  /** Number of pairs marked for refinement (0 in the last step). */
+  marked: number;
+  /** Wall time of this step (setup + solve + estimate + refine), seconds. */
+  seconds: number;
+  /** The same wall time split into its phases, seconds. */
+  timings: { setup: number; solve: number; estimate: number; refine: number };
+}
+
+/** Progress of a running adaptive solve, passed to {@link AdaptiveOptions.onProgress}. */
+export interface AdaptiveProgress {
+  step: number;
+  phase: 'setup' | 'solve' | 'estimate' | 'refine';
+  unknowns: number;
+  /** PCG iteration within the step (solve phase only; 0 otherwise). */
+  iteration: number;
+  /** Seconds since the run started. */
+  elapsed: number;
+}
+
+/** Options of {@link solveAdaptive}. */
+export interface AdaptiveOptions {
+  /**
+   * Dörfler bulk parameter θ ∈ (0,1) (default {@link defaultBulk}: 0.5 in 1D, 0.7 in 2D — the
+   * values that reached a given estimate in the least CPU time on the reference runs,
+   * docs/adaptivity.md §7).
+   */
+  theta?: number;
+  /** Stop when E ≤ tolerance (default 0: run until another limit). */
+  tolerance?: number;
+  /** Stop before a step whose Λ would exceed this many unknowns (default 2e5). */
+  maxUnknowns?: number;
+  /** Maximum number of steps (default 40). */
+  maxSteps?: number;
+  /**
+   * Wall-time budget in seconds (default ∞), checked at every phase and PCG iteration; the step in
+   * progress when it runs out is discarded. The first step always completes.
+   */
+  maxSeconds?: number;
+  /**
+   * Starting index set (default: the sparse grid of level 1, or a finer one if that is empty,
+   * graded toward t = 0 down to the shortest diffusion time h²/κ of the initial mesh so that the
+   * estimator sees the initial layer over long horizons; docs/adaptivity.md §2).
+   */
+  initialSet?: DoubleTree;
+  /** PCG runs until its estimated S-energy error is at most this fraction of E (default 0.1). */
+  solverFraction?: number;
+  /** Spatial inner solver for K_Y, K_X. */
+  inner?: InnerSolver;
+  /**
+   * Dörfler marking separately among the spatial and among the temporal candidates (each with bulk
+   * θ), instead of once over all candidates (default false).
+   */
+  markSeparately?: boolean;
+  /** How the candidate set Λ̲ is built (default: h halves in the spatial candidates). */
+  enlargement?: EnlargementOptions;
+  /** Called after every step; return `false` to stop (stop reason `'callback'`). */
+  onStep?: (step: AdaptiveStep, solution: SpaceTimeSolution) => boolean | void;
+  /** Called at every phase change and PCG iteration (progress bars, logs). Keep it cheap. */
+  onProgress?: (progress: AdaptiveProgress) => void;
+  /**
+   * Cancels the run: checked at every phase and PCG iteration. The run then returns the last
+   * completed step's result with stop reason `'aborted'` (the step in progress is discarded, never
+   * half-applied). The loop is synchronous, so abort from a callback (`onProgress`, `onStep`) or use
+   * {@link solveAdaptiveAsync}, which lets timers and other events run between steps.
+   */
+  signal?: AbortSignal;
+  /**
+   * Called after every completed step with a checkpoint of the run (bytes in the solution-file
+   * format, docs/solution-files.md): the step's solution, the set of the next step and the history.
+   * Store it (e.g. `checkpointToFile(path)` of `chronomesh/files` writes it atomically) and pass it
+   * as `resume` to continue the run later. With this option the set of the next step is also built
+   * after the last step, so that a finished run can be continued with larger limits.
+   */
+  checkpoint?: (bytes: Uint8Array, info: AdaptiveCheckpointInfo) => void;
+  /**
+   * Continue the run saved in this checkpoint (bytes from the `checkpoint` option) instead of
+   * starting anew: the problem must be the same (checked by its fingerprint) and its domain built
+   * like the saved one and not refined since (the saved bisections are replayed into it). The
+   * history starts with the saved steps and the next step is the saved step + 1; `maxSteps`
+   * counts all steps, `maxSeconds` this process's time. Not together with `initialSet`. A
+   * checkpoint of a run that could not continue (E = 0) returns its saved result at once.
+   */
+  resume?: Uint8Array;
+}
+
+/** Result of {@link solveAdaptive}. */
+export interface AdaptiveResult {
+  solution: SpaceTimeSolution;
+  set: DoubleTree;
+  history: AdaptiveStep[];
+  /**
+   * Why the loop stopped: `'tolerance'` (E ≤ tolerance), `'unknowns'` (the next set would exceed
+   * maxUnknowns), `'steps'` (maxSteps), `'time'` (maxSeconds; the step in progress is discarded),
+   * `'callback'` (onStep returned false), `'aborted'` (the signal fired; the step in progress is
+   * discarded) or `'memory'` (the next step's estimated memory — the system on Λ and the estimator
+   * on Λ̲, see {@link adaptiveStepBytes}, with #Λ̲ extrapolated from this step's ratio #Λ̲/#Λ —
+   * would exceed the memory budget, see {@link setMemoryBudget}; the last completed step is returned)
+   * or `'resolution'` (the next set would go below temporal level 50, i.e. need time scales under
+   * T·2⁻⁵⁰: on a set at level 51 the estimate was measured to rise while the true error fell, and
+   * at MAX_TEMPORAL_LEVEL = 52 it would have no finer temporal candidates; the last completed
+   * step, whose estimate is trustworthy, is returned — docs/adaptivity.md §6).
+   */
+  stopReason: 'tolerance' | 'unknowns' | 'steps' | 'time' | 'callback' | 'aborted' | 'memory' | 'resolution';
+}
 
 const ADAPTIVE_KEYS: Record<keyof Required<AdaptiveOptions>, true> = {
   theta: true, tolerance: true, maxUnknowns: true, maxSteps: true, maxSeconds: true,

@@ -12,25 +12,25 @@
  *   - the estimator costs one application of B, K_Y and Bᵀ on Λ̲ (no preconditioner on Λ̲).
  */
 import { InvalidArgumentError, RunInterruptedError, SolverBreakdownError } from '../errors';
-import { BYTES_PER_SYSTEM_UNKNOWN, memoryBudget } from '../validation/index';
+import { memoryBudget } from '../validation/index';
 import { DoubleTree } from '../spacetime/double-tree';
-import { shortestDiffusionTime } from '../space/diffusion-time';
 import { FibrePool } from '../spacetime/fibre-pool';
-import { MAX_TEMPORAL_LEVEL } from '../time/index';
 import { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import { SpaceTimeSolution } from '../spacetime/space-time-solution';
 import type { HeatProblem } from '../system/heat-problem';
-import { FibreInverseCache, type InnerSolver } from '../system/fibre-inverse';
+import { FibreInverseCache } from '../system/fibre-inverse';
 import { SpaceTimeSystem, type SpatialCaches } from '../system/space-time-system';
 import type { PcgResult } from '../system/pcg';
-import { validateAdaptiveOptions } from './adaptive-options';
+import { validateAdaptiveOptions, type AdaptiveOptions, type AdaptiveProgress, type AdaptiveResult, type AdaptiveStep } from './adaptive-options';
 import { dorflerMark } from './dorfler';
 import { spatialCandidates } from './candidate-kinds';
-import { enlargeDoubleTree, type EnlargementOptions } from './enlargement';
+import { enlargeDoubleTree } from './enlargement';
 import { embeddingMap, prolongCoefficients } from './embedding';
 import { estimateResidual } from './estimator';
 import { refineDoubleTree } from './refine';
-import { decodeCheckpoint, encodeCheckpoint, type AdaptiveCheckpointInfo } from './checkpoint';
+import { decodeCheckpoint, encodeCheckpoint } from './checkpoint';
+import { DEEPEST_SET_LEVEL, defaultInitialSet } from './initial-set';
+import { adaptiveStepBytes } from './step-memory';
 
 /**
  * Delay d of the S-energy error estimate in the nested solves (docs/adaptivity.md §4). With the
@@ -61,182 +61,6 @@ const RISE_TIGHTENING = 10;
 const RISE_CHECKS = 2;
 /** A second check is made only if the first lowered E by more than 1 %. */
 const RISE_MOVED = 0.99;
-/**
- * Deepest temporal level a set of the loop may hold; its enlarged set reaches one level more
- * (docs/adaptivity.md §6). With κT/L² = 10¹⁴ E rose by 30 % on the first set at level 51, and the
- * rise survived the rise check (it is not the solve's); at MAX_TEMPORAL_LEVEL the enlarged set
- * would have no finer temporal candidates. Up to level 50 both that run and u0 ≡ 1 on (0, 1),
- * T = 0.5, showed no rise that survived the check (err/E 1.02–1.07 on level 50; the rises of E
- * measured there before the checks were the algebraic error's).
- */
-const DEEPEST_SET_LEVEL = MAX_TEMPORAL_LEVEL - 2;
-
-/**
- * Peak bytes per unknown of the enlarged set Λ̲ while the estimator works on it (Λ̲ with its test
- * set and the vectors of B, K_Y and Bᵀ). Measured once: the 2D L-shape run with u0 ≡ 1 up to
- * #Λ = 88,608, #Λ̲ = 444,742 grew the resident set by 356 MB, i.e. ≈ 680 B per Λ̲ unknown after
- * 800 B per Λ unknown for the system (Node 20, machine shared with other work, rough); rounded up.
- */
-export const BYTES_PER_ENLARGED_UNKNOWN = 1000;
-
-/**
- * The same for d = 2, measured after the compact V-cycle hierarchies and shared scratch
- * (docs/adaptivity.md §5): the whole process's peak, less 80 MB for Node itself, was 301 B per Λ̲
- * unknown on the unit-square reference run at #Λ = 1.07·10⁶ (#Λ̲ = 5.28·10⁶) and 317 B on the
- * L-shaped domain (u0 ≡ 1, T = 1) at #Λ = 3.6·10⁵; rounded up to 400 (with the 800 B per Λ
- * unknown of the system term, the estimate is 1.8× the reference run's peak). In d = 1 the
- * measured 790–825 B per Λ̲ unknown (204 379 unknowns, #Λ̲ ≈ 2.9 #Λ) keep the old figure.
- */
-export const BYTES_PER_ENLARGED_UNKNOWN_2D = 400;
-
-/**
- * Estimated peak memory in bytes of an adaptive step on `unknowns` = #Λ whose enlarged set has
- * `enlargedUnknowns` = #Λ̲, in space dimension `dim`: the system on Λ with its solve (800 B per
- * unknown, the figure the space-time system's own check uses) and the estimator on Λ̲ (1000 B per
- * unknown in d = 1, 400 B in d = 2; both measured with margin). `solveAdaptive` stops with reason
- * `'memory'` before a step whose estimate exceeds the memory budget.
- *
- * @example
- * ```ts
- * import { adaptiveStepBytes } from 'chronomesh';
- * console.log(adaptiveStepBytes(1e5, 5e5) / 1024 ** 3 < 2); // → true — a 1e5-unknown step with #Λ̲ = 5e5 fits in 2 GiB
- * console.log(adaptiveStepBytes(1e6, 5e6, 2) / 1024 ** 3 < 3); // → true — d = 2, 1e6 unknowns: under 3 GiB
- * ```
- */
-export function adaptiveStepBytes(unknowns: number, enlargedUnknowns: number, dim: 1 | 2 = 1): number {
-  const perEnlarged = dim === 2 ? BYTES_PER_ENLARGED_UNKNOWN_2D : BYTES_PER_ENLARGED_UNKNOWN;
-  return unknowns * BYTES_PER_SYSTEM_UNKNOWN + enlargedUnknowns * perEnlarged;
-}
-
-/** One pass of the adaptive loop, as recorded in the history. */
-export interface AdaptiveStep {
-  step: number;
-  /** #Λ of the solve in this step. */
-  unknowns: number;
-  /** Estimator E of this step's solution. */
-  estimate: number;
-  /** PCG iterations of this step (all resumptions included). */
-  pcgIterations: number;
-  /** Estimated S-energy norm of the algebraic error of the solution (≤ `solverFraction`·E). */
-  algebraicError: number;
-  /**
-   * Tighter re-solves of this step because E came out above the previous step's (0 on most steps;
-   * at most 2). A rise that persists after them is genuine, not the solve's (docs/adaptivity.md §4).
-   */
-  riseChecks: number;
-  /** Deepest temporal level in Λ. */
-  maxTimeLevel: number;
-  /** Deepest spatial vertex generation in Λ. */
-  maxSpaceGeneration: number;
-  /** Number of distinct spatial vertices used by Λ (the union of its fibres). */
-  spatialVertices: number;
-  /** #Λ̲, the size of the enlarged set the estimator worked on. */
-  enlargedUnknowns: number;
-  /** Number of pairs marked for refinement (0 in the last step). */
-  marked: number;
-  /** Wall time of this step (setup + solve + estimate + refine), seconds. */
-  seconds: number;
-  /** The same wall time split into its phases, seconds. */
-  timings: { setup: number; solve: number; estimate: number; refine: number };
-}
-
-/** Progress of a running adaptive solve, passed to {@link AdaptiveOptions.onProgress}. */
-export interface AdaptiveProgress {
-  step: number;
-  phase: 'setup' | 'solve' | 'estimate' | 'refine';
-  unknowns: number;
-  /** PCG iteration within the step (solve phase only; 0 otherwise). */
-  iteration: number;
-  /** Seconds since the run started. */
-  elapsed: number;
-}
-
-/** Options of {@link solveAdaptive}. */
-export interface AdaptiveOptions {
-  /**
-   * Dörfler bulk parameter θ ∈ (0,1) (default {@link defaultBulk}: 0.5 in 1D, 0.7 in 2D — the
-   * values that reached a given estimate in the least CPU time on the reference runs,
-   * docs/adaptivity.md §7).
-   */
-  theta?: number;
-  /** Stop when E ≤ tolerance (default 0: run until another limit). */
-  tolerance?: number;
-  /** Stop before a step whose Λ would exceed this many unknowns (default 2e5). */
-  maxUnknowns?: number;
-  /** Maximum number of steps (default 40). */
-  maxSteps?: number;
-  /**
-   * Wall-time budget in seconds (default ∞), checked at every phase and PCG iteration; the step in
-   * progress when it runs out is discarded. The first step always completes.
-   */
-  maxSeconds?: number;
-  /**
-   * Starting index set (default: the sparse grid of level 1, or a finer one if that is empty,
-   * graded toward t = 0 down to the shortest diffusion time h²/κ of the initial mesh so that the
-   * estimator sees the initial layer over long horizons; docs/adaptivity.md §2).
-   */
-  initialSet?: DoubleTree;
-  /** PCG runs until its estimated S-energy error is at most this fraction of E (default 0.1). */
-  solverFraction?: number;
-  /** Spatial inner solver for K_Y, K_X. */
-  inner?: InnerSolver;
-  /**
-   * Dörfler marking separately among the spatial and among the temporal candidates (each with bulk
-   * θ), instead of once over all candidates (default false).
-   */
-  markSeparately?: boolean;
-  /** How the candidate set Λ̲ is built (default: h halves in the spatial candidates). */
-  enlargement?: EnlargementOptions;
-  /** Called after every step; return `false` to stop (stop reason `'callback'`). */
-  onStep?: (step: AdaptiveStep, solution: SpaceTimeSolution) => boolean | void;
-  /** Called at every phase change and PCG iteration (progress bars, logs). Keep it cheap. */
-  onProgress?: (progress: AdaptiveProgress) => void;
-  /**
-   * Cancels the run: checked at every phase and PCG iteration. The run then returns the last
-   * completed step's result with stop reason `'aborted'` (the step in progress is discarded, never
-   * half-applied). The loop is synchronous, so abort from a callback (`onProgress`, `onStep`) or use
-   * {@link solveAdaptiveAsync}, which lets timers and other events run between steps.
-   */
-  signal?: AbortSignal;
-  /**
-   * Called after every completed step with a checkpoint of the run (bytes in the solution-file
-   * format, docs/solution-files.md): the step's solution, the set of the next step and the history.
-   * Store it (e.g. `checkpointToFile(path)` of `chronomesh/files` writes it atomically) and pass it
-   * as `resume` to continue the run later. With this option the set of the next step is also built
-   * after the last step, so that a finished run can be continued with larger limits.
-   */
-  checkpoint?: (bytes: Uint8Array, info: AdaptiveCheckpointInfo) => void;
-  /**
-   * Continue the run saved in this checkpoint (bytes from the `checkpoint` option) instead of
-   * starting anew: the problem must be the same (checked by its fingerprint) and its domain built
-   * like the saved one and not refined since (the saved bisections are replayed into it). The
-   * history starts with the saved steps and the next step is the saved step + 1; `maxSteps`
-   * counts all steps, `maxSeconds` this process's time. Not together with `initialSet`. A
-   * checkpoint of a run that could not continue (E = 0) returns its saved result at once.
-   */
-  resume?: Uint8Array;
-}
-
-/** Result of {@link solveAdaptive}. */
-export interface AdaptiveResult {
-  solution: SpaceTimeSolution;
-  set: DoubleTree;
-  history: AdaptiveStep[];
-  /**
-   * Why the loop stopped: `'tolerance'` (E ≤ tolerance), `'unknowns'` (the next set would exceed
-   * maxUnknowns), `'steps'` (maxSteps), `'time'` (maxSeconds; the step in progress is discarded),
-   * `'callback'` (onStep returned false), `'aborted'` (the signal fired; the step in progress is
-   * discarded) or `'memory'` (the next step's estimated memory — the system on Λ and the estimator
-   * on Λ̲, see {@link adaptiveStepBytes}, with #Λ̲ extrapolated from this step's ratio #Λ̲/#Λ —
-   * would exceed the memory budget, see {@link setMemoryBudget}; the last completed step is returned)
-   * or `'resolution'` (the next set would go below temporal level 50, i.e. need time scales under
-   * T·2⁻⁵⁰: on a set at level 51 the estimate was measured to rise while the true error fell, and
-   * at MAX_TEMPORAL_LEVEL = 52 it would have no finer temporal candidates; the last completed
-   * step, whose estimate is trustworthy, is returned — docs/adaptivity.md §6).
-   */
-  stopReason: 'tolerance' | 'unknowns' | 'steps' | 'time' | 'callback' | 'aborted' | 'memory' | 'resolution';
-}
-
 class Interrupted {
   constructor(readonly reason: 'aborted' | 'time') {}
 }
@@ -275,48 +99,6 @@ function validate(opts: AdaptiveOptions, problem: HeatProblem): Validated {
  */
 export function defaultBulk(dim: number): number {
   return dim === 1 ? 0.5 : 0.7;
-}
-
-/** The smallest sparse grid with at least one unknown (level 1 unless the mesh is very coarse). */
-function defaultInitialSet(problem: HeatProblem): DoubleTree {
-  for (let L = 1; ; L++) {
-    const set = DoubleTree.sparseGrid(problem.domain, L);
-    if (set.size > 0 || L >= 8) return gradedTowardsStart(problem, set);
-  }
-}
-
-/**
- * `set` with its leftmost temporal node repeated on every level down to the shortest diffusion
- * time τ of the initial mesh (level ⌈log2(T/τ)⌉, at most DEEPEST_SET_LEVEL), with the fibre of
- * the deepest leftmost node that has one (docs/adaptivity.md §2). Without it a horizon of many
- * diffusion times leaves the layer of data that start off the boundary values far below the set's
- * levels, and the estimator, whose candidates reach one level deeper, cannot see it: u0 ≡ 1 on (0, 1) in 2 cells with κT = 10⁴
- * gave E = 6.8·10⁻³ for a true error of 0.71 at the first step, and the run needed 13 steps of
- * growing E to reach the layer. A set already that deep, or T of a few diffusion times, is
- * returned as it is.
- */
-function gradedTowardsStart(problem: HeatProblem, set: DoubleTree): DoubleTree {
-  const { tree } = set;
-  const deepest = Math.min(DEEPEST_SET_LEVEL, Math.ceil(Math.log2(problem.T / shortestDiffusionTime(problem.domain))));
-  if (!(deepest > tree.maxLevel)) return set;
-  const levels: number[] = [];
-  const indices: number[] = [];
-  const sets: Int32Array[] = [];
-  for (let i = 0; i < tree.size; i++) {
-    levels.push(tree.level[i]!);
-    indices.push(tree.index[i]!);
-    sets.push(set.fibre(i));
-  }
-  // The deepest non-empty leftmost fibre (on the coarsest meshes the finest levels of a sparse
-  // grid may have none, and a node without unknowns gets no temporal candidates).
-  let leftmost = set.fibre(tree.find(tree.maxLevel, 0));
-  for (let l = tree.maxLevel - 1; l >= 0 && leftmost.length === 0; l--) leftmost = set.fibre(tree.find(l, 0));
-  for (let l = tree.maxLevel + 1; l <= deepest; l++) {
-    levels.push(l);
-    indices.push(0);
-    sets.push(leftmost);
-  }
-  return DoubleTree.fromNodeSets(problem.domain, levels, indices, sets, { close: true, pool: set.pool });
 }
 
 function spatialStats(set: DoubleTree, domain: HeatProblem['domain']): { vertices: number; maxGeneration: number } {

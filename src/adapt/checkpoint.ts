@@ -12,7 +12,7 @@ import type { SpaceTimeSolution } from '../spacetime/space-time-solution';
 import type { HeatProblem } from '../system/heat-problem';
 import { problemFingerprint } from '../system/problem-fingerprint';
 import { encodeSolutionFile, readSet, readSolutionFile } from '../output/solution-file';
-import type { AdaptiveResult, AdaptiveStep } from './adaptive-solver';
+import type { AdaptiveResult, AdaptiveStep } from './adaptive-options';
 
 /** Passed with each checkpoint to {@link AdaptiveOptions.checkpoint}. */
 export interface AdaptiveCheckpointInfo {

@@ -2,13 +2,10 @@
 export {
   solveAdaptive,
   solveAdaptiveAsync,
-  adaptiveStepBytes,
   defaultBulk,
-  type AdaptiveOptions,
-  type AdaptiveProgress,
-  type AdaptiveResult,
-  type AdaptiveStep,
 } from './adaptive-solver';
+export type { AdaptiveOptions, AdaptiveProgress, AdaptiveResult, AdaptiveStep } from './adaptive-options';
+export { adaptiveStepBytes } from './step-memory';
 export { enlargeDoubleTree, type EnlargementOptions } from './enlargement';
 export { estimateResidual, residualIndicators, type ResidualIndicators } from './estimator';
 export { dorflerMark } from './dorfler';
