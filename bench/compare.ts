@@ -139,7 +139,7 @@ function domainFor(dim: 1 | 2): SpatialDomain {
  * 1.5–1.7 E on this problem at these sizes, docs/adaptivity.md §7): its cost grows faster than the
  * solve's.
  */
-function adaptiveRuns(dim: 1 | 2, quick: boolean, exact: HeatExact, targets: number[]): Run[] {
+export function adaptiveRuns(dim: 1 | 2, quick: boolean, exact: HeatExact, targets: number[]): Run[] {
   const runs: Run[] = [];
   // In 2D the run goes on to about 2.5·10⁶ unknowns (≈ 10 GB), where its true error passes 0.02;
   // the library's default budget (half the machine, with a conservative estimate) would stop it

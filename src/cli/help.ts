@@ -81,7 +81,9 @@ problem file fields (JSON object):
 expressions: numbers, t x y, pi e, + − * / ^ ( ), < <= > >= == !=, && || !,
   a ? b : c, sin cos tan exp log sqrt abs min max atan2 pow.
 
-exit status: 0 done, 2 bad input (one line on stderr), 1 other failure.
+exit status: 0 done, 3 done but the tolerance was not reached (the results are
+  written; a warning on stderr gives the estimator; --json has "toleranceReached"),
+  2 bad input (one line on stderr), 1 other failure.
 
 ${CAUTION}`;
 

@@ -1,7 +1,8 @@
 #!/usr/bin/env node
 /**
  * The `chronomesh` command line: `solve`, `bench`, `demo`, `--version`, `--help`.
- * Input errors exit with status 2 and one line on stderr (a stack trace only with --debug);
+ * Input errors exit with status 2 and one line on stderr (a stack trace only with --debug); a solve
+ * that stops before reaching its file's tolerance exits with status 3 after writing its results;
  * other failures exit with status 1.
  */
 import { ChronomeshError } from '../index';

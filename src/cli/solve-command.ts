@@ -24,8 +24,16 @@ export interface SolveFileOptions {
   progress?: (line: string) => void;
 }
 
-/** Reads, validates, solves and reports one problem file. Input errors throw {@link CliError}. */
-export function solveFile(file: string, opts: SolveFileOptions = {}): { run: RunResult; written: string[] } {
+/** Exit status of a run that finished but did not reach the tolerance its file asked for. */
+export const TOLERANCE_NOT_REACHED = 3;
+
+/**
+ * Reads, validates, solves and reports one problem file. Input errors throw {@link CliError}.
+ * `toleranceReached` is null when the file asks for no tolerance (0), else whether the last
+ * estimator is within it; a miss is also reported on the progress stream, never only implied by
+ * the stop reason.
+ */
+export function solveFile(file: string, opts: SolveFileOptions = {}): { run: RunResult; written: string[]; toleranceReached: boolean | null } {
   const log = opts.log ?? ((l: string) => process.stdout.write(l + '\n'));
   const progress = opts.progress ?? ((l: string) => process.stderr.write(l + '\n'));
   let text: string;
@@ -81,16 +89,24 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     throw e;
   }
   const written = opts.out !== undefined ? writeOutputs(opts.out, built.spec, run) : [];
+  const last = run.steps[run.steps.length - 1]!;
+  const tolerance = built.spec.tolerance;
+  const toleranceReached = tolerance > 0 ? last.estimate <= tolerance : null;
+  if (toleranceReached === false) {
+    progress(
+      `warning: tolerance ${tolerance} not reached: the estimator is ${last.estimate.toExponential(3)} at ${last.dofs} unknowns, ` +
+        `where the run stopped by ${run.stopReason}; raise maxDofs / maxSeconds / maxSteps or loosen the tolerance (exit status ${TOLERANCE_NOT_REACHED})`,
+    );
+  }
   if (opts.json) {
-    log(JSON.stringify({ steps: run.steps, probes: run.probes, rate: run.rate }));
+    log(JSON.stringify({ steps: run.steps, probes: run.probes, rate: run.rate, stopReason: run.stopReason, tolerance, toleranceReached }));
   } else {
-    const last = run.steps[run.steps.length - 1]!;
     log(`${built.spec.title ?? file}: ${run.steps.length} steps (${built.spec.strategy}), stopped by ${run.stopReason}`);
     log(`last step: ${last.dofs} unknowns, estimator ${last.estimate.toExponential(3)}; observed rate ${run.rate === null ? 'n/a' : run.rate.toFixed(2)}`);
     for (const p of run.probes) log(`u(t = ${p.t}, x = ${p.x}${p.y === null ? '' : `, y = ${p.y}`}) = ${p.value.toPrecision(6)}`);
     if (written.length > 0) log(`wrote ${written.length} files into ${opts.out}`);
   }
-  return { run, written };
+  return { run, written, toleranceReached };
 }
 
 /** The `solve` subcommand; returns the exit status. */
@@ -104,12 +120,12 @@ export function solveCommand(argv: string[]): number {
     return 0;
   }
   if (positionals.length !== 1) throw new CliError(`solve: expected one problem file, found ${positionals.length} (see \`chronomesh solve --help\`)`);
-  solveFile(positionals[0]!, {
+  const { toleranceReached } = solveFile(positionals[0]!, {
     json: values.json === true,
     quiet: values.quiet === true,
     ...(typeof values.out === 'string' ? { out: values.out } : {}),
     ...(typeof values.checkpoint === 'string' ? { checkpoint: values.checkpoint } : {}),
     ...(typeof values.resume === 'string' ? { resume: values.resume } : {}),
   });
-  return 0;
+  return toleranceReached === false ? TOLERANCE_NOT_REACHED : 0;
 }

@@ -30,7 +30,7 @@ describe('chronomesh solve', () => {
     const lines = r.stdout.trimEnd().split('\n');
     expect(lines.length).toBe(1);
     const doc = JSON.parse(lines[0]!) as { steps: { dofs: number; estimate: number; iterations: number; riseChecks: number; seconds: number }[]; probes: { t: number; x: number; y: number | null; value: number }[]; rate: number };
-    expect(Object.keys(doc)).toEqual(['steps', 'probes', 'rate']);
+    expect(Object.keys(doc)).toEqual(['steps', 'probes', 'rate', 'stopReason', 'tolerance', 'toleranceReached']);
     expect(doc.steps.length).toBeGreaterThan(3);
     for (const s of doc.steps) expect(Object.keys(s)).toEqual(['dofs', 'estimate', 'iterations', 'riseChecks', 'seconds']);
     expect(doc.steps[doc.steps.length - 1]!.dofs).toBeLessThanOrEqual(3000);
@@ -99,4 +99,43 @@ describe('chronomesh --version and --help', () => {
     expect(rows.map((x) => x.component)).toEqual(['expr.source-gaussian', 'expr.source-moving', 'expr.coefficient-layers']);
     for (const x of rows) expect(x.nsPerUnit).toBeGreaterThan(0);
   }, 120000);
+});
+
+describe('chronomesh solve with a tolerance', () => {
+  // u0 ≡ 1 on (0, 1) with u = 0 at both ends: the estimator starts near 0.3 and falls slowly, so a
+  // tolerance of 1e-4 is out of reach of 400 unknowns, and 0.2 is reached within them.
+  const file = (name: string, tolerance: number) => {
+    const f = join(dir, name);
+    writeFileSync(f, JSON.stringify({ domain: { shape: 'interval', from: 0, to: 1, cells: 2 }, horizon: 1, initial: '1', maxDofs: 400, tolerance }));
+    return f;
+  };
+  const missed = runCli(['solve', file('tight.json', 1e-4), '--json']);
+  const missedHuman = runCli(['solve', file('tight2.json', 1e-4)]);
+  const met = runCli(['solve', file('loose.json', 0.2), '--json']);
+
+  it('a tolerance out of budget exits with status 3, says so on stderr and in the JSON', async () => {
+    const r = await missed;
+    expect(r.status, r.stderr).toBe(3);
+    const doc = JSON.parse(r.stdout) as { steps: { dofs: number; estimate: number }[]; stopReason: string; tolerance: number; toleranceReached: boolean };
+    expect(doc.toleranceReached).toBe(false);
+    expect(doc.tolerance).toBe(1e-4);
+    expect(doc.stopReason).toBe('unknowns');
+    const last = doc.steps[doc.steps.length - 1]!;
+    expect(last.estimate).toBeGreaterThan(1e-4);
+    expect(r.stderr).toMatch(/warning: tolerance 0\.0001 not reached: the estimator is \d\.\d{3}e-\d+ at \d+ unknowns, where the run stopped by unknowns/);
+    const h = await missedHuman;
+    expect(h.status).toBe(3);
+    expect(h.stdout).toMatch(/stopped by unknowns/);
+    expect(h.stderr).toMatch(/warning: tolerance 0\.0001 not reached/);
+  });
+
+  it('a tolerance reached exits with 0 and no warning', async () => {
+    const r = await met;
+    expect(r.status, r.stderr).toBe(0);
+    const doc = JSON.parse(r.stdout) as { steps: { estimate: number }[]; stopReason: string; toleranceReached: boolean };
+    expect(doc.toleranceReached).toBe(true);
+    expect(doc.stopReason).toBe('tolerance');
+    expect(doc.steps[doc.steps.length - 1]!.estimate).toBeLessThanOrEqual(0.2);
+    expect(r.stderr).not.toMatch(/warning/);
+  });
 });
