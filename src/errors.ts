@@ -184,6 +184,41 @@ export class NotConvergedError extends ConvergenceError {
   }
 }
 
+/**
+ * A solve asked for an accuracy (`tolerance` on the estimator) and a budget (unknowns, steps,
+ * seconds, memory, or the deepest temporal resolution) stopped it first: the answer it has is
+ * *not* as accurate as requested. `estimate` is the estimator reached, `tolerance` the one asked
+ * for, `stopReason` what stopped the run; `result` carries the run's result, so the work is not
+ * lost (for `solve`, a `SolveResult`). `field` is `tolerance`.
+ *
+ * @example
+ * ```ts
+ * import { HeatProblem, ToleranceNotReachedError, intervalDomain, solve, type SolveResult } from 'chronomesh';
+ * const problem = new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 1, initial: () => 1 });
+ * try { solve(problem, { tolerance: 1e-6, maxUnknowns: 300 }); }
+ * catch (e) {
+ *   if (e instanceof ToleranceNotReachedError) console.log(e.stopReason, e.estimate > e.tolerance, (e.result as SolveResult).set.size <= 300); // → unknowns true true
+ * }
+ * ```
+ */
+export class ToleranceNotReachedError<R = unknown> extends ChronomeshError {
+  /** The estimator the run reached. */
+  readonly estimate: number;
+  /** The tolerance that was asked for. */
+  readonly tolerance: number;
+  /** What stopped the run (a budget, e.g. `'unknowns'`, `'time'`, `'memory'`). */
+  readonly stopReason: string;
+  /** The run's result as it stands (the last completed step). */
+  readonly result: R;
+  constructor(message: string, estimate: number, tolerance: number, stopReason: string, result: R) {
+    super('tolerance-not-reached', message, { field: 'tolerance', expected: `estimator ≤ ${tolerance}`, received: estimate });
+    this.estimate = estimate;
+    this.tolerance = tolerance;
+    this.stopReason = stopReason;
+    this.result = result;
+  }
+}
+
 /** What is wrong with a file refused by {@link CorruptFileError}. */
 export type FileProblem = 'foreign' | 'truncated' | 'checksum' | 'version' | 'malformed' | 'mismatch';
 

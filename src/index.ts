@@ -16,6 +16,7 @@ export {
   SolverBreakdownError,
   NotConvergedError,
   ResourceLimitError,
+  ToleranceNotReachedError,
   type ErrorDetails,
 } from './errors';
 

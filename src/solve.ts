@@ -5,9 +5,9 @@
  * of failing somewhere inside.
  */
 import { typed } from './vendor/typed-function';
-import { InvalidArgumentError } from './errors';
+import { InvalidArgumentError, ToleranceNotReachedError } from './errors';
 import { solveAdaptive } from './adapt/adaptive-solver';
-import type { AdaptiveOptions, AdaptiveStep } from './adapt/adaptive-options';
+import type { AdaptiveOptions, AdaptiveResult, AdaptiveStep } from './adapt/adaptive-options';
 import { SpaceTimeSolution } from './spacetime/space-time-solution';
 import { validateAdaptiveOptions } from './adapt/adaptive-options';
 import { DoubleTree, sparseGridUnknownEstimate } from './spacetime/double-tree';
@@ -25,13 +25,15 @@ export interface SolveResult {
   pcg: PcgResult | null;
   /** The adaptive history; null for a fixed index set. */
   history: AdaptiveStep[] | null;
+  /** Why the adaptive run stopped (see `AdaptiveResult.stopReason`); null for a fixed index set. */
+  stopReason: AdaptiveResult['stopReason'] | null;
 }
 
 function onSet(problem: HeatProblem, set: DoubleTree): SolveResult {
   checkSetOnDomain(set, problem.domain, 'how');
   checkMemory(set.size * BYTES_PER_SYSTEM_UNKNOWN, `the space-time system on ${set.size} unknowns`, 'how', 'choose a smaller index set');
   const { solution, pcg } = new SpaceTimeSystem(problem, set).solve({ relTol: 1e-8 });
-  return { solution, set, pcg, history: null };
+  return { solution, set, pcg, history: null, stopReason: null };
 }
 
 function onLevel(problem: HeatProblem, level: number): SolveResult {
@@ -44,7 +46,22 @@ function onLevel(problem: HeatProblem, level: number): SolveResult {
 function adaptive(problem: HeatProblem, opts: AdaptiveOptions): SolveResult {
   validateAdaptiveOptions(opts, problem, 'how');
   const r = solveAdaptive(problem, opts);
-  return { solution: r.solution, set: r.set, pcg: null, history: r.history };
+  const result: SolveResult = { solution: r.solution, set: r.set, pcg: null, history: r.history, stopReason: r.stopReason };
+  // A tolerance asked for and a budget that stopped the run first: not the answer requested.
+  // (A run the caller stopped, by its signal or its onStep callback, returns as it is.)
+  const tolerance = opts.tolerance ?? 0;
+  const estimate = r.history[r.history.length - 1]!.estimate;
+  if (tolerance > 0 && !(estimate <= tolerance) && r.stopReason !== 'aborted' && r.stopReason !== 'callback') {
+    throw new ToleranceNotReachedError(
+      `solve: the estimator is ${estimate.toExponential(3)} at ${r.set.size} unknowns, above the tolerance ${tolerance}, when the run stopped by '${r.stopReason}'; ` +
+        'raise that budget (maxUnknowns, maxSteps, maxSeconds, setMemoryBudget) or loosen the tolerance; the result so far is in error.result (solveAdaptive returns it instead of throwing)',
+      estimate,
+      tolerance,
+      r.stopReason,
+      result,
+    );
+  }
+  return result;
 }
 
 type Dispatch = (...args: unknown[]) => SolveResult;
@@ -75,6 +92,11 @@ function dispatch(): Dispatch {
  * - `solve(problem)` / `solve(problem, options)`: adaptively (see {@link solveAdaptive});
  * - `solve(problem, L)`: on the sparse grid of level L;
  * - `solve(problem, set)`: on the given trial double tree.
+ *
+ * With a `tolerance` in the options, a run that a budget stops before its estimator reaches the
+ * tolerance throws {@link ToleranceNotReachedError}, which carries the result so far
+ * (`solveAdaptive` returns it with its `stopReason` instead). Without one, the run goes until a
+ * budget stops it, and `stopReason` says which.
  *
  * @example
  * ```ts

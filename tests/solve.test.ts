@@ -1,6 +1,6 @@
 /** The friendly `solve` entry point dispatches by argument type and reports wrong arguments. */
 import { describe, expect, it } from 'vitest';
-import { DoubleTree, HeatProblem, InvalidArgumentError, intervalDomain, solve } from '../src/index';
+import { DoubleTree, HeatProblem, InvalidArgumentError, ToleranceNotReachedError, intervalDomain, solve, solveAdaptive, type SolveResult } from '../src/index';
 
 describe('solve()', () => {
   const domain = intervalDomain(0, 1, 2);
@@ -19,5 +19,42 @@ describe('solve()', () => {
   it('rejects wrong arguments with a typed error', () => {
     expect(() => solve({} as never)).toThrow(InvalidArgumentError);
     expect(() => solve(problem, 'six' as never)).toThrow(/argument 2 should be a sparse-grid level/);
+  });
+  it('reports why an adaptive run stopped; a fixed set has no stop reason', () => {
+    expect(solve(problem, 4).stopReason).toBeNull();
+    expect(solve(problem, { maxUnknowns: 300 }).stopReason).toBe('unknowns');
+    const met = solve(problem, { tolerance: 0.05 });
+    expect(met.stopReason).toBe('tolerance');
+    expect(met.history!.at(-1)!.estimate).toBeLessThanOrEqual(0.05);
+  });
+  it('a tolerance a budget keeps out of reach is a typed error that carries the result', () => {
+    let caught: unknown;
+    try {
+      solve(problem, { tolerance: 1e-6, maxUnknowns: 300 });
+    } catch (e) {
+      caught = e;
+    }
+    expect(caught).toBeInstanceOf(ToleranceNotReachedError);
+    const e = caught as ToleranceNotReachedError<SolveResult>;
+    expect(e.code).toBe('tolerance-not-reached');
+    expect(e.field).toBe('tolerance');
+    expect(e.stopReason).toBe('unknowns');
+    expect(e.tolerance).toBe(1e-6);
+    expect(e.estimate).toBeGreaterThan(1e-6);
+    expect(e.message).toMatch(/above the tolerance 0\.000001, when the run stopped by 'unknowns'/);
+    // The work is not lost: the result is the one solveAdaptive returns for the same options.
+    const direct = solveAdaptive(problem, { tolerance: 1e-6, maxUnknowns: 300 });
+    expect(e.result.stopReason).toBe(direct.stopReason);
+    expect(e.result.set.size).toBe(direct.set.size);
+    expect(e.estimate).toBe(direct.history.at(-1)!.estimate);
+    expect(e.result.solution.evaluate(0.1, [0.5])[0]).toBe(direct.solution.evaluate(0.1, [0.5])[0]);
+    // Other budgets alike.
+    expect(() => solve(problem, { tolerance: 1e-6, maxSteps: 2 })).toThrow(ToleranceNotReachedError);
+  });
+  it('a run the caller stopped returns as it is, tolerance or not', () => {
+    let calls = 0;
+    const r = solve(problem, { tolerance: 1e-6, onStep: () => ++calls < 2 });
+    expect(r.stopReason).toBe('callback');
+    expect(r.history!.length).toBe(2);
   });
 });
