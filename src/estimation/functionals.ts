@@ -34,8 +34,12 @@ export class LeastSquaresFunctional {
   readonly rowCount: number;
   private readonly buf: Float64Array;
 
+  /** @internal The evaluation rows, grouped by time. */
+  readonly slices: readonly EvaluationSlice[];
+
   /** @internal Use the factory functions. */
-  constructor(readonly trialSet: DoubleTree, readonly slices: readonly EvaluationSlice[]) {
+  constructor(readonly trialSet: DoubleTree, slices: readonly EvaluationSlice[]) {
+    this.slices = slices;
     let n = 0;
     let m = 0;
     for (const s of slices) {

@@ -5,6 +5,17 @@
  * from memory of the paper's table), for signed data with white-grey at zero.
  */
 
+/**
+ * Colour map of a slice picture: `'sequential'` (viridis) or `'diverging'` (cool-to-warm, white-grey
+ * at zero, for signed data).
+ *
+ * @example
+ * ```ts
+ * import type { ColorMapName } from 'chronomesh';
+ * const map: ColorMapName = 'diverging';
+ * console.log(map); // → diverging
+ * ```
+ */
 export type ColorMapName = 'sequential' | 'diverging';
 
 const VIRIDIS = ['#440154', '#482878', '#3e4989', '#31688e', '#26828e', '#1f9e89', '#35b779', '#6ece58', '#b5de2b', '#fde725'];

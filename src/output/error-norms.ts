@@ -43,7 +43,17 @@ export interface SpaceTimeErrors {
   exactEvaluations: number;
 }
 
-/** Options of {@link spaceTimeErrors}. */
+/**
+ * Options of {@link spaceTimeErrors}.
+ *
+ * @example
+ * ```ts
+ * import type { SpaceTimeErrorOptions } from 'chronomesh';
+ * // A source switched on at t = 0.25 makes the solution singular there too.
+ * const opts: SpaceTimeErrorOptions = { timePoints: 4, singularTimes: [0.25] };
+ * console.log(opts.singularTimes); // → [ 0.25 ]
+ * ```
+ */
 export interface SpaceTimeErrorOptions {
   /** Gauss points per time interval and per graded panel (default 3, at most 20). */
   timePoints?: number;

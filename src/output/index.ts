@@ -1,5 +1,6 @@
 /** Public exports of the output module (re-exported by src/index.ts). */
-export { spaceTimeErrors, type KnownSolution, type SpaceTimeErrors } from './error-norms';
+export { spaceTimeErrors, type KnownSolution, type SpaceTimeErrors, type SpaceTimeErrorOptions } from './error-norms';
+export type { ColorMapName } from './colormap';
 export { sliceToVtu, vtkCollection } from './vtk';
 export { spatialIntegral, regionIntegral, probeTableCsv } from './probes';
 export { convergencePlotSvg, type PlotSeries, type PlotOptions } from './svg-plot';

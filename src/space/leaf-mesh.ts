@@ -33,6 +33,6 @@ export interface LeafMesh {
   readonly kappa: Float64Array;
   /** Reaction coefficient c per initial element. */
   readonly reaction: Float64Array;
-  /** Leaf-element edges on flux / convection parts of the boundary (absent if the domain has none). */
+  /** @internal Leaf-element edges on flux / convection parts of the boundary (absent if the domain has none). */
   readonly boundarySegments?: BoundarySegments;
 }

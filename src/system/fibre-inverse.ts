@@ -20,7 +20,24 @@ export type InnerSolver =
   | { kind: 'multigrid'; cycles?: number }
   | { kind: 'exact' };
 
-/** z[zOff..] ≈ (A + αM)⁻¹ r[rOff..] on one fibre. */
+/**
+ * z[zOff..] ≈ (A + αM)⁻¹ r[rOff..] on one fibre, in hierarchical coordinates: what
+ * {@link FibreInverseCache} builds.
+ *
+ * @example
+ * ```ts
+ * import { DoubleTree, FibreInverseCache, SpatialPlanCache, intervalDomain, type FibreInverse } from 'chronomesh';
+ * const domain = intervalDomain(0, 1, 2);
+ * const set = DoubleTree.sparseGrid(domain, 3);
+ * const plans = new SpatialPlanCache(domain, set.pool);
+ * const id = set.nodeFibre[0]!;
+ * const inv: FibreInverse = new FibreInverseCache(domain, set.pool, plans, { kind: 'exact' }).get(id);
+ * const n = set.pool.get(id).length;
+ * const z = new Float64Array(n);
+ * inv.apply(new Float64Array(n).fill(1), 0, z, 0, 0); // z = A⁻¹ r for r = (1, …, 1); rᵀA⁻¹r > 0
+ * console.log(z.reduce((s, v) => s + v, 0) > 0); // → true
+ * ```
+ */
 export interface FibreInverse {
   apply(r: Float64Array, rOff: number, z: Float64Array, zOff: number, alpha: number): void;
   /** Diagonals of the hierarchical A and M on the fibre, in fibre order (used by the estimator). */

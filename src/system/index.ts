@@ -2,7 +2,7 @@
 export type { LinearOperator } from '../numerics/linear-operator';
 export { HeatProblem, type HeatProblemSpec, type SeparableTerm } from './heat-problem';
 export { SpaceTimeSystem, type SpaceTimeSystemOptions, type SpatialCaches, type SystemSolveOptions } from './space-time-system';
-export { FibreInverseCache, type InnerSolver } from './fibre-inverse';
+export { FibreInverseCache, type InnerSolver, type FibreInverse } from './fibre-inverse';
 export { SchurOperator } from './schur-operator';
 export { TestInnerProductInverse } from './test-inner-product-inverse';
 export { TrialPreconditioner } from './trial-preconditioner';
