@@ -19,7 +19,7 @@ import { totalmem } from 'node:os';
 import { HeatProblem, intervalDomain, rectangleDomain, setMemoryBudget, solveAdaptive, spaceTimeErrors, type SpatialDomain } from '../src/index';
 import { unitInterval, unitSquare, type HeatExact } from '../tests/helpers/heat-exact';
 import { UniformP1, steppingGradientError, timeStep, type SteppingOptions } from './time-stepping';
-import { SeparableGradientError } from './separable-error';
+import { timedSteppingError } from './separable-error';
 
 const T = 0.5;
 
@@ -90,34 +90,13 @@ function finerSteppingRuns(exact: HeatExact, finest: number): Run[] {
   for (const L of [finest + 1]) {
     const h = 2 ** -(L + 1);
     const K = Math.ceil(0.25 / h);
-    const t0 = performance.now();
-    const c0 = cpuNow();
-    const d = new UniformP1(domainFor(2), uniformSetOf(2, L));
-    let excluded = 0;
-    let excludedCpu = 0;
-    const e0 = performance.now();
-    const ec = cpuNow();
-    const evaluator = new SeparableGradientError(d.mesh, exact.factors);
-    excluded += performance.now() - e0;
-    excludedCpu += cpuNow() - ec;
-    let e2 = 0;
-    const r = timeStep(d, T, () => 1, {
+    const { result: r, error, seconds, cpu } = timedSteppingError(() => new UniformP1(domainFor(2), uniformSetOf(2, L)), T, exact.factors, {
       method: 'crank-nicolson',
       steps: K,
       grading: 3,
       damping: 4,
-      keepStates: false,
-      onStep: (_k, a, b, u0, u1) => {
-        const w = performance.now();
-        const c = cpuNow();
-        e2 += evaluator.interval(a, b, u0, u1);
-        excluded += performance.now() - w;
-        excludedCpu += cpuNow() - c;
-      },
     });
-    const seconds = (performance.now() - t0 - excluded) / 1000;
-    const cpu = cpuNow() - c0 - excludedCpu;
-    runs.push({ label: `CN L=${L} K=${K} q=3`, error: Math.sqrt(e2), seconds, cpu, unknowns: r.unknowns });
+    runs.push({ label: `CN L=${L} K=${K} q=3`, error, seconds, cpu, unknowns: r.unknowns });
   }
   return runs;
 }
@@ -139,7 +118,7 @@ function domainFor(dim: 1 | 2): SpatialDomain {
  * 1.5–1.7 E on this problem at these sizes, docs/adaptivity.md §7): its cost grows faster than the
  * solve's.
  */
-export function adaptiveRuns(dim: 1 | 2, quick: boolean, exact: HeatExact, targets: number[]): Run[] {
+function adaptiveRuns(dim: 1 | 2, quick: boolean, exact: HeatExact, targets: number[]): Run[] {
   const runs: Run[] = [];
   // In 2D the run goes on to about 2.5·10⁶ unknowns (≈ 10 GB), where its true error passes 0.02;
   // the library's default budget (half the machine, with a conservative estimate) would stop it

@@ -8,6 +8,7 @@
  * costs about as much as its solve and can be streamed step by step (no stored states).
  */
 import type { LeafMesh } from '../src/space/index';
+import { timeStep, type SteppingOptions, type SteppingResult, type UniformP1 } from './time-stepping';
 import { TRIANGLE_POINTS, TRIANGLE_WEIGHTS } from '../src/space/quadrature';
 import { gaussLegendre01 } from '../src/numerics/gauss-legendre';
 
@@ -34,6 +35,7 @@ export class SeparableGradientError {
   private readonly w: Float64Array;
   private readonly nodes: Float64Array;
   private readonly weights: Float64Array;
+  private readonly out = new Float64Array(2);
 
   constructor(mesh: LeafMesh, factors: ProductFactors, timePoints = 3) {
     if (mesh.dim !== 2) throw new Error('SeparableGradientError: 2D meshes only');
@@ -103,8 +105,7 @@ export class SeparableGradientError {
 
   /** ‖∇(u(t) − w)‖²_{L2(Ω)} for the nodal vector w. */
   slice(w: Float64Array, t: number): number {
-    const out = new Float64Array(2);
-    const { fx, dfx, fy, dfy, xs, ys } = this;
+    const { fx, dfx, fy, dfy, xs, ys, out } = this;
     for (let j = 0; j < xs.length; j++) {
       this.factors.x(t, xs[j]!, out);
       fx[j] = out[0]!;
@@ -139,3 +140,52 @@ export class SeparableGradientError {
     return s;
   }
 }
+
+/** CPU seconds of this process so far (user + system). */
+function cpuNow(): number {
+  const u = process.cpuUsage();
+  return (u.user + u.system) / 1e6;
+}
+
+/**
+ * Sets up the discretisation with `setup`, runs the stepper without keeping states and streams its
+ * error against the product solution. `cpu` / `seconds` are the method's own (setup and steps);
+ * the evaluator's setup and every error interval are timed separately (`errorCpu`).
+ */
+export function timedSteppingError(
+  setup: () => UniformP1,
+  T: number,
+  factors: ProductFactors,
+  opts: SteppingOptions,
+): { result: SteppingResult; error: number; cpu: number; seconds: number; setupCpu: number; errorCpu: number } {
+  const t0 = performance.now();
+  const c0 = cpuNow();
+  const d = setup();
+  const setupCpu = cpuNow() - c0;
+  let excludedCpu = 0;
+  let excludedWall = 0;
+  const excluded = <R>(work: () => R): R => {
+    const c = cpuNow();
+    const w = performance.now();
+    const r = work();
+    excludedCpu += cpuNow() - c;
+    excludedWall += performance.now() - w;
+    return r;
+  };
+  const evaluator = excluded(() => new SeparableGradientError(d.mesh, factors));
+  let e2 = 0;
+  const result = timeStep(d, T, () => 1, {
+    ...opts,
+    keepStates: false,
+    onStep: (_k, a, b, u0, u1) => excluded(() => (e2 += evaluator.interval(a, b, u0, u1))),
+  });
+  return {
+    result,
+    error: Math.sqrt(e2),
+    cpu: cpuNow() - c0 - excludedCpu,
+    seconds: (performance.now() - t0 - excludedWall) / 1000,
+    setupCpu,
+    errorCpu: excludedCpu,
+  };
+}
+

@@ -11,8 +11,8 @@
  */
 import { rectangleDomain } from '../src/index';
 import { unitSquare } from '../tests/helpers/heat-exact';
-import { SeparableGradientError } from './separable-error';
-import { UniformP1, timeStep } from './time-stepping';
+import { timedSteppingError } from './separable-error';
+import { UniformP1 } from './time-stepping';
 
 function option(name: string, fallback?: string): string {
   const i = process.argv.indexOf(`--${name}`);
@@ -31,47 +31,22 @@ if (!Number.isInteger(K) || K < 1) throw new Error(`stepping-run: --steps ${K} m
 if (!(q >= 1 && q <= 4)) throw new Error(`stepping-run: --grading ${q} must be in [1, 4]`);
 if (!Number.isInteger(damping) || damping < 0) throw new Error(`stepping-run: --damping ${damping} must be a non-negative integer`);
 
-const cpuNow = () => {
-  const u = process.cpuUsage();
-  return (u.user + u.system) / 1e6;
-};
 const T = 0.5;
 const domain = rectangleDomain(0, 1, 0, 1, 2, 2);
-const t0 = performance.now();
-const c0 = cpuNow();
-const d = new UniformP1(domain, domain.uniformSet(L));
-const setupCpu = cpuNow() - c0;
-// The error evaluator's own setup is not part of the method's cost.
-const e0 = cpuNow();
-const w0 = performance.now();
-const err = new SeparableGradientError(d.mesh, unitSquare.factors!);
-let excludedCpu = cpuNow() - e0;
-let excludedWall = performance.now() - w0;
-let e2 = 0;
-const r = timeStep(d, T, () => 1, {
+const { result: r, error, cpu, seconds, setupCpu, errorCpu } = timedSteppingError(() => new UniformP1(domain, domain.uniformSet(L)), T, unitSquare.factors!, {
   method,
   steps: K,
   grading: q,
   damping,
-  keepStates: false,
-  onStep: (_k, a, b, u0, u1) => {
-    const c = cpuNow();
-    const w = performance.now();
-    e2 += err.interval(a, b, u0, u1);
-    excludedCpu += cpuNow() - c;
-    excludedWall += performance.now() - w;
-  },
 });
-const cpu = cpuNow() - c0 - excludedCpu;
-const seconds = (performance.now() - t0 - excludedWall) / 1000;
 console.log(
   JSON.stringify({
     label: `${method === 'euler' ? 'IE' : `CN(${damping})`} L=${L} K=${K} q=${q}`,
-    error: Math.sqrt(e2),
+    error,
     cpu,
     seconds,
     setupCpu,
-    errorCpu: excludedCpu,
+    errorCpu,
     iterations: r.iterations,
     spatialUnknowns: r.spatialUnknowns,
     unknowns: r.unknowns,
