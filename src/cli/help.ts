@@ -33,7 +33,9 @@ described by PROBLEM.json.
 
   --json        print exactly one JSON document on stdout:
                 {"steps":[{"dofs","estimate","iterations","riseChecks","seconds"}…],
-                 "probes":[{"t","x","y","value"}…], "rate": r}
+                 "probes":[{"t","x","y","value"}…], "rate": r, "stopReason",
+                 "tolerance", "toleranceReached",
+                 "exactErrors": {"gradientL2","valueL2","ratioToEstimate"} or null}
                 (rate: least-squares slope of −log E against log N over the
                 second half of the steps; y is null in 1D)
   --out DIR     write history (JSON, CSV), probe table (CSV), slices (VTK XML
@@ -77,6 +79,16 @@ problem file fields (JSON object):
   bulk        Dörfler parameter θ in (0, 1) (default 0.5 in 1D, 0.7 in 2D)
   probes      list of [t, x] or [t, x, y]
   slices      list of times to export with --out
+  exact       a known solution u(t, x, y) to verify against (for instance a
+              manufactured one, with the source computed from it): checked
+              before the run against the equation (κ and c constant per initial
+              element, as solved), the initial state and every boundary
+              condition at sample points (exact derivatives; a mismatch is an
+              input error naming the condition and the point), then the
+              run reports its true error in L2(0,T;H1) and L2(0,T;L2) and the
+              ratio to the estimator. Prescribed values are interpolated
+              linearly along initial edges: pick a solution whose boundary
+              values are affine there, or the error stalls at that data error
   title, description   free text
 expressions: numbers, t x y, pi e, + − * / ^ ( ), < <= > >= == !=, && || !,
   a ? b : c, sin cos tan exp log sqrt abs min max atan2 pow.

@@ -99,10 +99,15 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     );
   }
   if (opts.json) {
-    log(JSON.stringify({ steps: run.steps, probes: run.probes, rate: run.rate, stopReason: run.stopReason, tolerance, toleranceReached }));
+    log(JSON.stringify({ steps: run.steps, probes: run.probes, rate: run.rate, stopReason: run.stopReason, tolerance, toleranceReached, exactErrors: run.exactErrors }));
   } else {
     log(`${built.spec.title ?? file}: ${run.steps.length} steps (${built.spec.strategy}), stopped by ${run.stopReason}`);
     log(`last step: ${last.dofs} unknowns, estimator ${last.estimate.toExponential(3)}; observed rate ${run.rate === null ? 'n/a' : run.rate.toFixed(2)}`);
+    const ex = run.exactErrors;
+    if (ex) {
+      log(`true error against the file's exact solution: ${ex.gradientL2.toExponential(3)} in L2(0,T;H1), ${ex.valueL2.toExponential(3)} in L2(0,T;L2); ` +
+        `${ex.ratioToEstimate.toFixed(2)} × the estimator`);
+    }
     for (const p of run.probes) log(`u(t = ${p.t}, x = ${p.x}${p.y === null ? '' : `, y = ${p.y}`}) = ${p.value.toPrecision(6)}`);
     if (written.length > 0) log(`wrote ${written.length} files into ${opts.out}`);
   }

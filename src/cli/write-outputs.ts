@@ -35,7 +35,7 @@ export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): st
     writeFileSync(join(dir, name), text);
     written.push(join(dir, name));
   };
-  save('history.json', JSON.stringify({ steps: run.steps, rate: run.rate, stopReason: run.stopReason }, null, 1) + '\n');
+  save('history.json', JSON.stringify({ steps: run.steps, rate: run.rate, stopReason: run.stopReason, exactErrors: run.exactErrors }, null, 1) + '\n');
   save('history.csv', [csvLine(['step', 'dofs', 'estimate', 'iterations', 'riseChecks', 'seconds']), ...run.steps.map((s, i) => csvLine([i, s.dofs, s.estimate, s.iterations, s.riseChecks, s.seconds]))].join('\n') + '\n');
   save('probes.csv', [csvLine(['t', 'x', 'y', 'value']), ...run.probes.map((p) => csvLine([p.t, p.x, p.y, p.value]))].join('\n') + '\n');
   const times = sliceTimes(spec);

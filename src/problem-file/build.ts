@@ -9,6 +9,7 @@ import {
   triangulatedDomain, type BoundaryPart, type DomainOptions, type SpatialDomain,
 } from './core';
 import type { CompiledExpression } from './expression';
+import { checkExactSolution } from './exact-solution';
 import type { BoundaryPartSpec, ProblemSpec } from './schema';
 
 /** The domain and problem built from a {@link ProblemSpec}. */
@@ -66,7 +67,9 @@ function boundaryPart(b: BoundaryPartSpec, field: string, dim: number): Boundary
 
 /**
  * Builds the domain and problem of a validated spec and evaluates every expression at the initial
- * mesh's vertices and element centroids (the source also at t = 0, T/2, T) before any work.
+ * mesh's vertices and element centroids (the source also at t = 0, T/2, T) before any work; a
+ * known solution (`exact`) is checked against the equation, the initial state and the boundary
+ * conditions (./exact-solution.ts).
  *
  * @example
  * ```ts
@@ -134,6 +137,8 @@ export function buildProblem(spec: ProblemSpec): BuiltProblem {
       }
     });
   }
+  // A known solution must solve this problem, or the true errors reported against it mean nothing.
+  if (spec.exact) checkExactSolution(spec, spec.exact, domain);
   const zeroInitial = spec.initial.constant && spec.initial.fn(0, 0, 0) === 0;
   const problem = new HeatProblem({ domain, T: spec.horizon, ...(zeroInitial ? {} : { initial }), ...(source ? { source } : {}) });
   return { spec, domain, problem };

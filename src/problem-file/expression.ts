@@ -28,12 +28,15 @@ export interface CompiledExpression {
 export type ExpressionVariable = 't' | 'x' | 'y';
 
 type Fn = (t: number, x: number, y: number) => number;
-type Node = jsep.Expression;
+/** A syntax tree of an expression (jsep's). @internal */
+export type ExpressionTree = jsep.Expression;
+type Node = ExpressionTree;
 
 // '^' as power: above * and /, right-associative (jsep's default '^' is bitwise xor).
 jsep.addBinaryOp('^', 11, true);
 
-const FUNCTIONS: Record<string, { arity: number; f: (...a: number[]) => number }> = {
+/** The functions an expression may call, with their arity. @internal */
+export const FUNCTIONS: Record<string, { arity: number; f: (...a: number[]) => number }> = {
   sin: { arity: 1, f: Math.sin }, cos: { arity: 1, f: Math.cos }, tan: { arity: 1, f: Math.tan },
   exp: { arity: 1, f: Math.exp }, log: { arity: 1, f: Math.log }, sqrt: { arity: 1, f: Math.sqrt },
   abs: { arity: 1, f: Math.abs }, atan2: { arity: 2, f: Math.atan2 }, pow: { arity: 2, f: Math.pow },
@@ -67,17 +70,27 @@ function fail(field: string, source: string, message: string, column?: number): 
  */
 export function compileExpression(source: string, field: string, variables: readonly ExpressionVariable[]): CompiledExpression {
   if (typeof source === 'number') source = String(source);
+  return compileTree(parseExpression(source, field), source, field, variables);
+}
+
+/** The syntax tree of `source`, or an error naming `field` and the column. @internal */
+export function parseExpression(source: string, field: string): Node {
   if (typeof source !== 'string') fail(field, String(source), 'must be an expression string or a number');
   if (source.trim() === '') fail(field, source, 'is empty');
-  let ast: Node;
   try {
-    ast = jsep(source);
+    return jsep(source);
   } catch (e) {
     const err = e as { description?: string; index?: number; message: string };
-    fail(field, source, `does not parse: ${err.description ?? err.message}`, err.index);
+    return fail(field, source, `does not parse: ${err.description ?? err.message}`, err.index);
   }
-  const allowed = new Set<string>(variables);
-  const c = compile(ast, { field, source, allowed });
+}
+
+/**
+ * Compiles a syntax tree of {@link parseExpression} (or one derived from it, ./derivative.ts);
+ * `source` is what error messages and the result show. @internal
+ */
+export function compileTree(ast: Node, source: string, field: string, variables: readonly ExpressionVariable[]): CompiledExpression {
+  const c = compile(ast, { field, source, allowed: new Set<string>(variables) });
   return { source, fn: c.fn, constant: c.value !== null };
 }
 

@@ -5,6 +5,7 @@
  * @packageDocumentation
  */
 export { compileExpression, type CompiledExpression, type ExpressionVariable } from './expression';
+export { compileWithDerivatives } from './derivative';
 export { nearestName } from './nearest-name';
 export { parseProblem, PROBLEM_FIELDS, PROBLEM_DEFAULTS, type ProblemSpec, type DomainSpec } from './schema';
 export { buildProblem, type BuiltProblem } from './build';

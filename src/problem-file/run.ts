@@ -4,10 +4,11 @@
  * record per step, the probe values and the observed convergence rate of the estimator.
  */
 import {
-  DoubleTree, InvalidArgumentError, SpaceTimeSystem, enlargeDoubleTree, residualIndicators, solveAdaptive,
+  DoubleTree, InvalidArgumentError, SpaceTimeSystem, enlargeDoubleTree, residualIndicators, solveAdaptive, spaceTimeErrors,
   type AdaptiveOptions, type AdaptiveStep, type SpaceTimeSolution,
 } from './core';
 import type { BuiltProblem } from './build';
+import { knownSolution } from './exact-solution';
 
 /** One step of a run, as reported by `chronomesh solve --json`. */
 export interface RunStep {
@@ -45,6 +46,18 @@ export interface RunResult {
   set: DoubleTree;
   /** Why the run stopped. */
   stopReason: string;
+  /** True errors of the last solution against the file's known solution (`exact`); null without one. */
+  exactErrors: ExactErrors | null;
+}
+
+/** True errors of a run's last solution against the problem file's known solution. */
+export interface ExactErrors {
+  /** (∫₀ᵀ ‖∇(u − u_δ)‖² dt)^{1/2}, the error in L2(0, T; H¹₀) (docs/error-norms.md). */
+  gradientL2: number;
+  /** (∫₀ᵀ ‖u − u_δ‖² dt)^{1/2}. */
+  valueL2: number;
+  /** gradientL2 / E of the last step: how far the estimator was from the true error. */
+  ratioToEstimate: number;
 }
 
 /**
@@ -141,5 +154,11 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
     const value = solution.evaluate(p[0]!, pt)[0]!;
     return { t: p[0]!, x: pt[0]!, y: pt.length > 1 ? pt[1]! : null, value };
   });
-  return { steps, probes, rate: observedRate(steps), solution, set, stopReason };
+  let exactErrors: ExactErrors | null = null;
+  if (spec.exact) {
+    const e = spaceTimeErrors(solution, knownSolution(spec.exact));
+    const E = steps[steps.length - 1]!.estimate;
+    exactErrors = { gradientL2: e.gradientL2, valueL2: e.valueL2, ratioToEstimate: e.gradientL2 / E };
+  }
+  return { steps, probes, rate: observedRate(steps), solution, set, stopReason, exactErrors };
 }

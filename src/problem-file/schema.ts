@@ -7,6 +7,7 @@
 import { InvalidArgumentError } from '../errors';
 import { compileExpression, type CompiledExpression } from './expression';
 import { nearestName } from './nearest-name';
+import { compileExact, type ExactSolutionSpec } from './exact-solution';
 
 /** Spatial domain of a problem file. */
 export type DomainSpec =
@@ -58,12 +59,14 @@ export interface ProblemSpec {
   /** Probe points as [t, x] or [t, x, y]. */
   probes: number[][];
   slices: number[];
+  /** A known solution u(t, x[, y]) for verification, with its derivatives (./exact-solution.ts); null if none. */
+  exact: ExactSolutionSpec | null;
 }
 
 /** Top-level fields of a problem file (the contract of the command line; additions only). */
 export const PROBLEM_FIELDS = [
   'title', 'description', 'domain', 'horizon', 'diffusion', 'reaction', 'source', 'initial', 'insulated',
-  'boundary', 'strategy', 'tolerance', 'maxDofs', 'maxSeconds', 'maxSteps', 'bulk', 'probes', 'slices',
+  'boundary', 'strategy', 'tolerance', 'maxDofs', 'maxSeconds', 'maxSteps', 'bulk', 'probes', 'slices', 'exact',
 ] as const;
 
 const DOMAIN_FIELDS: Record<DomainSpec['shape'], string[]> = {
@@ -258,5 +261,11 @@ export function parseProblem(json: unknown): ProblemSpec {
     bulk: o.bulk === undefined ? PROBLEM_DEFAULTS.bulk : num(o.bulk, 'bulk', 'in (0, 1) (the Dörfler parameter θ)', (x) => x > 0 && x < 1),
     probes,
     slices,
+    exact: o.exact === undefined ? null : compileExact(exactSource(o.exact), dim),
   };
+}
+
+function exactSource(v: unknown): string {
+  if (typeof v !== 'string' && typeof v !== 'number') bad('exact', `must be an expression string in t and the space variables, such as "exp(-pi^2*t)*sin(pi*x)", found ${typeName(v)}`, v);
+  return String(v);
 }
