@@ -9,4 +9,4 @@ export { compileWithDerivatives } from './derivative';
 export { nearestName } from './nearest-name';
 export { parseProblem, PROBLEM_FIELDS, PROBLEM_DEFAULTS, type ProblemSpec, type DomainSpec } from './schema';
 export { buildProblem, type BuiltProblem } from './build';
-export { runProblem, observedRate, type RunResult, type RunStep, type ProbeValue, type RunAdaptiveOptions } from './run';
+export { runProblem, observedRate, type RunResult, type RunStep, type ProbeValue, type RunAdaptiveOptions, type ExactErrors } from './run';

@@ -50,7 +50,17 @@ export interface RunResult {
   exactErrors: ExactErrors | null;
 }
 
-/** True errors of a run's last solution against the problem file's known solution. */
+/**
+ * True errors of a run's last solution against the problem file's known solution.
+ *
+ * @example
+ * ```ts
+ * import { buildProblem, parseProblem, runProblem, type ExactErrors } from 'chronomesh/problem-file';
+ * const spec = parseProblem({ domain: { shape: 'interval', from: 0, to: 1 }, horizon: 0.5, initial: 'sin(pi*x)', exact: 'exp(-pi^2*t)*sin(pi*x)', maxDofs: 300 });
+ * const e: ExactErrors | null = runProblem(buildProblem(spec)).exactErrors;
+ * console.log(e !== null && e.gradientL2 > 0 && e.ratioToEstimate > 0.5 && e.ratioToEstimate < 2); // → true
+ * ```
+ */
 export interface ExactErrors {
   /** (∫₀ᵀ ‖∇(u − u_δ)‖² dt)^{1/2}, the error in L2(0, T; H¹₀) (docs/error-norms.md). */
   gradientL2: number;
