@@ -35,7 +35,9 @@ described by PROBLEM.json.
                 {"steps":[{"dofs","estimate","iterations","riseChecks","seconds"}…],
                  "probes":[{"t","x","y","value"}…], "rate": r, "stopReason",
                  "tolerance", "toleranceReached",
-                 "exactErrors": {"gradientL2","valueL2","ratioToEstimate"} or null}
+                 "exactErrors": {"gradientL2","valueL2","ratioToEstimate",
+                 "ratioRange","rate"} or null}; steps carry "trueError" when
+                 the file has an exact solution
                 (rate: least-squares slope of −log E against log N over the
                 second half of the steps; y is null in 1D)
   --out DIR     write history (JSON, CSV), probe table (CSV), slices (VTK XML
@@ -84,9 +86,10 @@ problem file fields (JSON object):
               before the run against the equation (κ and c constant per initial
               element, as solved), the initial state and every boundary
               condition at sample points (exact derivatives; a mismatch is an
-              input error naming the condition and the point), then the
-              run reports its true error in L2(0,T;H1) and L2(0,T;L2) and the
-              ratio to the estimator. Prescribed values are interpolated
+              input error naming the condition and the point); then every
+              step reports its true error in L2(0,T;H1) ("trueError"), and the
+              run the band of true error / E, the true error's observed rate
+              and the last L2(0,T;L2) error. Prescribed values are interpolated
               linearly along initial edges: pick a solution whose boundary
               values are affine there, or the error stalls at that data error
   title, description   free text

@@ -76,7 +76,8 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
   let run: RunResult;
   try {
     run = runProblem(built, (s, i) => {
-      if (!opts.quiet) progress(`step ${i}: ${s.dofs} dofs, estimate ${s.estimate.toExponential(3)}, ${s.iterations} PCG iterations${s.riseChecks > 0 ? ` (re-solved ${s.riseChecks === 1 ? 'once' : 'twice'} after E rose)` : ''}, ${s.seconds.toFixed(2)} s`);
+      const truth = typeof s.trueError === 'number' ? `, true error ${s.trueError.toExponential(3)}` : '';
+      if (!opts.quiet) progress(`step ${i}: ${s.dofs} dofs, estimate ${s.estimate.toExponential(3)}${truth}, ${s.iterations} PCG iterations${s.riseChecks > 0 ? ` (re-solved ${s.riseChecks === 1 ? 'once' : 'twice'} after E rose)` : ''}, ${s.seconds.toFixed(2)} s`);
     }, {
       ...(opts.checkpoint !== undefined ? { checkpoint: checkpointToFile(opts.checkpoint) } : {}),
       ...(resume !== undefined ? { resume } : {}),
@@ -106,7 +107,8 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     const ex = run.exactErrors;
     if (ex) {
       log(`true error against the file's exact solution: ${ex.gradientL2.toExponential(3)} in L2(0,T;H1), ${ex.valueL2.toExponential(3)} in L2(0,T;L2); ` +
-        `${ex.ratioToEstimate.toFixed(2)} × the estimator`);
+        `${ex.ratioToEstimate.toFixed(2)} × the estimator (${ex.ratioRange[0].toFixed(2)}–${ex.ratioRange[1].toFixed(2)} over the steps); ` +
+        `observed rate of the true error ${ex.rate === null ? 'n/a' : ex.rate.toFixed(2)}`);
     }
     for (const p of run.probes) log(`u(t = ${p.t}, x = ${p.x}${p.y === null ? '' : `, y = ${p.y}`}) = ${p.value.toPrecision(6)}`);
     if (written.length > 0) log(`wrote ${written.length} files into ${opts.out}`);

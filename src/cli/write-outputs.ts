@@ -36,7 +36,12 @@ export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): st
     written.push(join(dir, name));
   };
   save('history.json', JSON.stringify({ steps: run.steps, rate: run.rate, stopReason: run.stopReason, exactErrors: run.exactErrors }, null, 1) + '\n');
-  save('history.csv', [csvLine(['step', 'dofs', 'estimate', 'iterations', 'riseChecks', 'seconds']), ...run.steps.map((s, i) => csvLine([i, s.dofs, s.estimate, s.iterations, s.riseChecks, s.seconds]))].join('\n') + '\n');
+  // With a known solution (`exact`) the history has the true error of every step as a last column.
+  const truth = run.exactErrors !== null;
+  save('history.csv', [
+    csvLine(['step', 'dofs', 'estimate', 'iterations', 'riseChecks', 'seconds', ...(truth ? ['trueError'] : [])]),
+    ...run.steps.map((s, i) => csvLine([i, s.dofs, s.estimate, s.iterations, s.riseChecks, s.seconds, ...(truth ? [s.trueError ?? ''] : [])])),
+  ].join('\n') + '\n');
   save('probes.csv', [csvLine(['t', 'x', 'y', 'value']), ...run.probes.map((p) => csvLine([p.t, p.x, p.y, p.value]))].join('\n') + '\n');
   const times = sliceTimes(spec);
   const name = spec.title ?? 'u';
@@ -49,7 +54,14 @@ export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): st
   });
   save('slices.pvd', vtkCollection(entries));
   const pts = run.steps.filter((s) => s.estimate > 0).map((s) => [s.dofs, s.estimate] as [number, number]);
-  if (pts.length > 0) save('history.svg', convergencePlotSvg([{ label: spec.strategy, points: pts }], { title: `${name}: residual estimator`, yLabel: 'estimator E' }));
+  const truePts = run.steps.filter((s) => typeof s.trueError === 'number' && s.trueError > 0).map((s) => [s.dofs, s.trueError!] as [number, number]);
+  if (pts.length > 0) {
+    const series = [{ label: truePts.length > 0 ? `${spec.strategy}: estimator E` : spec.strategy, points: pts }];
+    if (truePts.length > 0) series.push({ label: 'true error', points: truePts });
+    save('history.svg', convergencePlotSvg(series, truePts.length > 0
+      ? { title: `${name}: estimator and true error in L2(0,T;H1)`, yLabel: 'E, true error' }
+      : { title: `${name}: residual estimator`, yLabel: 'estimator E' }));
+  }
   const dim = run.solution.domain.dim;
   const meshTimes = times.filter((t) => t > 0).slice(0, 3);
   save('index-set.svg', indexSetToSvg(run.solution.domain, run.set, spec.horizon, {

@@ -91,7 +91,9 @@ export function convergencePlotSvg(series: PlotSeries[], opts: PlotOptions = {})
     out.push(`<text x="${m.l - 8}" y="${y + 4}" text-anchor="end">1e${e}</text>`);
   }
   out.push(`<rect x="${m.l}" y="${m.t}" width="${W - m.l - m.r}" height="${H - m.t - m.b}" fill="none" stroke="#333"/>`);
-  if (opts.title) out.push(`<text x="${(m.l + W - m.r) / 2}" y="${m.t - 14}" text-anchor="middle" font-size="14">${esc(opts.title)}</text>`);
+  // Left-aligned: a long title (problem files name their plots after their title) runs into the
+  // legend's free space on the right instead of off the left edge.
+  if (opts.title) out.push(`<text x="10" y="${m.t - 14}" font-size="14">${esc(opts.title)}</text>`);
   out.push(`<text x="${(m.l + W - m.r) / 2}" y="${H - 14}" text-anchor="middle">${esc(opts.xLabel ?? 'unknowns')}</text>`);
   out.push(`<text transform="translate(18 ${(m.t + H - m.b) / 2}) rotate(-90)" text-anchor="middle">${esc(opts.yLabel ?? 'error')}</text>`);
   let legendY = m.t + 10;

@@ -23,8 +23,13 @@ export interface RunStep {
    * A step reported above its predecessor with riseChecks > 0 rose genuinely, not by the solve.
    */
   riseChecks: number;
-  /** Wall time of the step in seconds. */
+  /** Wall time of the step in seconds (without the true error below). */
   seconds: number;
+  /**
+   * With a known solution in the file (`exact`): the step's true error in L2(0, T; H¹)
+   * (null for steps restored from a checkpoint, whose solutions are gone). Absent otherwise.
+   */
+  trueError?: number | null;
 }
 
 /** A probe value u(t, x[, y]). */
@@ -58,7 +63,7 @@ export interface RunResult {
  * import { buildProblem, parseProblem, runProblem, type ExactErrors } from 'chronomesh/problem-file';
  * const spec = parseProblem({ domain: { shape: 'interval', from: 0, to: 1 }, horizon: 0.5, initial: 'sin(pi*x)', exact: 'exp(-pi^2*t)*sin(pi*x)', maxDofs: 300 });
  * const e: ExactErrors | null = runProblem(buildProblem(spec)).exactErrors;
- * console.log(e !== null && e.gradientL2 > 0 && e.ratioToEstimate > 0.5 && e.ratioToEstimate < 2); // → true
+ * console.log(e !== null && e.gradientL2 > 0 && e.ratioRange[0] > 0.5 && e.ratioRange[1] < 2); // → true
  * ```
  */
 export interface ExactErrors {
@@ -68,6 +73,10 @@ export interface ExactErrors {
   valueL2: number;
   /** gradientL2 / E of the last step: how far the estimator was from the true error. */
   ratioToEstimate: number;
+  /** Smallest and largest true error / E over the steps (the estimator's band on this problem). */
+  ratioRange: [number, number];
+  /** Least-squares slope of −log(true error) against log N over the second half of the steps, as `rate` for E. */
+  rate: number | null;
 }
 
 /**
@@ -113,7 +122,19 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
   let solution: SpaceTimeSolution;
   let set: DoubleTree;
   let stopReason: string;
-  const toStep = (h: AdaptiveStep): RunStep => ({ dofs: h.unknowns, estimate: h.estimate, iterations: h.pcgIterations, riseChecks: h.riseChecks, seconds: h.seconds });
+  // With a known solution, every step's solution is measured against it as it comes (the
+  // solutions of earlier steps are not kept).
+  const known = spec.exact ? knownSolution(spec.exact) : null;
+  let lastMeasured: { solution: SpaceTimeSolution; errors: ReturnType<typeof spaceTimeErrors> } | null = null;
+  const trueError = (s: SpaceTimeSolution): number => {
+    lastMeasured = { solution: s, errors: spaceTimeErrors(s, known!) };
+    return lastMeasured.errors.gradientL2;
+  };
+  const measured = new Map<number, number>(); // adaptive step number → true error
+  const toStep = (h: AdaptiveStep): RunStep => ({
+    dofs: h.unknowns, estimate: h.estimate, iterations: h.pcgIterations, riseChecks: h.riseChecks, seconds: h.seconds,
+    ...(known ? { trueError: measured.get(h.step) ?? null } : {}),
+  });
   if (spec.strategy !== 'adaptive' && (adaptive.checkpoint !== undefined || adaptive.resume !== undefined)) {
     throw new InvalidArgumentError(`checkpoints need the adaptive strategy; this problem's strategy is '${spec.strategy}'`, { field: 'strategy', expected: "'adaptive'", received: spec.strategy });
   }
@@ -122,7 +143,10 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
       ...(spec.bulk === null ? {} : { theta: spec.bulk }), tolerance: spec.tolerance, maxUnknowns: spec.maxDofs, maxSteps: spec.maxSteps, maxSeconds: spec.maxSeconds,
       ...(adaptive.checkpoint ? { checkpoint: adaptive.checkpoint } : {}),
       ...(adaptive.resume ? { resume: adaptive.resume } : {}),
-      onStep: (h) => onStep?.(toStep(h), h.step),
+      onStep: (h, solution) => {
+        if (known) measured.set(h.step, trueError(solution));
+        onStep?.(toStep(h), h.step);
+      },
     });
     // with resume the history starts with the saved steps
     steps.push(...r.history.map(toStep));
@@ -150,7 +174,8 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
       const t0 = performance.now();
       const solved = new SpaceTimeSystem(problem, next).solve({ relTol: 1e-8, maxIterations: 500 });
       const estimate = residualIndicators(new SpaceTimeSystem(problem, enlargeDoubleTree(domain, next)), next, solved.pcg.solution).estimate;
-      const s = { dofs: next.size, estimate, iterations: solved.pcg.iterations, riseChecks: 0, seconds: (performance.now() - t0) / 1000 };
+      const s: RunStep = { dofs: next.size, estimate, iterations: solved.pcg.iterations, riseChecks: 0, seconds: (performance.now() - t0) / 1000 };
+      if (known) s.trueError = trueError(solved.solution);
       steps.push(s);
       onStep?.(s, steps.length - 1);
       last = { solution: solved.solution, set: next };
@@ -165,10 +190,17 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
     return { t: p[0]!, x: pt[0]!, y: pt.length > 1 ? pt[1]! : null, value };
   });
   let exactErrors: ExactErrors | null = null;
-  if (spec.exact) {
-    const e = spaceTimeErrors(solution, knownSolution(spec.exact));
+  if (known) {
+    const m = lastMeasured as { solution: SpaceTimeSolution; errors: ReturnType<typeof spaceTimeErrors> } | null;
+    const e = m !== null && m.solution === solution ? m.errors : spaceTimeErrors(solution, known);
     const E = steps[steps.length - 1]!.estimate;
-    exactErrors = { gradientL2: e.gradientL2, valueL2: e.valueL2, ratioToEstimate: e.gradientL2 / E };
+    const withError = steps.filter((s) => typeof s.trueError === 'number' && s.estimate > 0);
+    const ratios = withError.map((s) => s.trueError! / s.estimate);
+    exactErrors = {
+      gradientL2: e.gradientL2, valueL2: e.valueL2, ratioToEstimate: e.gradientL2 / E,
+      ratioRange: [Math.min(...ratios), Math.max(...ratios)],
+      rate: observedRate(withError.map((s) => ({ dofs: s.dofs, estimate: s.trueError! }))),
+    };
   }
   return { steps, probes, rate: observedRate(steps), solution, set, stopReason, exactErrors };
 }

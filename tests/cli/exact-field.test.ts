@@ -8,8 +8,12 @@
  * out by hand (u = e^{−dπ²κt} Π sin(πx_i): Carslaw & Jaeger, Conduction of Heat in Solids, 2nd ed.,
  * §3.3 / §5.3) or polynomials whose source term is computed by hand below.
  */
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { InvalidArgumentError, spaceTimeErrors } from '../../src/index';
+import { solveFile } from '../../src/cli/solve-command';
 import { buildProblem, compileWithDerivatives, parseProblem, runProblem } from '../../src/problem-file/index';
 import { rng } from '../helpers/random';
 
@@ -149,6 +153,33 @@ describe('true errors against the known solution', () => {
     // the estimator's band on smooth data (docs/adaptivity.md §7: err/E 1.00–1.04 in 1D)
     expect(ex.ratioToEstimate).toBeGreaterThan(0.7);
     expect(ex.ratioToEstimate).toBeLessThan(1.6);
-    expect(runProblem(buildProblem(parseProblem({ ...file, exact: undefined }))).exactErrors).toBeNull();
+    // every step measured; the last one is the reported error; the band and the rate of the true error
+    for (const st of run.steps) expect(st.trueError).toBeGreaterThan(0);
+    expect(run.steps[run.steps.length - 1]!.trueError).toBe(ex.gradientL2);
+    expect(ex.ratioRange[0]).toBeLessThanOrEqual(ex.ratioToEstimate);
+    expect(ex.ratioRange[1]).toBeGreaterThanOrEqual(ex.ratioToEstimate);
+    expect(ex.ratioRange[1] / ex.ratioRange[0]).toBeLessThan(3); // the band asked of the estimator
+    // smooth data in 1D: the sparse-grid rate 1 (docs/adaptivity.md §7 measured 0.96–1.00)
+    expect(ex.rate!).toBeGreaterThan(0.8);
+    const plain = runProblem(buildProblem(parseProblem({ ...file, exact: undefined })));
+    expect(plain.exactErrors).toBeNull();
+    expect('trueError' in plain.steps[0]!).toBe(false);
+  });
+
+  it('reach the command line: progress lines, --json, history.csv and the plot', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'chronomesh-exact-'));
+    const file = join(dir, 'p.json');
+    writeFileSync(file, JSON.stringify({ domain: interval, horizon: 0.5, initial: 'sin(pi*x)', exact: 'exp(-pi^2*t)*sin(pi*x)', maxDofs: 400, strategy: 'sparse' }));
+    const lines: string[] = [];
+    const progress: string[] = [];
+    const { run } = solveFile(file, { json: true, out: join(dir, 'out'), log: (l) => lines.push(l), progress: (l) => progress.push(l) });
+    const doc = JSON.parse(lines[0]!) as { steps: { trueError: number }[]; exactErrors: { gradientL2: number; ratioRange: number[]; rate: number } };
+    expect(doc.exactErrors.gradientL2).toBe(run.exactErrors!.gradientL2);
+    expect(doc.steps.map((st) => st.trueError)).toEqual(run.steps.map((st) => st.trueError));
+    expect(progress.every((l) => /true error \d\.\d{3}e-\d+/.test(l))).toBe(true);
+    const csv = readFileSync(join(dir, 'out', 'history.csv'), 'utf8').trim().split('\n');
+    expect(csv[0]).toBe('step,dofs,estimate,iterations,riseChecks,seconds,trueError');
+    expect(Number(csv[csv.length - 1]!.split(',')[6])).toBe(run.exactErrors!.gradientL2);
+    expect(readFileSync(join(dir, 'out', 'history.svg'), 'utf8')).toContain('true error');
   });
 });
