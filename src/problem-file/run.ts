@@ -5,7 +5,7 @@
  */
 import {
   DoubleTree, InvalidArgumentError, SpaceTimeSystem, enlargeDoubleTree, residualIndicators, solveAdaptive, spaceTimeErrors,
-  type AdaptiveOptions, type AdaptiveStep, type SpaceTimeSolution,
+  type AdaptiveOptions, type AdaptiveStep, type SpaceTimeErrors, type SpaceTimeSolution,
 } from './core';
 import type { BuiltProblem } from './build';
 import { knownSolution } from './exact-solution';
@@ -125,10 +125,12 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
   // With a known solution, every step's solution is measured against it as it comes (the
   // solutions of earlier steps are not kept).
   const known = spec.exact ? knownSolution(spec.exact) : null;
-  let lastMeasured: { solution: SpaceTimeSolution; errors: ReturnType<typeof spaceTimeErrors> } | null = null;
+  // The last measured solution and its errors, so the final report does not measure it again.
+  const last: { solution: SpaceTimeSolution | null; errors: SpaceTimeErrors | null } = { solution: null, errors: null };
   const trueError = (s: SpaceTimeSolution): number => {
-    lastMeasured = { solution: s, errors: spaceTimeErrors(s, known!) };
-    return lastMeasured.errors.gradientL2;
+    last.solution = s;
+    last.errors = spaceTimeErrors(s, known!);
+    return last.errors.gradientL2;
   };
   const measured = new Map<number, number>(); // adaptive step number → true error
   const toStep = (h: AdaptiveStep): RunStep => ({
@@ -191,13 +193,13 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
   });
   let exactErrors: ExactErrors | null = null;
   if (known) {
-    const m = lastMeasured as { solution: SpaceTimeSolution; errors: ReturnType<typeof spaceTimeErrors> } | null;
-    const e = m !== null && m.solution === solution ? m.errors : spaceTimeErrors(solution, known);
-    const E = steps[steps.length - 1]!.estimate;
+    const e = last.errors !== null && last.solution === solution ? last.errors : spaceTimeErrors(solution, known);
+    const ratioToEstimate = e.gradientL2 / steps[steps.length - 1]!.estimate;
     const withError = steps.filter((s) => typeof s.trueError === 'number' && s.estimate > 0);
-    const ratios = withError.map((s) => s.trueError! / s.estimate);
+    // A run resumed from a checkpoint without a new step has no measured step: the last ratio alone.
+    const ratios = withError.length > 0 ? withError.map((s) => s.trueError! / s.estimate) : [ratioToEstimate];
     exactErrors = {
-      gradientL2: e.gradientL2, valueL2: e.valueL2, ratioToEstimate: e.gradientL2 / E,
+      gradientL2: e.gradientL2, valueL2: e.valueL2, ratioToEstimate,
       ratioRange: [Math.min(...ratios), Math.max(...ratios)],
       rate: observedRate(withError.map((s) => ({ dofs: s.dofs, estimate: s.trueError! }))),
     };
