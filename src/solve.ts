@@ -27,13 +27,16 @@ export interface SolveResult {
   history: AdaptiveStep[] | null;
   /** Why the adaptive run stopped (see `AdaptiveResult.stopReason`); null for a fixed index set. */
   stopReason: AdaptiveResult['stopReason'] | null;
+  /** The held-value data error (see `AdaptiveResult.heldDataError`), not included in any estimate. */
+  heldDataError: number;
 }
 
 function onSet(problem: HeatProblem, set: DoubleTree): SolveResult {
   checkSetOnDomain(set, problem.domain, 'how');
   checkMemory(set.size * BYTES_PER_SYSTEM_UNKNOWN, `the space-time system on ${set.size} unknowns`, 'how', 'choose a smaller index set');
+  const heldDataError = problem.heldDataError().estimate; // before the solve: bad held data fail first
   const { solution, pcg } = new SpaceTimeSystem(problem, set).solve({ relTol: 1e-8 });
-  return { solution, set, pcg, history: null, stopReason: null };
+  return { solution, set, pcg, history: null, stopReason: null, heldDataError };
 }
 
 function onLevel(problem: HeatProblem, level: number): SolveResult {
@@ -46,7 +49,7 @@ function onLevel(problem: HeatProblem, level: number): SolveResult {
 function adaptive(problem: HeatProblem, opts: AdaptiveOptions): SolveResult {
   validateAdaptiveOptions(opts, problem, 'how');
   const r = solveAdaptive(problem, opts);
-  const result: SolveResult = { solution: r.solution, set: r.set, pcg: null, history: r.history, stopReason: r.stopReason };
+  const result: SolveResult = { solution: r.solution, set: r.set, pcg: null, history: r.history, stopReason: r.stopReason, heldDataError: r.heldDataError };
   // A tolerance asked for and a budget that stopped the run first: not the answer requested.
   // (A run the caller stopped, by its signal or its onStep callback, returns as it is.)
   const tolerance = opts.tolerance ?? 0;

@@ -142,6 +142,14 @@ export interface AdaptiveResult {
    * step, whose estimate is trustworthy, is returned — docs/adaptivity.md §6).
    */
   stopReason: 'tolerance' | 'unknowns' | 'steps' | 'time' | 'callback' | 'aborted' | 'memory' | 'resolution';
+  /**
+   * The estimated error that held values leave because they are interpolated linearly along the
+   * initial boundary edges ({@link HeatProblem.heldDataError}; 0 when they are affine there). E does
+   * not include it and refinement does not reduce it: when it is not well below E, the error of the
+   * solution is about √(E² + heldDataError²) at best, and a finer initial mesh along the held part
+   * is what reduces it (docs/error-norms.md §8).
+   */
+  heldDataError: number;
 }
 
 const ADAPTIVE_KEYS: Record<keyof Required<AdaptiveOptions>, true> = {
@@ -178,5 +186,6 @@ export function validateAdaptiveOptions(opts: unknown, problem: HeatProblem, fie
     throw new InvalidArgumentError(`give either ${field}.initialSet or ${field}.resume, not both (a resumed run continues with the saved set)`, { field: `${field}.initialSet`, expected: 'undefined when resume is given', received: 'a DoubleTree' });
   }
   if (o.initialSet !== undefined) checkSetOnDomain(o.initialSet, problem.domain, `${field}.initialSet`);
+  if (o.tolerance !== undefined && o.tolerance > 0) problem.checkTolerance(o.tolerance, `${field}.tolerance`);
   return o;
 }

@@ -141,6 +141,9 @@ class AdaptiveRun {
 
   constructor(private readonly problem: HeatProblem, private readonly opts: AdaptiveOptions) {
     this.v = validate(opts, problem);
+    // Samples the held values along the initial edges now: bad data fail before any work, and the
+    // result reports the data error (docs/error-norms.md §8).
+    problem.heldDataError();
     if (opts.resume !== undefined) {
       const saved = decodeCheckpoint(opts.resume, problem, 'opts.resume');
       this.history.push(...saved.history);
@@ -196,7 +199,7 @@ class AdaptiveRun {
 
   result(): AdaptiveResult {
     if (this.best === null || this.stopReason === null) throw new InvalidArgumentError('the run has not finished', { field: 'run' });
-    return { solution: this.best.solution, set: this.best.set, history: this.history, stopReason: this.stopReason };
+    return { solution: this.best.solution, set: this.best.set, history: this.history, stopReason: this.stopReason, heldDataError: this.problem.heldDataError().estimate };
   }
 
   private stepOnce(): void {

@@ -34,7 +34,7 @@ described by PROBLEM.json.
   --json        print exactly one JSON document on stdout:
                 {"steps":[{"dofs","estimate","iterations","riseChecks","seconds"}…],
                  "probes":[{"t","x","y","value"}…], "rate": r, "stopReason",
-                 "tolerance", "toleranceReached",
+                 "tolerance", "toleranceReached", "heldDataError",
                  "exactErrors": {"gradientL2","valueL2","ratioToEstimate",
                  "ratioRange","rate"} or null}; steps carry "trueError" when
                  the file has an exact solution
@@ -58,6 +58,8 @@ problem file fields (JSON object):
   horizon     final time T > 0 (required)
   diffusion   κ(x, y) > 0, default "${PROBLEM_DEFAULTS.diffusion}" (taken at initial-element centroids)
   reaction    c(x, y) ≥ 0, default "${PROBLEM_DEFAULTS.reaction}" (taken at initial-element centroids)
+              (a warning names the element where either varies most inside,
+              if by more than 1 %: give more cells there)
   source      f(t, x, y), default "${PROBLEM_DEFAULTS.source}"
   initial     u0(x, y), default "${PROBLEM_DEFAULTS.initial}"
   insulated   predicate on boundary-edge midpoints (nonzero = insulated),
@@ -65,6 +67,11 @@ problem file fields (JSON object):
   boundary    list of parts, applied in order after "insulated"; "where" is an
               expression in x, y, nonzero on the boundary edges to select:
               {"kind":"value","where":…,"value":g(t,x,y)}        u = g
+               (g is interpolated linearly between initial-mesh vertices
+               along the part: exact for g affine along each initial edge,
+               e.g. a history g(t); otherwise the run reports the error left,
+               "heldDataError" (warning when ≥ E/2), which refinement does not
+               reduce; a tolerance below it is refused: give more cells there)
               {"kind":"flux","where":…,"flux":q(t,x,y)}          κ∂u/∂n = q (q > 0 heats)
               {"kind":"convection","where":…,"transferCoefficient":h(x,y),
                "ambient":u∞(t,x,y)}                               κ∂u/∂n = h(u∞ − u)
@@ -89,9 +96,10 @@ problem file fields (JSON object):
               input error naming the condition and the point); then every
               step reports its true error in L2(0,T;H1) ("trueError"), and the
               run the band of true error / E, the true error's observed rate
-              and the last L2(0,T;L2) error. Prescribed values are interpolated
+              and the last L2(0,T;L2) error. Held values are interpolated
               linearly along initial edges: pick a solution whose boundary
-              values are affine there, or the error stalls at that data error
+              values are affine there, or the error stalls at about
+              "heldDataError"
   title, description   free text
 expressions: numbers, t x y, pi e, + − * / ^ ( ), < <= > >= == !=, && || !,
   a ? b : c, sin cos tan exp log sqrt abs min max atan2 pow.

@@ -8,6 +8,9 @@ import { CliError } from './cli-error';
 import { SOLVE_HELP } from './help';
 import { checkWritable, writeOutputs } from './write-outputs';
 
+/** Relative variation of κ or c inside an initial element above which `solve` warns (1 %). */
+const COEFFICIENT_SPREAD_WARNING = 0.01;
+
 /** Options of {@link solveFile} (the parsed command line). */
 export interface SolveFileOptions {
   json?: boolean;
@@ -61,6 +64,14 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
   } catch (e) {
     return inputError(e);
   }
+  for (const c of built.coefficientSpread) {
+    if (c.relative < COEFFICIENT_SPREAD_WARNING) continue;
+    progress(
+      `warning: ${c.field} varies by up to ${(100 * c.relative).toPrecision(2)} % inside the initial element with centroid (${c.centroid.map((v) => Number(v.toPrecision(6))).join(', ')}); ` +
+        'it is taken constant per initial element (at the centroid), a change of the problem that refinement does not undo and the estimator does not see: ' +
+        'give the initial mesh more cells where it varies',
+    );
+  }
   if (opts.out !== undefined) checkWritable(opts.out);
   if ((opts.checkpoint !== undefined || opts.resume !== undefined) && built.spec.strategy !== 'adaptive') {
     throw new CliError(`${file}: --checkpoint and --resume need the adaptive strategy, the file asks for '${built.spec.strategy}'`);
@@ -99,11 +110,20 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
         `where the run stopped by ${run.stopReason}; raise maxDofs / maxSeconds / maxSteps or loosen the tolerance (exit status ${TOLERANCE_NOT_REACHED})`,
     );
   }
+  const held = run.heldDataError;
+  if (held >= 0.5 * last.estimate) {
+    progress(
+      `warning: the held boundary values are interpolated linearly between initial-mesh vertices, which leaves an error of about ${held.toExponential(2)} ` +
+        `in L2(0,T;H1) that refinement does not reduce and the estimator (${last.estimate.toExponential(3)}) does not include; ` +
+        'give the initial mesh more cells along the held parts where their values are not affine',
+    );
+  }
   if (opts.json) {
-    log(JSON.stringify({ steps: run.steps, probes: run.probes, rate: run.rate, stopReason: run.stopReason, tolerance, toleranceReached, exactErrors: run.exactErrors }));
+    log(JSON.stringify({ steps: run.steps, probes: run.probes, rate: run.rate, stopReason: run.stopReason, tolerance, toleranceReached, heldDataError: held, exactErrors: run.exactErrors }));
   } else {
     log(`${built.spec.title ?? file}: ${run.steps.length} steps (${built.spec.strategy}), stopped by ${run.stopReason}`);
     log(`last step: ${last.dofs} unknowns, estimator ${last.estimate.toExponential(3)}; observed rate ${run.rate === null ? 'n/a' : run.rate.toFixed(2)}`);
+    if (held > 0) log(`held-value data error (not in the estimator, not reduced by refinement): about ${held.toExponential(2)}`);
     const ex = run.exactErrors;
     if (ex) {
       log(`true error against the file's exact solution: ${ex.gradientL2.toExponential(3)} in L2(0,T;H1), ${ex.valueL2.toExponential(3)} in L2(0,T;L2); ` +

@@ -10,6 +10,7 @@ import {
 } from './core';
 import type { CompiledExpression } from './expression';
 import { checkExactSolution } from './exact-solution';
+import { coefficientSpread, type CoefficientSpread } from './coefficient-spread';
 import type { BoundaryPartSpec, ProblemSpec } from './schema';
 
 /** The domain and problem built from a {@link ProblemSpec}. */
@@ -17,6 +18,12 @@ export interface BuiltProblem {
   spec: ProblemSpec;
   domain: SpatialDomain;
   problem: HeatProblem;
+  /**
+   * Where κ and c vary most inside an initial element (they are taken at its centroid), one entry per
+   * coefficient that varies there; empty when both are constant per initial element
+   * (./coefficient-spread.ts).
+   */
+  coefficientSpread: CoefficientSpread[];
 }
 
 function fmt(v: number): string {
@@ -139,7 +146,12 @@ export function buildProblem(spec: ProblemSpec): BuiltProblem {
   }
   // A known solution must solve this problem, or the true errors reported against it mean nothing.
   if (spec.exact) checkExactSolution(spec, spec.exact, domain);
+  const spreads: CoefficientSpread[] = [];
+  for (const [field, e, f] of [['diffusion', spec.diffusion, opts.kappa], ['reaction', spec.reaction, opts.reaction]] as const) {
+    const s = e.constant ? null : coefficientSpread(mesh, field, f as (x: number, y: number) => number);
+    if (s) spreads.push(s);
+  }
   const zeroInitial = spec.initial.constant && spec.initial.fn(0, 0, 0) === 0;
   const problem = new HeatProblem({ domain, T: spec.horizon, ...(zeroInitial ? {} : { initial }), ...(source ? { source } : {}) });
-  return { spec, domain, problem };
+  return { spec, domain, problem, coefficientSpread: spreads };
 }

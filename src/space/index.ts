@@ -7,4 +7,5 @@ export { SpatialOperatorPlan } from './operator-plan';
 export { loadVector } from './load';
 export { evaluateAt, nodalValues } from './evaluate';
 export type { LeafMesh } from './leaf-mesh';
+export type { HeldDataError } from './held-data-error';
 export { MultilevelPreconditioner, type MultilevelOptions } from './multigrid/index';

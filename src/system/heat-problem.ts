@@ -5,6 +5,7 @@
  */
 import { InvalidArgumentError } from '../errors';
 import { SpatialDomain } from '../space/index';
+import { heldDataError, type HeldDataError } from '../space/held-data-error';
 import { checkOptions } from '../validation/index';
 
 /** A separable source term g(t)·h(x, y); sums of these are integrated factor by factor. */
@@ -43,6 +44,7 @@ export class HeatProblem {
   readonly initial: ((x: number, y: number) => number) | null;
   readonly source: ((t: number, x: number, y: number) => number) | null;
   readonly separableSource: SeparableTerm[] | null;
+  private heldData: HeldDataError | null = null;
 
   constructor(spec: HeatProblemSpec) {
     if (spec === null || typeof spec !== 'object') throw new InvalidArgumentError('problem specification must be an object', { field: 'spec' });
@@ -74,5 +76,57 @@ export class HeatProblem {
     } else if (s !== undefined) {
       throw new InvalidArgumentError('source must be a function (t, x, y) => number or an array of separable terms', { field: 'source' });
     }
+  }
+
+  /**
+   * The error that held values leave because they are interpolated linearly between the initial
+   * vertices along each value edge (docs/error-norms.md §8): an estimate D of ‖κ^{1/2}∇(u − u_δ)‖ in
+   * L2(0,T;L2) that no refinement reduces and the estimator E does not include. D = 0 when every held
+   * value is affine along its initial edges (for instance a temperature history g(t)). Computed once,
+   * from samples of the data; `solveAdaptive` refuses a tolerance below it and reports it.
+   *
+   * @example
+   * ```ts
+   * import { HeatProblem, rectangleDomain } from 'chronomesh';
+   * const held = (value: (t: number, x: number, y: number) => number) =>
+   *   rectangleDomain(0, 1, 0, 1, 2, 2, { boundary: [{ kind: 'value', where: (_x, y) => y < 1e-9, value }] });
+   * const rough = new HeatProblem({ domain: held((_t, x) => Math.sin(Math.PI * x)), T: 0.5 });
+   * const history = new HeatProblem({ domain: held((t) => 20 + 5 * t), T: 0.5 });
+   * console.log(rough.heldDataError().estimate > 0.05, history.heldDataError().estimate); // → true 0
+   * ```
+   */
+  heldDataError(): HeldDataError {
+    this.heldData ??= heldDataError(this.domain.forest, this.T);
+    return this.heldData;
+  }
+
+  /**
+   * Refuses a tolerance that no refinement can reach because of the held values' data error
+   * ({@link HeatProblem.heldDataError}): throws an {@link InvalidArgumentError} on `field` naming the
+   * boundary part, the edge that carries most of the data error and the remedy, when
+   * `tolerance` > 0 is below that error. `solveAdaptive`, `solve` and problem files call it before
+   * any work; call it yourself when you drive the loop with your own stopping rule.
+   *
+   * @example
+   * ```ts
+   * import { HeatProblem, InvalidArgumentError, rectangleDomain } from 'chronomesh';
+   * const domain = rectangleDomain(0, 1, 0, 1, 2, 2, { boundary: [{ kind: 'value', where: (_x, y) => y < 1e-9, value: (_t, x) => Math.sin(Math.PI * x) }] });
+   * const problem = new HeatProblem({ domain, T: 0.5 });
+   * problem.checkTolerance(0.3); // fine: above the data error (about 0.19)
+   * try { problem.checkTolerance(0.01); } catch (e) { console.log(e instanceof InvalidArgumentError); } // → true
+   * ```
+   */
+  checkTolerance(tolerance: number, field = 'tolerance'): void {
+    const d = this.heldDataError();
+    if (!(tolerance > 0) || d.worst === null || d.estimate <= tolerance) return;
+    const w = d.worst;
+    const pt = (p: readonly [number, number]): string => `(${p[0]}, ${p[1]})`;
+    throw new InvalidArgumentError(
+      `tolerance ${tolerance} cannot be reached: held boundary values are interpolated linearly between initial-mesh vertices, which leaves an error of about ` +
+        `${d.estimate.toExponential(2)} in L2(0,T;H1) that no refinement removes and the estimator does not see; ` +
+        `${Math.round(100 * w.share)} % of it on boundary part ${w.part}, edge ${pt(w.from)}–${pt(w.to)} (initial vertices ${w.vertices[0]}, ${w.vertices[1]}). ` +
+        'Give the initial mesh more vertices along that part (where the held value is not affine), or loosen the tolerance',
+      { field, expected: `tolerance ≥ ${d.estimate.toExponential(2)} (the held-value data error on this initial mesh)`, received: tolerance },
+    );
   }
 }
