@@ -80,7 +80,9 @@ export interface AdaptiveOptions {
   /**
    * Starting index set (default: the sparse grid of level 1, or a finer one if that is empty,
    * graded toward t = 0 down to the shortest diffusion time h²/κ of the initial mesh so that the
-   * estimator sees the initial layer over long horizons; docs/adaptivity.md §2).
+   * estimator sees the initial layer over long horizons, and refined where the load quadrature
+   * would miss features of the source or the initial state, so that it sees localized data;
+   * docs/adaptivity.md §2, §2.1).
    */
   initialSet?: DoubleTree;
   /** PCG runs until its estimated S-energy error is at most this fraction of E (default 0.1). */

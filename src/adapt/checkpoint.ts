@@ -41,6 +41,9 @@ export function encodeCheckpoint(problem: HeatProblem, s: CheckpointState): Uint
   return encodeSolutionFile(s.solution, 'adaptive-checkpoint', { problem }, {
     header: { adaptive: { step: s.history.length - 1, history: s.history, stopReason: s.stopReason, hasNext: s.next !== null } },
     sets: s.next ? { next: s.next } : {},
+    // The whole forest, not only the vertices the sets use: the resumed run then numbers every vertex
+    // it creates as the uninterrupted run did (ids order fibres and break ties in the marking).
+    wholeForest: true,
   });
 }
 

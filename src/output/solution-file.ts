@@ -230,7 +230,7 @@ export function encodeSolutionFile(
   solution: SpaceTimeSolution,
   content: DecodedSolution['content'],
   opts: EncodeSolutionOptions,
-  extra: { header?: Record<string, unknown>; sets?: Record<string, DoubleTree>; arrays?: Record<string, SectionArray> } = {},
+  extra: { header?: Record<string, unknown>; sets?: Record<string, DoubleTree>; arrays?: Record<string, SectionArray>; wholeForest?: boolean } = {},
 ): Uint8Array {
   const domain = solution.domain;
   const { info: dInfo, sections: dSecs } = domainSections(domain);
@@ -244,7 +244,7 @@ export function encodeSolutionFile(
     Object.assign(setSecs, r.sections);
     if (r.maxVertex > maxVertex) maxVertex = r.maxVertex;
   }
-  const log = bisectionLog(domain.forest, Math.max(domain.forest.initialVertexCount, maxVertex + 1));
+  const log = bisectionLog(domain.forest, extra.wholeForest ? domain.forest.vertexCount : Math.max(domain.forest.initialVertexCount, maxVertex + 1));
   const header: Record<string, unknown> = {
     content,
     T: solution.T,

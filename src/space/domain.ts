@@ -6,6 +6,7 @@
  * point location (./point-location.ts); they share the scratch of one VertexClosure.
  */
 import { InvalidArgumentError, describeValue } from '../errors';
+import { dataResolvedSet, type SampledDatum } from './data-resolution';
 import { BisectionForest } from './forest';
 import type { InitialMesh } from './initial-mesh';
 import type { LeafMesh } from './leaf-mesh';
@@ -205,6 +206,15 @@ export class SpatialDomain {
    */
   adaptedSet(meshSize: (x: number, y: number) => number, maxGeneration: number): Int32Array {
     return adaptedSet(this.closure, meshSize, maxGeneration);
+  }
+
+  /**
+   * Closed set on whose leaf mesh the load quadrature resolves the given data (localized sources,
+   * hot spots; ./data-resolution.ts), and the shortest diffusion time h²/κ of the elements this
+   * creates (∞ if none). Refines the forest where needed. @internal
+   */
+  dataResolvedSet(data: readonly SampledDatum[]): { set: Int32Array; tau: number } {
+    return dataResolvedSet(this.closure, data);
   }
 
   // ---------------------------------------------------------------- leaf mesh
