@@ -111,7 +111,7 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     );
   }
   const held = run.heldDataError;
-  if (held >= 0.5 * last.estimate) {
+  if (held > 0 && held >= 0.5 * last.estimate) {
     progress(
       `warning: the held boundary values are interpolated linearly between initial-mesh vertices, which leaves an error of about ${held.toExponential(2)} ` +
         `in L2(0,T;H1) that refinement does not reduce and the estimator (${last.estimate.toExponential(3)}) does not include; ` +
