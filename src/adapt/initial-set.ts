@@ -33,7 +33,7 @@ export function defaultInitialSet(problem: HeatProblem): DoubleTree {
       const initial = problem.domain.dataResolvedSet(initialData(problem));
       const source = problem.domain.dataResolvedSet(sourceData(problem));
       const tau = Math.min(shortestDiffusionTime(problem.domain), initial.tau);
-      return withVertices(problem, gradedTowardsStart(problem, set, tau), unionOfTwoSorted(initial.set, source.set));
+      return withPulseNodes(problem, withVertices(problem, gradedTowardsStart(problem, set, tau), unionOfTwoSorted(initial.set, source.set)));
     }
   }
 }
@@ -87,6 +87,39 @@ function withVertices(problem: HeatProblem, set: DoubleTree, extra: Int32Array):
     sets.push(merged);
   }
   return grows ? DoubleTree.fromNodeSets(problem.domain, levels, indices, sets, { close: true, pool: set.pool }) : set;
+}
+
+/**
+ * `set` with the temporal nodes whose test functions live on both halves of every interval the
+ * source's composite time rule split (src/system/source-time-rule.ts), each with the fibre of the
+ * set's level-1 node. The loads integrate a pulse correctly on every level, but on a set without
+ * nodes near it the residual sees only its coarse-scale part: with a pulse of length 0.001 on
+ * (0, 1), E rose twelvefold over the first 8 steps while the loop descended toward it. A breakpoint
+ * at the midpoint (2k + 1)·T·2^{−(l+1)} of the split interval I_{l,k} gives the trial wavelets
+ * (l + 2, 2k) and (l + 2, 2k + 1), centred in its halves.
+ */
+function withPulseNodes(problem: HeatProblem, set: DoubleTree): DoubleTree {
+  const breaks = problem.sourceTimeBreakpoints();
+  if (breaks.times.length === 0) return set;
+  const { tree } = set;
+  let fibre = set.fibre(Math.max(0, tree.find(1, 0)));
+  if (fibre.length === 0) fibre = set.fibre(0);
+  const levels: number[] = [], indices: number[] = [], sets: Int32Array[] = [];
+  for (let i = 0; i < tree.size; i++) {
+    levels.push(tree.level[i]!);
+    indices.push(tree.index[i]!);
+    sets.push(set.fibre(i));
+  }
+  for (let i = 0; i < breaks.times.length; i++) {
+    const l = breaks.level[i]!, k = breaks.index[i]!;
+    if (l + 2 > DEEPEST_SET_LEVEL) continue;
+    for (const j of [2 * k, 2 * k + 1]) {
+      levels.push(l + 2);
+      indices.push(j);
+      sets.push(fibre);
+    }
+  }
+  return DoubleTree.fromNodeSets(problem.domain, levels, indices, sets, { close: true, pool: set.pool });
 }
 
 /**

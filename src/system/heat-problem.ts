@@ -6,6 +6,7 @@
 import { InvalidArgumentError } from '../errors';
 import { SpatialDomain } from '../space/index';
 import { heldDataError, type HeldDataError } from '../space/held-data-error';
+import { sourceBreakpoints, type SourceBreakpoints } from './source-time-rule';
 import { checkOptions } from '../validation/index';
 
 /** A separable source term g(t)·h(x, y); sums of these are integrated factor by factor. */
@@ -45,6 +46,7 @@ export class HeatProblem {
   readonly source: ((t: number, x: number, y: number) => number) | null;
   readonly separableSource: SeparableTerm[] | null;
   private heldData: HeldDataError | null = null;
+  private breakpoints: SourceBreakpoints | null = null;
 
   constructor(spec: HeatProblemSpec) {
     if (spec === null || typeof spec !== 'object') throw new InvalidArgumentError('problem specification must be an object', { field: 'spec' });
@@ -76,6 +78,16 @@ export class HeatProblem {
     } else if (s !== undefined) {
       throw new InvalidArgumentError('source must be a function (t, x, y) => number or an array of separable terms', { field: 'source' });
     }
+  }
+
+  /**
+   * Breakpoints in (0, T) of the composite time rule of the source loads, where the source varies
+   * faster in time than the loads' Gauss rule resolves (./source-time-rule.ts); computed once.
+   * @internal
+   */
+  sourceTimeBreakpoints(): SourceBreakpoints {
+    this.breakpoints ??= sourceBreakpoints(this);
+    return this.breakpoints;
   }
 
   /**

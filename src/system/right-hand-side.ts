@@ -2,8 +2,10 @@
  * Loads of the space-time system (docs/method.md §6):
  *   ℓ_f[(μ,ν)] = ∫_I ∫_Ω f ψ_μ φ_ν,   ℓ_0[ν] = ∫_Ω u0 φ_ν,   b = Bᵀ K_Y ℓ_f + g ⊗ ℓ_0.
  * ℓ_f is computed per Ψ-node μ: Gauss points in time on each half of its
- * interval (ψ_μ is linear there) and, at each such time, the spatial load of
- * f(t, ·) on the fibre of μ. Separable terms g(t)h(x) load h once per fibre.
+ * interval (ψ_μ is linear there), piece by piece between the breakpoints of the
+ * source's composite time rule inside it (./source-time-rule.ts; none for
+ * sources smooth in time), and, at each such time, the spatial load of f(t, ·)
+ * on the fibre of μ. Separable terms g(t)h(x) load h once per fibre.
  */
 import { InvalidArgumentError } from '../errors';
 import { evaluateTemporal } from '../time/index';
@@ -12,8 +14,7 @@ import type { DoubleTree } from '../spacetime/double-tree';
 import { gaussLegendre01 } from '../numerics/gauss-legendre';
 import type { HeatProblem } from './heat-problem';
 
-/** Gauss points per half interval used for the time integrals of the source. */
-const TIME_POINTS = 4;
+import { SOURCE_TIME_POINTS as TIME_POINTS } from './source-time-rule';
 
 /** The interval of test node (level, index) on (0, T). */
 function testNodeInterval(level: number, index: number, T: number): [number, number] {
@@ -32,6 +33,8 @@ export function sourceLoad(problem: HeatProblem, testSet: DoubleTree): Float64Ar
   const f = problem.source;
   const sep = problem.separableSource;
   if (!f && !sep) return out;
+  const breaks = problem.sourceTimeBreakpoints().times;
+  const pieces: number[] = [];
   const sepCache = new Map<number, Float64Array[]>();
   let scratch = new Float64Array(0);
   for (let i = 0; i < tree.size; i++) {
@@ -54,7 +57,18 @@ export function sourceLoad(problem: HeatProblem, testSet: DoubleTree): Float64Ar
         sepCache.set(fibreId, spaceLoads);
       }
     }
+    // The pieces of both halves: [a, mid] and [mid, b], each split at the breakpoints inside it.
+    pieces.length = 0;
     for (const [lo, hi] of [[a, mid], [mid, b]] as const) {
+      let prev = lo;
+      for (let j = firstAbove(breaks, lo); j < breaks.length && breaks[j]! < hi; j++) {
+        pieces.push(prev, breaks[j]!);
+        prev = breaks[j]!;
+      }
+      pieces.push(prev, hi);
+    }
+    for (let piece = 0; piece < pieces.length; piece += 2) {
+      const lo = pieces[piece]!, hi = pieces[piece + 1]!;
       for (let q = 0; q < nodes.length; q++) {
         const t = lo + (hi - lo) * nodes[q]!;
         const w = (hi - lo) * weights[q]!;
@@ -82,6 +96,17 @@ export function sourceLoad(problem: HeatProblem, testSet: DoubleTree): Float64Ar
     }
   }
   return out;
+}
+
+/** Index of the first breakpoint > t (breakpoints sorted). */
+function firstAbove(breaks: Float64Array, t: number): number {
+  let lo = 0, hi = breaks.length;
+  while (lo < hi) {
+    const m = (lo + hi) >> 1;
+    if (breaks[m]! <= t) lo = m + 1;
+    else hi = m;
+  }
+  return lo;
 }
 
 /** ℓ_0 on the given fibre (zero if the problem has no initial state). */
