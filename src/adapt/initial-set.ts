@@ -62,6 +62,18 @@ function sourceData(problem: HeatProblem): SampledDatum[] {
   return data;
 }
 
+/** The nodes of `set` with their fibres, as lists to extend and pass to DoubleTree.fromNodeSets. */
+function nodeLists(set: DoubleTree): { levels: number[]; indices: number[]; sets: Int32Array[] } {
+  const { tree } = set;
+  const levels: number[] = [], indices: number[] = [], sets: Int32Array[] = [];
+  for (let i = 0; i < tree.size; i++) {
+    levels.push(tree.level[i]!);
+    indices.push(tree.index[i]!);
+    sets.push(set.fibre(i));
+  }
+  return { levels, indices, sets };
+}
+
 /**
  * `set` with the vertices `extra` that resolve the problem's data (docs/adaptivity.md §2.1) added
  * to every fibre. The loads are integrated on each fibre's leaf mesh with fixed rules per element;
@@ -73,18 +85,12 @@ function sourceData(problem: HeatProblem): SampledDatum[] {
  */
 function withVertices(problem: HeatProblem, set: DoubleTree, extra: Int32Array): DoubleTree {
   if (extra.length === 0) return set;
-  const { tree } = set;
-  const levels: number[] = [];
-  const indices: number[] = [];
-  const sets: Int32Array[] = [];
+  const { levels, indices, sets } = nodeLists(set);
   let grows = false;
-  for (let i = 0; i < tree.size; i++) {
-    levels.push(tree.level[i]!);
-    indices.push(tree.index[i]!);
-    const fibre = set.fibre(i);
-    const merged = unionOfTwoSorted(fibre, extra);
-    if (merged.length > fibre.length) grows = true;
-    sets.push(merged);
+  for (let i = 0; i < sets.length; i++) {
+    const merged = unionOfTwoSorted(sets[i]!, extra);
+    if (merged.length > sets[i]!.length) grows = true;
+    sets[i] = merged;
   }
   return grows ? DoubleTree.fromNodeSets(problem.domain, levels, indices, sets, { close: true, pool: set.pool }) : set;
 }
@@ -104,12 +110,7 @@ function withPulseNodes(problem: HeatProblem, set: DoubleTree): DoubleTree {
   const { tree } = set;
   let fibre = set.fibre(Math.max(0, tree.find(1, 0)));
   if (fibre.length === 0) fibre = set.fibre(0);
-  const levels: number[] = [], indices: number[] = [], sets: Int32Array[] = [];
-  for (let i = 0; i < tree.size; i++) {
-    levels.push(tree.level[i]!);
-    indices.push(tree.index[i]!);
-    sets.push(set.fibre(i));
-  }
+  const { levels, indices, sets } = nodeLists(set);
   for (let i = 0; i < breaks.times.length; i++) {
     const l = breaks.level[i]!, k = breaks.index[i]!;
     if (l + 2 > DEEPEST_SET_LEVEL) continue;
@@ -136,14 +137,7 @@ function gradedTowardsStart(problem: HeatProblem, set: DoubleTree, tau: number):
   const { tree } = set;
   const deepest = Math.min(DEEPEST_SET_LEVEL, Math.ceil(Math.log2(problem.T / tau)));
   if (!(deepest > tree.maxLevel)) return set;
-  const levels: number[] = [];
-  const indices: number[] = [];
-  const sets: Int32Array[] = [];
-  for (let i = 0; i < tree.size; i++) {
-    levels.push(tree.level[i]!);
-    indices.push(tree.index[i]!);
-    sets.push(set.fibre(i));
-  }
+  const { levels, indices, sets } = nodeLists(set);
   // The deepest non-empty leftmost fibre (on the coarsest meshes the finest levels of a sparse
   // grid may have none, and a node without unknowns gets no temporal candidates).
   let leftmost = set.fibre(tree.find(tree.maxLevel, 0));
