@@ -9,11 +9,12 @@
  *
  * Here f is watched at fixed points of the domain (../space/sample-points.ts). The dyadic intervals
  * I_{l,k} = [k, k + 1]·T·2^{−l} are checked from l = 0 on: where the 4-point rule on I disagrees
- * with the same rule on pieces of at most T/1024 (at least 8), summed over the points with their
- * weights and over the two linear moments on I, by more than TOLERANCE of
+ * with the same rule on pieces of at most T/1024 (at least MIN_PIECES), summed over the points with
+ * their weights and over the two linear moments on I, by more than TOLERANCE of
  * Σ_p w_p ∫₀ᵀ |f(t, p)| dt, the midpoint becomes a breakpoint and both halves are checked in turn
  * (down to level MAX_LEVEL). The loads then integrate every half of a test interval piece by piece
- * between the breakpoints inside it: each piece is an interval that passed the check. A source smooth in time gives none, and its loads are unchanged.
+ * between the breakpoints inside it: each piece is an interval that passed the check. A source
+ * smooth in time gives no breakpoints, and its loads are unchanged.
  */
 import { InvalidArgumentError } from '../errors';
 import { gaussLegendre01 } from '../numerics/gauss-legendre';
