@@ -18,6 +18,7 @@
  */
 import { InvalidArgumentError } from '../errors';
 import { BYTES_PER_FOREST_VERTEX, memoryBudget } from '../validation/index';
+import { elementDiffusionTime } from './diffusion-time';
 import { INTERVAL_POINTS, INTERVAL_WEIGHTS, TRIANGLE_POINTS, TRIANGLE_WEIGHTS } from './quadrature';
 import type { VertexClosure } from './vertex-closure';
 
@@ -84,7 +85,7 @@ export function dataResolvedSet(closure: VertexClosure, data: readonly SampledDa
       const c = f.eChild[e]!;
       sp = closure.pushStack(sp, c);
       sp = closure.pushStack(sp, c + 1);
-      tau = Math.min(tau, shortestEdge2(f, c) / f.kappa[f.eMat[c]!]!, shortestEdge2(f, c + 1) / f.kappa[f.eMat[c + 1]!]!);
+      tau = Math.min(tau, elementDiffusionTime(f, c), elementDiffusionTime(f, c + 1));
     }
   }
   return { set: closure.close(created), tau };
@@ -117,21 +118,6 @@ function sameValues(a: Float64Array, b: Float64Array): boolean {
   if (a.length !== b.length) return false;
   for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
   return true;
-}
-
-/** Squared shortest edge of element e. */
-function shortestEdge2(f: VertexClosure['forest'], e: number): number {
-  const d = f.dim, nv = f.nv;
-  let h2 = Infinity;
-  for (let i = 0; i < nv; i++) {
-    for (let j = i + 1; j < nv; j++) {
-      const a = f.eVert[e * nv + i]!, b = f.eVert[e * nv + j]!;
-      let s = 0;
-      for (let k = 0; k < d; k++) s += (f.vCoord[a * d + k]! - f.vCoord[b * d + k]!) ** 2;
-      h2 = Math.min(h2, s);
-    }
-  }
-  return h2;
 }
 
 /** m such that 2^m sub-edges of element e are no longer than min(delta, its diameter / 8). */

@@ -4,24 +4,28 @@
  * no longer follow a solution that starts off the boundary values (docs/adaptivity.md §2).
  */
 import type { SpatialDomain } from './domain';
+import type { BisectionForest } from './forest';
 
 /** @internal */
 export function shortestDiffusionTime(domain: SpatialDomain): number {
   const f = domain.forest;
+  let tau = Infinity;
+  for (let e = 0; e < f.initialElementCount; e++) tau = Math.min(tau, elementDiffusionTime(f, e));
+  return tau;
+}
+
+/** h²/κ of forest element e, with h its shortest edge. @internal */
+export function elementDiffusionTime(f: BisectionForest, e: number): number {
   const nv = f.nv;
   const d = f.dim;
-  let tau = Infinity;
-  for (let e = 0; e < f.initialElementCount; e++) {
-    let h2 = Infinity;
-    for (let a = 0; a < nv; a++) {
-      for (let b = a + 1; b < nv; b++) {
-        const p = f.eVert[e * nv + a]!, q = f.eVert[e * nv + b]!;
-        let s = 0;
-        for (let k = 0; k < d; k++) s += (f.vCoord[p * d + k]! - f.vCoord[q * d + k]!) ** 2;
-        h2 = Math.min(h2, s);
-      }
+  let h2 = Infinity;
+  for (let a = 0; a < nv; a++) {
+    for (let b = a + 1; b < nv; b++) {
+      const p = f.eVert[e * nv + a]!, q = f.eVert[e * nv + b]!;
+      let s = 0;
+      for (let k = 0; k < d; k++) s += (f.vCoord[p * d + k]! - f.vCoord[q * d + k]!) ** 2;
+      h2 = Math.min(h2, s);
     }
-    tau = Math.min(tau, h2 / f.kappa[f.eMat[e]!]!);
   }
-  return tau;
+  return h2 / f.kappa[f.eMat[e]!]!;
 }
