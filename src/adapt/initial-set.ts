@@ -32,14 +32,20 @@ export function defaultInitialSet(problem: HeatProblem): DoubleTree {
     if (set.size > 0 || L >= 8) {
       const initial = problem.domain.dataResolvedSet(initialData(problem));
       const source = problem.domain.dataResolvedSet(sourceData(problem));
+      const boundary = problem.domain.boundaryDataResolvedSet(sampleTimes(problem.T));
       const tau = Math.min(shortestDiffusionTime(problem.domain), initial.tau);
-      return withPulseNodes(problem, withVertices(problem, gradedTowardsStart(problem, set, tau), unionOfTwoSorted(initial.set, source.set)));
+      const extra = unionOfTwoSorted(unionOfTwoSorted(initial.set, source.set), boundary);
+      return withPulseNodes(problem, withVertices(problem, gradedTowardsStart(problem, set, tau), extra));
     }
   }
 }
 
-/** Times at which a time-dependent source is sampled for the data resolution: T·k/8. */
-const SOURCE_SAMPLES = 9;
+/** Times at which time-dependent sources and boundary data are sampled for the data resolution: T·k/8. */
+const DATA_SAMPLES = 9;
+
+function sampleTimes(T: number): number[] {
+  return Array.from({ length: DATA_SAMPLES }, (_, k) => (T * k) / (DATA_SAMPLES - 1));
+}
 
 function initialData(problem: HeatProblem): SampledDatum[] {
   const initial = problem.initial;
@@ -48,11 +54,10 @@ function initialData(problem: HeatProblem): SampledDatum[] {
 
 function sourceData(problem: HeatProblem): SampledDatum[] {
   const data: SampledDatum[] = [];
-  const T = problem.T;
   const f = problem.source;
   const terms = problem.separableSource;
-  for (let k = 0; k < SOURCE_SAMPLES && (f || terms); k++) {
-    const t = (T * k) / (SOURCE_SAMPLES - 1);
+  if (!f && !terms) return data;
+  for (const t of sampleTimes(problem.T)) {
     if (f) data.push({ field: `source (at t = ${t})`, value: (x, y) => f(t, x, y) });
     else if (terms) {
       const w = terms.map((term) => term.time(t));
@@ -97,7 +102,7 @@ function withVertices(problem: HeatProblem, set: DoubleTree, extra: Int32Array):
 
 /**
  * `set` with the temporal nodes whose test functions live on both halves of every interval the
- * source's composite time rule split (src/system/source-time-rule.ts), each with the fibre of the
+ * loads' composite time rule split (src/system/load-time-rule.ts), each with the fibre of the
  * set's level-1 node. The loads integrate a pulse correctly on every level, but on a set without
  * nodes near it the residual sees only its coarse-scale part: with a pulse of length 0.001 on
  * (0, 1), E rose twelvefold over the first 8 steps while the loop descended toward it. A breakpoint
@@ -105,7 +110,7 @@ function withVertices(problem: HeatProblem, set: DoubleTree, extra: Int32Array):
  * (l + 2, 2k) and (l + 2, 2k + 1), centred in its halves.
  */
 function withPulseNodes(problem: HeatProblem, set: DoubleTree): DoubleTree {
-  const breaks = problem.sourceTimeBreakpoints();
+  const breaks = problem.loadTimeBreakpoints();
   if (breaks.times.length === 0) return set;
   const { tree } = set;
   let fibre = set.fibre(Math.max(0, tree.find(1, 0)));

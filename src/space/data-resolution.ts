@@ -10,7 +10,7 @@
  * For every element, starting from the initial mesh, the element's own rule is compared with the
  * same rule on 4^m congruent sub-elements (2^m in 1D), m chosen so that the sub-elements are no
  * larger than SAMPLE_FRACTION of the domain's diameter (and at least 8 times smaller than the
- * element): if the three (two) nodal loads ∫ g λ_j differ by more than TOLERANCE of ∫ |g| over the
+ * element): if the three (two) nodal loads ∫ g λ_j differ by more than DATA_TOLERANCE of ∫ |g| over the
  * domain, the element is bisected and its children are checked in turn. The vertices this creates,
  * closed, are returned, with the shortest diffusion time h²/κ of the elements they create (h their
  * shortest edge). Features narrower than about SAMPLE_FRACTION·diam(Ω)/3 can still be missed
@@ -25,7 +25,7 @@ import type { VertexClosure } from './vertex-closure';
 /** Largest sub-element, as a fraction of the domain's diameter. */
 const SAMPLE_FRACTION = 1 / 128;
 /** Relative mismatch of an element's loads (against ∫ |g| over Ω) that makes it bisected. */
-const TOLERANCE = 0.01;
+export const DATA_TOLERANCE = 0.01;
 /** Generations below the initial mesh at most. */
 const MAX_DEPTH = 40;
 
@@ -42,14 +42,7 @@ export function dataResolvedSet(closure: VertexClosure, data: readonly SampledDa
   const created: number[] = [];
   let tau = Infinity;
   if (data.length === 0) return { set: closure.close(created), tau };
-  // The domain's diameter from the initial vertices' bounding box.
-  let lo0 = Infinity, hi0 = -Infinity, lo1 = Infinity, hi1 = -Infinity;
-  for (let v = 0; v < f.initialVertexCount; v++) {
-    const x = f.vCoord[v * d]!, y = d === 2 ? f.vCoord[v * d + 1]! : 0;
-    lo0 = Math.min(lo0, x); hi0 = Math.max(hi0, x); lo1 = Math.min(lo1, y); hi1 = Math.max(hi1, y);
-  }
-  const delta = Math.hypot(hi0 - lo0, hi1 - lo1) * SAMPLE_FRACTION;
-  const maxVertices = memoryBudget() / BYTES_PER_FOREST_VERTEX;
+  const delta = sampleSpacing(f);
   const coarse = new Float64Array(3), fine = new Float64Array(3);
   const ne0 = f.initialElementCount;
   const initialFine = new Float64Array(ne0 * (d + 1));
@@ -69,26 +62,53 @@ export function dataResolvedSet(closure: VertexClosure, data: readonly SampledDa
       for (let j = 0; j <= d; j++) initialFine[e * (d + 1) + j] = fine[j]!;
     }
     if (!(scale > 0)) continue;
-    let sp = 0;
-    for (let e = 0; e < ne0; e++) sp = closure.pushStack(sp, e);
-    while (sp > 0) {
-      const e = closure.stack[--sp]!;
-      if (f.eGen[e]! >= MAX_DEPTH) continue;
+    tau = Math.min(tau, bisectWhere(closure, created, (e) => {
       loads(f, e, g, 0, coarse);
       if (e < ne0) for (let j = 0; j <= d; j++) fine[j] = initialFine[e * (d + 1) + j]!;
       else loads(f, e, g, subdivisions(f, e, delta), fine);
       let mismatch = 0;
       for (let j = 0; j <= d; j++) mismatch += Math.abs(coarse[j]! - fine[j]!);
-      if (!(mismatch > TOLERANCE * scale)) continue;
-      if (f.vertexCount >= maxVertices) break; // the budget check of the caller's next step refuses the run
-      created.push(f.bisect(e));
-      const c = f.eChild[e]!;
-      sp = closure.pushStack(sp, c);
-      sp = closure.pushStack(sp, c + 1);
-      tau = Math.min(tau, elementDiffusionTime(f, c), elementDiffusionTime(f, c + 1));
-    }
+      return mismatch > DATA_TOLERANCE * scale;
+    }));
   }
   return { set: closure.close(created), tau };
+}
+
+/** The longest sub-element edge of the fine rules: SAMPLE_FRACTION of the domain's diameter (from the initial vertices' bounding box). @internal */
+export function sampleSpacing(f: VertexClosure['forest']): number {
+  const d = f.dim;
+  let lo0 = Infinity, hi0 = -Infinity, lo1 = Infinity, hi1 = -Infinity;
+  for (let v = 0; v < f.initialVertexCount; v++) {
+    const x = f.vCoord[v * d]!, y = d === 2 ? f.vCoord[v * d + 1]! : 0;
+    lo0 = Math.min(lo0, x); hi0 = Math.max(hi0, x); lo1 = Math.min(lo1, y); hi1 = Math.max(hi1, y);
+  }
+  return Math.hypot(hi0 - lo0, hi1 - lo1) * SAMPLE_FRACTION;
+}
+
+/**
+ * Bisects, from the initial elements down (at most MAX_DEPTH generations), every forest element
+ * for which `unresolved(e)` holds, and checks its children in turn; the midpoints created are
+ * appended to `created`. Returns the shortest diffusion time h²/κ of the elements created (∞ if
+ * none). Stops early at the memory budget's vertex count (the caller's next step refuses the run).
+ * @internal
+ */
+export function bisectWhere(closure: VertexClosure, created: number[], unresolved: (e: number) => boolean): number {
+  const f = closure.forest;
+  const maxVertices = memoryBudget() / BYTES_PER_FOREST_VERTEX;
+  let tau = Infinity;
+  let sp = 0;
+  for (let e = 0; e < f.initialElementCount; e++) sp = closure.pushStack(sp, e);
+  while (sp > 0) {
+    const e = closure.stack[--sp]!;
+    if (f.eGen[e]! >= MAX_DEPTH || !unresolved(e)) continue;
+    if (f.vertexCount >= maxVertices) break;
+    created.push(f.bisect(e));
+    const c = f.eChild[e]!;
+    sp = closure.pushStack(sp, c);
+    sp = closure.pushStack(sp, c + 1);
+    tau = Math.min(tau, elementDiffusionTime(f, c), elementDiffusionTime(f, c + 1));
+  }
+  return tau;
 }
 
 function checked(datum: SampledDatum): (x: number, y: number) => number {
@@ -114,7 +134,8 @@ function fingerprint(f: VertexClosure['forest'], g: (x: number, y: number) => nu
   return Float64Array.from(values);
 }
 
-function sameValues(a: Float64Array, b: Float64Array): boolean {
+/** True when both arrays hold the same values. @internal */
+export function sameValues(a: Float64Array, b: Float64Array): boolean {
   if (a.length !== b.length) return false;
   for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
   return true;

@@ -7,6 +7,7 @@
  */
 import { InvalidArgumentError, describeValue } from '../errors';
 import { dataResolvedSet, type SampledDatum } from './data-resolution';
+import { boundaryDataResolvedSet } from './boundary-data-resolution';
 import { BisectionForest } from './forest';
 import type { InitialMesh } from './initial-mesh';
 import type { LeafMesh } from './leaf-mesh';
@@ -215,6 +216,15 @@ export class SpatialDomain {
    */
   dataResolvedSet(data: readonly SampledDatum[]): { set: Int32Array; tau: number } {
     return dataResolvedSet(this.closure, data);
+  }
+
+  /**
+   * Closed set on whose leaf mesh the boundary-load quadrature resolves the flux and ambient data
+   * sampled at `times` (heated strips, jets; ./boundary-data-resolution.ts). Refines the forest
+   * where needed. @internal
+   */
+  boundaryDataResolvedSet(times: readonly number[]): Int32Array {
+    return boundaryDataResolvedSet(this.closure, times);
   }
 
   // ---------------------------------------------------------------- leaf mesh

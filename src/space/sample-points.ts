@@ -1,9 +1,11 @@
 /**
  * A fixed set of quadrature points over the domain: the element rule of ./quadrature on 4
  * congruent sub-triangles (2 sub-intervals in 1D) of the initial elements, on a strided subset of
- * them when there would be more than asked for (weights scaled by the stride). Used to watch how
- * data vary in time at many places at once.
+ * them when there would be more than asked for (weights scaled by the stride); and the same along
+ * the natural boundary edges that carry data. Used to watch how data vary in time at many places at
+ * once.
  */
+import { EdgeKind } from './boundary';
 import type { BisectionForest } from './forest';
 import { INTERVAL_POINTS, INTERVAL_WEIGHTS, TRIANGLE_POINTS, TRIANGLE_WEIGHTS } from './quadrature';
 
@@ -40,4 +42,43 @@ export function domainSamplePoints(f: BisectionForest, maxPoints: number): { x: 
     }
   }
   return { x: Float64Array.from(x), y: Float64Array.from(y), w: Float64Array.from(w) };
+}
+
+/**
+ * Points on the natural initial boundary edges with flux or ambient data: the 3-point rule on 2
+ * halves of each edge (in 1D the end point), on a strided subset of the edges when there would be
+ * more than `maxPoints`. Weights are length × rule weight × stride, times h on convection edges;
+ * `part` is the boundary part whose data hold at each point. @internal
+ */
+export function boundarySamplePoints(f: BisectionForest, maxPoints: number): { x: Float64Array; y: Float64Array; w: Float64Array; part: Int32Array } {
+  const tables = f.boundary;
+  const d = f.dim;
+  const edges: number[] = [];
+  for (let b = 0; b < tables.edgeCount; b++) {
+    const p = tables.edgePart[b]!, kind = tables.edgeKind[b]!;
+    if (p < 0 || tables.parts[p]!.data === null || (kind !== EdgeKind.Flux && kind !== EdgeKind.Convection)) continue;
+    if (kind === EdgeKind.Convection && tables.transfer[b] === 0) continue;
+    edges.push(b);
+  }
+  const per = d === 2 ? 2 * INTERVAL_WEIGHTS.length : 1;
+  const stride = Math.max(1, Math.ceil((edges.length * per) / maxPoints));
+  const x: number[] = [], y: number[] = [], w: number[] = [], part: number[] = [];
+  for (let i = 0; i < edges.length; i += stride) {
+    const b = edges[i]!;
+    const c = stride * (tables.edgeKind[b] === EdgeKind.Convection ? tables.transfer[b]! : 1);
+    const i0 = tables.edgeVertices[2 * b]!, i1 = tables.edgeVertices[2 * b + 1]!;
+    if (d === 1) {
+      x.push(f.vCoord[i0]!); y.push(0); w.push(c); part.push(tables.edgePart[b]!);
+      continue;
+    }
+    const x0 = f.vCoord[2 * i0]!, y0 = f.vCoord[2 * i0 + 1]!, x1 = f.vCoord[2 * i1]!, y1 = f.vCoord[2 * i1 + 1]!;
+    const len = Math.hypot(x1 - x0, y1 - y0);
+    for (let s = 0; s < 2; s++) {
+      for (let q = 0; q < INTERVAL_WEIGHTS.length; q++) {
+        const l1 = (s + INTERVAL_POINTS[2 * q + 1]!) / 2;
+        x.push((1 - l1) * x0 + l1 * x1); y.push((1 - l1) * y0 + l1 * y1); w.push((c * len * INTERVAL_WEIGHTS[q]!) / 2); part.push(tables.edgePart[b]!);
+      }
+    }
+  }
+  return { x: Float64Array.from(x), y: Float64Array.from(y), w: Float64Array.from(w), part: Int32Array.from(part) };
 }

@@ -7,8 +7,9 @@
  *   ℓ_0[ν]     −= ∫_Ω G(0) φ_ν.
  * ψ_μ is linear on each half of its interval, so ∫ g' ψ over a half [lo, hi] is
  *   g(hi) ψ(hi⁻) − g(lo) ψ(lo⁺) − ψ' ∫ g dt
- * (integration by parts: no derivative of g is needed, g only has to be continuous in t). Time
- * integrals use the same Gauss points per half as the source load. Per test node one pass over the
+ * (integration by parts: no derivative of g is needed, g only has to be continuous in t), and the
+ * same holds on every piece of a half. Time integrals use the same Gauss points and the same pieces
+ * (between the breakpoints of ./load-time-rule.ts) as the source load. Per test node one pass over the
  * boundary segments per time point and one element pass on its fibre's leaf mesh: linear cost.
  */
 import { evaluateTemporal } from '../time/index';
@@ -21,8 +22,7 @@ import type { HeatProblem } from './heat-problem';
 import { initialLoad, sourceLoad } from './right-hand-side';
 import type { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import { gaussLegendre01 } from '../numerics/gauss-legendre';
-
-const TIME_POINTS = 4;
+import { LOAD_TIME_POINTS, halfPieces } from './load-time-rule';
 
 /** True when the domain has boundary data that enters the loads. */
 export function hasBoundaryData(domain: SpatialDomain): boolean {
@@ -30,13 +30,16 @@ export function hasBoundaryData(domain: SpatialDomain): boolean {
 }
 
 /** Adds the flux / convection loads and subtracts the lifting's loads, on the test index set. */
-export function addBoundaryLoads(domain: SpatialDomain, T: number, testSet: DoubleTree, plans: SpatialPlanCache, out: Float64Array): void {
+export function addBoundaryLoads(problem: HeatProblem, testSet: DoubleTree, plans: SpatialPlanCache, out: Float64Array): void {
+  const { domain, T } = problem;
   const tables = domain.forest.boundary;
   if (!tables.hasData) return;
   const lifting = liftingOf(domain.forest);
   const nd = lifting.vertices.length;
   const natural = tables.parts.some((p) => p.kind !== 'value' && p.data !== null);
-  const { nodes, weights } = gaussLegendre01(TIME_POINTS);
+  const { nodes, weights } = gaussLegendre01(LOAD_TIME_POINTS);
+  const breaks = problem.loadTimeBreakpoints().times;
+  const pieces: number[] = [];
   const { tree } = testSet;
   const gq = new Float64Array(nd);
   const gEnd = new Float64Array(nd);
@@ -54,13 +57,16 @@ export function addBoundaryLoads(domain: SpatialDomain, T: number, testSet: Doub
     const h = l === 0 ? T : T * 2 ** -(l - 1);
     const a = l === 0 ? 0 : k * h;
     const b = a + h;
-    const mid = 0.5 * (a + b);
     const R = [new Float64Array(nv), new Float64Array(nv)];
     for (let j = 0; j < 2; j++) {
       cM[j]!.fill(0);
       cA[j]!.fill(0);
     }
-    for (const [lo, hi] of [[a, mid], [mid, b]] as const) {
+    // Each half [a, mid], [mid, b] piece by piece between the breakpoints of the loads' time rule
+    // (./load-time-rule.ts): ψ is linear on every piece.
+    halfPieces(a, b, breaks, pieces);
+    for (let piece = 0; piece < pieces.length; piece += 2) {
+      const lo = pieces[piece]!, hi = pieces[piece + 1]!;
       const len = hi - lo;
       let slope0 = 0, slope1 = 0, v0 = 0, v1 = 0, t0 = 0;
       for (let q = 0; q < nodes.length; q++) {
@@ -148,7 +154,7 @@ export function subtractInitialLifting(domain: SpatialDomain, plans: SpatialPlan
 /** ℓ_f plus the boundary data on a test index set (source, flux, convection, lifting). */
 export function sourceLoadWithBoundary(problem: HeatProblem, testSet: DoubleTree, plans: SpatialPlanCache): Float64Array {
   const lf = sourceLoad(problem, testSet);
-  addBoundaryLoads(problem.domain, problem.T, testSet, plans, lf);
+  addBoundaryLoads(problem, testSet, plans, lf);
   return lf;
 }
 

@@ -6,7 +6,7 @@
 import { InvalidArgumentError } from '../errors';
 import { SpatialDomain } from '../space/index';
 import { heldDataError, type HeldDataError } from '../space/held-data-error';
-import { sourceBreakpoints, type SourceBreakpoints } from './source-time-rule';
+import { loadBreakpoints, type LoadBreakpoints } from './load-time-rule';
 import { checkOptions } from '../validation/index';
 
 /** A separable source term g(t)·h(x, y); sums of these are integrated factor by factor. */
@@ -46,7 +46,7 @@ export class HeatProblem {
   readonly source: ((t: number, x: number, y: number) => number) | null;
   readonly separableSource: SeparableTerm[] | null;
   private heldData: HeldDataError | null = null;
-  private breakpoints: SourceBreakpoints | null = null;
+  private breakpoints: LoadBreakpoints | null = null;
 
   constructor(spec: HeatProblemSpec) {
     if (spec === null || typeof spec !== 'object') throw new InvalidArgumentError('problem specification must be an object', { field: 'spec' });
@@ -81,12 +81,12 @@ export class HeatProblem {
   }
 
   /**
-   * Breakpoints in (0, T) of the composite time rule of the source loads, where the source varies
-   * faster in time than the loads' Gauss rule resolves (./source-time-rule.ts); computed once.
-   * @internal
+   * Breakpoints in (0, T) of the composite time rule of the loads, where the source or the boundary
+   * data vary faster in time than the loads' Gauss rule resolves (./load-time-rule.ts); computed
+   * once. @internal
    */
-  sourceTimeBreakpoints(): SourceBreakpoints {
-    this.breakpoints ??= sourceBreakpoints(this);
+  loadTimeBreakpoints(): LoadBreakpoints {
+    this.breakpoints ??= loadBreakpoints(this);
     return this.breakpoints;
   }
 

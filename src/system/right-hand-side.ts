@@ -3,8 +3,8 @@
  *   ℓ_f[(μ,ν)] = ∫_I ∫_Ω f ψ_μ φ_ν,   ℓ_0[ν] = ∫_Ω u0 φ_ν,   b = Bᵀ K_Y ℓ_f + g ⊗ ℓ_0.
  * ℓ_f is computed per Ψ-node μ: Gauss points in time on each half of its
  * interval (ψ_μ is linear there), piece by piece between the breakpoints of the
- * source's composite time rule inside it (./source-time-rule.ts; none for
- * sources smooth in time), and, at each such time, the spatial load of f(t, ·)
+ * loads' composite time rule inside it (./load-time-rule.ts; none for
+ * data smooth in time), and, at each such time, the spatial load of f(t, ·)
  * on the fibre of μ. Separable terms g(t)h(x) load h once per fibre.
  */
 import { InvalidArgumentError } from '../errors';
@@ -14,7 +14,7 @@ import type { DoubleTree } from '../spacetime/double-tree';
 import { gaussLegendre01 } from '../numerics/gauss-legendre';
 import type { HeatProblem } from './heat-problem';
 
-import { SOURCE_TIME_POINTS as TIME_POINTS } from './source-time-rule';
+import { LOAD_TIME_POINTS as TIME_POINTS, halfPieces } from './load-time-rule';
 
 /** The interval of test node (level, index) on (0, T). */
 function testNodeInterval(level: number, index: number, T: number): [number, number] {
@@ -33,7 +33,7 @@ export function sourceLoad(problem: HeatProblem, testSet: DoubleTree): Float64Ar
   const f = problem.source;
   const sep = problem.separableSource;
   if (!f && !sep) return out;
-  const breaks = problem.sourceTimeBreakpoints().times;
+  const breaks = problem.loadTimeBreakpoints().times;
   const pieces: number[] = [];
   const sepCache = new Map<number, Float64Array[]>();
   let scratch = new Float64Array(0);
@@ -47,7 +47,6 @@ export function sourceLoad(problem: HeatProblem, testSet: DoubleTree): Float64Ar
     const o0 = testSet.functionOffset[2 * i]!;
     const o1 = testSet.functionOffset[2 * i + 1]!;
     const [a, b] = testNodeInterval(l, k, T);
-    const mid = 0.5 * (a + b);
     if (scratch.length < n) scratch = new Float64Array(n);
     let spaceLoads: Float64Array[] | undefined;
     if (sep) {
@@ -57,16 +56,7 @@ export function sourceLoad(problem: HeatProblem, testSet: DoubleTree): Float64Ar
         sepCache.set(fibreId, spaceLoads);
       }
     }
-    // The pieces of both halves: [a, mid] and [mid, b], each split at the breakpoints inside it.
-    pieces.length = 0;
-    for (const [lo, hi] of [[a, mid], [mid, b]] as const) {
-      let prev = lo;
-      for (let j = firstAbove(breaks, lo); j < breaks.length && breaks[j]! < hi; j++) {
-        pieces.push(prev, breaks[j]!);
-        prev = breaks[j]!;
-      }
-      pieces.push(prev, hi);
-    }
+    halfPieces(a, b, breaks, pieces);
     for (let piece = 0; piece < pieces.length; piece += 2) {
       const lo = pieces[piece]!, hi = pieces[piece + 1]!;
       for (let q = 0; q < nodes.length; q++) {
@@ -96,17 +86,6 @@ export function sourceLoad(problem: HeatProblem, testSet: DoubleTree): Float64Ar
     }
   }
   return out;
-}
-
-/** Index of the first breakpoint > t (breakpoints sorted). */
-function firstAbove(breaks: Float64Array, t: number): number {
-  let lo = 0, hi = breaks.length;
-  while (lo < hi) {
-    const m = (lo + hi) >> 1;
-    if (breaks[m]! <= t) lo = m + 1;
-    else hi = m;
-  }
-  return lo;
 }
 
 /** ℓ_0 on the given fibre (zero if the problem has no initial state). */

@@ -1,5 +1,5 @@
 /**
- * The composite time rule of the source loads (src/system/source-time-rule.ts,
+ * The composite time rule of the source loads (src/system/load-time-rule.ts,
  * docs/adaptivity.md §2.2): sources that vary faster in time than the loads' Gauss rule on the
  * coarse test intervals.
  *
@@ -29,16 +29,16 @@ const amp = (t: number) => {
 describe('source loads of sources that vary fast in time', () => {
   it('a pulse: breakpoints gather around it, none for sources smooth in time', () => {
     const domain = rectangleDomain(0, 1, 0, 1, 2, 2);
-    const b = new HeatProblem({ domain, T: 1, source: (t, x, y) => pulse(t) * x * y }).sourceTimeBreakpoints().times;
+    const b = new HeatProblem({ domain, T: 1, source: (t, x, y) => pulse(t) * x * y }).loadTimeBreakpoints().times;
     expect(b.length).toBeGreaterThan(5);
     expect(b.filter((t) => t > 0.28 && t < 0.32).length).toBeGreaterThan(b.length / 2);
     for (const f of [(t: number, x: number) => t * x, (t: number, x: number, y: number) => Math.exp(-t) * Math.sin(PI * x) * y]) {
-      expect(new HeatProblem({ domain, T: 1, source: f }).sourceTimeBreakpoints().times.length).toBe(0);
+      expect(new HeatProblem({ domain, T: 1, source: f }).loadTimeBreakpoints().times.length).toBe(0);
     }
-    expect(new HeatProblem({ domain, T: 1 }).sourceTimeBreakpoints().times.length).toBe(0);
+    expect(new HeatProblem({ domain, T: 1 }).loadTimeBreakpoints().times.length).toBe(0);
     // T not a power of two: the split intervals are named by level and index, not recovered from
     // the times (T = 0.8 once gave a non-integer index)
-    const odd = new HeatProblem({ domain, T: 0.8, source: (t, x, y) => (t > 0.33 && t < 0.331 ? 1000 : 0) * x * y }).sourceTimeBreakpoints();
+    const odd = new HeatProblem({ domain, T: 0.8, source: (t, x, y) => (t > 0.33 && t < 0.331 ? 1000 : 0) * x * y }).loadTimeBreakpoints();
     expect(odd.times.length).toBeGreaterThan(5);
     odd.times.forEach((t, i) => {
       expect(Number.isInteger(odd.index[i]!)).toBe(true);
