@@ -66,9 +66,11 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
   }
   for (const c of built.coefficientSpread) {
     if (c.relative < COEFFICIENT_SPREAD_WARNING) continue;
+    const where = c.centroid.map((v) => Number(v.toPrecision(6))).join(', ');
+    const edge = c.field.startsWith('boundary');
     progress(
-      `warning: ${c.field} varies by up to ${(100 * c.relative).toPrecision(2)} % inside the initial element with centroid (${c.centroid.map((v) => Number(v.toPrecision(6))).join(', ')}); ` +
-        'it is taken constant per initial element (at the centroid), a change of the problem that refinement does not undo and the estimator does not see: ' +
+      `warning: ${c.field} varies by up to ${(100 * c.relative).toPrecision(2)} % ${edge ? `along the initial boundary edge with midpoint (${where})` : `inside the initial element with centroid (${where})`}; ` +
+        `it is taken constant per initial ${edge ? 'boundary edge (at its midpoint)' : 'element (at the centroid)'}, a change of the problem that refinement does not undo and the estimator does not see: ` +
         'give the initial mesh more cells where it varies',
     );
   }

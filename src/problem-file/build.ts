@@ -10,7 +10,7 @@ import {
 } from './core';
 import type { CompiledExpression } from './expression';
 import { checkExactSolution } from './exact-solution';
-import { coefficientSpread, type CoefficientSpread } from './coefficient-spread';
+import { coefficientSpread, transferSpread, type CoefficientSpread } from './coefficient-spread';
 import type { BoundaryPartSpec, ProblemSpec } from './schema';
 
 /** The domain and problem built from a {@link ProblemSpec}. */
@@ -19,9 +19,9 @@ export interface BuiltProblem {
   domain: SpatialDomain;
   problem: HeatProblem;
   /**
-   * Where κ and c vary most inside an initial element (they are taken at its centroid), one entry per
-   * coefficient that varies there; empty when both are constant per initial element
-   * (./coefficient-spread.ts).
+   * Where κ and c vary most inside an initial element (they are taken at its centroid), and h along
+   * an initial convection edge (taken at its midpoint): one entry per coefficient that varies there;
+   * empty when all are constant per initial element and edge (./coefficient-spread.ts).
    */
   coefficientSpread: CoefficientSpread[];
 }
@@ -151,6 +151,12 @@ export function buildProblem(spec: ProblemSpec): BuiltProblem {
     const s = e.constant ? null : coefficientSpread(mesh, field, f as (x: number, y: number) => number);
     if (s) spreads.push(s);
   }
+  spec.boundary.forEach((b, p) => {
+    if (b.kind !== 'convection' || b.transferCoefficient!.constant) return;
+    const h = b.transferCoefficient!.fn;
+    const s = transferSpread(mesh, domain.forest.boundary.edgePart, p, (x, y) => h(0, x, y));
+    if (s) spreads.push(s);
+  });
   const zeroInitial = spec.initial.constant && spec.initial.fn(0, 0, 0) === 0;
   const problem = new HeatProblem({ domain, T: spec.horizon, ...(zeroInitial ? {} : { initial }), ...(source ? { source } : {}) });
   return { spec, domain, problem, coefficientSpread: spreads };

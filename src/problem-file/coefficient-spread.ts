@@ -1,20 +1,21 @@
 /**
- * How much κ and c vary inside the initial elements. The library takes both constant per initial
- * element, at its centroid (README, "What it solves"), so a coefficient that varies inside an
- * element is replaced by a piecewise-constant one: a change of the model that refinement does not
- * undo and the estimator does not see. The front end measures the largest relative variation at
- * interior points of every initial element (points strictly inside, so a coefficient that jumps
- * along element edges, as at a material interface, shows none) and reports where it is largest.
+ * How much κ and c vary inside the initial elements, and h along the initial convection edges. The
+ * library takes κ and c constant per initial element, at its centroid (README, "What it solves"),
+ * and h constant per initial boundary edge, at its midpoint, so a coefficient that varies there is
+ * replaced by a piecewise-constant one: a change of the model that refinement does not undo and the
+ * estimator does not see. The front end measures the largest relative variation at interior points
+ * of every initial element or edge (points strictly inside, so a coefficient that jumps at element
+ * edges or vertices, as at a material interface, shows none) and reports where it is largest.
  */
 import type { LeafMesh } from './core';
 
 /** The largest variation of one coefficient inside an initial element. */
 export interface CoefficientSpread {
-  /** The problem-file field. */
-  readonly field: 'diffusion' | 'reaction';
-  /** max |v(p) − v(centroid)| / max |v| over the element's sample points (0 … 2). */
+  /** The problem-file field: `diffusion`, `reaction` or `boundary[p].transferCoefficient`. */
+  readonly field: 'diffusion' | 'reaction' | `boundary[${number}].transferCoefficient`;
+  /** max |v(p) − v(centroid)| / max |v| over the element's (edge's) sample points (0 … 2). */
   readonly relative: number;
-  /** Centroid of the initial element where it is largest ([x, 0] in 1D). */
+  /** Centroid of the initial element (midpoint of the initial boundary edge) where it is largest ([x, 0] in 1D). */
   readonly centroid: readonly [number, number];
 }
 
@@ -53,6 +54,34 @@ export function coefficientSpread(mesh: LeafMesh, field: CoefficientSpread['fiel
     }
     const relative = scale > 0 ? spread / scale : 0;
     if (relative > 1e-12 && (worst === null || relative > worst.relative)) worst = { field, relative, centroid: [cx, cy] };
+  }
+  return worst;
+}
+
+/**
+ * The initial boundary edge of part `part` where the transfer coefficient `h` varies most along the
+ * edge, or null if it is constant per edge up to rounding (always in 1D, where edges are points).
+ * `mesh` is the initial mesh and `edgePart` the part of each initial boundary edge.
+ */
+export function transferSpread(mesh: LeafMesh, edgePart: Int32Array, part: number, h: (x: number, y: number) => number): CoefficientSpread | null {
+  const bs = mesh.boundarySegments;
+  if (mesh.dim === 1 || !bs) return null;
+  const xy = mesh.coords;
+  let worst: CoefficientSpread | null = null;
+  for (let s = 0; s < bs.count; s++) {
+    if (edgePart[bs.edge[s]!] !== part) continue;
+    const i0 = bs.vertices[2 * s]!, i1 = bs.vertices[2 * s + 1]!;
+    const at = (b: number): [number, number] => [(1 - b) * xy[2 * i0]! + b * xy[2 * i1]!, (1 - b) * xy[2 * i0 + 1]! + b * xy[2 * i1 + 1]!];
+    const mid = at(0.5);
+    const c = h(mid[0], mid[1]);
+    let scale = Math.abs(c), spread = 0;
+    for (const [, b] of SEG) {
+      const value = h(...at(b!));
+      scale = Math.max(scale, Math.abs(value));
+      spread = Math.max(spread, Math.abs(value - c));
+    }
+    const relative = scale > 0 ? spread / scale : 0;
+    if (relative > 1e-12 && (worst === null || relative > worst.relative)) worst = { field: `boundary[${part}].transferCoefficient`, relative, centroid: mid };
   }
   return worst;
 }

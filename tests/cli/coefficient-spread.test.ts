@@ -36,4 +36,24 @@ describe('coefficients that vary inside initial elements', () => {
     solveFile(file, { log: () => {}, progress: (l) => progress.push(l) });
     expect(progress.filter((l) => /^warning: diffusion varies by up to \d+ % inside the initial element with centroid/.test(l))).toHaveLength(1);
   });
+
+  it('h along convection edges: measured per initial edge, warned from the command line above 1 %', () => {
+    // rectangle (0, 2) × (0, 1), 2 × 1 cells, convection on y = 0 with h = 1 + x: the edge (1, 2)
+    // has midpoint 1.5 (h = 2.5) and samples x = 1.1 … 1.9 (h = 2.1 … 2.9): spread 0.4 / 2.9; the
+    // edge (0, 1) gives 0.4 / 1.9, the largest
+    const domain = { shape: 'rectangle', from: [0, 0], to: [2, 1], cells: [2, 1] };
+    const part = (h: string) => ({ kind: 'convection', where: 'y < 1e-9', transferCoefficient: h, ambient: '0' });
+    const built = buildProblem(parseProblem({ domain, horizon: 1, initial: '1', boundary: [part('1 + x')] }));
+    expect(built.coefficientSpread).toHaveLength(1);
+    expect(built.coefficientSpread[0]!.field).toBe('boundary[0].transferCoefficient');
+    expect(built.coefficientSpread[0]!.relative).toBeCloseTo(0.4 / 1.9, 12);
+    expect(built.coefficientSpread[0]!.centroid).toEqual([0.5, 0]);
+    // constant per edge (a jump at a vertex shows none), or constant: nothing
+    for (const h of ['5', 'x < 1 ? 1 : 3']) expect(buildProblem(parseProblem({ domain, horizon: 1, initial: '1', boundary: [part(h)] })).coefficientSpread).toEqual([]);
+    const file = join(mkdtempSync(join(tmpdir(), 'chronomesh-coef-')), 'h.json');
+    writeFileSync(file, JSON.stringify({ domain, horizon: 0.1, initial: '1', boundary: [part('1 + x')], maxDofs: 100 }));
+    const progress: string[] = [];
+    solveFile(file, { log: () => {}, progress: (l) => progress.push(l) });
+    expect(progress.filter((l) => /^warning: boundary\[0\]\.transferCoefficient varies by up to 21 % along the initial boundary edge with midpoint \(0\.5, 0\); it is taken constant per initial boundary edge/.test(l))).toHaveLength(1);
+  });
 });
