@@ -68,7 +68,11 @@ export interface AdaptiveOptions {
   theta?: number;
   /** Stop when E ≤ tolerance (default 0: run until another limit). */
   tolerance?: number;
-  /** Stop before a step whose Λ would exceed this many unknowns (default 2e5). */
+  /**
+   * Stop before a step whose Λ would exceed this many unknowns (default 2e5). The first step runs on
+   * the first set whatever its size: the default one grows with data it must resolve (narrow
+   * sources, hot spots, pulses; docs/adaptivity.md §2.1–2.3), so it can exceed a small budget.
+   */
   maxUnknowns?: number;
   /** Maximum number of steps (default 40). */
   maxSteps?: number;
