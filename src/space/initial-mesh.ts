@@ -141,8 +141,10 @@ function requireSomeDirichletOrReaction(vertexFree: Uint8Array, reaction: Float6
   for (let e = 0; e < reaction.length; e++) if (reaction[e]! > 0) return;
   throw new InvalidMeshError(
     'the whole boundary is insulated (or carries a prescribed flux, or convects with h = 0) and the reaction coefficient is zero everywhere: ' +
-      'the spatial form is then not coercive (constants have zero energy), so the problem has no unique solution; ' +
-      'hold part of the boundary at a value, give a convective part h > 0, or give reaction > 0 somewhere',
+      'the spatial form is then not coercive (constants have zero energy), which this method needs (the heat equation itself is well posed); ' +
+      'hold part of the boundary at a value, give a convective part h > 0, or give reaction > 0 somewhere. ' +
+      'For a body insulated all round, solve for v = e^{-λt}·u instead: reaction λ (e.g. 1/T), source and flux multiplied by e^{-λt}, ' +
+      'and multiply v by e^{λt} afterwards (docs/method.md §1.1)',
     { field: 'boundary', expected: 'some value part, some convection with h > 0, or reaction > 0 on some element', received: 'all boundary insulated or flux' },
   );
 }
