@@ -75,6 +75,14 @@ problem file fields (JSON object):
               {"kind":"flux","where":…,"flux":q(t,x,y)}          κ∂u/∂n = q (q > 0 heats)
               {"kind":"convection","where":…,"transferCoefficient":h(x,y),
                "ambient":u∞(t,x,y)}                               κ∂u/∂n = h(u∞ − u)
+               (h is taken at the midpoint of each initial edge; a warning
+               names the edge where it varies most along, if by more than 1 %)
+              Narrow fluxes and pulses in time (of f, q, u∞ or g) are found by
+              sampling before the first step and resolved in the loads and the
+              first adaptive set; features shorter than about T/4000 or
+              narrower than about diam(Ω)/400 can be missed. A body insulated
+              all round is refused: pose v = e^(−λt)·u with reaction λ and the
+              data times e^(−λt), then multiply by e^(λt) (docs/method.md §1.1).
   strategy    "adaptive" (default), "sparse" or "full" (grids of growing level)
   tolerance   stop when the estimator E ≤ tolerance (default ${PROBLEM_DEFAULTS.tolerance})
   maxDofs     unknown budget (default ${PROBLEM_DEFAULTS.maxDofs})
