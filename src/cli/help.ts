@@ -71,7 +71,9 @@ problem file fields (JSON object):
                along the part: exact for g affine along each initial edge,
                e.g. a history g(t); otherwise the run reports the error left,
                "heldDataError" (warning when ≥ E/2), which refinement does not
-               reduce; a tolerance below it is refused: give more cells there)
+               reduce; a tolerance below it is refused: give more cells there;
+               g must be continuous in time: a jump is refused, split the run
+               at it and restart from the end state)
               {"kind":"flux","where":…,"flux":q(t,x,y)}          κ∂u/∂n = q (q > 0 heats)
               {"kind":"convection","where":…,"transferCoefficient":h(x,y),
                "ambient":u∞(t,x,y)}                               κ∂u/∂n = h(u∞ − u)

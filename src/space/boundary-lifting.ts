@@ -53,22 +53,25 @@ export class BoundaryLifting {
 
   /** g_d(t) for every lifting vertex, into `out` (length = vertices.length); checks finiteness. */
   values(t: number, out: Float64Array): Float64Array {
-    const f = this.forest, d = f.dim;
-    for (let i = 0; i < this.vertices.length; i++) {
-      const v = this.vertices[i]!;
-      const x = f.vCoord[v * d]!, y = d === 2 ? f.vCoord[v * d + 1]! : 0;
-      const p = this.part[i]!;
-      const g = this.data[p]!(t, x, y);
-      if (typeof g !== 'number' || !Number.isFinite(g)) {
-        throw new InvalidArgumentError(`boundary[${p}].value(${t}, ${x}, ${y}) returned ${String(g)}; expected a finite number`, {
-          field: `boundary[${p}].value`,
-          expected: 'finite number',
-          received: String(g),
-        });
-      }
-      out[i] = g;
-    }
+    for (let i = 0; i < this.vertices.length; i++) out[i] = this.valueAt(i, t);
     return out;
+  }
+
+  /** g_i(t) of lifting vertex i (an index into `vertices`); checks finiteness. */
+  valueAt(i: number, t: number): number {
+    const f = this.forest, d = f.dim;
+    const v = this.vertices[i]!;
+    const x = f.vCoord[v * d]!, y = d === 2 ? f.vCoord[v * d + 1]! : 0;
+    const p = this.part[i]!;
+    const g = this.data[p]!(t, x, y);
+    if (typeof g !== 'number' || !Number.isFinite(g)) {
+      throw new InvalidArgumentError(`boundary[${p}].value(${t}, ${x}, ${y}) returned ${String(g)}; expected a finite number`, {
+        field: `boundary[${p}].value`,
+        expected: 'finite number',
+        received: String(g),
+      });
+    }
+    return g;
   }
 
   /** values[i] += G(t, x_i) for the nodal vector of a leaf mesh (length vertexCount). */

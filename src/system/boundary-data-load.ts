@@ -36,6 +36,7 @@ export function addBoundaryLoads(problem: HeatProblem, testSet: DoubleTree, plan
   if (!tables.hasData) return;
   const lifting = liftingOf(domain.forest);
   const nd = lifting.vertices.length;
+  if (nd > 0) problem.heldDataError(); // refuses held values that jump in time (checked once per problem)
   const natural = tables.parts.some((p) => p.kind !== 'value' && p.data !== null);
   const { nodes, weights } = gaussLegendre01(LOAD_TIME_POINTS);
   const breaks = problem.loadTimeBreakpoints().times;

@@ -6,6 +6,7 @@
 import { InvalidArgumentError } from '../errors';
 import { SpatialDomain } from '../space/index';
 import { heldDataError, type HeldDataError } from '../space/held-data-error';
+import { checkHeldValueContinuity } from '../space/held-value-continuity';
 import { loadBreakpoints, type LoadBreakpoints } from './load-time-rule';
 import { checkOptions } from '../validation/index';
 
@@ -108,7 +109,11 @@ export class HeatProblem {
    * ```
    */
   heldDataError(): HeldDataError {
-    this.heldData ??= heldDataError(this.domain.forest, this.T);
+    if (this.heldData === null) {
+      // A held value that jumps in time has no data error to speak of: the run would diverge.
+      checkHeldValueContinuity(this.domain.forest, this.T);
+      this.heldData = heldDataError(this.domain.forest, this.T);
+    }
     return this.heldData;
   }
 
