@@ -7,7 +7,8 @@ import { DoubleTree } from '../spacetime/double-tree';
 import { shortestDiffusionTime } from '../space/diffusion-time';
 import { MAX_TEMPORAL_LEVEL } from '../time/index';
 import type { HeatProblem } from '../system/heat-problem';
-import type { SampledDatum } from '../space/data-resolution';
+import { dataResolvedSet, type SampledDatum } from '../space/data-resolution';
+import { boundaryDataResolvedSet } from '../space/boundary-data-resolution';
 import { unionOfTwoSorted } from '../space/operator-plan';
 
 /**
@@ -30,9 +31,10 @@ export function defaultInitialSet(problem: HeatProblem): DoubleTree {
   for (let L = 1; ; L++) {
     const set = DoubleTree.sparseGrid(problem.domain, L);
     if (set.size > 0 || L >= 8) {
-      const initial = problem.domain.dataResolvedSet(initialData(problem));
-      const source = problem.domain.dataResolvedSet(sourceData(problem));
-      const boundary = problem.domain.boundaryDataResolvedSet(sampleTimes(problem.T));
+      const closure = problem.domain.vertexClosure();
+      const initial = dataResolvedSet(closure, initialData(problem));
+      const source = dataResolvedSet(closure, sourceData(problem));
+      const boundary = boundaryDataResolvedSet(closure, sampleTimes(problem.T));
       const tau = Math.min(shortestDiffusionTime(problem.domain), initial.tau);
       const extra = unionOfTwoSorted(unionOfTwoSorted(initial.set, source.set), boundary);
       return withPulseNodes(problem, withVertices(problem, gradedTowardsStart(problem, set, tau), extra));

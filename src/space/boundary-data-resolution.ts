@@ -17,7 +17,8 @@
  */
 import { InvalidArgumentError } from '../errors';
 import { EdgeKind, naturalEdgeIndex, type BoundaryTables } from './boundary';
-import { DATA_TOLERANCE, bisectWhere, sameValues, sampleSpacing } from './data-resolution';
+import { DATA_TOLERANCE, bisectWhere, sampleSpacing } from './data-resolution';
+import { sameValues } from '../numerics/same-values';
 import { INTERVAL_POINTS, INTERVAL_WEIGHTS } from './quadrature';
 import type { VertexClosure } from './vertex-closure';
 

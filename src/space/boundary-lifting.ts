@@ -19,17 +19,16 @@
  * coefficients g_d(t) at the initial vertices d and 0 elsewhere on every leaf mesh, and the
  * initial vertices have local index = global id in every leaf mesh (./leaf-mesh order).
  */
-import { InvalidArgumentError } from '../errors';
 import type { BisectionForest } from './forest';
 import { hierarchicalToNodal } from './hierarchical';
 import { InitialLocator } from './initial-locator';
+import { heldValuesOf, type HeldValues } from './held-values';
 import type { LeafMesh } from './leaf-mesh';
 
 export class BoundaryLifting {
   /** Initial vertices carrying a prescribed value with data (sorted). */
   readonly vertices: Int32Array;
-  private readonly part: Int32Array;
-  private readonly data: ((t: number, x: number, y: number) => number)[];
+  private readonly held: HeldValues;
   private readonly forest: BisectionForest;
   private locator: InitialLocator | null = null;
   private readonly scratch: Float64Array;
@@ -37,13 +36,9 @@ export class BoundaryLifting {
 
   constructor(forest: BisectionForest) {
     this.forest = forest;
-    const vp = forest.boundary.vertexValuePart;
-    const vs: number[] = [];
-    for (let v = 0; v < vp.length; v++) if (vp[v]! >= 0 && forest.vFree[v] === 0) vs.push(v);
-    this.vertices = Int32Array.from(vs);
-    this.part = Int32Array.from(vs, (v) => vp[v]!);
-    this.data = forest.boundary.parts.map((p) => p.data ?? (() => 0));
-    this.scratch = new Float64Array(vs.length);
+    this.held = heldValuesOf(forest);
+    this.vertices = this.held.vertices;
+    this.scratch = new Float64Array(this.vertices.length);
   }
 
   /** True when G ≡ 0 (no value part with non-zero data). */
@@ -53,25 +48,7 @@ export class BoundaryLifting {
 
   /** g_d(t) for every lifting vertex, into `out` (length = vertices.length); checks finiteness. */
   values(t: number, out: Float64Array): Float64Array {
-    for (let i = 0; i < this.vertices.length; i++) out[i] = this.valueAt(i, t);
-    return out;
-  }
-
-  /** g_i(t) of lifting vertex i (an index into `vertices`); checks finiteness. */
-  valueAt(i: number, t: number): number {
-    const f = this.forest, d = f.dim;
-    const v = this.vertices[i]!;
-    const x = f.vCoord[v * d]!, y = d === 2 ? f.vCoord[v * d + 1]! : 0;
-    const p = this.part[i]!;
-    const g = this.data[p]!(t, x, y);
-    if (typeof g !== 'number' || !Number.isFinite(g)) {
-      throw new InvalidArgumentError(`boundary[${p}].value(${t}, ${x}, ${y}) returned ${String(g)}; expected a finite number`, {
-        field: `boundary[${p}].value`,
-        expected: 'finite number',
-        received: String(g),
-      });
-    }
-    return g;
+    return this.held.values(t, out);
   }
 
   /** values[i] += G(t, x_i) for the nodal vector of a leaf mesh (length vertexCount). */

@@ -19,6 +19,7 @@
 import { InvalidArgumentError } from '../errors';
 import { BYTES_PER_FOREST_VERTEX, memoryBudget } from '../validation/index';
 import { elementDiffusionTime } from './diffusion-time';
+import { sameValues } from '../numerics/same-values';
 import { INTERVAL_POINTS, INTERVAL_WEIGHTS, TRIANGLE_POINTS, TRIANGLE_WEIGHTS } from './quadrature';
 import type { VertexClosure } from './vertex-closure';
 
@@ -134,12 +135,6 @@ function fingerprint(f: VertexClosure['forest'], g: (x: number, y: number) => nu
   return Float64Array.from(values);
 }
 
-/** True when both arrays hold the same values. @internal */
-export function sameValues(a: Float64Array, b: Float64Array): boolean {
-  if (a.length !== b.length) return false;
-  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
-  return true;
-}
 
 /** m such that 2^m sub-edges of element e are no longer than min(delta, its diameter / 8). */
 function subdivisions(f: VertexClosure['forest'], e: number, delta: number): number {

@@ -6,8 +6,6 @@
  * point location (./point-location.ts); they share the scratch of one VertexClosure.
  */
 import { InvalidArgumentError, describeValue } from '../errors';
-import { dataResolvedSet, type SampledDatum } from './data-resolution';
-import { boundaryDataResolvedSet } from './boundary-data-resolution';
 import { BisectionForest } from './forest';
 import type { InitialMesh } from './initial-mesh';
 import type { LeafMesh } from './leaf-mesh';
@@ -210,21 +208,12 @@ export class SpatialDomain {
   }
 
   /**
-   * Closed set on whose leaf mesh the load quadrature resolves the given data (localized sources,
-   * hot spots; ./data-resolution.ts), and the shortest diffusion time h²/κ of the elements this
-   * creates (∞ if none). Refines the forest where needed. @internal
+   * The vertex-closure machinery of this domain, for the free functions that refine its forest
+   * where data need it (./data-resolution.ts, ./boundary-data-resolution.ts): kept out of the class
+   * so that a bundle without the adaptive loop does not carry them. @internal
    */
-  dataResolvedSet(data: readonly SampledDatum[]): { set: Int32Array; tau: number } {
-    return dataResolvedSet(this.closure, data);
-  }
-
-  /**
-   * Closed set on whose leaf mesh the boundary-load quadrature resolves the flux and ambient data
-   * sampled at `times` (heated strips, jets; ./boundary-data-resolution.ts). Refines the forest
-   * where needed. @internal
-   */
-  boundaryDataResolvedSet(times: readonly number[]): Int32Array {
-    return boundaryDataResolvedSet(this.closure, times);
+  vertexClosure(): VertexClosure {
+    return this.closure;
   }
 
   // ---------------------------------------------------------------- leaf mesh

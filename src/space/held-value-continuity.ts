@@ -15,9 +15,9 @@
  * followed, the largest changes first.
  */
 import { InvalidArgumentError } from '../errors';
-import { sameValues } from './data-resolution';
+import { sameValues } from '../numerics/same-values';
 import type { BisectionForest } from './forest';
-import { liftingOf } from './boundary-lifting';
+import { heldValuesOf } from './held-values';
 
 const SAMPLES = 4096;
 const HALVINGS = 30;
@@ -26,12 +26,12 @@ const CANDIDATES = 16;
 
 /** Throws an InvalidArgumentError naming the part, the time and the remedy where a held value jumps in time. @internal */
 export function checkHeldValueContinuity(forest: BisectionForest, T: number): void {
-  const lifting = liftingOf(forest);
-  const nd = lifting.vertices.length;
+  const held = heldValuesOf(forest);
+  const nd = held.vertices.length;
   if (nd === 0) return;
   let w = new Float64Array(SAMPLES + 1), previous = new Float64Array(SAMPLES + 1);
   for (let d = 0; d < nd; d++) {
-    for (let j = 0; j <= SAMPLES; j++) w[j] = lifting.valueAt(d, (T * j) / SAMPLES);
+    for (let j = 0; j <= SAMPLES; j++) w[j] = held.valueAt(d, (T * j) / SAMPLES);
     if (d > 0 && sameValues(w, previous)) continue; // the same history as the vertex checked before
     [w, previous] = [previous, w];
     check(d, previous);
@@ -50,14 +50,14 @@ export function checkHeldValueContinuity(forest: BisectionForest, T: number): vo
       let ga = w[j]!, gb = w[j + 1]!;
       for (let h = 0; h < HALVINGS; h++) {
         const m = 0.5 * (a + b);
-        const gm = lifting.valueAt(d, m);
+        const gm = held.valueAt(d, m);
         if (Math.abs(gm - ga) >= Math.abs(gb - gm)) { b = m; gb = gm; } else { a = m; ga = gm; }
       }
       if (!(Math.abs(gb - ga) > threshold)) continue;
-      const vertex = lifting.vertices[d]!;
+      const vertex = held.vertices[d]!;
       const dim = forest.dim;
       const x = forest.vCoord[vertex * dim]!, y = dim === 2 ? forest.vCoord[vertex * dim + 1]! : 0;
-      const part = forest.boundary.vertexValuePart[vertex]!;
+      const part = held.part[d]!;
       const t = 0.5 * (a + b);
       throw new InvalidArgumentError(
         `boundary[${part}].value jumps from ${ga} to ${gb} at t ≈ ${t < 1e-9 * T ? '0 (just after the start)' : Number(t.toPrecision(6))} (at (${x}, ${y})): held values must be continuous in time, ` +

@@ -22,7 +22,7 @@
 import { InvalidArgumentError } from '../errors';
 import { gaussLegendre01 } from '../numerics/gauss-legendre';
 import { boundarySamplePoints, domainSamplePoints } from '../space/sample-points';
-import { liftingOf } from '../space/boundary-lifting';
+import { heldValuesOf } from '../space/held-values';
 import type { HeatProblem } from './heat-problem';
 
 /** Gauss points per half interval: as the loads. */
@@ -168,11 +168,11 @@ function boundaryGroup(problem: HeatProblem): WatchedGroup | null {
   const { x, y, w, part } = boundarySamplePoints(problem.domain.forest, MAX_POINTS);
   if (x.length === 0) return null;
   const values = new Float64Array(x.length);
+  const fields = tables.parts.map((q, j) => (q.kind === 'flux' ? `boundary[${j}].flux` : `boundary[${j}].ambient`));
   const sample = (t: number): Float64Array => {
     for (let p = 0; p < x.length; p++) {
       const j = part[p]!;
-      const field = tables.parts[j]!.kind === 'flux' ? `boundary[${j}].flux` : `boundary[${j}].ambient`;
-      values[p] = finite(tables.parts[j]!.data!(t, x[p]!, y[p]!), field, x[p]!, y[p]!, t);
+      values[p] = finite(tables.parts[j]!.data!(t, x[p]!, y[p]!), fields[j]!, x[p]!, y[p]!, t);
     }
     return values;
   };
@@ -181,10 +181,10 @@ function boundaryGroup(problem: HeatProblem): WatchedGroup | null {
 
 /** The prescribed values at the vertices that carry them (weight 1 each). */
 function heldGroup(problem: HeatProblem): WatchedGroup | null {
-  const lifting = liftingOf(problem.domain.forest);
-  if (lifting.isZero) return null;
-  const values = new Float64Array(lifting.vertices.length);
-  return { weights: new Float64Array(values.length).fill(1), sample: (t) => lifting.values(t, values) };
+  const held = heldValuesOf(problem.domain.forest);
+  if (held.vertices.length === 0) return null;
+  const values = new Float64Array(held.vertices.length);
+  return { weights: new Float64Array(values.length).fill(1), sample: (t) => held.values(t, values) };
 }
 
 function finite(v: number, field: string, x: number, y: number, t?: number): number {

@@ -16,6 +16,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { HeatProblem, intervalDomain, rectangleDomain, solveAdaptive, type SpaceTimeSolution } from '../../src/index';
+import { boundaryDataResolvedSet } from '../../src/space/boundary-data-resolution';
 
 const PI = Math.PI;
 
@@ -108,10 +109,10 @@ describe('boundary data finer than the initial mesh or than the time rule', () =
     expect(new HeatProblem({ domain: domain(0, pulse), T: 0.5 }).loadTimeBreakpoints().times.length).toBe(0);
     const smooth = domain(5, (t, x) => 20 + 10 * t * Math.sin(PI * x));
     expect(new HeatProblem({ domain: smooth, T: 0.5 }).loadTimeBreakpoints().times.length).toBe(0);
-    expect(smooth.boundaryDataResolvedSet([0, 0.25, 0.5])).toEqual(smooth.close([]));
+    expect(boundaryDataResolvedSet(smooth.vertexClosure(), [0, 0.25, 0.5])).toEqual(smooth.close([]));
     // a jet of width 0.003 hitting the face at x = 0.7: the set grows toward it
     const jet = domain(5, (_t, x) => 100 * Math.exp(-(((x - 0.7) / 0.003) ** 2)));
-    const set = jet.boundaryDataResolvedSet([0]);
+    const set = boundaryDataResolvedSet(jet.vertexClosure(), [0]);
     const onFace = Array.from(set, (v) => [jet.coordinate(v, 0), jet.coordinate(v, 1)] as const).filter(([, y]) => y < 1e-12).map(([x]) => x).sort((a, b) => a - b);
     // the face is split finest at the jet (spacing 1/256 measured, about its width), elsewhere coarse
     const gapAt = (x: number) => Math.min(...onFace.slice(1).map((b, i) => (Math.abs((b + onFace[i]!) / 2 - x) < 0.01 ? b - onFace[i]! : Infinity)));
