@@ -16,7 +16,7 @@
  * The data are sampled at the given times. In 1D the boundary is a point and nothing is refined.
  */
 import { InvalidArgumentError } from '../errors';
-import { EdgeKind, naturalEdgeIndex, type BoundaryTables } from './boundary';
+import { EdgeKind, naturalDataFactor, naturalEdgeIndex, type BoundaryTables } from './boundary';
 import { DATA_TOLERANCE, bisectWhere, sampleSpacing } from './data-resolution';
 import { sameValues } from '../numerics/same-values';
 import { INTERVAL_POINTS, INTERVAL_WEIGHTS } from './quadrature';
@@ -70,13 +70,11 @@ export function boundaryDataResolvedSet(closure: VertexClosure, times: readonly 
 function edgeLoads(tables: BoundaryTables, b: number, t: number, xy: Float64Array, i0: number, i1: number, spacing: number, out: Float64Array, values: number[] | null): number {
   out[0] = 0;
   out[1] = 0;
-  const p = tables.edgePart[b]!;
-  const data = p >= 0 ? tables.parts[p]!.data : null;
-  const kind = tables.edgeKind[b]!;
-  if (data === null || (kind !== EdgeKind.Flux && kind !== EdgeKind.Convection)) return 0;
-  const c = kind === EdgeKind.Convection ? tables.transfer[b]! : 1;
+  const c = naturalDataFactor(tables, b);
   if (c === 0) return 0;
-  const field = kind === EdgeKind.Convection ? `boundary[${p}].ambient` : `boundary[${p}].flux`;
+  const p = tables.edgePart[b]!;
+  const data = tables.parts[p]!.data!;
+  const field = tables.edgeKind[b] === EdgeKind.Convection ? `boundary[${p}].ambient` : `boundary[${p}].flux`;
   const x0 = xy[2 * i0]!, y0 = xy[2 * i0 + 1]!, x1 = xy[2 * i1]!, y1 = xy[2 * i1 + 1]!;
   const len = Math.hypot(x1 - x0, y1 - y0);
   const m = spacing === Infinity ? 0 : Math.min(14, Math.max(3, Math.ceil(Math.log2(len / spacing))));

@@ -6,7 +6,7 @@
  * point and the load is the data value there.
  */
 import { InvalidArgumentError } from '../errors';
-import { EdgeKind, type BoundaryTables } from './boundary';
+import { EdgeKind, naturalDataFactor, type BoundaryTables } from './boundary';
 import type { LeafMesh } from './leaf-mesh';
 import { INTERVAL_POINTS, INTERVAL_WEIGHTS } from './quadrature';
 
@@ -18,14 +18,11 @@ export function addNodalBoundaryLoad(mesh: LeafMesh, tables: BoundaryTables, t: 
   let any = false;
   for (let s = 0; s < bs.count; s++) {
     const b = bs.edge[s]!;
-    const p = tables.edgePart[b]!;
-    if (p < 0) continue;
-    const f = tables.parts[p]!.data;
-    if (f === null) continue;
-    const kind = tables.edgeKind[b]!;
-    const h = kind === EdgeKind.Convection ? tables.transfer[b]! : 1;
+    const h = naturalDataFactor(tables, b);
     if (h === 0) continue;
-    const field = kind === EdgeKind.Convection ? `boundary[${p}].ambient` : `boundary[${p}].flux`;
+    const p = tables.edgePart[b]!;
+    const f = tables.parts[p]!.data!;
+    const field = tables.edgeKind[b] === EdgeKind.Convection ? `boundary[${p}].ambient` : `boundary[${p}].flux`;
     const i0 = bs.vertices[2 * s]!, i1 = bs.vertices[2 * s + 1]!;
     any = true;
     if (mesh.dim === 1) {

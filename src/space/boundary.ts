@@ -173,6 +173,17 @@ export interface NormalisedPart {
   readonly spec: BoundaryPart;
 }
 
+/**
+ * The factor of initial boundary edge b's data in the boundary load: h on a convection edge, 1 on a
+ * flux edge, 0 where the edge carries no flux or ambient data (or h = 0).
+ */
+export function naturalDataFactor(tables: BoundaryTables, b: number): number {
+  const p = tables.edgePart[b]!, kind = tables.edgeKind[b]!;
+  if (p < 0 || tables.parts[p]!.data === null) return 0;
+  if (kind === EdgeKind.Convection) return tables.transfer[b]!;
+  return kind === EdgeKind.Flux ? 1 : 0;
+}
+
 /** Boundary-edge code of natural edge b (flux or convection) in the forest's neighbour table. */
 export const naturalEdgeCode = (b: number): number => -3 - b;
 /** Inverse of {@link naturalEdgeCode}: the initial boundary-edge index of a code ≤ −3, else −1. */

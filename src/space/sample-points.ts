@@ -5,7 +5,7 @@
  * the natural boundary edges that carry data. Used to watch how data vary in time at many places at
  * once.
  */
-import { EdgeKind } from './boundary';
+import { naturalDataFactor } from './boundary';
 import type { BisectionForest } from './forest';
 import { INTERVAL_POINTS, INTERVAL_WEIGHTS, TRIANGLE_POINTS, TRIANGLE_WEIGHTS } from './quadrature';
 
@@ -54,18 +54,13 @@ export function boundarySamplePoints(f: BisectionForest, maxPoints: number): { x
   const tables = f.boundary;
   const d = f.dim;
   const edges: number[] = [];
-  for (let b = 0; b < tables.edgeCount; b++) {
-    const p = tables.edgePart[b]!, kind = tables.edgeKind[b]!;
-    if (p < 0 || tables.parts[p]!.data === null || (kind !== EdgeKind.Flux && kind !== EdgeKind.Convection)) continue;
-    if (kind === EdgeKind.Convection && tables.transfer[b] === 0) continue;
-    edges.push(b);
-  }
+  for (let b = 0; b < tables.edgeCount; b++) if (naturalDataFactor(tables, b) !== 0) edges.push(b);
   const per = d === 2 ? 2 * INTERVAL_WEIGHTS.length : 1;
   const stride = Math.max(1, Math.ceil((edges.length * per) / maxPoints));
   const x: number[] = [], y: number[] = [], w: number[] = [], part: number[] = [];
   for (let i = 0; i < edges.length; i += stride) {
     const b = edges[i]!;
-    const c = stride * (tables.edgeKind[b] === EdgeKind.Convection ? tables.transfer[b]! : 1);
+    const c = stride * naturalDataFactor(tables, b);
     const i0 = tables.edgeVertices[2 * b]!, i1 = tables.edgeVertices[2 * b + 1]!;
     if (d === 1) {
       x.push(f.vCoord[i0]!); y.push(0); w.push(c); part.push(tables.edgePart[b]!);
