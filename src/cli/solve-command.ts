@@ -1,5 +1,6 @@
 /** `chronomesh solve PROBLEM.json [--json] [--out DIR] [--checkpoint FILE] [--resume FILE] [--quiet] [--debug]`. */
 import { readFileSync } from 'node:fs';
+import { dirname, resolve } from 'node:path';
 import { buildProblem, parseProblem, runProblem, type RunResult } from '../problem-file/index';
 import { ChronomeshError } from '../index';
 import { checkpointToFile, readFileBytes } from '../files/index';
@@ -57,7 +58,8 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
   };
   let built;
   try {
-    const spec = parseProblem(json);
+    // A state file named in the problem is read relative to the problem file's folder.
+    const spec = parseProblem(json, { readText: (path) => readFileSync(resolve(dirname(file), path), 'utf8') });
     if (opts.budget?.maxDofs !== undefined) spec.maxDofs = Math.min(spec.maxDofs, opts.budget.maxDofs);
     if (opts.budget?.maxSeconds !== undefined) spec.maxSeconds = Math.min(spec.maxSeconds, opts.budget.maxSeconds);
     built = buildProblem(spec);

@@ -2,7 +2,7 @@
 import { accessSync, constants, mkdirSync, unlinkSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { convergencePlotSvg, indexSetToSvg, sliceToSvg, sliceToVtu, vtkCollection } from '../index';
-import type { ProblemSpec, RunResult } from '../problem-file/index';
+import { stateToJson, type ProblemSpec, type RunResult } from '../problem-file/index';
 import { CliError } from './cli-error';
 
 /** Creates DIR if needed and proves it writable by writing and removing a file, before any work. */
@@ -53,6 +53,8 @@ export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): st
     return { t, file };
   });
   save('slices.pvd', vtkCollection(entries));
+  // The state at the horizon, for a run that continues this one ("initial": {"state": …}).
+  save('end-state.json', stateToJson(run.solution.state(spec.horizon), spec.horizon, `${name} at t = ${spec.horizon}`) + '\n');
   const pts = run.steps.filter((s) => s.estimate > 0).map((s) => [s.dofs, s.estimate] as [number, number]);
   const truePts = run.steps.filter((s) => typeof s.trueError === 'number' && s.trueError > 0).map((s) => [s.dofs, s.trueError!] as [number, number]);
   if (pts.length > 0) {

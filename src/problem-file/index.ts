@@ -7,6 +7,7 @@
 export { compileExpression, type CompiledExpression, type ExpressionVariable } from './expression';
 export { compileWithDerivatives } from './derivative';
 export { nearestName } from './nearest-name';
-export { parseProblem, PROBLEM_FIELDS, PROBLEM_DEFAULTS, type ProblemSpec, type DomainSpec } from './schema';
+export { parseProblem, PROBLEM_FIELDS, PROBLEM_DEFAULTS, type ProblemSpec, type DomainSpec, type ParseProblemOptions } from './schema';
+export { parseState, stateToJson, STATE_FORMAT } from './state-file';
 export { buildProblem, type BuiltProblem } from './build';
 export { runProblem, observedRate, type RunResult, type RunStep, type ProbeValue, type RunAdaptiveOptions, type ExactErrors } from './run';

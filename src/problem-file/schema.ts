@@ -8,6 +8,8 @@ import { InvalidArgumentError } from '../errors';
 import { compileExpression, type CompiledExpression } from './expression';
 import { nearestName } from './nearest-name';
 import { compileExact, type ExactSolutionSpec } from './exact-solution';
+import { parseState } from './state-file';
+import type { NodalField } from './core';
 
 /** Spatial domain of a problem file. */
 export type DomainSpec =
@@ -45,7 +47,10 @@ export interface ProblemSpec {
   diffusion: CompiledExpression;
   reaction: CompiledExpression;
   source: CompiledExpression;
+  /** u0(x, y): the expression, or for a state (`"initial": {"state": …}`) its interpolation. */
   initial: CompiledExpression;
+  /** The state the run starts from when `initial` names one (./state-file.ts), else null. */
+  initialState: NodalField | null;
   insulated: CompiledExpression | null;
   /** Boundary parts (value, flux, convection), applied in order after `insulated`. */
   boundary: BoundaryPartSpec[];
@@ -208,7 +213,7 @@ function parseDomain(v: unknown): DomainSpec {
  * console.log(spec.strategy, spec.maxDofs); // → adaptive 20000
  * ```
  */
-export function parseProblem(json: unknown): ProblemSpec {
+export function parseProblem(json: unknown, opts: ParseProblemOptions = {}): ProblemSpec {
   if (json === null || typeof json !== 'object' || Array.isArray(json)) bad('(top level)', `must be a JSON object, found ${typeName(json)}`);
   const o = json as Record<string, unknown>;
   checkKeys(o, PROBLEM_FIELDS, '');
@@ -250,7 +255,7 @@ export function parseProblem(json: unknown): ProblemSpec {
     diffusion: expression(o, 'diffusion', PROBLEM_DEFAULTS.diffusion, space),
     reaction: expression(o, 'reaction', PROBLEM_DEFAULTS.reaction, space),
     source: expression(o, 'source', PROBLEM_DEFAULTS.source, ['t', ...space]),
-    initial: expression(o, 'initial', PROBLEM_DEFAULTS.initial, space),
+    ...initialState(o, space, opts),
     insulated: o.insulated === undefined ? null : expression(o, 'insulated', '0', space),
     boundary: list('boundary').map((p, i) => parseBoundaryPart(p, `boundary[${i}]`, space)),
     strategy: strategy as ProblemSpec['strategy'],
@@ -262,6 +267,59 @@ export function parseProblem(json: unknown): ProblemSpec {
     probes,
     slices,
     exact: o.exact === undefined ? null : compileExact(exactSource(o.exact), dim),
+  };
+}
+
+/** Options of {@link parseProblem}. */
+export interface ParseProblemOptions {
+  /**
+   * Reads a file named in the problem (`"initial": {"state": "PATH"}`) as text; the command line
+   * resolves PATH against the problem file's folder. Without it such a path is refused (a state can
+   * also be given inline).
+   */
+  readText?: (path: string) => string;
+}
+
+/** `initial` as an expression, or as `{"state": PATH or inline state}` (./state-file.ts). */
+function initialState(o: Record<string, unknown>, space: ('x' | 'y')[], opts: ParseProblemOptions): { initial: CompiledExpression; initialState: NodalField | null } {
+  const v = o.initial;
+  if (v === null || typeof v !== 'object' || Array.isArray(v)) return { initial: expression(o, 'initial', PROBLEM_DEFAULTS.initial, space), initialState: null };
+  const w = v as Record<string, unknown>;
+  checkKeys(w, ['state'], 'initial');
+  const src = w.state;
+  let json: unknown = src;
+  if (typeof src === 'string') {
+    if (!opts.readText) bad('initial.state', `names the file "${src}", but no file reader was given (pass parseProblem(json, { readText }), or give the state inline)`, src);
+    let text: string;
+    try {
+      text = opts.readText(src);
+    } catch (e) {
+      return bad('initial.state', `cannot read "${src}" (${(e as { code?: string }).code ?? (e as Error).message})`, src);
+    }
+    try {
+      json = JSON.parse(text);
+    } catch (e) {
+      return bad('initial.state', `"${src}" is not valid JSON: ${(e as Error).message.split('\n')[0]}`, src);
+    }
+  } else if (src === undefined) {
+    bad('initial.state', 'is required in an initial object: a state file path, or the state itself { points, cells, values }');
+  }
+  const field = parseState(json, 'initial.state', space.length as 1 | 2);
+  const where = typeof src === 'string' ? `the state in "${src}"` : 'the inline state';
+  return {
+    initialState: field,
+    initial: {
+      source: where,
+      constant: false,
+      fn: (_t, x, y) => {
+        try {
+          return field.valueAt(x, y);
+        } catch {
+          const p = space.length === 1 ? `x = ${x}` : `(${x}, ${y})`;
+          return bad('initial.state', `${where} does not cover the point ${p} of the domain: its mesh must cover the whole domain (a state saved from a run on this domain does)`, p);
+        }
+      },
+    },
   };
 }
 

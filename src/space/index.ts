@@ -6,6 +6,7 @@ export { intervalDomain, triangulatedDomain, rectangleDomain, lShapeDomain, squa
 export { SpatialOperatorPlan } from './operator-plan';
 export { loadVector } from './load';
 export { evaluateAt, nodalValues } from './evaluate';
+export { NodalField, type NodalFieldData } from './nodal-field';
 export type { LeafMesh } from './leaf-mesh';
 export type { HeldDataError } from './held-data-error';
 export { MultilevelPreconditioner, type MultilevelOptions } from './multigrid/index';

@@ -2,28 +2,16 @@
  * Held values that jump in time (src/space/held-value-continuity.ts): refused before any work, and
  * the remedy the error names (split the run at the jump) checked against the exact solution.
  *
- * Reference outside the project: the rod 0 < x < 1 with u0 = 0, u(t, 1) = 0 and u(t, 0) = 1 has
- * u = S(t, x) = (1 − x) − Σ_{n≥1} (2/(nπ)) e^{−n²π²t} sin nπx (Carslaw & Jaeger, Conduction of Heat
- * in Solids, 2nd ed., 1959, §3.4, from memory; it solves the equation term by term, and at t = 0
- * the sum is the sine series of 1 − x). Held at 1 until t_s and at 0 after, the rod has
- * u = S(t, x) − S(t − t_s, x) for t > t_s (superposition).
+ * Reference outside the project: the step response S of a rod held at 1 at one end
+ * (tests/helpers/step-response.ts, Carslaw & Jaeger §3.4) and its superposition.
  */
 import { describe, expect, it } from 'vitest';
 import { HeatProblem, InvalidArgumentError, intervalDomain, rectangleDomain, solveAdaptive } from '../../src/index';
+import { stepResponse } from '../helpers/step-response';
 
-const PI = Math.PI;
 const ts = 0.3;
 
-function S(t: number, x: number): number {
-  if (t <= 0) return 0;
-  let s = 1 - x;
-  for (let n = 1; n <= 5000; n++) {
-    const e = Math.exp(-n * n * PI * PI * t);
-    if (e < 1e-17) break;
-    s -= (2 / (n * PI)) * e * Math.sin(n * PI * x);
-  }
-  return s;
-}
+const S = stepResponse;
 
 const rod = (value: (t: number) => number) => intervalDomain(0, 1, 2, { boundary: [{ kind: 'value', where: [[0]], value: (t) => value(t) }] });
 
@@ -59,8 +47,8 @@ describe('held values that jump in time', () => {
 
   it('the remedy: split at the jump and restart from the end state, against the exact solution', () => {
     const first = solveAdaptive(new HeatProblem({ domain: rod(() => 1), T: ts }), { maxUnknowns: 3000 });
-    const end = (x: number) => first.solution.evaluate(ts, [x])[0]!;
-    const second = solveAdaptive(new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 0.2, initial: end }), { maxUnknowns: 3000 });
+    const end = first.solution.state(ts);
+    const second = solveAdaptive(new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 0.2, initial: (x) => end.valueAt(x) }), { maxUnknowns: 3000 });
     // measured: 0.14154 against 0.14195, 0.36551 against 0.36603, 0.08167 against 0.08155
     for (const [t, x] of [[0.35, 0.1], [0.35, 0.5], [0.45, 0.2]] as const) {
       expect(Math.abs(second.solution.evaluate(t - ts, [x])[0]! - (S(t, x) - S(t - ts, x)))).toBeLessThan(5e-3);

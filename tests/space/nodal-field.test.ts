@@ -1,0 +1,109 @@
+/**
+ * NodalField (src/space/nodal-field.ts) and SpaceTimeSolution.state: the continuous piecewise-linear
+ * interpolant of nodal values, located through a bucket grid.
+ *
+ * Outside references: linear interpolation on a simplex reproduces affine functions exactly
+ * (common practice), so on any mesh the field of the nodal values of a + bx + cy is that function
+ * everywhere; and the state of a solution is compared, at random points, with the library's other
+ * evaluation path (SpaceTimeSolution.evaluate: forest descent and hierarchical coefficients), which
+ * shares no code with it.
+ */
+import { describe, expect, it } from 'vitest';
+import { HeatProblem, InvalidArgumentError, InvalidMeshError, NodalField, intervalDomain, lShapeDomain, solveAdaptive } from '../../src/index';
+import { rng } from '../helpers/random';
+
+/** An n × n grid of the unit square, interior points jittered, each quad cut along a random diagonal, random orientation. */
+function jitteredMesh(n: number, seed: number): { points: number[]; cells: number[] } {
+  const r = rng(seed);
+  const points: number[] = [];
+  for (let j = 0; j <= n; j++) {
+    for (let i = 0; i <= n; i++) {
+      const inner = i > 0 && i < n && j > 0 && j < n;
+      points.push((i + (inner ? 0.6 * (r() - 0.5) : 0)) / n, (j + (inner ? 0.6 * (r() - 0.5) : 0)) / n);
+    }
+  }
+  const cells: number[] = [];
+  const id = (i: number, j: number) => j * (n + 1) + i;
+  for (let j = 0; j < n; j++) {
+    for (let i = 0; i < n; i++) {
+      const [a, b, c, d] = [id(i, j), id(i + 1, j), id(i + 1, j + 1), id(i, j + 1)];
+      const tris = r() < 0.5 ? [[a, b, c], [a, c, d]] : [[a, b, d], [b, c, d]];
+      for (const t of tris) cells.push(...(r() < 0.5 ? t : [t[0]!, t[2]!, t[1]!]));
+    }
+  }
+  return { points, cells };
+}
+
+describe('NodalField', () => {
+  it('reproduces affine functions exactly on a jittered mesh of either orientation (common practice)', () => {
+    const { points, cells } = jitteredMesh(12, 7);
+    const g = (x: number, y: number) => 0.3 - 2 * x + 5 * y;
+    const values = Array.from({ length: points.length / 2 }, (_, i) => g(points[2 * i]!, points[2 * i + 1]!));
+    const field = new NodalField({ dim: 2, points, cells, values });
+    expect(field.cellCount).toBe(288);
+    const r = rng(3);
+    for (let k = 0; k < 2000; k++) {
+      const x = r(), y = r();
+      expect(Math.abs(field.valueAt(x, y) - g(x, y))).toBeLessThan(1e-12);
+    }
+    // corners, edges and points a rounding error outside the square
+    for (const [x, y] of [[0, 0], [1, 1], [0.5, 0], [1, 0.37], [-1e-13, 0.5], [0.5, 1 + 1e-13]] as const) {
+      expect(Math.abs(field.valueAt(x, y) - g(x, y))).toBeLessThan(1e-11);
+    }
+  });
+
+  it('in 1D: segments in any order and orientation', () => {
+    const field = new NodalField({ dim: 1, points: [1, 0, 0.25, 0.5], cells: [1, 2, 3, 2, 3, 0], values: [4, 0, 1, 2] });
+    for (const x of [0, 0.1, 0.25, 0.4, 0.75, 1]) expect(field.valueAt(x)).toBeCloseTo(4 * x, 13);
+    expect(field.contains(1.0001)).toBe(false);
+    expect(() => field.valueAt(-0.2)).toThrow(/x = -0\.2 lies outside the field's mesh/);
+  });
+
+  it('a point outside, and bad input, are typed errors naming the place', () => {
+    const { points, cells } = jitteredMesh(3, 1);
+    const values = new Array(points.length / 2).fill(1);
+    const field = new NodalField({ dim: 2, points, cells, values });
+    let caught: unknown;
+    try { field.valueAt(1.001, 0.5); } catch (e) { caught = e; }
+    expect(caught).toBeInstanceOf(InvalidArgumentError);
+    expect(String(caught)).toMatch(/\(1\.001, 0\.5\) lies outside/);
+    expect(field.contains(Number.NaN, 0.5)).toBe(false);
+    expect(() => new NodalField({ dim: 3 as 2, points, cells, values })).toThrow(InvalidArgumentError);
+    expect(() => new NodalField({ dim: 2, points: points.slice(1), cells, values })).toThrow(/points holds 31 numbers/);
+    expect(() => new NodalField({ dim: 2, points, cells: [...cells, 0], values })).toThrow(/cells holds 55 indices/);
+    const badCell = cells.slice();
+    badCell[7] = 16;
+    expect(() => new NodalField({ dim: 2, points, cells: badCell, values })).toThrow(/cells\[7\] \(cell 2, corner 1\) = 16 is not a point index in \[0, 15\]/);
+    const nan = values.slice();
+    nan[5] = Number.NaN;
+    expect(() => new NodalField({ dim: 2, points, cells, values: nan })).toThrow(/values\[5\]/);
+    expect(() => new NodalField({ dim: 2, points, cells, values: values.slice(1) })).toThrow(/values has length 15, expected 16/);
+    // three points on one line
+    let flat: unknown;
+    try { new NodalField({ dim: 2, points: [0, 0, 1, 1, 2, 2, 0, 1], cells: [0, 1, 3, 0, 1, 2], values: [0, 0, 0, 0] }); } catch (e) { flat = e; }
+    expect(flat).toBeInstanceOf(InvalidMeshError);
+    expect(String(flat)).toMatch(/cell 1 has zero area/);
+  });
+
+  it('the state of a solution agrees with its point evaluation at random points (2D L-shape and 1D)', () => {
+    const r = rng(11);
+    const l = solveAdaptive(new HeatProblem({ domain: lShapeDomain(1), T: 0.05, initial: (x, y) => 1 + x * y }), { maxUnknowns: 3000 });
+    for (const t of [0, 0.013, 0.05]) {
+      const state = l.solution.state(t);
+      const pts: number[] = [];
+      while (pts.length < 800) {
+        const x = 2 * r() - 1, y = 2 * r() - 1;
+        if (!(x > 0 && y < 0)) pts.push(x, y);
+      }
+      const ref = l.solution.evaluate(t, pts);
+      for (let i = 0; i < 400; i++) expect(Math.abs(state.valueAt(pts[2 * i]!, pts[2 * i + 1]!) - ref[i]!)).toBeLessThan(1e-12);
+      expect(state.contains(0.5, -0.5)).toBe(false);
+    }
+    const rod = solveAdaptive(new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 0.2, initial: () => 1 }), { maxUnknowns: 1500 });
+    const state = rod.solution.state(0.2);
+    for (let k = 0; k < 200; k++) {
+      const x = r();
+      expect(Math.abs(state.valueAt(x) - rod.solution.evaluate(0.2, [x])[0]!)).toBeLessThan(1e-12);
+    }
+  });
+});
