@@ -41,7 +41,8 @@ described by PROBLEM.json.
                 (rate: least-squares slope of −log E against log N over the
                 second half of the steps; y is null in 1D)
   --out DIR     write history (JSON, CSV), probe table (CSV), slices (VTK XML
-                .vtu + .pvd) and pictures (SVG) into DIR (checked writable first)
+                .vtu + .pvd), pictures (SVG) and the state at T (end-state.json,
+                to continue from) into DIR (checked writable first)
   --checkpoint FILE
                 adaptive strategy: after every step, save the run to FILE
                 (replaced atomically, so it always holds a complete step)
@@ -61,7 +62,12 @@ problem file fields (JSON object):
               (a warning names the element where either varies most inside,
               if by more than 1 %: give more cells there)
   source      f(t, x, y), default "${PROBLEM_DEFAULTS.source}"
-  initial     u0(x, y), default "${PROBLEM_DEFAULTS.initial}"
+  initial     u0(x, y), default "${PROBLEM_DEFAULTS.initial}"; or {"state":"FILE"} to start from a
+              state file (path relative to this file), such as the
+              end-state.json of an earlier run's --out: values at the points of
+              a triangulation, {"points":[[x,y],…],"cells":[[i,j,k],…],
+              "values":[…]} (1D: points x, cells [i,j]), interpolated linearly;
+              its mesh must cover the domain
   insulated   predicate on boundary-edge midpoints (nonzero = insulated),
               e.g. "y > 0.999"; the rest of the boundary has u = 0
   boundary    list of parts, applied in order after "insulated"; "where" is an
@@ -73,7 +79,7 @@ problem file fields (JSON object):
                "heldDataError" (warning when ≥ E/2), which refinement does not
                reduce; a tolerance below it is refused: give more cells there;
                g must be continuous in time: a jump is refused, split the run
-               at it and restart from the end state)
+               at it and start the second file from the first's end-state.json)
               {"kind":"flux","where":…,"flux":q(t,x,y)}          κ∂u/∂n = q (q > 0 heats)
               {"kind":"convection","where":…,"transferCoefficient":h(x,y),
                "ambient":u∞(t,x,y)}                               κ∂u/∂n = h(u∞ − u)
@@ -94,7 +100,7 @@ problem file fields (JSON object):
               memory, and on "resolution": the next set would need time scales
               below T·2^-50, where the estimator is unreliable; initial data that
               violate the boundary values with T ≫ L²/κ get there early: solve
-              over a few diffusion times L²/κ and restart from the end state)
+              over a few diffusion times L²/κ and continue from its end state)
   bulk        Dörfler parameter θ in (0, 1) (default 0.5 in 1D, 0.7 in 2D)
   probes      list of [t, x] or [t, x, y]
   slices      list of times to export with --out

@@ -34,9 +34,8 @@ function kind(v: unknown): string {
  *
  * @example
  * ```ts
- * import { NodalField } from 'chronomesh';
- * import { stateToJson } from 'chronomesh/problem-file';
- * const field = new NodalField({ dim: 1, points: [0, 0.5, 1], cells: [0, 1, 1, 2], values: [0, 1, 0] });
+ * import { parseState, stateToJson } from 'chronomesh/problem-file';
+ * const field = parseState({ points: [0, 0.5, 1], cells: [[0, 1], [1, 2]], values: [0, 1, 0] }, 'state', 1);
  * console.log(stateToJson(field, 0.3)); // → {"format":"chronomesh-state","version":1,"time":0.3,"points":[0,0.5,1],"cells":[[0,1],[1,2]],"values":[0,1,0]}
  * ```
  */
