@@ -12,6 +12,7 @@ import {
   enlargeDoubleTree, probeTableCsv, residualIndicators, sliceToSvg, sliceToVtu, solveAdaptive, spaceTimeErrors, vtkCollection,
   type SpaceTimeSolution,
 } from '../index';
+import { stateToJson } from '../problem-file/index';
 import { rieszConditionNumbers } from './riesz';
 import { runShippedExamples } from './demo-examples';
 
@@ -186,6 +187,43 @@ function adaptiveBracket(quick: boolean, out: string): void {
   save(out, 'bracket-adaptive.json', JSON.stringify(res.history, null, 2) + '\n');
 }
 
+/** u(t, x) of the rod 0 < x < 1, u0 = 0, held at 1 at x = 0 and at 0 at x = 1 (Carslaw & Jaeger §3.4). */
+function stepResponse(t: number, x: number): number {
+  if (t <= 0) return 0;
+  let s = 1 - x;
+  for (let n = 1; n < 4001; n++) s -= (2 / (n * Math.PI)) * Math.exp(-n * n * Math.PI * Math.PI * t) * Math.sin(n * Math.PI * x);
+  return s;
+}
+
+/** A held value that jumps (a quench) is refused as one run; two runs joined by a state instead. */
+function quenchInTwoRuns(quick: boolean, out: string): void {
+  heading('A quench in two runs: rod held at 1 at x = 0 until t = 0.3, then at 0');
+  const ts = 0.3;
+  const held = (value: (t: number) => number) => intervalDomain(0, 1, 2, { boundary: [{ kind: 'value', where: [[0]], value }] });
+  try {
+    solveAdaptive(new HeatProblem({ domain: held((t) => (t < ts ? 1 : 0)), T: 0.5 }), { maxUnknowns: 100 });
+  } catch (e) {
+    console.log(`as one run: refused: ${(e as Error).message.slice(0, 150)}…`);
+  }
+  const budget = { maxUnknowns: quick ? 1000 : 3000 };
+  const first = solveAdaptive(new HeatProblem({ domain: held(() => 1), T: ts }), budget);
+  const end = first.solution.state(ts);
+  save(out, 'quench-state-0.3.json', stateToJson(end, ts, 'rod held at 1 at x = 0, at t = 0.3') + '\n');
+  const second = solveAdaptive(new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 0.5 - ts, initial: (x) => end.valueAt(x) }), budget);
+  for (const [name, r] of [['held to t = 0.3', first], ['quenched, from its end state', second]] as const) {
+    const last = r.history[r.history.length - 1]!;
+    console.log(`${name}: ${r.history.length} steps, ${last.unknowns} unknowns, estimator ${last.estimate.toExponential(3)}`);
+  }
+  console.log('     t      x   computed   exact (superposition)   |difference|');
+  for (const t of [0.1, 0.3, 0.31, 0.35, 0.45]) {
+    for (const x of [0.1, 0.5]) {
+      const v = t <= ts ? first.solution.evaluate(t, [x])[0]! : second.solution.evaluate(t - ts, [x])[0]!;
+      const ref = stepResponse(t, x) - stepResponse(t - ts, x);
+      console.log(`  ${t.toFixed(2).padStart(4)}  ${x.toFixed(2)}  ${v.toFixed(6)}   ${ref.toFixed(6)}               ${Math.abs(v - ref).toExponential(2)}`);
+    }
+  }
+}
+
 function operatorCosts(quick: boolean): void {
   heading('Cost of one operator application (ns per unknown, median)');
   console.log('   d   L   unknowns        S        B      K_X   PCG its (1e-6)');
@@ -206,6 +244,7 @@ export function runDemo(quick: boolean, out: string): void {
   convergenceStudy(quick, out);
   adaptiveRod(quick, out);
   adaptiveBracket(quick, out);
+  quenchInTwoRuns(quick, out);
   operatorCosts(quick);
   heading('Shipped problem files (examples/) through `chronomesh solve`');
   runShippedExamples(quick, join(out, 'examples'), (f) => written.push(f));

@@ -60,11 +60,11 @@ export function checkHeldValueContinuity(forest: BisectionForest, T: number): vo
       const part = held.part[d]!;
       const t = 0.5 * (a + b);
       throw new InvalidArgumentError(
-        `boundary[${part}].value jumps from ${ga} to ${gb} at t ≈ ${t < 1e-9 * T ? '0 (just after the start)' : Number(t.toPrecision(6))} (at (${x}, ${y})): held values must be continuous in time, ` +
+        `boundary[${part}].value jumps from ${ga} to ${gb} at t ≈ ${t < 1e-9 * T ? '0 (just after the start)' : Number(t.toPrecision(6))} (at ${dim === 1 ? `x = ${x}` : `(${x}, ${y})`}): held values must be continuous in time, ` +
           'because the method lifts them with their time derivative and a jump has none (an adaptive run diverges). ' +
           (t < 1e-9 * T
             ? 'Hold the value from t = 0 instead (it may differ from the initial state), or ramp it over a short time'
-            : 'Ramp it over a short time (the loads resolve fast ramps), or split the run at the jump: solve up to that time, then start a new run from its end state with the new value (a jump against the initial state is allowed)'),
+            : 'Ramp it over a short time (the loads resolve fast ramps), or split the run at the jump: solve up to that time, then start a new run from its end state (SpaceTimeSolution.state, or a problem file\'s "initial": {"state": …}) with the new value (a jump against the initial state is allowed)'),
         { field: `boundary[${part}].value`, expected: 'a held value continuous in time', received: `a jump of ${gb - ga} at t ≈ ${t}` },
       );
     }
