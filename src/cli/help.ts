@@ -57,6 +57,10 @@ problem file fields (JSON object):
               {"shape":"lshape"}   (−1,1)² minus [0,1]×[−1,0]; optional "cells":n
               {"shape":"mesh","points":[[x,y],…],"triangles":[[i,j,k],…]}
   horizon     final time T > 0 (required)
+  start       the time the run starts at, 0 ≤ start < horizon (default 0):
+              probes, slices and every expression in t use absolute time;
+              a run that continues another from its end state sets start
+              to that run's horizon, so time-dependent data carry on
   diffusion   κ(x, y) > 0, default "${PROBLEM_DEFAULTS.diffusion}" (taken at initial-element centroids)
   reaction    c(x, y) ≥ 0, default "${PROBLEM_DEFAULTS.reaction}" (taken at initial-element centroids)
               (a warning names the element where either varies most inside,

@@ -25,7 +25,7 @@ function csvLine(values: (string | number | null)[]): string {
 
 /** Default slice times when the file gives none: 0, T/4, T/2, 3T/4, T. */
 export function sliceTimes(spec: ProblemSpec): number[] {
-  return spec.slices.length > 0 ? spec.slices : [0, 0.25, 0.5, 0.75, 1].map((f) => f * spec.horizon);
+  return spec.slices.length > 0 ? spec.slices : [0, 0.25, 0.5, 0.75, 1].map((f) => spec.start + f * (spec.horizon - spec.start));
 }
 
 /** Writes all outputs of a run into `dir`; returns the paths written. */
@@ -47,14 +47,15 @@ export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): st
   const name = spec.title ?? 'u';
   const entries = times.map((t, i) => {
     const file = `slice-${String(i).padStart(4, '0')}.vtu`;
-    const slice = run.solution.slice(t);
+    // slice times are absolute, the solution's clock starts at 0 (problem field `start`)
+    const slice = { ...run.solution.slice(t - spec.start), t };
     save(file, sliceToVtu(slice, 'u'));
     save(`slice-${String(i).padStart(4, '0')}.svg`, sliceToSvg(slice, { title: `${name}, t = ${t}`, quantity: 'u' }));
     return { t, file };
   });
   save('slices.pvd', vtkCollection(entries));
   // The state at the horizon, for a run that continues this one ("initial": {"state": …}).
-  save('end-state.json', stateToJson(run.solution.state(spec.horizon), spec.horizon, `${name} at t = ${spec.horizon}`) + '\n');
+  save('end-state.json', stateToJson(run.solution.state(spec.horizon - spec.start), spec.horizon, `${name} at t = ${spec.horizon}`) + '\n');
   const pts = run.steps.filter((s) => s.estimate > 0).map((s) => [s.dofs, s.estimate] as [number, number]);
   const truePts = run.steps.filter((s) => typeof s.trueError === 'number' && s.trueError > 0).map((s) => [s.dofs, s.trueError!] as [number, number]);
   if (pts.length > 0) {
@@ -65,9 +66,9 @@ export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): st
       : { title: `${name}: residual estimator`, yLabel: 'estimator E' }));
   }
   const dim = run.solution.domain.dim;
-  const meshTimes = times.filter((t) => t > 0).slice(0, 3);
-  save('index-set.svg', indexSetToSvg(run.solution.domain, run.set, spec.horizon, {
-    title: `${name}: space-time index set (${run.set.size} unknowns)`,
+  const meshTimes = times.map((t) => t - spec.start).filter((t) => t > 0).slice(0, 3);
+  save('index-set.svg', indexSetToSvg(run.solution.domain, run.set, spec.horizon - spec.start, {
+    title: `${name}: space-time index set (${run.set.size} unknowns)${spec.start > 0 ? `, times from the start at t = ${spec.start}` : ''}`,
     ...(dim === 1 ? { logTime: true } : meshTimes.length > 0 ? { times: meshTimes } : {}),
   }));
   return written;

@@ -56,14 +56,15 @@ function spatial(e: CompiledExpression, field: string, dim: number, ok: (v: numb
 const finite = (v: number) => Number.isFinite(v);
 
 /** A problem-file boundary part as the core's {@link BoundaryPart}, with every value checked where it is used. */
-function boundaryPart(b: BoundaryPartSpec, field: string, dim: number): BoundaryPart {
+/** `start` (the problem's start time) only turns the solver's t into the file's t in messages. */
+function boundaryPart(b: BoundaryPartSpec, field: string, dim: number, start: number): BoundaryPart {
   const whereFn = spatial(b.where, `${field}.where`, dim, finite, 'a finite number (nonzero = selected)');
   const where = (mx: number, my: number): boolean => whereFn(mx, my) !== 0;
   const g = b.data.fn;
   const dataField = `${field}.${b.kind === 'value' ? 'value' : b.kind === 'flux' ? 'flux' : 'ambient'}`;
   const data = (t: number, x: number, y: number): number => {
     const v = g(t, x, y);
-    if (!Number.isFinite(v)) pointError(b.data, dataField, dim, t, x, y, v, 'a finite number');
+    if (!Number.isFinite(v)) pointError(b.data, dataField, dim, t + start, x, y, v, 'a finite number');
     return v;
   };
   if (b.kind === 'value') return { kind: 'value', where, value: data };
@@ -96,7 +97,7 @@ export function buildProblem(spec: ProblemSpec): BuiltProblem {
     const ins = spatial(spec.insulated, 'insulated', dim, finite, 'a finite number (nonzero = insulated)');
     opts.insulated = (mx, my) => ins(mx, my) !== 0;
   }
-  if (spec.boundary.length > 0) opts.boundary = spec.boundary.map((b, i) => boundaryPart(b, `boundary[${i}]`, dim));
+  if (spec.boundary.length > 0) opts.boundary = spec.boundary.map((b, i) => boundaryPart(b, `boundary[${i}]`, dim, spec.start));
   let domain: SpatialDomain;
   try {
     switch (d.shape) {
@@ -110,10 +111,12 @@ export function buildProblem(spec: ProblemSpec): BuiltProblem {
     throw e;
   }
   const initial = spatial(spec.initial, 'initial', dim, finite, 'a finite number');
+  // The solver's clock runs from 0 over horizon − start (the expressions in t are shifted, ./schema.ts).
+  const duration = spec.horizon - spec.start;
   const src = spec.source.fn;
   const source = spec.source.constant && src(0, 0, 0) === 0 ? undefined : (t: number, x: number, y: number): number => {
     const v = src(t, x, y);
-    if (!Number.isFinite(v)) pointError(spec.source, 'source', dim, t, x, y, v, 'a finite number');
+    if (!Number.isFinite(v)) pointError(spec.source, 'source', dim, t + spec.start, x, y, v, 'a finite number');
     return v;
   };
   // Sample points: initial vertices and element centroids.
@@ -131,7 +134,7 @@ export function buildProblem(spec: ProblemSpec): BuiltProblem {
   }
   for (const [x, y] of pts) {
     initial(x!, y!);
-    if (source) for (const t of [0, spec.horizon / 2, spec.horizon]) source(t, x!, y!);
+    if (source) for (const t of [0, duration / 2, duration]) source(t, x!, y!);
   }
   // Probes must lie in the closed domain.
   if (spec.probes.length > 0) {
@@ -158,6 +161,6 @@ export function buildProblem(spec: ProblemSpec): BuiltProblem {
     if (s) spreads.push(s);
   });
   const zeroInitial = spec.initial.constant && spec.initial.fn(0, 0, 0) === 0;
-  const problem = new HeatProblem({ domain, T: spec.horizon, ...(zeroInitial ? {} : { initial }), ...(source ? { source } : {}) });
+  const problem = new HeatProblem({ domain, T: duration, ...(zeroInitial ? {} : { initial }), ...(source ? { source } : {}) });
   return { spec, domain, problem, coefficientSpread: spreads };
 }

@@ -197,7 +197,7 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
   }
   const probes = spec.probes.map((p) => {
     const pt = p.slice(1);
-    const value = solution.evaluate(p[0]!, pt)[0]!;
+    const value = solution.evaluate(p[0]! - spec.start, pt)[0]!; // probes are in absolute time
     return { t: p[0]!, x: pt[0]!, y: pt.length > 1 ? pt[1]! : null, value };
   });
   let exactErrors: ExactErrors | null = null;

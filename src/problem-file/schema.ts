@@ -43,6 +43,12 @@ export interface ProblemSpec {
   title: string | null;
   description: string | null;
   domain: DomainSpec;
+  /**
+   * The time the run starts at (default 0): probes, slices and every expression in t use the
+   * absolute time t ∈ [start, horizon], and the solver's clock runs over the duration horizon −
+   * start (the expressions are shifted here, so later code evaluates them at the solver's time).
+   */
+  start: number;
   horizon: number;
   diffusion: CompiledExpression;
   reaction: CompiledExpression;
@@ -70,7 +76,7 @@ export interface ProblemSpec {
 
 /** Top-level fields of a problem file (the contract of the command line; additions only). */
 export const PROBLEM_FIELDS = [
-  'title', 'description', 'domain', 'horizon', 'diffusion', 'reaction', 'source', 'initial', 'insulated',
+  'title', 'description', 'domain', 'start', 'horizon', 'diffusion', 'reaction', 'source', 'initial', 'insulated',
   'boundary', 'strategy', 'tolerance', 'maxDofs', 'maxSeconds', 'maxSteps', 'bulk', 'probes', 'slices', 'exact',
 ] as const;
 
@@ -219,7 +225,8 @@ export function parseProblem(json: unknown, opts: ParseProblemOptions = {}): Pro
   checkKeys(o, PROBLEM_FIELDS, '');
   const domain = parseDomain(o.domain);
   if (o.horizon === undefined) bad('horizon', 'is required (the final time T > 0)');
-  const horizon = num(o.horizon, 'horizon', '> 0 (the final time T)', (x) => x > 0);
+  const start = o.start === undefined ? 0 : num(o.start, 'start', '≥ 0 (the time the run starts at)', (x) => x >= 0);
+  const horizon = num(o.horizon, 'horizon', start > 0 ? `> start = ${start} (the final time T)` : '> 0 (the final time T)', (x) => x > start);
   const dim = domain.shape === 'interval' ? 1 : 2;
   const space: ('x' | 'y')[] = dim === 1 ? ['x'] : ['x', 'y'];
   const strategies = ['adaptive', 'sparse', 'full'];
@@ -240,17 +247,18 @@ export function parseProblem(json: unknown, opts: ParseProblemOptions = {}): Pro
     if (!Array.isArray(v)) bad(f, `must be a list, found ${typeName(v)}`, v);
     return v;
   };
-  const time = (v: unknown, field: string) => num(v, field, `in [0, horizon = ${horizon}]`, (t) => t >= 0 && t <= horizon);
+  const time = (v: unknown, field: string) => num(v, field, `in [${start > 0 ? `start = ${start}` : '0'}, horizon = ${horizon}]`, (t) => t >= start && t <= horizon);
   const probes = list('probes').map((p, i) => {
     const f = `probes[${i}]`;
     if (!Array.isArray(p) || p.length !== dim + 1) bad(f, `must be ${dim === 1 ? '[t, x]' : '[t, x, y]'}, found ${typeName(p)}`, p);
     return [time(p[0], `${f}[0] (t)`), ...p.slice(1).map((c, j) => num(c, `${f}[${j + 1}]`, '(finite)', () => true))];
   });
   const slices = list('slices').map((t, i) => time(t, `slices[${i}]`));
-  return {
+  const spec: ProblemSpec = {
     title: text('title'),
     description: text('description'),
     domain,
+    start,
     horizon,
     diffusion: expression(o, 'diffusion', PROBLEM_DEFAULTS.diffusion, space),
     reaction: expression(o, 'reaction', PROBLEM_DEFAULTS.reaction, space),
@@ -267,6 +275,28 @@ export function parseProblem(json: unknown, opts: ParseProblemOptions = {}): Pro
     probes,
     slices,
     exact: o.exact === undefined ? null : compileExact(exactSource(o.exact), dim),
+  };
+  return start > 0 ? shiftedToStart(spec) : spec;
+}
+
+/** `e` evaluated at t + start: the expression as the solver sees it, whose clock starts at 0. */
+function shifted(e: CompiledExpression, start: number): CompiledExpression {
+  const f = e.fn;
+  return { source: e.source, constant: e.constant, fn: (t, x, y) => f(t + start, x, y) };
+}
+
+/** Every expression in t of `spec` shifted to the solver's clock (see ProblemSpec.start). */
+function shiftedToStart(spec: ProblemSpec): ProblemSpec {
+  const s = spec.start;
+  const x = spec.exact;
+  return {
+    ...spec,
+    source: shifted(spec.source, s),
+    boundary: spec.boundary.map((b) => ({ ...b, data: shifted(b.data, s) })),
+    exact: x === null ? null : {
+      value: shifted(x.value, s), dt: shifted(x.dt, s), dx: shifted(x.dx, s), dxx: shifted(x.dxx, s),
+      dy: x.dy === null ? null : shifted(x.dy, s), dyy: x.dyy === null ? null : shifted(x.dyy, s),
+    },
   };
 }
 
