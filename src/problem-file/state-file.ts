@@ -79,6 +79,10 @@ export function parseState(json: unknown, where: string, dim: 1 | 2): NodalField
     return v;
   };
   const pts = list('points');
+  const own = Array.isArray(pts[0]) ? pts[0].length : 1;
+  if (own !== dim && (own === 1 || own === 2)) {
+    bad(`${where}.points`, `holds ${own}D points (${own === 1 ? 'numbers x' : '[x, y]'}), but the problem is ${dim}D`, own);
+  }
   const points = new Float64Array(dim * pts.length);
   pts.forEach((p, i) => {
     const f = `${where}.points[${i}]`;

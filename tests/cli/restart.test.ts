@@ -55,7 +55,7 @@ describe('restarting from a saved state', () => {
     expect((caught as Error).message).toMatch(/initial\.state: the state in "small\.json" does not cover the point \(1, 0\) of the domain/);
     expect(progress).toHaveLength(0);
     writeFileSync(join(dir, 'q.json'), JSON.stringify({ ...ROD, horizon: 0.1, initial: { state: 'small.json' } }));
-    expect(() => solveFile(join(dir, 'q.json'), quiet)).toThrow(/initial\.state\.points\[0\]: must be a finite number, found a list/);
+    expect(() => solveFile(join(dir, 'q.json'), quiet)).toThrow(/initial\.state\.points: holds 2D points \(\[x, y\]\), but the problem is 1D/);
     writeFileSync(join(dir, 'r.json'), JSON.stringify({ ...square, initial: { state: 'missing.json' } }));
     expect(() => solveFile(join(dir, 'r.json'), quiet)).toThrow(/initial\.state: cannot read "missing\.json" \(ENOENT\)/);
   });
