@@ -135,7 +135,12 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
         `observed rate of the true error ${ex.rate === null ? 'n/a' : ex.rate.toFixed(2)}`);
     }
     for (const p of run.probes) log(`u(t = ${p.t}, x = ${p.x}${p.y === null ? '' : `, y = ${p.y}`}) = ${p.value.toPrecision(6)}`);
-    if (written.length > 0) log(`wrote ${written.length} files into ${opts.out}`);
+    if (written.length > 0) {
+      log(`wrote ${written.length} files into ${opts.out}`);
+      const state = written.find((w) => w.endsWith('end-state.json'));
+      // an absolute path works from any problem file (a relative one is read against the file's folder)
+      if (state) log(`to continue from the end state: "start": ${built.spec.horizon}, "initial": {"state": ${JSON.stringify(resolve(state))}}`);
+    }
   }
   return { run, written, toleranceReached };
 }

@@ -26,7 +26,9 @@ describe('restarting from a saved state', () => {
     const dir = mkdtempSync(join(tmpdir(), 'chronomesh-restart-'));
     writeFileSync(join(dir, 'held.json'), JSON.stringify({ ...ROD, horizon: 0.3, boundary: [{ kind: 'value', where: 'x < 0.5', value: '1' }] }));
     writeFileSync(join(dir, 'quenched.json'), JSON.stringify({ ...ROD, horizon: 0.2, initial: { state: 'out/end-state.json' }, probes: [[0.05, 0.1], [0.05, 0.5], [0.15, 0.2]] }));
-    solveFile(join(dir, 'held.json'), { ...quiet, out: join(dir, 'out') });
+    const lines: string[] = [];
+    solveFile(join(dir, 'held.json'), { log: (l) => lines.push(l), progress: () => {}, out: join(dir, 'out') });
+    expect(lines.at(-1)).toBe(`to continue from the end state: "start": 0.3, "initial": {"state": ${JSON.stringify(join(dir, 'out', 'end-state.json'))}}`);
     const saved = JSON.parse(readFileSync(join(dir, 'out', 'end-state.json'), 'utf8')) as { format: string; time: number; points: number[]; values: number[] };
     expect(saved.format).toBe('chronomesh-state');
     expect(saved.time).toBe(0.3);
