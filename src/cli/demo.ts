@@ -209,7 +209,7 @@ function quenchInTwoRuns(quick: boolean, out: string): void {
   const first = solveAdaptive(new HeatProblem({ domain: held(() => 1), T: ts }), budget);
   const end = first.solution.state(ts);
   save(out, 'quench-state-0.3.json', stateToJson(end, ts, 'rod held at 1 at x = 0, at t = 0.3') + '\n');
-  const second = solveAdaptive(new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 0.5 - ts, initial: (x) => end.valueAt(x) }), budget);
+  const second = solveAdaptive(new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 0.5 - ts, initial: end }), budget);
   for (const [name, r] of [['held to t = 0.3', first], ['quenched, from its end state', second]] as const) {
     const last = r.history[r.history.length - 1]!;
     console.log(`${name}: ${r.history.length} steps, ${last.unknowns} unknowns, estimator ${last.estimate.toExponential(3)}`);

@@ -37,7 +37,7 @@ const DEGENERATE = 1e-14;
  * // the state u = x + y on two triangles of the unit square
  * const field = new NodalField({ dim: 2, points: [0, 0, 1, 0, 1, 1, 0, 1], cells: [0, 1, 2, 0, 2, 3], values: [0, 1, 2, 1] });
  * console.log(field.valueAt(0.25, 0.5)); // → 0.75
- * const next = new HeatProblem({ domain: rectangleDomain(0, 1, 0, 1, 2, 2), T: 0.1, initial: (x, y) => field.valueAt(x, y) });
+ * const next = new HeatProblem({ domain: rectangleDomain(0, 1, 0, 1, 2, 2), T: 0.1, initial: field });
  * console.log(solveAdaptive(next, { maxUnknowns: 500 }).history.length > 0); // → true
  * ```
  */

@@ -162,7 +162,7 @@ export class SpaceTimeSolution {
    * const domain = rectangleDomain(0, 1, 0, 1, 2, 2);
    * const first = solveAdaptive(new HeatProblem({ domain, T: 0.05, initial: () => 1 }), { maxUnknowns: 800 });
    * const end = first.solution.state(0.05);
-   * const second = solveAdaptive(new HeatProblem({ domain, T: 0.05, initial: (x, y) => end.valueAt(x, y) }), { maxUnknowns: 800 });
+   * const second = solveAdaptive(new HeatProblem({ domain, T: 0.05, initial: end }), { maxUnknowns: 800 });
    * console.log(end.valueAt(0.5, 0.5) > second.solution.evaluate(0.05, [0.5, 0.5])[0]!); // → true — it keeps cooling
    * ```
    */

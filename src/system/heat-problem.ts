@@ -4,7 +4,8 @@
  * The spatial domain (mesh, κ, c, boundary) is a {@link SpatialDomain}.
  */
 import { InvalidArgumentError } from '../errors';
-import { SpatialDomain } from '../space/index';
+import { NodalField, SpatialDomain } from '../space/index';
+import { initialFromField } from './initial-field';
 import { heldDataError, type HeldDataError } from '../space/held-data-error';
 import { checkHeldValueContinuity } from '../space/held-value-continuity';
 import { loadBreakpoints, type LoadBreakpoints } from './load-time-rule';
@@ -21,8 +22,12 @@ export interface HeatProblemSpec {
   domain: SpatialDomain;
   /** Final time T > 0. */
   T: number;
-  /** Initial state u0(x, y) (may be discontinuous and violate the boundary condition); default 0. */
-  initial?: (x: number, y: number) => number;
+  /**
+   * Initial state u0(x, y) (may be discontinuous and violate the boundary condition); default 0.
+   * Also a {@link NodalField}, such as the state of an earlier run (`solution.state(t)`): its mesh
+   * must cover the domain (checked at the initial mesh's vertices and element centroids).
+   */
+  initial?: ((x: number, y: number) => number) | NodalField;
   /** Source f(t, x, y), or a sum of separable terms; default 0. */
   source?: ((t: number, x: number, y: number) => number) | SeparableTerm[];
 }
@@ -59,12 +64,13 @@ export class HeatProblem {
     if (typeof T !== 'number' || !Number.isFinite(T) || T <= 0) {
       throw new InvalidArgumentError(`final time T = ${String(T)} must be a finite number > 0`, { field: 'T', expected: 'finite number > 0', received: T });
     }
-    if (spec.initial !== undefined && typeof spec.initial !== 'function') {
-      throw new InvalidArgumentError('initial must be a function (x, y) => number', { field: 'initial' });
+    if (spec.initial !== undefined && typeof spec.initial !== 'function' && !(spec.initial instanceof NodalField)) {
+      throw new InvalidArgumentError('initial must be a function (x, y) => number or a NodalField', { field: 'initial' });
     }
     this.domain = domain;
     this.T = T;
-    this.initial = spec.initial ?? null;
+    const u0 = spec.initial;
+    this.initial = u0 instanceof NodalField ? initialFromField(u0, domain) : u0 ?? null;
     this.source = null;
     this.separableSource = null;
     const s = spec.source;

@@ -11,7 +11,7 @@
  * variables; Carslaw & Jaeger, Conduction of Heat in Solids, 2nd ed., 1959, from memory).
  */
 import { describe, expect, it } from 'vitest';
-import { HeatProblem, InvalidArgumentError, InvalidMeshError, NodalField, intervalDomain, lShapeDomain, solveAdaptive, triangulatedDomain } from '../../src/index';
+import { HeatProblem, InvalidArgumentError, InvalidMeshError, NodalField, intervalDomain, lShapeDomain, rectangleDomain, solveAdaptive, triangulatedDomain } from '../../src/index';
 import { rng } from '../helpers/random';
 
 /** An n × n grid of the unit square, interior points jittered, each quad cut along a random diagonal, random orientation. */
@@ -114,7 +114,7 @@ describe('NodalField', () => {
     const u0 = (x: number, y: number) => Math.sin(Math.PI * x) * Math.sin(Math.PI * y);
     const field = new NodalField({ dim: 2, points, cells, values: Array.from({ length: points.length / 2 }, (_, i) => u0(points[2 * i]!, points[2 * i + 1]!)) });
     const domain = triangulatedDomain([[0, 0], [1, 0], [1, 1], [0, 1]], [[0, 1, 2], [0, 2, 3]]);
-    const run = solveAdaptive(new HeatProblem({ domain, T: 0.1, initial: (x, y) => field.valueAt(x, y) }), { maxUnknowns: 8000 });
+    const run = solveAdaptive(new HeatProblem({ domain, T: 0.1, initial: field }), { maxUnknowns: 8000 });
     // measured: 5 632 unknowns, E = 5.1e-3; relative differences 0.09–0.77 % at the centre and
     // 0.001–0.19 % at (0.25, 0.7), absolute at most 1.1e-3
     for (const t of [0.01, 0.05, 0.1]) {
@@ -123,5 +123,21 @@ describe('NodalField', () => {
       expect(Math.abs(v[0]! - decay)).toBeLessThan(3e-3);
       expect(Math.abs(v[1]! - decay * u0(0.25, 0.7))).toBeLessThan(3e-3);
     }
+  });
+
+  it('as the initial state of a problem: checked against the domain before any work', () => {
+    const half = new NodalField({ dim: 2, points: [0, 0, 0.5, 0, 0.5, 1, 0, 1], cells: [0, 1, 2, 0, 2, 3], values: [1, 1, 1, 1] });
+    const square = rectangleDomain(0, 1, 0, 1, 2, 2);
+    let caught: unknown;
+    try { new HeatProblem({ domain: square, T: 1, initial: half }); } catch (e) { caught = e; }
+    expect(caught).toBeInstanceOf(InvalidArgumentError);
+    expect((caught as InvalidArgumentError).field).toBe('initial');
+    expect(String(caught)).toMatch(/does not cover the point \(1, 0\) of the domain/);
+    const rod = new NodalField({ dim: 1, points: [0, 1], cells: [0, 1], values: [0, 1] });
+    expect(() => new HeatProblem({ domain: square, T: 1, initial: rod })).toThrow(/initial: a 1D NodalField for a 2D domain/);
+    expect(() => new HeatProblem({ domain: square, T: 1, initial: 3 as unknown as NodalField })).toThrow(/a function \(x, y\) => number or a NodalField/);
+    // the field is its values: u0 = x on the rod, interpolated exactly
+    const p = new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 1, initial: rod });
+    expect(p.initial!(0.3, 0)).toBeCloseTo(0.3, 14);
   });
 });
