@@ -4,8 +4,8 @@
  * The spatial domain (mesh, κ, c, boundary) is a {@link SpatialDomain}.
  */
 import { InvalidArgumentError } from '../errors';
-import { NodalField, SpatialDomain } from '../space/index';
-import { initialFromField } from './initial-field';
+import { SpatialDomain, type NodalField } from '../space/index';
+import { initialFromField, isNodalField } from './initial-field';
 import { heldDataError, type HeldDataError } from '../space/held-data-error';
 import { checkHeldValueContinuity } from '../space/held-value-continuity';
 import { loadBreakpoints, type LoadBreakpoints } from './load-time-rule';
@@ -64,13 +64,13 @@ export class HeatProblem {
     if (typeof T !== 'number' || !Number.isFinite(T) || T <= 0) {
       throw new InvalidArgumentError(`final time T = ${String(T)} must be a finite number > 0`, { field: 'T', expected: 'finite number > 0', received: T });
     }
-    if (spec.initial !== undefined && typeof spec.initial !== 'function' && !(spec.initial instanceof NodalField)) {
+    if (spec.initial !== undefined && typeof spec.initial !== 'function' && !isNodalField(spec.initial)) {
       throw new InvalidArgumentError('initial must be a function (x, y) => number or a NodalField', { field: 'initial' });
     }
     this.domain = domain;
     this.T = T;
     const u0 = spec.initial;
-    this.initial = u0 instanceof NodalField ? initialFromField(u0, domain) : u0 ?? null;
+    this.initial = isNodalField(u0) ? initialFromField(u0, domain) : u0 ?? null;
     this.source = null;
     this.separableSource = null;
     const s = spec.source;

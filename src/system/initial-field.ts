@@ -14,6 +14,17 @@ function uncovered(x: number, y: number, dim: number): never {
   );
 }
 
+/**
+ * Whether `v` is a NodalField, tested by its shape rather than with `instanceof`, so that
+ * HeatProblem does not pull the field's class and its validation into every bundle that imports
+ * it (a one-function import of HeatProblem must stay within its size budget). @internal
+ */
+export function isNodalField(v: unknown): v is NodalField {
+  if (v === null || typeof v !== 'object') return false;
+  const f = v as Partial<NodalField>;
+  return typeof f.valueAt === 'function' && typeof f.contains === 'function' && (f.dim === 1 || f.dim === 2);
+}
+
 /** u0(x, y) from `field` on `domain`. @internal */
 export function initialFromField(field: NodalField, domain: SpatialDomain): (x: number, y: number) => number {
   const d = domain.dim;
