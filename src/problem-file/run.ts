@@ -111,6 +111,22 @@ export function observedRate(steps: { dofs: number; estimate: number }[]): numbe
 export type RunAdaptiveOptions = Pick<AdaptiveOptions, 'checkpoint' | 'resume'>;
 
 /**
+ * `problem.heldDataError().estimate`, with a refused jump of a held value reported at the file's
+ * time: the core check reports the solver's time, which runs from 0 at the file's `start`.
+ */
+function heldDataOnFileClock({ spec, problem }: BuiltProblem): number {
+  try {
+    return problem.heldDataError().estimate;
+  } catch (e) {
+    if (spec.start > 0 && e instanceof InvalidArgumentError && /^boundary\[\d+\]\.value$/.test(e.field ?? '')) {
+      const message = e.message.replace(/ at t ≈ ([-+0-9.e]+)/, (_, t: string) => ` at t ≈ ${Number((Number(t) + spec.start).toPrecision(6))}`);
+      if (message !== e.message) throw new InvalidArgumentError(message, { field: e.field!, expected: e.expected, received: e.received });
+    }
+    throw e;
+  }
+}
+
+/**
  * Solves a built problem with its file's strategy and budgets; with the adaptive strategy,
  * `adaptive` can save a checkpoint after every step and resume from one.
  *
@@ -125,7 +141,7 @@ export type RunAdaptiveOptions = Pick<AdaptiveOptions, 'checkpoint' | 'resume'>;
 export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: number) => void, adaptive: RunAdaptiveOptions = {}): RunResult {
   const { spec, domain, problem } = built;
   // Before any work: the held values' data error, and a tolerance below it refused (field 'tolerance').
-  const heldDataError = problem.heldDataError().estimate;
+  const heldDataError = heldDataOnFileClock(built);
   problem.checkTolerance(spec.tolerance, 'tolerance');
   const steps: RunStep[] = [];
   let solution: SpaceTimeSolution;

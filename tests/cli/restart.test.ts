@@ -141,5 +141,9 @@ describe('problem files that start at a later time ("start")', () => {
     expect(() => parseProblem({ ...base, start: -1 })).toThrow(/start: must be ≥ 0/);
     expect(() => parseProblem({ ...base, probes: [[0.1, 0.5]] })).toThrow(/probes\[0\]\[0\] \(t\): must be in \[start = 0\.3, horizon = 0\.5\]/);
     expect(() => parseProblem({ ...base, slices: [0.6] })).toThrow(/slices\[0\]: must be in \[start = 0\.3, horizon = 0\.5\]/);
+    // a held value that jumps is refused at the file's time (the core reports the solver's, 0.1)
+    const dir = mkdtempSync(join(tmpdir(), 'chronomesh-start-'));
+    writeFileSync(join(dir, 'jump.json'), JSON.stringify({ ...base, horizon: 0.6, boundary: [{ kind: 'value', where: 'x < 0.5', value: 't < 0.4 ? 1 : 0' }] }));
+    expect(() => solveFile(join(dir, 'jump.json'), quiet)).toThrow(/boundary\[0\]\.value jumps from 1 to 0 at t ≈ 0\.4 /);
   });
 });
