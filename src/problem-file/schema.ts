@@ -7,6 +7,7 @@
 import { InvalidArgumentError } from '../errors';
 import { compileExpression, type CompiledExpression } from './expression';
 import { nearestName } from './nearest-name';
+import { bad, checkKeys, typeName } from './field-errors';
 import { compileExact, type ExactSolutionSpec } from './exact-solution';
 import { parseState } from './state-file';
 import type { NodalField } from './core';
@@ -93,25 +94,6 @@ export const PROBLEM_DEFAULTS = {
   tolerance: 0, maxDofs: 20000, maxSeconds: 60, maxSteps: 200, bulk: null,
 } as const;
 
-function bad(field: string, message: string, received?: unknown): never {
-  throw new InvalidArgumentError(`${field}: ${message}`, { field, received });
-}
-
-function typeName(v: unknown): string {
-  if (v === null) return 'null';
-  if (Array.isArray(v)) return 'an array';
-  if (typeof v === 'string') return `the string ${JSON.stringify(v.length > 30 ? v.slice(0, 30) + '…' : v)}`;
-  if (typeof v === 'object') return 'an object';
-  return `${typeof v} ${String(v)}`;
-}
-
-function checkKeys(obj: Record<string, unknown>, allowed: readonly string[], where: string): void {
-  for (const k of Object.keys(obj)) {
-    if (allowed.includes(k)) continue;
-    const hint = nearestName(k, allowed);
-    bad(where ? `${where}.${k}` : k, `unknown field${hint ? `; did you mean '${hint}'?` : ''} (valid: ${allowed.join(', ')})`, k);
-  }
-}
 
 function num(v: unknown, field: string, range: string, ok: (x: number) => boolean): number {
   if (typeof v !== 'number' || !Number.isFinite(v)) bad(field, `must be a number ${range}, found ${typeName(v)}`, v);

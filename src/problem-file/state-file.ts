@@ -12,22 +12,13 @@
  * are optional (written for the reader's information; the run starts at t = 0 whatever `time`
  * says). Every error names the field path, e.g. `initial.state.cells[12][2]`.
  */
-import { ChronomeshError, InvalidArgumentError, NodalField } from './core';
+import { ChronomeshError, NodalField } from './core';
+import { bad, checkKeys, typeName } from './field-errors';
 
 /** The `format` string of a state file. */
 export const STATE_FORMAT = 'chronomesh-state';
 const STATE_VERSION = 1;
 const STATE_FIELDS = ['format', 'version', 'time', 'description', 'points', 'cells', 'values'];
-
-function bad(field: string, message: string, received?: unknown): never {
-  throw new InvalidArgumentError(`${field}: ${message}`, { field, received });
-}
-
-function kind(v: unknown): string {
-  if (v === null) return 'null';
-  if (Array.isArray(v)) return 'a list';
-  return typeof v === 'object' ? 'an object' : typeof v === 'string' ? 'a string' : String(v);
-}
 
 /**
  * The JSON text of a state file for `field`, with the time it holds and an optional description.
@@ -62,20 +53,20 @@ export function stateToJson(field: NodalField, time: number, description?: strin
  * ```
  */
 export function parseState(json: unknown, where: string, dim: 1 | 2): NodalField {
-  if (json === null || typeof json !== 'object' || Array.isArray(json)) bad(where, `must be a state object { points, cells, values }, found ${kind(json)}`, json);
+  if (json === null || typeof json !== 'object' || Array.isArray(json)) bad(where, `must be a state object { points, cells, values }, found ${typeName(json)}`, json);
   const o = json as Record<string, unknown>;
-  for (const k of Object.keys(o)) if (!STATE_FIELDS.includes(k)) bad(`${where}.${k}`, `unknown field (valid: ${STATE_FIELDS.join(', ')})`, k);
+  checkKeys(o, STATE_FIELDS, where);
   if (o.format !== undefined && o.format !== STATE_FORMAT) bad(`${where}.format`, `must be "${STATE_FORMAT}", found ${JSON.stringify(o.format)}`, o.format);
   if (o.version !== undefined && o.version !== STATE_VERSION) bad(`${where}.version`, `must be ${STATE_VERSION} (the one version this build reads), found ${JSON.stringify(o.version)}`, o.version);
-  if (o.time !== undefined && (typeof o.time !== 'number' || !Number.isFinite(o.time))) bad(`${where}.time`, `must be a finite number, found ${kind(o.time)}`, o.time);
-  if (o.description !== undefined && typeof o.description !== 'string') bad(`${where}.description`, `must be a string, found ${kind(o.description)}`, o.description);
+  if (o.time !== undefined && (typeof o.time !== 'number' || !Number.isFinite(o.time))) bad(`${where}.time`, `must be a finite number, found ${typeName(o.time)}`, o.time);
+  if (o.description !== undefined && typeof o.description !== 'string') bad(`${where}.description`, `must be a string, found ${typeName(o.description)}`, o.description);
   const list = (name: string): unknown[] => {
     const v = o[name];
-    if (!Array.isArray(v) || v.length === 0) bad(`${where}.${name}`, `must be a non-empty list, found ${kind(v)}`, v);
+    if (!Array.isArray(v) || v.length === 0) bad(`${where}.${name}`, `must be a non-empty list, found ${typeName(v)}`, v);
     return v;
   };
   const finite = (v: unknown, field: string): number => {
-    if (typeof v !== 'number' || !Number.isFinite(v)) bad(field, `must be a finite number, found ${kind(v)}`, v);
+    if (typeof v !== 'number' || !Number.isFinite(v)) bad(field, `must be a finite number, found ${typeName(v)}`, v);
     return v;
   };
   const pts = list('points');
@@ -89,7 +80,7 @@ export function parseState(json: unknown, where: string, dim: 1 | 2): NodalField
     if (dim === 1) {
       points[i] = finite(p, f);
     } else {
-      if (!Array.isArray(p) || p.length !== 2) bad(f, `must be a point [x, y], found ${kind(p)}`, p);
+      if (!Array.isArray(p) || p.length !== 2) bad(f, `must be a point [x, y], found ${typeName(p)}`, p);
       points[2 * i] = finite(p[0], `${f}[0]`);
       points[2 * i + 1] = finite(p[1], `${f}[1]`);
     }
@@ -99,9 +90,9 @@ export function parseState(json: unknown, where: string, dim: 1 | 2): NodalField
   const cells = new Int32Array(nv * cs.length);
   cs.forEach((c, e) => {
     const f = `${where}.cells[${e}]`;
-    if (!Array.isArray(c) || c.length !== nv) bad(f, `must be ${nv} point indices ${dim === 1 ? '[i, j]' : '[i, j, k]'}, found ${kind(c)}`, c);
+    if (!Array.isArray(c) || c.length !== nv) bad(f, `must be ${nv} point indices ${dim === 1 ? '[i, j]' : '[i, j, k]'}, found ${typeName(c)}`, c);
     c.forEach((k: unknown, j) => {
-      if (typeof k !== 'number' || !Number.isInteger(k) || k < 0 || k >= pts.length) bad(`${f}[${j}]`, `must be a point index in [0, ${pts.length - 1}], found ${kind(k)}`, k);
+      if (typeof k !== 'number' || !Number.isInteger(k) || k < 0 || k >= pts.length) bad(`${f}[${j}]`, `must be a point index in [0, ${pts.length - 1}], found ${typeName(k)}`, k);
       cells[nv * e + j] = k;
     });
   });

@@ -20,6 +20,7 @@ export class SimplexLocator {
   private readonly hy: number;
   private readonly start: Int32Array;
   private readonly items: Int32Array;
+  private readonly scratch = new Float64Array(3);
 
   /** The arrays are kept, not copied: `coords` holds `dim` numbers per vertex, `cells` `dim + 1` indices per cell. */
   constructor(dim: 1 | 2, coords: Float64Array, cells: Int32Array, cellCount: number) {
@@ -119,17 +120,8 @@ export class SimplexLocator {
 
   /** Minimal barycentric coordinate of (x, y) in cell e (≥ 0 inside; orientation-free). */
   private score(e: number, x: number, y: number): number {
-    const p = this.coords, q = this.cells;
-    if (this.dim === 1) {
-      const a = p[q[2 * e]!]!, b = p[q[2 * e + 1]!]!;
-      const s = (x - a) / (b - a);
-      return Math.min(s, 1 - s);
-    }
-    const i = q[3 * e]!, j = q[3 * e + 1]!, k = q[3 * e + 2]!;
-    const ax = p[2 * i]!, ay = p[2 * i + 1]!, bx = p[2 * j]!, by = p[2 * j + 1]!, cx = p[2 * k]!, cy = p[2 * k + 1]!;
-    const det = (bx - ax) * (cy - ay) - (by - ay) * (cx - ax);
-    const l0 = ((bx - x) * (cy - y) - (by - y) * (cx - x)) / det;
-    const l1 = ((cx - x) * (ay - y) - (cy - y) * (ax - x)) / det;
-    return Math.min(l0, l1, 1 - l0 - l1);
+    const w = this.scratch;
+    this.barycentric(e, x, y, w);
+    return this.dim === 1 ? Math.min(w[0]!, w[1]!) : Math.min(w[0]!, w[1]!, w[2]!);
   }
 }

@@ -71,7 +71,7 @@ describe('restarting from a saved state', () => {
     const ok = { points: [[0, 0], [1, 0], [0, 1]], cells: [[0, 1, 2]], values: [0, 1, 2] };
     const cases: [object, RegExp][] = [
       [{ ...ok, points: [[0, 0], [1, 'a'], [0, 1]] }, /state\.points\[1\]\[1\]: must be a finite number/],
-      [{ ...ok, cells: [[0, 1, 3]] }, /state\.cells\[0\]\[2\]: must be a point index in \[0, 2\], found 3/],
+      [{ ...ok, cells: [[0, 1, 3]] }, /state\.cells\[0\]\[2\]: must be a point index in \[0, 2\], found number 3/],
       [{ ...ok, cells: [[0, 1]] }, /state\.cells\[0\]: must be 3 point indices/],
       [{ ...ok, values: [0, 1] }, /state\.values: has 2 values for 3 points/],
       [{ ...ok, values: [0, null, 2] }, /state\.values\[1\]: must be a finite number, found null/],
