@@ -34,12 +34,14 @@ described by PROBLEM.json.
   --json        print exactly one JSON document on stdout:
                 {"steps":[{"dofs","estimate","iterations","riseChecks","seconds"}…],
                  "probes":[{"t","x","y","value"}…], "rate": r, "stopReason",
-                 "tolerance", "toleranceReached", "heldDataError",
+                 "tolerance", "toleranceReached", "forecast", "heldDataError",
                  "exactErrors": {"gradientL2","valueL2","ratioToEstimate",
                  "ratioRange","rate"} or null}; steps carry "trueError" when
                  the file has an exact solution
                 (rate: least-squares slope of −log E against log N over the
-                second half of the steps; y is null in 1D)
+                second half of the steps; forecast: {"rate","unknowns",
+                "seconds"} where E would reach a missed tolerance at that
+                rate, or null; y is null in 1D)
   --out DIR     write history (JSON, CSV), probe table (CSV), slices (VTK XML
                 .vtu + .pvd), pictures (SVG) and the state at T (end-state.json,
                 to continue from) into DIR (checked writable first)
@@ -125,7 +127,8 @@ expressions: numbers, t x y, pi e, + − * / ^ ( ), < <= > >= == !=, && || !,
   a ? b : c, sin cos tan exp log sqrt abs min max atan2 pow.
 
 exit status: 0 done, 3 done but the tolerance was not reached (the results are
-  written; a warning on stderr gives the estimator; --json has "toleranceReached"),
+  written; a warning on stderr gives the estimator and a forecast of the
+  unknowns and time the tolerance would take; --json has "toleranceReached"),
   2 bad input (one line on stderr), 1 other failure.
 
 ${CAUTION}`;

@@ -1,8 +1,8 @@
 /** `chronomesh solve PROBLEM.json [--json] [--out DIR] [--checkpoint FILE] [--resume FILE] [--quiet] [--debug]`. */
 import { readFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
-import { buildProblem, parseProblem, runProblem, type RunResult } from '../problem-file/index';
-import { ChronomeshError } from '../index';
+import { buildProblem, parseProblem, runProblem, toleranceForecast, type RunResult } from '../problem-file/index';
+import { ChronomeshError, adaptiveStepBytes, memoryBudget } from '../index';
 import { checkpointToFile, readFileBytes } from '../files/index';
 import { parseCommandArgs } from './args';
 import { CliError } from './cli-error';
@@ -108,11 +108,19 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
   const last = run.steps[run.steps.length - 1]!;
   const tolerance = built.spec.tolerance;
   const toleranceReached = tolerance > 0 ? last.estimate <= tolerance : null;
+  const forecast = toleranceReached === false ? toleranceForecast(run.steps, tolerance) : null;
   if (toleranceReached === false) {
     progress(
       `warning: tolerance ${tolerance} not reached: the estimator is ${last.estimate.toExponential(3)} at ${last.dofs} unknowns, ` +
         `where the run stopped by ${run.stopReason}; raise maxDofs / maxSeconds / maxSteps or loosen the tolerance (exit status ${TOLERANCE_NOT_REACHED})`,
     );
+    progress(forecast === null
+      ? 'forecast: none — the estimator has not fallen steadily over the second half of the steps'
+      : `forecast: at the rate seen over the second half of the steps (${forecast.rate.toFixed(2)}), E would reach ${tolerance} at about ` +
+        `${roundedCount(forecast.unknowns)} unknowns, a whole run of roughly ${roundedDuration(forecast.seconds)} on this machine ` +
+        '(an extrapolation: rates on rough data usually still rise, so early in a run this over-estimates)' +
+        // #Λ̲ ≥ #Λ, so this is a lower bound of the step's memory (src/adapt/step-memory.ts)
+        (adaptiveStepBytes(forecast.unknowns, forecast.unknowns, built.problem.domain.dim) > memoryBudget() ? '; that many unknowns exceed this machine\'s memory budget' : ''));
   }
   const held = run.heldDataError;
   if (held > 0 && held >= 0.5 * last.estimate) {
@@ -123,7 +131,7 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     );
   }
   if (opts.json) {
-    log(JSON.stringify({ steps: run.steps, probes: run.probes, rate: run.rate, stopReason: run.stopReason, tolerance, toleranceReached, heldDataError: held, exactErrors: run.exactErrors }));
+    log(JSON.stringify({ steps: run.steps, probes: run.probes, rate: run.rate, stopReason: run.stopReason, tolerance, toleranceReached, forecast, heldDataError: held, exactErrors: run.exactErrors }));
   } else {
     log(`${built.spec.title ?? file}: ${run.steps.length} steps (${built.spec.strategy}), stopped by ${run.stopReason}`);
     log(`last step: ${last.dofs} unknowns, estimator ${last.estimate.toExponential(3)}; observed rate ${run.rate === null ? 'n/a' : run.rate.toFixed(2)}`);
@@ -164,4 +172,17 @@ export function solveCommand(argv: string[]): number {
     ...(typeof values.resume === 'string' ? { resume: values.resume } : {}),
   });
   return toleranceReached === false ? TOLERANCE_NOT_REACHED : 0;
+}
+
+/** A count to two significant digits: 18000, 1.3e8. */
+function roundedCount(n: number): string {
+  return n < 1e5 ? String(Number(n.toPrecision(2))) : n.toExponential(1).replace('e+', 'e');
+}
+
+/** Seconds to two significant digits in the largest fitting unit: 44 s, 7.3 min, 42 h, 3.1e3 days. */
+function roundedDuration(s: number): string {
+  if (s < 60) return `${Number(s.toPrecision(2))} s`;
+  if (s < 3600) return `${Number((s / 60).toPrecision(2))} min`;
+  if (s < 86400 * 2) return `${Number((s / 3600).toPrecision(2))} h`;
+  return `${roundedCount(s / 86400)} days`;
 }

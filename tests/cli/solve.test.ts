@@ -30,7 +30,7 @@ describe('chronomesh solve', () => {
     const lines = r.stdout.trimEnd().split('\n');
     expect(lines.length).toBe(1);
     const doc = JSON.parse(lines[0]!) as { steps: { dofs: number; estimate: number; iterations: number; riseChecks: number; seconds: number }[]; probes: { t: number; x: number; y: number | null; value: number }[]; rate: number };
-    expect(Object.keys(doc)).toEqual(['steps', 'probes', 'rate', 'stopReason', 'tolerance', 'toleranceReached', 'heldDataError', 'exactErrors']);
+    expect(Object.keys(doc)).toEqual(['steps', 'probes', 'rate', 'stopReason', 'tolerance', 'toleranceReached', 'forecast', 'heldDataError', 'exactErrors']);
     expect(doc.steps.length).toBeGreaterThan(3);
     for (const s of doc.steps) expect(Object.keys(s)).toEqual(['dofs', 'estimate', 'iterations', 'riseChecks', 'seconds']);
     expect(doc.steps[doc.steps.length - 1]!.dofs).toBeLessThanOrEqual(3000);
@@ -116,24 +116,36 @@ describe('chronomesh solve with a tolerance', () => {
   it('a tolerance out of budget exits with status 3, says so on stderr and in the JSON', async () => {
     const r = await missed;
     expect(r.status, r.stderr).toBe(3);
-    const doc = JSON.parse(r.stdout) as { steps: { dofs: number; estimate: number }[]; stopReason: string; tolerance: number; toleranceReached: boolean };
+    const doc = JSON.parse(r.stdout) as {
+      steps: { dofs: number; estimate: number; seconds: number }[]; stopReason: string; tolerance: number; toleranceReached: boolean;
+      forecast: { rate: number; unknowns: number; seconds: number } | null;
+    };
     expect(doc.toleranceReached).toBe(false);
     expect(doc.tolerance).toBe(1e-4);
     expect(doc.stopReason).toBe('unknowns');
     const last = doc.steps[doc.steps.length - 1]!;
     expect(last.estimate).toBeGreaterThan(1e-4);
     expect(r.stderr).toMatch(/warning: tolerance 0\.0001 not reached: the estimator is \d\.\d{3}e-\d+ at \d+ unknowns, where the run stopped by unknowns/);
+    // The forecast is the steps' own power law carried to the tolerance (src/problem-file/forecast.ts),
+    // recomputed here from the JSON steps: E_last (N/N_last)^(−r) = tolerance.
+    const f = doc.forecast!;
+    expect(f.rate).toBeGreaterThan(0.3);
+    expect(Math.abs(last.estimate * (f.unknowns / last.dofs) ** -f.rate / 1e-4 - 1)).toBeLessThan(1e-9);
+    expect(f.unknowns).toBeGreaterThan(400);
+    expect(r.stderr).toMatch(/forecast: at the rate seen over the second half of the steps \(0\.\d\d\), E would reach 0\.0001 at about [\d.e]+ unknowns, a whole run of roughly [\d.e]+ (s|min|h|days) on this machine/);
     const h = await missedHuman;
     expect(h.status).toBe(3);
     expect(h.stdout).toMatch(/stopped by unknowns/);
     expect(h.stderr).toMatch(/warning: tolerance 0\.0001 not reached/);
+    expect(h.stderr).toMatch(/forecast: /);
   });
 
   it('a tolerance reached exits with 0 and no warning', async () => {
     const r = await met;
     expect(r.status, r.stderr).toBe(0);
-    const doc = JSON.parse(r.stdout) as { steps: { estimate: number }[]; stopReason: string; toleranceReached: boolean };
+    const doc = JSON.parse(r.stdout) as { steps: { estimate: number }[]; stopReason: string; toleranceReached: boolean; forecast: unknown };
     expect(doc.toleranceReached).toBe(true);
+    expect(doc.forecast).toBeNull();
     expect(doc.stopReason).toBe('tolerance');
     expect(doc.steps[doc.steps.length - 1]!.estimate).toBeLessThanOrEqual(0.2);
     expect(r.stderr).not.toMatch(/warning/);

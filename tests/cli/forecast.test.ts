@@ -1,0 +1,83 @@
+/**
+ * toleranceForecast (src/problem-file/forecast.ts): where a run that missed its tolerance would
+ * have reached it.
+ *
+ * Outside reference: on a history that follows an exact power law E = C·N^(−r), the least-squares
+ * slope of log E against log N is r and the extrapolation gives N* = (C/tol)^(1/r) exactly
+ * (common practice: least squares reproduces data that lie on a line). The run check ties the
+ * documented behaviour (over-estimates early in a run, close late) to the library's own 1D run.
+ */
+import { describe, expect, it } from 'vitest';
+import { HeatProblem, intervalDomain, solveAdaptive } from '../../src/index';
+import { toleranceForecast } from '../../src/problem-file/index';
+import { InvalidArgumentError } from '../../src/errors';
+
+/** Steps whose E lies exactly on C·N^(−r), growing by irregular factors, with seconds a·N. */
+function powerLawSteps(C: number, r: number, a: number): { dofs: number; estimate: number; seconds: number }[] {
+  const growth = [1.3, 1.7, 1.15, 2.1, 1.4, 1.25, 1.9, 1.05, 1.6];
+  const steps = [];
+  let N = 37;
+  for (const g of growth) {
+    steps.push({ dofs: N, estimate: C * N ** -r, seconds: a * N });
+    N = Math.round(N * g);
+  }
+  return steps;
+}
+
+describe('toleranceForecast', () => {
+  it('reproduces the size and time of an exact power law', () => {
+    for (const [C, r] of [[2, 0.37], [0.5, 0.5], [3, 1]] as const) {
+      const steps = powerLawSteps(C, r, 2e-5);
+      const tol = 1e-3;
+      const f = toleranceForecast(steps, tol)!;
+      expect(f.rate).toBeCloseTo(r, 10);
+      const exactN = (C / tol) ** (1 / r);
+      expect(Math.abs(f.unknowns / exactN - 1)).toBeLessThan(1e-9);
+      // whole-run time ∝ final #Λ: Σ seconds so far scaled by N*/N_last, recomputed here
+      const last = steps[steps.length - 1]!;
+      const sum = steps.reduce((s, x) => s + x.seconds, 0);
+      expect(Math.abs(f.seconds / ((sum * exactN) / last.dofs) - 1)).toBeLessThan(1e-9);
+    }
+  });
+
+  it('gives no forecast when the tolerance is reached or E is not falling steadily', () => {
+    const falling = powerLawSteps(1, 0.5, 1e-5);
+    expect(toleranceForecast(falling, 10)).toBeNull(); // already reached
+    expect(toleranceForecast(falling.slice(0, 2), 1e-6)).toBeNull(); // one step in the second half: no rate
+    const flat = falling.map((s, i) => ({ ...s, estimate: 0.1 * (1 + 0.01 * Math.sin(i)) }));
+    expect(toleranceForecast(flat, 1e-3)).toBeNull();
+    const rising = falling.map((s) => ({ ...s, estimate: 1 / s.estimate }));
+    expect(toleranceForecast(rising, 1e-3)).toBeNull();
+    expect(toleranceForecast([], 1e-3)).toBeNull();
+  });
+
+  it('names a bad argument', () => {
+    const steps = powerLawSteps(1, 0.5, 1e-5);
+    expect(() => toleranceForecast(steps, 0)).toThrow(InvalidArgumentError);
+    expect(() => toleranceForecast(steps, Number.NaN)).toThrow(/^tolerance: must be a finite number > 0, found NaN/);
+    const broken = steps.map((s, i) => (i === 3 ? { ...s, estimate: Number.NaN } : s));
+    try {
+      toleranceForecast(broken, 1e-3);
+      expect.unreachable();
+    } catch (e) {
+      expect(e).toBeInstanceOf(InvalidArgumentError);
+      expect((e as InvalidArgumentError).field).toBe('steps[3].estimate');
+    }
+    expect(() => toleranceForecast([{ dofs: -1, estimate: 1, seconds: 0 }], 1e-3)).toThrow(/^steps\[0\]\.dofs/);
+  });
+
+  it('on the 1D run of u0 ≡ 1, a forecast from a fifth of the size is close and errs on the high side', () => {
+    const problem = new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 0.5, initial: () => 1 });
+    const { history } = solveAdaptive(problem, { maxUnknowns: 8000, maxSteps: 200 });
+    const steps = history.map((h) => ({ dofs: h.unknowns, estimate: h.estimate, seconds: h.seconds }));
+    const last = steps[steps.length - 1]!;
+    // the longest prefix that ends at most at a fifth of the final size
+    let k = 0;
+    while (steps[k + 1]!.dofs <= last.dofs / 5) k++;
+    const f = toleranceForecast(steps.slice(0, k + 1), last.estimate)!;
+    expect(f).not.toBeNull();
+    const ratio = f.unknowns / last.dofs;
+    expect(ratio, `forecast ${f.unknowns} against ${last.dofs} (rate ${f.rate})`).toBeGreaterThan(0.9);
+    expect(ratio).toBeLessThan(2.5);
+  });
+});
