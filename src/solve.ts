@@ -7,6 +7,7 @@
 import { typed } from './vendor/typed-function';
 import { InvalidArgumentError, ToleranceNotReachedError } from './errors';
 import { solveAdaptive } from './adapt/adaptive-solver';
+import { toleranceForecast } from './adapt/forecast';
 import type { AdaptiveOptions, AdaptiveResult, AdaptiveStep } from './adapt/adaptive-options';
 import { SpaceTimeSolution } from './spacetime/space-time-solution';
 import { validateAdaptiveOptions } from './adapt/adaptive-options';
@@ -55,9 +56,12 @@ function adaptive(problem: HeatProblem, opts: AdaptiveOptions): SolveResult {
   const tolerance = opts.tolerance ?? 0;
   const estimate = r.history[r.history.length - 1]!.estimate;
   if (tolerance > 0 && !(estimate <= tolerance) && r.stopReason !== 'aborted' && r.stopReason !== 'callback') {
+    const f = toleranceForecast(r.history, tolerance);
     throw new ToleranceNotReachedError(
       `solve: the estimator is ${estimate.toExponential(3)} at ${r.set.size} unknowns, above the tolerance ${tolerance}, when the run stopped by '${r.stopReason}'; ` +
-        'raise that budget (maxUnknowns, maxSteps, maxSeconds, setMemoryBudget) or loosen the tolerance; the result so far is in error.result (solveAdaptive returns it instead of throwing)',
+        'raise that budget (maxUnknowns, maxSteps, maxSeconds, setMemoryBudget) or loosen the tolerance; the result so far is in error.result (solveAdaptive returns it instead of throwing)' +
+        (f ? `; at the rate seen over the second half of the steps (${f.rate.toFixed(2)}) E would reach the tolerance at about ${f.unknowns.toExponential(1)} unknowns ` +
+          `after roughly ${f.seconds.toExponential(1)} s (toleranceForecast: an extrapolation, high early in a run)` : ''),
       estimate,
       tolerance,
       r.stopReason,

@@ -1,6 +1,6 @@
 /** The friendly `solve` entry point dispatches by argument type and reports wrong arguments. */
 import { describe, expect, it } from 'vitest';
-import { DoubleTree, HeatProblem, InvalidArgumentError, ToleranceNotReachedError, intervalDomain, solve, solveAdaptive, type SolveResult } from '../src/index';
+import { DoubleTree, HeatProblem, InvalidArgumentError, ToleranceNotReachedError, intervalDomain, solve, solveAdaptive, toleranceForecast, type SolveResult } from '../src/index';
 
 describe('solve()', () => {
   const domain = intervalDomain(0, 1, 2);
@@ -42,6 +42,9 @@ describe('solve()', () => {
     expect(e.tolerance).toBe(1e-6);
     expect(e.estimate).toBeGreaterThan(1e-6);
     expect(e.message).toMatch(/above the tolerance 0\.000001, when the run stopped by 'unknowns'/);
+    // with the forecast of toleranceForecast on the result's history (tests/adapt/forecast.test.ts)
+    const f = toleranceForecast(e.result.history!, 1e-6)!;
+    expect(e.message).toContain(`(${f.rate.toFixed(2)}) E would reach the tolerance at about ${f.unknowns.toExponential(1)} unknowns`);
     // The work is not lost: the result is the one solveAdaptive returns for the same options.
     const direct = solveAdaptive(problem, { tolerance: 1e-6, maxUnknowns: 300 });
     expect(e.result.stopReason).toBe(direct.stopReason);

@@ -6,6 +6,7 @@ export {
 } from './adaptive-solver';
 export type { AdaptiveOptions, AdaptiveProgress, AdaptiveResult, AdaptiveStep } from './adaptive-options';
 export { adaptiveStepBytes } from './step-memory';
+export { convergenceRate, toleranceForecast, type ToleranceForecast } from './forecast';
 export { enlargeDoubleTree, type EnlargementOptions } from './enlargement';
 export { estimateResidual, residualIndicators, type ResidualIndicators } from './estimator';
 export { dorflerMark } from './dorfler';

@@ -1,8 +1,8 @@
 /** `chronomesh solve PROBLEM.json [--json] [--out DIR] [--checkpoint FILE] [--resume FILE] [--quiet] [--debug]`. */
 import { readFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
-import { buildProblem, parseProblem, runProblem, toleranceForecast, type RunResult } from '../problem-file/index';
-import { ChronomeshError, adaptiveStepBytes, memoryBudget } from '../index';
+import { buildProblem, parseProblem, runProblem, type RunResult } from '../problem-file/index';
+import { ChronomeshError, adaptiveStepBytes, memoryBudget, toleranceForecast } from '../index';
 import { checkpointToFile, readFileBytes } from '../files/index';
 import { parseCommandArgs } from './args';
 import { CliError } from './cli-error';
@@ -108,7 +108,7 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
   const last = run.steps[run.steps.length - 1]!;
   const tolerance = built.spec.tolerance;
   const toleranceReached = tolerance > 0 ? last.estimate <= tolerance : null;
-  const forecast = toleranceReached === false ? toleranceForecast(run.steps, tolerance) : null;
+  const forecast = toleranceReached === false ? toleranceForecast(run.steps.map((s) => ({ unknowns: s.dofs, estimate: s.estimate, seconds: s.seconds })), tolerance) : null;
   if (toleranceReached === false) {
     progress(
       `warning: tolerance ${tolerance} not reached: the estimator is ${last.estimate.toExponential(3)} at ${last.dofs} unknowns, ` +

@@ -10,5 +10,4 @@ export { nearestName } from './nearest-name';
 export { parseProblem, PROBLEM_FIELDS, PROBLEM_DEFAULTS, type ProblemSpec, type DomainSpec, type ParseProblemOptions } from './schema';
 export { parseState, stateToJson, STATE_FORMAT } from './state-file';
 export { buildProblem, type BuiltProblem } from './build';
-export { toleranceForecast, type ToleranceForecast } from './forecast';
 export { runProblem, observedRate, type RunResult, type RunStep, type ProbeValue, type RunAdaptiveOptions, type ExactErrors } from './run';

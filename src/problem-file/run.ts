@@ -4,7 +4,7 @@
  * record per step, the probe values and the observed convergence rate of the estimator.
  */
 import {
-  DoubleTree, InvalidArgumentError, SpaceTimeSystem, enlargeDoubleTree, residualIndicators, solveAdaptive, spaceTimeErrors,
+  DoubleTree, InvalidArgumentError, SpaceTimeSystem, convergenceRate, enlargeDoubleTree, residualIndicators, solveAdaptive, spaceTimeErrors,
   type AdaptiveOptions, type AdaptiveStep, type SpaceTimeErrors, type SpaceTimeSolution,
 } from './core';
 import type { BuiltProblem } from './build';
@@ -87,7 +87,8 @@ export interface ExactErrors {
 
 /**
  * Least-squares slope of −log E against log N over the second half of the steps (the later,
- * asymptotic part); null when that half has fewer than two distinct N.
+ * asymptotic part); null when that half has fewer than two distinct N. The core's
+ * `convergenceRate` for the steps of a problem-file run.
  *
  * @example
  * ```ts
@@ -96,15 +97,7 @@ export interface ExactErrors {
  * ```
  */
 export function observedRate(steps: { dofs: number; estimate: number }[]): number | null {
-  const tail = steps.slice(Math.floor(steps.length / 2)).filter((s) => s.dofs > 0 && s.estimate > 0);
-  if (tail.length < 2) return null;
-  const xs = tail.map((s) => Math.log(s.dofs));
-  const ys = tail.map((s) => -Math.log(s.estimate));
-  const mx = xs.reduce((a, b) => a + b, 0) / xs.length;
-  const my = ys.reduce((a, b) => a + b, 0) / ys.length;
-  let sxy = 0, sxx = 0;
-  for (let i = 0; i < xs.length; i++) { sxy += (xs[i]! - mx) * (ys[i]! - my); sxx += (xs[i]! - mx) ** 2; }
-  return sxx > 0 ? sxy / sxx : null;
+  return convergenceRate(steps.map((s) => ({ unknowns: s.dofs, estimate: s.estimate })));
 }
 
 /** Checkpoint and resume of the adaptive strategy (see `AdaptiveOptions.checkpoint` / `resume`). */

@@ -126,7 +126,7 @@ describe('chronomesh solve with a tolerance', () => {
     const last = doc.steps[doc.steps.length - 1]!;
     expect(last.estimate).toBeGreaterThan(1e-4);
     expect(r.stderr).toMatch(/warning: tolerance 0\.0001 not reached: the estimator is \d\.\d{3}e-\d+ at \d+ unknowns, where the run stopped by unknowns/);
-    // The forecast is the steps' own power law carried to the tolerance (src/problem-file/forecast.ts),
+    // The forecast is the steps' own power law carried to the tolerance (src/adapt/forecast.ts),
     // recomputed here from the JSON steps: E_last (N/N_last)^(−r) = tolerance.
     const f = doc.forecast!;
     expect(f.rate).toBeGreaterThan(0.3);

@@ -1,5 +1,5 @@
 /**
- * toleranceForecast (src/problem-file/forecast.ts): where a run that missed its tolerance would
+ * toleranceForecast and convergenceRate (src/adapt/forecast.ts): where a run that missed its tolerance would
  * have reached it.
  *
  * Outside reference: on a history that follows an exact power law E = C·N^(−r), the least-squares
@@ -8,17 +8,16 @@
  * documented behaviour (over-estimates early in a run, close late) to the library's own 1D run.
  */
 import { describe, expect, it } from 'vitest';
-import { HeatProblem, intervalDomain, solveAdaptive } from '../../src/index';
-import { toleranceForecast } from '../../src/problem-file/index';
+import { HeatProblem, convergenceRate, intervalDomain, solveAdaptive, toleranceForecast } from '../../src/index';
 import { InvalidArgumentError } from '../../src/errors';
 
 /** Steps whose E lies exactly on C·N^(−r), growing by irregular factors, with seconds a·N. */
-function powerLawSteps(C: number, r: number, a: number): { dofs: number; estimate: number; seconds: number }[] {
+function powerLawSteps(C: number, r: number, a: number): { unknowns: number; estimate: number; seconds: number }[] {
   const growth = [1.3, 1.7, 1.15, 2.1, 1.4, 1.25, 1.9, 1.05, 1.6];
   const steps = [];
   let N = 37;
   for (const g of growth) {
-    steps.push({ dofs: N, estimate: C * N ** -r, seconds: a * N });
+    steps.push({ unknowns: N, estimate: C * N ** -r, seconds: a * N });
     N = Math.round(N * g);
   }
   return steps;
@@ -36,8 +35,18 @@ describe('toleranceForecast', () => {
       // whole-run time ∝ final #Λ: Σ seconds so far scaled by N*/N_last, recomputed here
       const last = steps[steps.length - 1]!;
       const sum = steps.reduce((s, x) => s + x.seconds, 0);
-      expect(Math.abs(f.seconds / ((sum * exactN) / last.dofs) - 1)).toBeLessThan(1e-9);
+      expect(Math.abs(f.seconds / ((sum * exactN) / last.unknowns) - 1)).toBeLessThan(1e-9);
     }
+  });
+
+  it('convergenceRate is the least-squares slope over the second half of the steps', () => {
+    // E = N^(-1/3) on the second half, a different law before: only the later half counts
+    const history = [10, 20, 40, 80, 160, 320].map((n, i) => ({ unknowns: n, estimate: i < 3 ? 1 : n ** (-1 / 3) }));
+    expect(convergenceRate(history)).toBeCloseTo(1 / 3, 12);
+    expect(convergenceRate(history.slice(0, 3))).toBeCloseTo(0, 15); // its second half is flat at E = 1
+    expect(convergenceRate([{ unknowns: 10, estimate: 1 }])).toBeNull(); // one point: no slope
+    expect(convergenceRate([{ unknowns: 10, estimate: 1 }, { unknowns: 10, estimate: 0.5 }])).toBeNull(); // one distinct N
+    expect(convergenceRate([])).toBeNull();
   });
 
   it('gives no forecast when the tolerance is reached or E is not falling steadily', () => {
@@ -54,30 +63,30 @@ describe('toleranceForecast', () => {
   it('names a bad argument', () => {
     const steps = powerLawSteps(1, 0.5, 1e-5);
     expect(() => toleranceForecast(steps, 0)).toThrow(InvalidArgumentError);
-    expect(() => toleranceForecast(steps, Number.NaN)).toThrow(/^tolerance: must be a finite number > 0, found NaN/);
+    expect(() => toleranceForecast(steps, Number.NaN)).toThrow(/tolerance/);
     const broken = steps.map((s, i) => (i === 3 ? { ...s, estimate: Number.NaN } : s));
     try {
       toleranceForecast(broken, 1e-3);
       expect.unreachable();
     } catch (e) {
       expect(e).toBeInstanceOf(InvalidArgumentError);
-      expect((e as InvalidArgumentError).field).toBe('steps[3].estimate');
+      expect((e as InvalidArgumentError).field).toBe('history[3].estimate');
     }
-    expect(() => toleranceForecast([{ dofs: -1, estimate: 1, seconds: 0 }], 1e-3)).toThrow(/^steps\[0\]\.dofs/);
+    expect(() => toleranceForecast([{ unknowns: -1, estimate: 1, seconds: 0 }], 1e-3)).toThrow(InvalidArgumentError);
   });
 
   it('on the 1D run of u0 ≡ 1, a forecast from a fifth of the size is close and errs on the high side', () => {
     const problem = new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 0.5, initial: () => 1 });
     const { history } = solveAdaptive(problem, { maxUnknowns: 8000, maxSteps: 200 });
-    const steps = history.map((h) => ({ dofs: h.unknowns, estimate: h.estimate, seconds: h.seconds }));
+    const steps = history;
     const last = steps[steps.length - 1]!;
     // the longest prefix that ends at most at a fifth of the final size
     let k = 0;
-    while (steps[k + 1]!.dofs <= last.dofs / 5) k++;
+    while (steps[k + 1]!.unknowns <= last.unknowns / 5) k++;
     const f = toleranceForecast(steps.slice(0, k + 1), last.estimate)!;
     expect(f).not.toBeNull();
-    const ratio = f.unknowns / last.dofs;
-    expect(ratio, `forecast ${f.unknowns} against ${last.dofs} (rate ${f.rate})`).toBeGreaterThan(0.9);
+    const ratio = f.unknowns / last.unknowns;
+    expect(ratio, `forecast ${f.unknowns} against ${last.unknowns} (rate ${f.rate})`).toBeGreaterThan(0.9);
     expect(ratio).toBeLessThan(2.5);
   });
 });

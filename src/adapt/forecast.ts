@@ -1,0 +1,89 @@
+/**
+ * Rates and forecasts from an adaptive run's history (docs/adaptivity.md §9): the observed rate r of
+ * E ≈ C·N^(−r) over the later steps, and where a run that stopped short of its tolerance would have
+ * reached it, E_last · (N / N_last)^(−r) = tolerance, with a whole run's time proportional to its
+ * final #Λ (each step costs O(#Λ), and with a steady growth g per step the whole run costs about
+ * 1/(1 − 1/g) times its last step, docs/adaptivity.md §7.1).
+ */
+import { InvalidArgumentError } from '../errors';
+import { checkNumber, checkObject } from '../validation/index';
+
+/** Result of {@link toleranceForecast}. */
+export interface ToleranceForecast {
+  /** The rate used: {@link convergenceRate} of the history. */
+  rate: number;
+  /** Unknowns #Λ at which E would reach the tolerance at that rate. */
+  unknowns: number;
+  /** Seconds of a whole run (from its first step) to that size, at the cost per unknown seen so far. */
+  seconds: number;
+}
+
+/**
+ * Below this observed rate E is not falling steadily (a stagnating or rising estimator, or a run
+ * of a few steps), and an extrapolation would mean nothing.
+ */
+const LEAST_RATE = 0.05;
+
+/**
+ * Least-squares slope of −log E against log N over the second half of the steps (the later, more
+ * nearly asymptotic part); null when that half has fewer than two distinct N. Steps with N or E
+ * not positive are left out.
+ *
+ * @example
+ * ```ts
+ * import { convergenceRate } from 'chronomesh';
+ * console.log(convergenceRate([{ unknowns: 100, estimate: 1 }, { unknowns: 400, estimate: 0.5 }, { unknowns: 1600, estimate: 0.25 }])); // → 0.5
+ * ```
+ */
+export function convergenceRate(history: readonly { unknowns: number; estimate: number }[]): number | null {
+  if (!Array.isArray(history)) throw new InvalidArgumentError(`history must be an array of {unknowns, estimate}, received ${typeof history}`, { field: 'history', expected: 'array' });
+  const tail = history.slice(Math.floor(history.length / 2)).filter((s) => s.unknowns > 0 && s.estimate > 0);
+  if (tail.length < 2) return null;
+  const xs = tail.map((s) => Math.log(s.unknowns));
+  const ys = tail.map((s) => -Math.log(s.estimate));
+  const mx = xs.reduce((a, b) => a + b, 0) / xs.length;
+  const my = ys.reduce((a, b) => a + b, 0) / ys.length;
+  let sxy = 0, sxx = 0;
+  for (let i = 0; i < xs.length; i++) { sxy += (xs[i]! - mx) * (ys[i]! - my); sxx += (xs[i]! - mx) ** 2; }
+  return sxx > 0 ? sxy / sxx : null;
+}
+
+/**
+ * Extrapolates a run's history (such as {@link AdaptiveResult}.history) to the size and time at
+ * which its estimator would reach `tolerance`; null when the tolerance is already reached or E has
+ * not been falling steadily over the second half of the steps (rate below 0.05, or too few steps
+ * to tell).
+ *
+ * An extrapolation, not a promise: on rough data the rate usually still rises with N, so early in a
+ * run the forecast over-estimates (on the u0 ≡ 1 reference runs, from a fifth of the final size:
+ * 1.06× the unknowns the run needed in 2D and 1.2–1.6× in 1D; from a thirtieth, 4.4× in 2D;
+ * docs/adaptivity.md §9); and a run may stop for other reasons first (memory, the deepest
+ * temporal level).
+ *
+ * @example
+ * ```ts
+ * import { toleranceForecast } from 'chronomesh';
+ * // E = N^(-1/2) exactly: E = 0.01 needs N = 10⁴; the three steps took 0.1 + 0.4 + 1.6 s up to N = 1600
+ * const history = [{ unknowns: 100, estimate: 0.1, seconds: 0.1 }, { unknowns: 400, estimate: 0.05, seconds: 0.4 }, { unknowns: 1600, estimate: 0.025, seconds: 1.6 }];
+ * const f = toleranceForecast(history, 0.01)!;
+ * console.log(f.rate.toFixed(2), Math.round(f.unknowns), f.seconds.toFixed(2)); // → 0.50 10000 13.13
+ * ```
+ */
+export function toleranceForecast(history: readonly { unknowns: number; estimate: number; seconds: number }[], tolerance: number): ToleranceForecast | null {
+  if (!Array.isArray(history)) throw new InvalidArgumentError(`history must be an array of {unknowns, estimate, seconds}, received ${typeof history}`, { field: 'history', expected: 'array' });
+  checkNumber(tolerance, 'tolerance', { min: 0, minOpen: true });
+  history.forEach((s, i) => {
+    checkObject(s, `history[${i}]`, 'an object {unknowns, estimate, seconds}');
+    checkNumber(s.unknowns, `history[${i}].unknowns`, { min: 0, minOpen: true });
+    checkNumber(s.estimate, `history[${i}].estimate`, { min: 0 });
+    checkNumber(s.seconds, `history[${i}].seconds`, { min: 0 });
+  });
+  const last = history[history.length - 1];
+  if (last === undefined || last.estimate <= tolerance) return null;
+  const rate = convergenceRate(history);
+  if (rate === null || !(rate >= LEAST_RATE)) return null;
+  const unknowns = last.unknowns * (last.estimate / tolerance) ** (1 / rate);
+  let seconds = 0;
+  for (const s of history) seconds += s.seconds;
+  return { rate, unknowns, seconds: (seconds * unknowns) / last.unknowns };
+}
