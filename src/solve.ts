@@ -56,10 +56,14 @@ function adaptive(problem: HeatProblem, opts: AdaptiveOptions): SolveResult {
   const tolerance = opts.tolerance ?? 0;
   const estimate = r.history[r.history.length - 1]!.estimate;
   if (tolerance > 0 && !(estimate <= tolerance) && r.stopReason !== 'aborted' && r.stopReason !== 'callback') {
-    const f = toleranceForecast(r.history, tolerance);
+    // A run stopped by the deepest trustworthy temporal level cannot go on with more budget.
+    const f = r.stopReason === 'resolution' ? null : toleranceForecast(r.history, tolerance);
     throw new ToleranceNotReachedError(
       `solve: the estimator is ${estimate.toExponential(3)} at ${r.set.size} unknowns, above the tolerance ${tolerance}, when the run stopped by '${r.stopReason}'; ` +
-        'raise that budget (maxUnknowns, maxSteps, maxSeconds, setMemoryBudget) or loosen the tolerance; the result so far is in error.result (solveAdaptive returns it instead of throwing)' +
+        (r.stopReason === 'resolution'
+          ? 'a larger budget would not help (the next set needed time scales below T·2⁻⁵⁰, docs/adaptivity.md §6): solve over a shorter horizon and continue from its end state (solution.state(T)), or loosen the tolerance'
+          : 'raise that budget (maxUnknowns, maxSteps, maxSeconds, setMemoryBudget) or loosen the tolerance') +
+        '; the result so far is in error.result (solveAdaptive returns it instead of throwing)' +
         (f ? `; at the rate seen over the second half of the steps (${f.rate.toFixed(2)}) E would reach the tolerance at about ${f.unknowns.toExponential(1)} unknowns ` +
           `after roughly ${f.seconds.toExponential(1)} s (toleranceForecast: an extrapolation, high early in a run)` : ''),
       estimate,

@@ -54,6 +54,20 @@ describe('solve()', () => {
     // Other budgets alike.
     expect(() => solve(problem, { tolerance: 1e-6, maxSteps: 2 })).toThrow(ToleranceNotReachedError);
   });
+  it("a run stopped by 'resolution' says that no budget helps, and gives no forecast", () => {
+    // κT/L² = 1e14: the layer of u0 ≡ 1 sits ~47 temporal levels below T, so the run reaches the
+    // deepest trustworthy level within a few steps (tests/adapt/adaptive-loop.test.ts)
+    const deep = new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 1e14, initial: () => 1 });
+    expect(() => solve(deep, { tolerance: 1e-9, maxSteps: 200 })).toThrow(ToleranceNotReachedError);
+    try {
+      solve(deep, { tolerance: 1e-9, maxSteps: 200 });
+    } catch (e) {
+      const err = e as ToleranceNotReachedError;
+      expect(err.stopReason).toBe('resolution');
+      expect(err.message).toMatch(/a larger budget would not help .*solve over a shorter horizon and continue from its end state/);
+      expect(err.message).not.toMatch(/raise that budget|would reach the tolerance/);
+    }
+  });
   it('a run the caller stopped returns as it is, tolerance or not', () => {
     let calls = 0;
     const r = solve(problem, { tolerance: 1e-6, onStep: () => ++calls < 2 });

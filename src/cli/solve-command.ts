@@ -108,13 +108,19 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
   const last = run.steps[run.steps.length - 1]!;
   const tolerance = built.spec.tolerance;
   const toleranceReached = tolerance > 0 ? last.estimate <= tolerance : null;
-  const forecast = toleranceReached === false ? toleranceForecast(run.steps.map((s) => ({ unknowns: s.dofs, estimate: s.estimate, seconds: s.seconds })), tolerance) : null;
+  // A run stopped by the deepest trustworthy temporal level cannot go on with more budget.
+  const atDepth = run.stopReason === 'resolution';
+  const forecast = toleranceReached === false && !atDepth ? toleranceForecast(run.steps.map((s) => ({ unknowns: s.dofs, estimate: s.estimate, seconds: s.seconds })), tolerance) : null;
   if (toleranceReached === false) {
     progress(
       `warning: tolerance ${tolerance} not reached: the estimator is ${last.estimate.toExponential(3)} at ${last.dofs} unknowns, ` +
-        `where the run stopped by ${run.stopReason}; raise maxDofs / maxSeconds / maxSteps or loosen the tolerance (exit status ${TOLERANCE_NOT_REACHED})`,
+        `where the run stopped by ${run.stopReason}; ` +
+        (atDepth
+          ? 'a larger budget would not help (the next set needed time scales below T·2^-50): solve over a shorter horizon and continue from its end state, or loosen the tolerance'
+          : 'raise maxDofs / maxSeconds / maxSteps or loosen the tolerance') +
+        ` (exit status ${TOLERANCE_NOT_REACHED})`,
     );
-    progress(forecast === null
+    if (!atDepth) progress(forecast === null
       ? 'forecast: none — the estimator has not fallen steadily over the second half of the steps'
       : `forecast: at the rate seen over the second half of the steps (${forecast.rate.toFixed(2)}), E would reach ${tolerance} at about ` +
         `${roundedCount(forecast.unknowns)} unknowns, a whole run of roughly ${roundedDuration(forecast.seconds)} on this machine ` +

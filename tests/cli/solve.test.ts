@@ -112,6 +112,10 @@ describe('chronomesh solve with a tolerance', () => {
   const missed = runCli(['solve', file('tight.json', 1e-4), '--json']);
   const missedHuman = runCli(['solve', file('tight2.json', 1e-4)]);
   const met = runCli(['solve', file('loose.json', 0.2), '--json']);
+  // κT/L² = 1e14 stops by 'resolution' within a few steps (tests/adapt/adaptive-loop.test.ts)
+  const deepFile = join(dir, 'deep.json');
+  writeFileSync(deepFile, JSON.stringify({ domain: { shape: 'interval', from: 0, to: 1, cells: 2 }, horizon: 1e14, initial: '1', maxSteps: 200, tolerance: 1e-9 }));
+  const deep = runCli(['solve', deepFile]);
 
   it('a tolerance out of budget exits with status 3, says so on stderr and in the JSON', async () => {
     const r = await missed;
@@ -138,6 +142,14 @@ describe('chronomesh solve with a tolerance', () => {
     expect(h.stdout).toMatch(/stopped by unknowns/);
     expect(h.stderr).toMatch(/warning: tolerance 0\.0001 not reached/);
     expect(h.stderr).toMatch(/forecast: /);
+  });
+
+  it("a tolerance missed at the deepest temporal level says no budget helps, without a forecast", async () => {
+    const r = await deep;
+    expect(r.status, r.stderr).toBe(3);
+    expect(r.stdout).toMatch(/stopped by resolution/);
+    expect(r.stderr).toMatch(/where the run stopped by resolution; a larger budget would not help .*solve over a shorter horizon and continue from its end state/);
+    expect(r.stderr).not.toMatch(/forecast|raise maxDofs/);
   });
 
   it('a tolerance reached exits with 0 and no warning', async () => {
