@@ -27,7 +27,7 @@ const LEAST_RATE = 0.05;
 /**
  * Least-squares slope of −log E against log N over the second half of the steps (the later, more
  * nearly asymptotic part); null when that half has fewer than two distinct N. Steps with N or E
- * not positive are left out.
+ * not positive are left out; a value that is not a finite number is a typed error naming it.
  *
  * @example
  * ```ts
@@ -37,6 +37,11 @@ const LEAST_RATE = 0.05;
  */
 export function convergenceRate(history: readonly { unknowns: number; estimate: number }[]): number | null {
   if (!Array.isArray(history)) throw new InvalidArgumentError(`history must be an array of {unknowns, estimate}, received ${typeof history}`, { field: 'history', expected: 'array' });
+  history.forEach((s, i) => {
+    checkObject(s, `history[${i}]`, 'an object {unknowns, estimate}');
+    checkNumber(s.unknowns, `history[${i}].unknowns`, { allowInfinity: false });
+    checkNumber(s.estimate, `history[${i}].estimate`, { allowInfinity: false });
+  });
   const tail = history.slice(Math.floor(history.length / 2)).filter((s) => s.unknowns > 0 && s.estimate > 0);
   if (tail.length < 2) return null;
   const xs = tail.map((s) => Math.log(s.unknowns));

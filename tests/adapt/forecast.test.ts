@@ -47,6 +47,8 @@ describe('toleranceForecast', () => {
     expect(convergenceRate([{ unknowns: 10, estimate: 1 }])).toBeNull(); // one point: no slope
     expect(convergenceRate([{ unknowns: 10, estimate: 1 }, { unknowns: 10, estimate: 0.5 }])).toBeNull(); // one distinct N
     expect(convergenceRate([])).toBeNull();
+    expect(() => convergenceRate([{ unknowns: 10, estimate: 1 }, { unknowns: 20, estimate: Number.NaN }])).toThrow(/history\[1\]\.estimate/);
+    expect(() => convergenceRate([null as unknown as { unknowns: number; estimate: number }])).toThrow(InvalidArgumentError);
   });
 
   it('gives no forecast when the tolerance is reached or E is not falling steadily', () => {
