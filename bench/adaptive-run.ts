@@ -40,10 +40,16 @@ const rate = observedRate(h.map((s) => ({ dofs: s.unknowns, estimate: s.estimate
 const seconds = (performance.now() - t0) / 1000;
 const final = h.at(-1)!;
 const peak = process.resourceUsage().maxRSS * 1024;
+// The adaptive-loop targets, read off the history: (setup + estimate + refine) / solve per step at
+// ≥ 10⁵ unknowns (target ≤ 1), and the largest ratio E_k / E_{k−1} after step 10 (target ≤ 1.05).
+const big = h.filter((s) => s.unknowns >= 1e5 && s.timings.solve > 0).map((s) => (s.timings.setup + s.timings.estimate + s.timings.refine) / s.timings.solve);
+let largestRise: number | null = null;
+for (let k = 11; k < h.length; k++) largestRise = Math.max(largestRise ?? 0, h[k]!.estimate / h[k - 1]!.estimate);
 console.log(JSON.stringify({
   component: `${component}.run`, size: final.unknowns, nsPerUnit: (seconds * 1e9) / final.unknowns, steps: h.length, seconds, cpuSeconds: cpu(),
   estimate: final.estimate, rate, stopReason: result.stopReason,
   peakRssBytes: peak, rssBytesPerUnknown: peak / final.unknowns,
+  outsideSolveRatio: big.length > 0 ? [Math.min(...big), Math.max(...big)] : null, largestRiseAfterStep10: largestRise,
   // glibc's malloc keeps freed blocks of up to 32 MB in the process unless its mmap threshold is
   // fixed (docs/adaptivity.md §5); the row says which allocator setting the run had.
   mallocMmapThreshold: process.env.MALLOC_MMAP_THRESHOLD_ ?? 'default',

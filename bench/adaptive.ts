@@ -5,7 +5,8 @@
  * (`adaptive.d2.step`: size = #Λ, nsPerUnit = step wall time per unknown, the time shares of
  * setup / solve / estimate / refine, rssBytesPerUnknown = peak RSS so far / #Λ) and one summary
  * row per run (`adaptive.d2.run`: total seconds, steps, final E, the least-squares rate of E over
- * the second half of the steps, peak RSS). d1 runs to 3·10⁵ unknowns: its rate over the second half
+ * the second half of the steps, peak RSS, the range of (setup + estimate + refine) / solve over the
+ * steps at ≥ 10⁵ unknowns and the largest E_k / E_{k−1} after step 10). d1 runs to 3·10⁵ unknowns: its rate over the second half
  * of the steps is 0.886 for a run to 10⁵ and 0.91 to 3·10⁵ (still rising with N).
  */
 import { spawnSync } from 'node:child_process';
