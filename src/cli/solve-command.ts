@@ -124,7 +124,9 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
       ? 'forecast: none — the estimator has not fallen steadily over the second half of the steps'
       : `forecast: at the rate seen over the second half of the steps (${forecast.rate.toFixed(2)}), E would reach ${tolerance} at about ` +
         `${roundedCount(forecast.unknowns)} unknowns, a whole run of roughly ${roundedDuration(forecast.seconds)} on this machine ` +
-        '(an extrapolation: rates on rough data usually still rise, so early in a run this over-estimates)' +
+        (built.spec.strategy === 'adaptive'
+          ? '(an extrapolation: rates on rough data usually still rise, so early in a run this over-estimates)'
+          : `(an extrapolation: ${built.spec.strategy} grids keep a low rate on rough data; the adaptive strategy usually needs far fewer unknowns)`) +
         // #Λ̲ ≥ #Λ, so this is a lower bound of the step's memory (src/adapt/step-memory.ts)
         (adaptiveStepBytes(forecast.unknowns, forecast.unknowns, built.problem.domain.dim) > memoryBudget() ? '; that many unknowns exceed this machine\'s memory budget' : ''));
   }
