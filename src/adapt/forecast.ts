@@ -26,8 +26,9 @@ const LEAST_RATE = 0.05;
 
 /**
  * Least-squares slope of −log E against log N over the second half of the steps (the later, more
- * nearly asymptotic part); null when that half has fewer than two distinct N. Steps with N or E
- * not positive are left out; a value that is not a finite number is a typed error naming it.
+ * nearly asymptotic part); null when that half has fewer than two distinct N. Steps with E = 0 are
+ * left out; an N that is not a positive number or an E that is not a number ≥ 0 is a typed error
+ * naming it.
  *
  * @example
  * ```ts
@@ -36,21 +37,8 @@ const LEAST_RATE = 0.05;
  * ```
  */
 export function convergenceRate(history: readonly { unknowns: number; estimate: number }[]): number | null {
-  if (!Array.isArray(history)) throw new InvalidArgumentError(`history must be an array of {unknowns, estimate}, received ${typeof history}`, { field: 'history', expected: 'array' });
-  history.forEach((s, i) => {
-    checkObject(s, `history[${i}]`, 'an object {unknowns, estimate}');
-    checkNumber(s.unknowns, `history[${i}].unknowns`, { allowInfinity: false });
-    checkNumber(s.estimate, `history[${i}].estimate`, { allowInfinity: false });
-  });
-  const tail = history.slice(Math.floor(history.length / 2)).filter((s) => s.unknowns > 0 && s.estimate > 0);
-  if (tail.length < 2) return null;
-  const xs = tail.map((s) => Math.log(s.unknowns));
-  const ys = tail.map((s) => -Math.log(s.estimate));
-  const mx = xs.reduce((a, b) => a + b, 0) / xs.length;
-  const my = ys.reduce((a, b) => a + b, 0) / ys.length;
-  let sxy = 0, sxx = 0;
-  for (let i = 0; i < xs.length; i++) { sxy += (xs[i]! - mx) * (ys[i]! - my); sxx += (xs[i]! - mx) ** 2; }
-  return sxx > 0 ? sxy / sxx : null;
+  checkHistory(history, false);
+  return fittedRate(history);
 }
 
 /**
@@ -75,20 +63,39 @@ export function convergenceRate(history: readonly { unknowns: number; estimate: 
  * ```
  */
 export function toleranceForecast(history: readonly { unknowns: number; estimate: number; seconds: number }[], tolerance: number): ToleranceForecast | null {
-  if (!Array.isArray(history)) throw new InvalidArgumentError(`history must be an array of {unknowns, estimate, seconds}, received ${typeof history}`, { field: 'history', expected: 'array' });
+  checkHistory(history, true);
   checkNumber(tolerance, 'tolerance', { min: 0, minOpen: true });
-  history.forEach((s, i) => {
-    checkObject(s, `history[${i}]`, 'an object {unknowns, estimate, seconds}');
-    checkNumber(s.unknowns, `history[${i}].unknowns`, { min: 0, minOpen: true });
-    checkNumber(s.estimate, `history[${i}].estimate`, { min: 0 });
-    checkNumber(s.seconds, `history[${i}].seconds`, { min: 0 });
-  });
   const last = history[history.length - 1];
   if (last === undefined || last.estimate <= tolerance) return null;
-  const rate = convergenceRate(history);
+  const rate = fittedRate(history);
   if (rate === null || !(rate >= LEAST_RATE)) return null;
   const unknowns = last.unknowns * (last.estimate / tolerance) ** (1 / rate);
   let seconds = 0;
   for (const s of history) seconds += s.seconds;
   return { rate, unknowns, seconds: (seconds * unknowns) / last.unknowns };
+}
+
+/** Checks every step of a history: N > 0, E ≥ 0 and, with `withSeconds`, seconds ≥ 0. */
+function checkHistory(history: unknown, withSeconds: boolean): asserts history is readonly { unknowns: number; estimate: number; seconds: number }[] {
+  const shape = withSeconds ? '{unknowns, estimate, seconds}' : '{unknowns, estimate}';
+  if (!Array.isArray(history)) throw new InvalidArgumentError(`history must be an array of ${shape}, received ${typeof history}`, { field: 'history', expected: 'array' });
+  history.forEach((s: unknown, i) => {
+    const step = checkObject(s, `history[${i}]`, `an object ${shape}`);
+    checkNumber(step.unknowns, `history[${i}].unknowns`, { min: 0, minOpen: true });
+    checkNumber(step.estimate, `history[${i}].estimate`, { min: 0 });
+    if (withSeconds) checkNumber(step.seconds, `history[${i}].seconds`, { min: 0 });
+  });
+}
+
+/** The slope of {@link convergenceRate} on a checked history. */
+function fittedRate(history: readonly { unknowns: number; estimate: number }[]): number | null {
+  const tail = history.slice(Math.floor(history.length / 2)).filter((s) => s.estimate > 0);
+  if (tail.length < 2) return null;
+  const xs = tail.map((s) => Math.log(s.unknowns));
+  const ys = tail.map((s) => -Math.log(s.estimate));
+  const mx = xs.reduce((a, b) => a + b, 0) / xs.length;
+  const my = ys.reduce((a, b) => a + b, 0) / ys.length;
+  let sxy = 0, sxx = 0;
+  for (let i = 0; i < xs.length; i++) { sxy += (xs[i]! - mx) * (ys[i]! - my); sxx += (xs[i]! - mx) ** 2; }
+  return sxx > 0 ? sxy / sxx : null;
 }
