@@ -47,6 +47,12 @@ describe('toleranceForecast', () => {
     expect(convergenceRate([{ unknowns: 10, estimate: 1 }])).toBeNull(); // one point: no slope
     expect(convergenceRate([{ unknowns: 10, estimate: 1 }, { unknowns: 10, estimate: 0.5 }])).toBeNull(); // one distinct N
     expect(convergenceRate([])).toBeNull();
+    // N must grow at least twofold over the fitted steps: 151 → 153 unknowns with E falling 12 %
+    // would read as a rate of 10 (the last steps of a run stopped at the deepest temporal level)
+    expect(convergenceRate([{ unknowns: 55, estimate: 0.31 }, { unknowns: 56, estimate: 0.24 }, { unknowns: 151, estimate: 0.221 }, { unknowns: 153, estimate: 0.193 }])).toBeNull();
+    const start = { unknowns: 50, estimate: 0.4 };
+    expect(convergenceRate([start, { unknowns: 100, estimate: 0.2 }, { unknowns: 199, estimate: 0.1 }])).toBeNull();
+    expect(convergenceRate([start, { unknowns: 100, estimate: 0.2 }, { unknowns: 200, estimate: 0.1 }])).toBeCloseTo(1, 12);
     expect(() => convergenceRate([{ unknowns: 10, estimate: 1 }, { unknowns: 20, estimate: Number.NaN }])).toThrow(/history\[1\]\.estimate/);
     expect(() => convergenceRate([null as unknown as { unknowns: number; estimate: number }])).toThrow(InvalidArgumentError);
   });

@@ -153,6 +153,8 @@ describe('chronomesh solve with a tolerance', () => {
     expect(r.stdout).toMatch(/stopped by resolution/);
     expect(r.stderr).toMatch(/where the run stopped by resolution; a larger budget would not help .*solve over a shorter horizon and continue from its end state/);
     expect(r.stderr).not.toMatch(/forecast|raise maxDofs/);
+    // its last steps hardly grow (151 → 153 unknowns): no slope is read off them (a "rate" of 10 was)
+    expect(r.stdout).toMatch(/observed rate n\/a \(N grew less than twofold over the second half of the steps\)/);
   });
 
   it('a tolerance missed by uniform sparse grids: the forecast shows their low rate and points to the adaptive strategy', async () => {
