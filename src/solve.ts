@@ -7,7 +7,7 @@
 import { typed } from './vendor/typed-function';
 import { InvalidArgumentError, ToleranceNotReachedError } from './errors';
 import { solveAdaptive } from './adapt/adaptive-solver';
-import { toleranceForecast } from './adapt/forecast';
+import { resolutionAdvice, toleranceForecast } from './adapt/forecast';
 import type { AdaptiveOptions, AdaptiveResult, AdaptiveStep } from './adapt/adaptive-options';
 import { SpaceTimeSolution } from './spacetime/space-time-solution';
 import { validateAdaptiveOptions } from './adapt/adaptive-options';
@@ -61,7 +61,7 @@ function adaptive(problem: HeatProblem, opts: AdaptiveOptions): SolveResult {
     throw new ToleranceNotReachedError(
       `solve: the estimator is ${estimate.toExponential(3)} at ${r.set.size} unknowns, above the tolerance ${tolerance}, when the run stopped by '${r.stopReason}'; ` +
         (r.stopReason === 'resolution'
-          ? 'a larger budget would not help (the next set needed time scales below T·2⁻⁵⁰, docs/adaptivity.md §6): solve over a shorter horizon and continue from its end state (solution.state(T)), or loosen the tolerance'
+          ? resolutionAdvice('solution.state(T)')
           : 'raise that budget (maxUnknowns, maxSteps, maxSeconds, setMemoryBudget) or loosen the tolerance') +
         '; the result so far is in error.result (solveAdaptive returns it instead of throwing)' +
         (f ? `; at the rate seen over the second half of the steps (${f.rate.toFixed(2)}) E would reach the tolerance at about ${f.unknowns.toExponential(1)} unknowns ` +

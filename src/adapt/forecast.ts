@@ -7,6 +7,7 @@
  */
 import { InvalidArgumentError } from '../errors';
 import { checkNumber, checkObject } from '../validation/index';
+import { DEEPEST_SET_LEVEL } from './initial-set';
 
 /** Result of {@link toleranceForecast}. */
 export interface ToleranceForecast {
@@ -106,4 +107,15 @@ function fittedRate(history: readonly { unknowns: number; estimate: number }[]):
   let sxy = 0, sxx = 0;
   for (let i = 0; i < xs.length; i++) { sxy += (xs[i]! - mx) * (ys[i]! - my); sxx += (xs[i]! - mx) ** 2; }
   return sxx > 0 ? sxy / sxx : null;
+}
+
+/**
+ * What to tell a user whose run stopped with `'resolution'` above its tolerance: no budget lets it
+ * go on (the next set would need temporal levels beyond the deepest the loop trusts,
+ * docs/adaptivity.md §6), but a shorter horizon does; `endState` names how the caller gets the end
+ * state to continue from. One wording for every front end. @internal
+ */
+export function resolutionAdvice(endState: string): string {
+  return `a larger budget would not help (the next set needed time scales below T·2^-${DEEPEST_SET_LEVEL}, docs/adaptivity.md §6): ` +
+    `solve over a shorter horizon and continue from its end state (${endState}), or loosen the tolerance`;
 }

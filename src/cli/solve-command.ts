@@ -4,6 +4,7 @@ import { dirname, resolve } from 'node:path';
 import { buildProblem, parseProblem, runProblem, type RunResult } from '../problem-file/index';
 import { ChronomeshError, adaptiveStepBytes, memoryBudget, toleranceForecast } from '../index';
 import { checkpointToFile, readFileBytes } from '../files/index';
+import { resolutionAdvice } from '../adapt/forecast';
 import { parseCommandArgs } from './args';
 import { CliError } from './cli-error';
 import { SOLVE_HELP } from './help';
@@ -116,7 +117,7 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
       `warning: tolerance ${tolerance} not reached: the estimator is ${last.estimate.toExponential(3)} at ${last.dofs} unknowns, ` +
         `where the run stopped by ${run.stopReason}; ` +
         (atDepth
-          ? 'a larger budget would not help (the next set needed time scales below T·2^-50): solve over a shorter horizon and continue from its end state, or loosen the tolerance'
+          ? resolutionAdvice('--out writes end-state.json; start the next file from it with "initial": {"state": FILE}')
           : 'raise maxDofs / maxSeconds / maxSteps or loosen the tolerance') +
         ` (exit status ${TOLERANCE_NOT_REACHED})`,
     );
