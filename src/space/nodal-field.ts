@@ -28,8 +28,11 @@ const DEGENERATE = 1e-14;
  * point outside the mesh is an error naming it. Use it as the initial state of a run that continues
  * another one, or to bring a measured field into a problem.
  *
- * The input is checked before anything is built: lengths, finite numbers, point indices in range
- * and cells of positive size; that the cells do not overlap is not checked.
+ * The input is checked before anything is built: lengths, finite numbers, point indices in range,
+ * cells of positive size, and cells that do not overlap (where they did, a value depended on which
+ * of the overlapping cells the point was found in). In 2D the overlap check sees repeated and
+ * folded cells, cells inside others and meshes laid over each other, but not two cells without a
+ * common edge that overlap so little that neither holds the other's centroid.
  *
  * @example
  * ```ts
@@ -93,6 +96,90 @@ export class NodalField {
       }
     }
     this.locator = new SimplexLocator(d, this.points, this.cells, m);
+    if (d === 1) this.checkSegmentsApart(extent);
+    else this.checkTrianglesApart();
+  }
+
+  /** Segments must not overlap (they may touch): sorted by their left ends, each starts where the one before ends or later. */
+  private checkSegmentsApart(extent: number): void {
+    const m = this.cellCount, p = this.points, c = this.cells;
+    const left = new Float64Array(m), right = new Float64Array(m);
+    for (let e = 0; e < m; e++) {
+      const a = p[c[2 * e]!]!, b = p[c[2 * e + 1]!]!;
+      left[e] = Math.min(a, b);
+      right[e] = Math.max(a, b);
+    }
+    const order = Array.from({ length: m }, (_, e) => e).sort((a, b) => left[a]! - left[b]! || a - b);
+    const slack = 1e-12 * extent;
+    for (let k = 1; k < m; k++) {
+      const a = order[k - 1]!, b = order[k]!;
+      if (left[b]! < right[a]! - slack) {
+        throw new InvalidMeshError(`cells ${Math.min(a, b)} and ${Math.max(a, b)} overlap: [${left[a]}, ${right[a]}] and [${left[b]}, ${right[b]}] share more than an end point`, {
+          field: 'cells', expected: 'segments that do not overlap', received: `cells ${Math.min(a, b)} and ${Math.max(a, b)}`,
+        });
+      }
+    }
+  }
+
+  /**
+   * Triangles must not overlap. Checked: an edge belongs to at most two triangles, two triangles
+   * that share an edge lie on opposite sides of it (a folded or repeated triangle does not), and no
+   * triangle's centroid lies inside another triangle (a copy, a triangle inside another, two meshes
+   * laid over each other). Not seen: two triangles without a common edge that overlap so little
+   * that neither holds the other's centroid.
+   */
+  private checkTrianglesApart(): void {
+    const m = this.cellCount, n = this.pointCount, c = this.cells;
+    // Edges grouped by their lower point (counting sort): entry = 3·cell + corner opposite the edge.
+    const start = new Int32Array(n + 1);
+    for (let e = 0; e < m; e++) for (let k = 0; k < 3; k++) start[Math.min(c[3 * e + (k + 1) % 3]!, c[3 * e + (k + 2) % 3]!) + 1]!++;
+    for (let v = 0; v < n; v++) start[v + 1]! += start[v]!;
+    const fill = start.slice(0, n);
+    const entry = new Int32Array(3 * m);
+    for (let e = 0; e < m; e++) for (let k = 0; k < 3; k++) entry[fill[Math.min(c[3 * e + (k + 1) % 3]!, c[3 * e + (k + 2) % 3]!)]!++] = 3 * e + k;
+    const upper = (q: number): number => {
+      const e = (q / 3) | 0, k = q % 3;
+      return Math.max(c[3 * e + (k + 1) % 3]!, c[3 * e + (k + 2) % 3]!);
+    };
+    for (let v = 0; v < n; v++) {
+      for (let s = start[v]!; s < start[v + 1]!; s++) {
+        const q = entry[s]!, w = upper(q);
+        let shared = -1;
+        for (let t = s + 1; t < start[v + 1]!; t++) {
+          const r = entry[t]!;
+          if (upper(r) !== w) continue;
+          if (shared >= 0) {
+            throw new InvalidMeshError(`cells ${(q / 3) | 0}, ${(shared / 3) | 0} and ${(r / 3) | 0} share the edge between points ${v} and ${w}: an edge of a mesh belongs to at most two cells`, {
+              field: 'cells', expected: 'cells that do not overlap', received: `cells ${(q / 3) | 0}, ${(shared / 3) | 0}, ${(r / 3) | 0}`,
+            });
+          }
+          shared = r;
+          if (this.side(v, w, c[q]!) * this.side(v, w, c[r]!) > 0) {
+            const a = (q / 3) | 0, b = (r / 3) | 0;
+            throw new InvalidMeshError(`cells ${a} and ${b} lie on the same side of their common edge (points ${v} and ${w}), so they overlap (a folded or repeated cell)`, {
+              field: 'cells', expected: 'cells on opposite sides of a shared edge', received: `cells ${a} and ${b}`,
+            });
+          }
+        }
+      }
+    }
+    const p = this.points;
+    for (let e = 0; e < m; e++) {
+      const i = c[3 * e]!, j = c[3 * e + 1]!, k = c[3 * e + 2]!;
+      const x = (p[2 * i]! + p[2 * j]! + p[2 * k]!) / 3, y = (p[2 * i + 1]! + p[2 * j + 1]! + p[2 * k + 1]!) / 3;
+      const f = this.locator.otherHolding(e, x, y, 1e-9);
+      if (f >= 0) {
+        throw new InvalidMeshError(`cells ${Math.min(e, f)} and ${Math.max(e, f)} overlap: the centroid (${x}, ${y}) of cell ${e} lies inside cell ${f}`, {
+          field: 'cells', expected: 'cells that do not overlap', received: `cells ${Math.min(e, f)} and ${Math.max(e, f)}`,
+        });
+      }
+    }
+  }
+
+  /** Sign of the area of the triangle (points a, b, c): on which side of the line a → b point c lies. */
+  private side(a: number, b: number, cc: number): number {
+    const p = this.points;
+    return Math.sign((p[2 * b]! - p[2 * a]!) * (p[2 * cc + 1]! - p[2 * a + 1]!) - (p[2 * b + 1]! - p[2 * a + 1]!) * (p[2 * cc]! - p[2 * a]!));
   }
 
   /** Number of points (vertices). */

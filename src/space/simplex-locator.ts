@@ -98,6 +98,21 @@ export class SimplexLocator {
     return bestScore >= -1e-10 ? best : -1;
   }
 
+  /**
+   * A cell other than `e` that holds (x, y) strictly inside (minimal barycentric coordinate above
+   * `margin`), or −1. With (x, y) the centroid of e this finds a cell overlapping e; cells that
+   * only touch e (shared edges or vertices) never hold its centroid.
+   */
+  otherHolding(e: number, x: number, y: number, margin: number): number {
+    if (!(x >= this.x0 && x <= this.x0 + this.nx * this.hx && y >= this.y0 && y <= this.y0 + this.ny * this.hy)) return -1;
+    const c = this.cellY(y) * this.nx + this.cellX(x);
+    for (let k = this.start[c]!; k < this.start[c + 1]!; k++) {
+      const f = this.items[k]!;
+      if (f !== e && this.score(f, x, y) > margin) return f;
+    }
+    return -1;
+  }
+
   /** Barycentric coordinates of (x, y) in cell e into `out` (2 in 1D, 3 in 2D). */
   barycentric(e: number, x: number, y: number, out: Float64Array): void {
     const p = this.coords, q = this.cells;

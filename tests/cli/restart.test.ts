@@ -79,6 +79,7 @@ describe('restarting from a saved state', () => {
       [{ ...ok, version: 2 }, /state\.version: must be 1/],
       [{ ...ok, colour: 1 }, /state\.colour: unknown field/],
       [{ ...ok, cells: [[0, 1, 1]] }, /state\.cells: cell 0 has zero area/],
+      [{ ...ok, cells: [[0, 1, 2], [2, 1, 0]] }, /state\.cells: cells 0 and 1 lie on the same side of their common edge/],
       [{ ...ok, points: [] }, /state\.points: must be a non-empty list/],
     ];
     for (const [json, message] of cases) expect(() => parseState(json, 'state', 2)).toThrow(message);

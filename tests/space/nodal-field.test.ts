@@ -140,4 +140,39 @@ describe('NodalField', () => {
     const p = new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 1, initial: rod });
     expect(p.initial!(0.3, 0)).toBeCloseTo(0.3, 14);
   });
+
+  it('refuses cells that overlap, naming them (a value there would depend on which cell a point is found in)', () => {
+    // The cells of a triangulation meet only in common edges or vertices (common practice). Each
+    // broken mesh below must be refused with an InvalidMeshError naming the overlapping cells; the
+    // unbroken ones (any orientation, random diagonals) are accepted.
+    const mesh = (points: number[], cells: number[]) => () => new NodalField({ dim: 2, points, cells, values: new Array(points.length / 2).fill(0) });
+    const refusal = (make: () => unknown): InvalidMeshError => {
+      try { make(); } catch (e) { expect(e).toBeInstanceOf(InvalidMeshError); return e as InvalidMeshError; }
+      return expect.unreachable('the mesh was accepted') as never;
+    };
+    for (let seed = 1; seed <= 5; seed++) {
+      const { points, cells } = jitteredMesh(6, seed);
+      expect(mesh(points, cells)).not.toThrow();
+      // a cell repeated (same points, other orientation): same side of every edge it shares
+      expect(String(refusal(mesh(points, [...cells, cells[5]!, cells[4]!, cells[3]!])))).toMatch(/cells (\d+, )?1 and 72 (lie on the same side of their common edge|share the edge)/);
+      // an interior point dragged across its neighbours (a fold)
+      const folded = points.slice();
+      const v = 3 * 7 + 3; // point (3, 3) of the 7 × 7 grid of points
+      folded[2 * v] = folded[2 * v]! + 0.4;
+      folded[2 * v + 1] = folded[2 * v + 1]! + 0.4;
+      expect(String(refusal(mesh(folded, cells)))).toMatch(/lie on the same side of their common edge|overlap/);
+      // a second copy of the mesh on points of its own, shifted: no common edge at all
+      const shifted = points.map((c, i) => c + (i % 2 === 0 ? 0.31 : 0.17));
+      const n = points.length / 2;
+      const e = refusal(mesh([...points, ...shifted], [...cells, ...cells.map((k) => k + n)]));
+      expect(String(e)).toMatch(/cells \d+ and \d+ overlap: the centroid \([\d.e-]+, [\d.e-]+\) of cell \d+ lies inside cell \d+/);
+    }
+    // a small triangle inside a large one, no points in common
+    expect(String(refusal(mesh([0, 0, 1, 0, 0, 1, 0.1, 0.1, 0.2, 0.1, 0.1, 0.2], [0, 1, 2, 3, 4, 5])))).toMatch(/cells 0 and 1 overlap: the centroid/);
+    // three cells on one edge (a fan folded onto itself)
+    expect(String(refusal(mesh([0, 0, 1, 0, 0.5, 1, 0.5, -1, 0.5, 0.5], [0, 1, 2, 1, 0, 3, 0, 1, 4])))).toMatch(/cells 0, 1 and 2 share the edge between points 0 and 1/);
+    // in 1D: segments that share more than an end point; touching ones are fine
+    expect(() => new NodalField({ dim: 1, points: [0, 1, 0.6, 1.6], cells: [0, 1, 2, 3], values: [0, 0, 0, 0] })).toThrow(/cells 0 and 1 overlap: \[0, 1\] and \[0\.6, 1\.6\]/);
+    expect(() => new NodalField({ dim: 1, points: [0, 1, 2], cells: [1, 2, 0, 1], values: [0, 0, 0] })).not.toThrow();
+  });
 });
