@@ -25,7 +25,7 @@ function csvLine(values: (string | number | null)[]): string {
 
 /** Default slice times when the file gives none: 0, T/4, T/2, 3T/4, T. */
 export function sliceTimes(spec: ProblemSpec): number[] {
-  return spec.slices.length > 0 ? spec.slices : [0, 0.25, 0.5, 0.75, 1].map((f) => spec.start + f * (spec.horizon - spec.start));
+  return spec.slices.length > 0 ? spec.slices : [0, 0.25, 0.5, 0.75, 1].map((f) => spec.start + f * spec.duration);
 }
 
 /** Writes all outputs of a run into `dir`; returns the paths written. */
@@ -55,7 +55,7 @@ export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): st
   });
   save('slices.pvd', vtkCollection(entries));
   // The state at the horizon, for a run that continues this one ("initial": {"state": …}).
-  save('end-state.json', stateToJson(run.solution.state(spec.horizon - spec.start), spec.horizon, `${name} at t = ${spec.horizon}`) + '\n');
+  save('end-state.json', stateToJson(run.solution.state(spec.duration), spec.horizon, `${name} at t = ${spec.horizon}`) + '\n');
   const pts = run.steps.filter((s) => s.estimate > 0).map((s) => [s.dofs, s.estimate] as [number, number]);
   const truePts = run.steps.filter((s) => typeof s.trueError === 'number' && s.trueError > 0).map((s) => [s.dofs, s.trueError!] as [number, number]);
   if (pts.length > 0) {
@@ -67,7 +67,7 @@ export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): st
   }
   const dim = run.solution.domain.dim;
   const meshTimes = times.map((t) => t - spec.start).filter((t) => t > 0).slice(0, 3);
-  save('index-set.svg', indexSetToSvg(run.solution.domain, run.set, spec.horizon - spec.start, {
+  save('index-set.svg', indexSetToSvg(run.solution.domain, run.set, spec.duration, {
     title: `${name}: space-time index set (${run.set.size} unknowns)${spec.start > 0 ? `, times from the start at t = ${spec.start}` : ''}`,
     ...(dim === 1 ? { logTime: true } : meshTimes.length > 0 ? { times: meshTimes } : {}),
   }));

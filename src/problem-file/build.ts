@@ -112,7 +112,7 @@ export function buildProblem(spec: ProblemSpec): BuiltProblem {
   }
   const initial = spatial(spec.initial, 'initial', dim, finite, 'a finite number');
   // The solver's clock runs from 0 over horizon − start (the expressions in t are shifted, ./schema.ts).
-  const duration = spec.horizon - spec.start;
+  const { duration } = spec;
   const src = spec.source.fn;
   const source = spec.source.constant && src(0, 0, 0) === 0 ? undefined : (t: number, x: number, y: number): number => {
     const v = src(t, x, y);

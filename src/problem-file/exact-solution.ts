@@ -173,7 +173,7 @@ function conditionAt(spec: ProblemSpec, mx: number, my: number): { part: Boundar
 export function checkExactSolution(spec: ProblemSpec, exact: ExactSolutionSpec, domain: SpatialDomain): void {
   const m = initialMesh(spec, domain);
   const dim = m.dim;
-  const T = spec.horizon - spec.start; // the solver's clock (the expressions are shifted to it)
+  const T = spec.duration; // the solver's clock (the expressions are shifted to it)
   const src = exact.value.source;
   const u = exact.value.fn, ut = exact.dt.fn, ux = exact.dx.fn, uxx = exact.dxx.fn;
   const uy = exact.dy?.fn, uyy = exact.dyy?.fn;

@@ -51,6 +51,8 @@ export interface ProblemSpec {
    */
   start: number;
   horizon: number;
+  /** horizon − start: the length of the solver's clock (its T). */
+  duration: number;
   diffusion: CompiledExpression;
   reaction: CompiledExpression;
   source: CompiledExpression;
@@ -242,6 +244,7 @@ export function parseProblem(json: unknown, opts: ParseProblemOptions = {}): Pro
     domain,
     start,
     horizon,
+    duration: horizon - start,
     diffusion: expression(o, 'diffusion', PROBLEM_DEFAULTS.diffusion, space),
     reaction: expression(o, 'reaction', PROBLEM_DEFAULTS.reaction, space),
     source: expression(o, 'source', PROBLEM_DEFAULTS.source, ['t', ...space]),
