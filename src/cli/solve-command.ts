@@ -122,7 +122,7 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
         ` (exit status ${TOLERANCE_NOT_REACHED})`,
     );
     if (!atDepth) progress(forecast === null
-      ? 'forecast: none — the estimator has not fallen steadily over the second half of the steps'
+      ? 'forecast: none — over the second half of the steps the estimator has not fallen steadily, or N grew less than twofold'
       : `forecast: at the rate seen over the second half of the steps (${forecast.rate.toFixed(2)}), E would reach ${tolerance} at about ` +
         `${roundedCount(forecast.unknowns)} unknowns, a whole run of roughly ${roundedDuration(forecast.seconds)} on this machine ` +
         (built.spec.strategy === 'adaptive'

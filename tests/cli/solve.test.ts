@@ -119,6 +119,11 @@ describe('chronomesh solve with a tolerance', () => {
   const sparseFile = join(dir, 'sparse.json');
   writeFileSync(sparseFile, JSON.stringify({ domain: { shape: 'interval', from: 0, to: 1, cells: 2 }, horizon: 1, initial: '1', maxDofs: 3000, tolerance: 1e-4, strategy: 'sparse' }));
   const sparse = runCli(['solve', sparseFile]);
+  // a budget of 60 unknowns stops u0 ≡ 1 on (0, 1) while E still rises and falls (13 steps to 45
+  // unknowns, E 0.36 → 0.19 with rises at steps 8–10): no steady fall to extrapolate
+  const tinyFile = join(dir, 'tiny.json');
+  writeFileSync(tinyFile, JSON.stringify({ domain: { shape: 'interval', from: 0, to: 1, cells: 2 }, horizon: 1, initial: '1', maxDofs: 60, tolerance: 1e-4 }));
+  const tiny = runCli(['solve', tinyFile]);
 
   it('a tolerance out of budget exits with status 3, says so on stderr and in the JSON', async () => {
     const r = await missed;
@@ -155,6 +160,12 @@ describe('chronomesh solve with a tolerance', () => {
     expect(r.stderr).not.toMatch(/forecast|raise maxDofs/);
     // its last steps hardly grow (151 → 153 unknowns): no slope is read off them (a "rate" of 10 was)
     expect(r.stdout).toMatch(/observed rate n\/a \(N grew less than twofold over the second half of the steps\)/);
+  });
+
+  it('a run too short for a rate says so instead of extrapolating', async () => {
+    const r = await tiny;
+    expect(r.status, r.stderr).toBe(3);
+    expect(r.stderr).toMatch(/forecast: none — over the second half of the steps the estimator has not fallen steadily, or N grew less than twofold/);
   });
 
   it('a tolerance missed by uniform sparse grids: the forecast shows their low rate and points to the adaptive strategy', async () => {
