@@ -64,7 +64,7 @@ function adaptive(problem: HeatProblem, opts: AdaptiveOptions): SolveResult {
           ? resolutionAdvice('solution.state(T)')
           : 'raise that budget (maxUnknowns, maxSteps, maxSeconds, setMemoryBudget) or loosen the tolerance') +
         '; the result so far is in error.result (solveAdaptive returns it instead of throwing)' +
-        (f ? `; at the rate seen over the second half of the steps (${f.rate.toFixed(2)}) E would reach the tolerance at about ${f.unknowns.toExponential(1)} unknowns ` +
+        (f ? `; at the rate of the recent steps (${f.rate.toFixed(2)}, since N was an eighth of its last value) E would reach the tolerance at about ${f.unknowns.toExponential(1)} unknowns ` +
           `after roughly ${f.seconds.toExponential(1)} s (toleranceForecast: an extrapolation, high early in a run)` : ''),
       estimate,
       tolerance,

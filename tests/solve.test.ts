@@ -44,7 +44,7 @@ describe('solve()', () => {
     expect(e.message).toMatch(/above the tolerance 0\.000001, when the run stopped by 'unknowns'/);
     // with the forecast of toleranceForecast on the result's history (tests/adapt/forecast.test.ts)
     const f = toleranceForecast(e.result.history!, 1e-6)!;
-    expect(e.message).toContain(`(${f.rate.toFixed(2)}) E would reach the tolerance at about ${f.unknowns.toExponential(1)} unknowns`);
+    expect(e.message).toContain(`(${f.rate.toFixed(2)}, since N was an eighth of its last value) E would reach the tolerance at about ${f.unknowns.toExponential(1)} unknowns`);
     // The work is not lost: the result is the one solveAdaptive returns for the same options.
     const direct = solveAdaptive(problem, { tolerance: 1e-6, maxUnknowns: 300 });
     expect(e.result.stopReason).toBe(direct.stopReason);

@@ -40,8 +40,9 @@ described by PROBLEM.json.
                  the file has an exact solution
                 (rate: least-squares slope of −log E against log N over the
                 second half of the steps; forecast: {"rate","unknowns",
-                "seconds"} where E would reach a missed tolerance at that
-                rate, or null; y is null in 1D)
+                "seconds"} where E would reach a missed tolerance at the
+                rate of the steps since N was an eighth of its last value,
+                or null; y is null in 1D)
   --out DIR     write history (JSON, CSV), probe table (CSV), slices (VTK XML
                 .vtu + .pvd), pictures (SVG) and the state at T (end-state.json,
                 to continue from) into DIR (checked writable first)

@@ -122,8 +122,8 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
         ` (exit status ${TOLERANCE_NOT_REACHED})`,
     );
     if (!atDepth) progress(forecast === null
-      ? 'forecast: none — over the second half of the steps the estimator has not fallen steadily, or N grew less than twofold'
-      : `forecast: at the rate seen over the second half of the steps (${forecast.rate.toFixed(2)}), E would reach ${tolerance} at about ` +
+      ? 'forecast: none — over the recent steps (since N was an eighth of its last value) the estimator has not fallen steadily, or N grew less than twofold'
+      : `forecast: at the rate of the recent steps (${forecast.rate.toFixed(2)}, since N was an eighth of its last value), E would reach ${tolerance} at about ` +
         `${roundedCount(forecast.unknowns)} unknowns, a whole run of roughly ${roundedDuration(forecast.seconds)} on this machine ` +
         (built.spec.strategy === 'adaptive'
           ? '(an extrapolation: rates on rough data usually still rise, so early in a run this over-estimates)'

@@ -57,6 +57,19 @@ describe('toleranceForecast', () => {
     expect(() => convergenceRate([null as unknown as { unknowns: number; estimate: number }])).toThrow(InvalidArgumentError);
   });
 
+  it('forecasts at the rate of the steps since N was an eighth of its last value', () => {
+    // E falls like N^(-1/4) up to N = 6400 and like N^(-1/2) after (continuous there): the steps
+    // from 6400 to 51 200 lie on the second law, so the forecast must follow it exactly, while the
+    // second half of the steps (from 3200) mixes both laws
+    const E = (n: number) => (n <= 6400 ? n ** -0.25 : 6400 ** -0.25 * (n / 6400) ** -0.5);
+    const history = Array.from({ length: 10 }, (_, k) => 100 * 2 ** k).map((n) => ({ unknowns: n, estimate: E(n), seconds: 1e-4 * n }));
+    const tol = 1e-3;
+    const f = toleranceForecast(history, tol)!;
+    expect(f.rate).toBeCloseTo(0.5, 12);
+    expect(Math.abs(f.unknowns / (6400 * (6400 ** -0.25 / tol) ** 2) - 1)).toBeLessThan(1e-9);
+    expect(convergenceRate(history)!).toBeLessThan(0.49);
+  });
+
   it('gives no forecast when the tolerance is reached or E is not falling steadily', () => {
     const falling = powerLawSteps(1, 0.5, 1e-5);
     expect(toleranceForecast(falling, 10)).toBeNull(); // already reached

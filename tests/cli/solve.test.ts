@@ -119,10 +119,9 @@ describe('chronomesh solve with a tolerance', () => {
   const sparseFile = join(dir, 'sparse.json');
   writeFileSync(sparseFile, JSON.stringify({ domain: { shape: 'interval', from: 0, to: 1, cells: 2 }, horizon: 1, initial: '1', maxDofs: 3000, tolerance: 1e-4, strategy: 'sparse' }));
   const sparse = runCli(['solve', sparseFile]);
-  // a budget of 60 unknowns stops u0 ≡ 1 on (0, 1) while E still rises and falls (13 steps to 45
-  // unknowns, E 0.36 → 0.19 with rises at steps 8–10): no steady fall to extrapolate
+  // three steps of u0 ≡ 1 on (0, 1) grow N from 8 to 11 unknowns: too little growth for a rate
   const tinyFile = join(dir, 'tiny.json');
-  writeFileSync(tinyFile, JSON.stringify({ domain: { shape: 'interval', from: 0, to: 1, cells: 2 }, horizon: 1, initial: '1', maxDofs: 60, tolerance: 1e-4 }));
+  writeFileSync(tinyFile, JSON.stringify({ domain: { shape: 'interval', from: 0, to: 1, cells: 2 }, horizon: 1, initial: '1', maxSteps: 3, tolerance: 1e-4 }));
   const tiny = runCli(['solve', tinyFile]);
 
   it('a tolerance out of budget exits with status 3, says so on stderr and in the JSON', async () => {
@@ -144,7 +143,7 @@ describe('chronomesh solve with a tolerance', () => {
     expect(f.rate).toBeGreaterThan(0.3);
     expect(Math.abs(last.estimate * (f.unknowns / last.dofs) ** -f.rate / 1e-4 - 1)).toBeLessThan(1e-9);
     expect(f.unknowns).toBeGreaterThan(400);
-    expect(r.stderr).toMatch(/forecast: at the rate seen over the second half of the steps \(0\.\d\d\), E would reach 0\.0001 at about [\d.e]+ unknowns, a whole run of roughly [\d.e]+ (s|min|h|days) on this machine/);
+    expect(r.stderr).toMatch(/forecast: at the rate of the recent steps \(0\.\d\d, since N was an eighth of its last value\), E would reach 0\.0001 at about [\d.e]+ unknowns, a whole run of roughly [\d.e]+ (s|min|h|days) on this machine/);
     const h = await missedHuman;
     expect(h.status).toBe(3);
     expect(h.stdout).toMatch(/stopped by unknowns/);
@@ -165,7 +164,9 @@ describe('chronomesh solve with a tolerance', () => {
   it('a run too short for a rate says so instead of extrapolating', async () => {
     const r = await tiny;
     expect(r.status, r.stderr).toBe(3);
-    expect(r.stderr).toMatch(/forecast: none — over the second half of the steps the estimator has not fallen steadily, or N grew less than twofold/);
+    expect(r.stderr).toMatch(/forecast: none — over the recent steps \(since N was an eighth of its last value\) the estimator has not fallen steadily, or N grew less than twofold/);
+    expect(r.stdout).toMatch(/3 steps \(adaptive\), stopped by steps/);
+    expect(r.stdout).toMatch(/observed rate n\/a \(N grew less than twofold over the second half of the steps\)/);
   });
 
   it('a tolerance missed by uniform sparse grids: the forecast shows their low rate and points to the adaptive strategy', async () => {
@@ -173,7 +174,7 @@ describe('chronomesh solve with a tolerance', () => {
     expect(r.status, r.stderr).toBe(3);
     // sparse grids on u0 ≡ 1 (incompatible with u = 0) converge slowly (about N^-1/12 in 2D, a fact
     // of the trade; here in 1D the rate over the levels run is about 0.1)
-    const m = /forecast: at the rate seen over the second half of the steps \((0\.\d\d)\), E would reach 0\.0001 at about ([\d.e]+) unknowns/.exec(r.stderr);
+    const m = /forecast: at the rate of the recent steps \((0\.\d\d), since N was an eighth of its last value\), E would reach 0\.0001 at about ([\d.e]+) unknowns/.exec(r.stderr);
     expect(m, r.stderr).not.toBeNull();
     expect(Number(m![1])).toBeLessThan(0.3);
     expect(Number(m![2])).toBeGreaterThan(1e9);
