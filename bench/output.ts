@@ -49,6 +49,24 @@ function adaptive(dim: 1 | 2, maxUnknowns: number): BenchInstance {
   return instance(res.solution, dim, 'panels');
 }
 
+/**
+ * Sensor histories: u at 10 fixed points for 1 000 times on an adaptive solution (u0 ≡ 1 on the unit
+ * square), by `sampleAtPoints` (spatial work once) or, in the `.evaluate` rows, by one `evaluate`
+ * call per time (a leaf mesh per time). Units: times, so nsPerUnit is the cost per time.
+ */
+function history(maxUnknowns: number, perTime: boolean): BenchInstance {
+  const domain = rectangleDomain(0, 1, 0, 1, 2, 2);
+  const res = solveAdaptive(new HeatProblem({ domain, T, initial: () => 1 }), { maxUnknowns });
+  const times = Array.from({ length: 1000 }, (_, k) => (T * (k + 0.5)) / 1000);
+  const points = Array.from({ length: 20 }, (_, i) => 0.05 + 0.09 * (i >> 1) + (i % 2) * 0.03);
+  const u = res.solution;
+  return {
+    units: times.length,
+    run: perTime ? () => { for (const t of times) u.evaluate(t, points); } : () => { u.sampleAtPoints(times, points); },
+    extra: { unknowns: u.trialSet.size, points: points.length / 2 },
+  };
+}
+
 /** `sizes` are sparse-grid levels, or unknown budgets for the adaptive rows. */
 export function outputCases(quick: boolean): BenchCase[] {
   return [
@@ -57,5 +75,7 @@ export function outputCases(quick: boolean): BenchCase[] {
     { component: 'output.errors.d2.sparse', sizes: quick ? [2] : [3, 4, 5], setup: (L) => sparse(2, L, 'panels') },
     { component: 'output.errors.d1.adaptive', sizes: quick ? [300] : [1000, 4000], setup: (n) => adaptive(1, n) },
     { component: 'output.errors.d2.adaptive', sizes: quick ? [300] : [1500, 6000], setup: (n) => adaptive(2, n) },
+    { component: 'output.history.d2', sizes: quick ? [300] : [1e4, 1e5], setup: (n) => history(n, false) },
+    { component: 'output.history.d2.evaluate', sizes: quick ? [300] : [1e4, 1e5], setup: (n) => history(n, true) },
   ];
 }

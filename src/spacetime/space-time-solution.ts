@@ -21,6 +21,7 @@ import type { LeafMesh } from '../space/leaf-mesh';
 import { liftingOf } from '../space/boundary-lifting';
 import type { DoubleTree } from './double-tree';
 import { positionsIn, unionSorted } from './fibre-pool';
+import { checkSeriesInput, pointSeriesAt, pointValuesPerFunction } from './point-series';
 import { checkFloat64Array, checkInstance, checkMemory, checkNumber, checkNumberArray, checkOptions } from '../validation/index';
 
 /** Nodal values of u(t, ·) on the leaf mesh of the union of the fibres active at t. */
@@ -142,6 +143,39 @@ export class SpaceTimeSolution {
       liftingOf(this.domain.forest).addAtPoints(times[k]!, pts, view);
     }
     return ndarray(data, d === 1 ? [times.length, nx] : [times.length, nx, ny]);
+  }
+
+  /**
+   * u at scattered points for many times (sensor histories), as a {@link GridView} of shape
+   * [times, points]: `view.get(k, p)` = u(times[k], point p). `points` is flat as in
+   * {@link SpaceTimeSolution.evaluate}. The spatial work is done once for all times (the value of
+   * every temporal function at every point), so each time costs O(levels · points) where
+   * `evaluate` and `sampleGrid` build u(t, ·) on a leaf mesh per time. Points outside Ω get
+   * `opts.outside` (default NaN); times outside [0, T] and non-finite coordinates are typed errors
+   * naming the entry.
+   *
+   * @example
+   * ```ts
+   * import { HeatProblem, rectangleDomain, solveAdaptive } from 'chronomesh';
+   * const domain = rectangleDomain(0, 1, 0, 1, 2, 2);
+   * const { solution } = solveAdaptive(new HeatProblem({ domain, T: 0.5, initial: () => 1 }), { maxUnknowns: 3000 });
+   * const times = Array.from({ length: 101 }, (_, k) => k * 0.005);
+   * const h = solution.sampleAtPoints(times, [0.5, 0.5, 0.1, 0.1]); // two sensors
+   * console.log(h.shape, h.get(100, 0) < h.get(10, 0)); // → [ 101, 2 ] true — the centre cools
+   * ```
+   */
+  sampleAtPoints(times: ArrayLike<number>, points: ArrayLike<number>, opts: { outside?: number } = {}): GridView {
+    checkNumberArray(times, 'times');
+    checkNumberArray(points, 'points', { finite: false });
+    checkSeriesInput(this.domain, this.T, times, points);
+    const o = checkOptions<{ outside?: number }>(opts, 'opts', ['outside']);
+    if (o.outside !== undefined && typeof o.outside !== 'number') checkNumber(o.outside, 'opts.outside');
+    const np = points.length / this.domain.dim;
+    checkMemory(8 * (this.trialSet.tree.size * np + times.length * np), `sampleAtPoints of ${times.length} times × ${np} points`, times.length > this.trialSet.tree.size ? 'times' : 'points', 'sample fewer points or times per call');
+    const perFunction = pointValuesPerFunction(this.domain, this.trialSet, this.coefficients, points);
+    const data = new Float64Array(times.length * np);
+    pointSeriesAt(this.domain, this.trialSet.tree, this.T, perFunction, points, times, opts.outside ?? NaN, data);
+    return ndarray(data, [times.length, np]);
   }
 
   /** Nodal values of u(t, ·) on its leaf mesh. */

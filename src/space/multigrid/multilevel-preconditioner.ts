@@ -119,8 +119,8 @@ export class MultilevelPreconditioner {
   constructor(mesh: LeafMesh, opts: MultilevelOptions = {}) {
     checkOptions<MultilevelOptions>(opts, 'opts', MULTILEVEL_KEYS);
     opts ??= {};
-    this.cycles = checkCount('cycles', opts.cycles, 1);
-    this.smoothingSteps = checkCount('smoothingSteps', opts.smoothingSteps, 1);
+    this.cycles = checkCount('opts.cycles', opts.cycles, 1);
+    this.smoothingSteps = checkCount('opts.smoothingSteps', opts.smoothingSteps, 1);
     validateLeafMesh(mesh);
     this.mesh = mesh;
     const n = mesh.vertexCount;
@@ -134,10 +134,10 @@ export class MultilevelPreconditioner {
     this.setEntries = this.h.setVerts.length;
     this.smoother = opts.smoother ?? 'auto';
     if (this.smoother !== 'auto' && this.smoother !== 'gauss-seidel' && this.smoother !== 'jacobi') {
-      throw new InvalidArgumentError("smoother must be 'auto', 'gauss-seidel' or 'jacobi'", { field: 'smoother', expected: "'auto' | 'gauss-seidel' | 'jacobi'", received: opts.smoother });
+      throw new InvalidArgumentError("opts.smoother must be 'auto', 'gauss-seidel' or 'jacobi'", { field: 'opts.smoother', expected: "'auto' | 'gauss-seidel' | 'jacobi'", received: opts.smoother });
     }
     if (opts.damping !== undefined && !(opts.damping > 0 && opts.damping <= 1)) {
-      throw new InvalidArgumentError('damping must be a number in (0, 1]', { field: 'damping', expected: 'a number in (0, 1]', received: opts.damping });
+      throw new InvalidArgumentError('opts.damping must be a number in (0, 1]', { field: 'opts.damping', expected: 'a number in (0, 1]', received: opts.damping });
     }
     this.levelA = new Float64Array(this.h.levels);
     this.levelM = new Float64Array(this.h.levels);
