@@ -74,55 +74,6 @@ export function sliceFrame(domain: SpatialDomain, trialSet: DoubleTree, T: numbe
   };
 }
 
-/** Rows at given points (located in the leaf mesh of the slice). */
-export function pointSlice(
-  domain: SpatialDomain, trialSet: DoubleTree, T: number, t: number,
-  points: ArrayLike<number>, weights: Float64Array, targets: Float64Array, field: string,
-): EvaluationSlice {
-  const frame = sliceFrame(domain, trialSet, T, t);
-  const d = domain.dim;
-  const n = points.length / d;
-  const vertices = new Int32Array((d + 1) * n);
-  const bary = new Float64Array((d + 1) * n);
-  const f = domain.forest;
-  const c = f.vCoord;
-  const local = domain.beginMeshQuery(frame.mesh);
-  try {
-    for (let p = 0; p < n; p++) {
-      const x = points[p * d]!, y = d === 2 ? points[p * d + 1]! : 0;
-      const e = Number.isFinite(x) && Number.isFinite(y) ? domain.locateLeaf(x, y) : -1;
-      if (e < 0) {
-        throw new InvalidArgumentError(`${field}[${p}] = (${d === 1 ? x : `${x}, ${y}`}) lies outside the domain`, {
-          field: `${field}[${p}]`, expected: 'a point of the closed domain', received: d === 1 ? x : `${x}, ${y}`,
-        });
-      }
-      if (d === 1) {
-        const a = f.eVert[2 * e]!, b = f.eVert[2 * e + 1]!;
-        const s = Math.min(1, Math.max(0, (x - c[a]!) / (c[b]! - c[a]!)));
-        vertices[2 * p] = local[a]!;
-        vertices[2 * p + 1] = local[b]!;
-        bary[2 * p] = 1 - s;
-        bary[2 * p + 1] = s;
-      } else {
-        const a = f.eVert[3 * e]!, b = f.eVert[3 * e + 1]!, g = f.eVert[3 * e + 2]!;
-        const ax = c[2 * a]!, ay = c[2 * a + 1]!, bx = c[2 * b]!, by = c[2 * b + 1]!, gx = c[2 * g]!, gy = c[2 * g + 1]!;
-        const det = (bx - ax) * (gy - ay) - (by - ay) * (gx - ax);
-        const l1 = ((x - ax) * (gy - ay) - (y - ay) * (gx - ax)) / det;
-        const l2 = ((bx - ax) * (y - ay) - (by - ay) * (x - ax)) / det;
-        vertices[3 * p] = local[a]!;
-        vertices[3 * p + 1] = local[b]!;
-        vertices[3 * p + 2] = local[g]!;
-        bary[3 * p] = 1 - l1 - l2;
-        bary[3 * p + 1] = l1;
-        bary[3 * p + 2] = l2;
-      }
-    }
-  } finally {
-    domain.endMeshQuery(frame.mesh);
-  }
-  return { t, ...frame, rowCount: n, vertices, bary, weights, targets, scratch: new Float64Array(frame.mesh.vertexCount) };
-}
-
 /**
  * Rows at the quadrature points (degree-5 rules) of every leaf element of the slice mesh whose
  * point satisfies `inside`; weight = timeWeight · |element| · rule weight, target = target(x, y).
@@ -210,5 +161,34 @@ export function applySliceTransposed(s: EvaluationSlice, r: Float64Array, g: Flo
     const o = s.offsets[a]!;
     const sg = s.sigma[a]!;
     for (let p = 0; p < map.length; p++) g[o + p]! += sg * nodal[map[p]!]!;
+  }
+}
+
+/**
+ * A group of rows of E with their weights and targets, as the functionals use them: slices of one
+ * time (./evaluation-rows) or sensor histories (src/spacetime/point-series.ts). @internal
+ */
+export interface EvaluationBlock {
+  readonly rowCount: number;
+  readonly weights: Float64Array;
+  readonly targets: Float64Array;
+  /** out[k] = (E u)_k for the block's rows. */
+  apply(u: Float64Array, out: Float64Array): void;
+  /** g += Eᵀ r. */
+  applyTransposed(r: Float64Array, g: Float64Array): void;
+  /** The same rows with every weight times alpha. */
+  scaled(alpha: number): EvaluationBlock;
+}
+
+/** The rows of one time slice as an {@link EvaluationBlock}. @internal */
+export class SliceBlock implements EvaluationBlock {
+  constructor(private readonly s: EvaluationSlice) {}
+  get rowCount(): number { return this.s.rowCount; }
+  get weights(): Float64Array { return this.s.weights; }
+  get targets(): Float64Array { return this.s.targets; }
+  apply(u: Float64Array, out: Float64Array): void { applySlice(this.s, u, out); }
+  applyTransposed(r: Float64Array, g: Float64Array): void { applySliceTransposed(this.s, r, g); }
+  scaled(alpha: number): EvaluationBlock {
+    return new SliceBlock({ ...this.s, weights: this.s.weights.map((w) => alpha * w), scratch: new Float64Array(this.s.mesh.vertexCount) });
   }
 }

@@ -12,7 +12,8 @@ import { nodeSupport } from '../time/index';
 import { gaussLegendre01 } from '../numerics/gauss-legendre';
 import type { DoubleTree } from '../spacetime/double-tree';
 import type { SpaceTimeSystem } from '../system/space-time-system';
-import { applySlice, applySliceTransposed, pointSlice, quadratureSlice, type EvaluationSlice } from './evaluation-rows';
+import { PointSeriesOperator } from '../spacetime/point-series';
+import { SliceBlock, quadratureSlice, type EvaluationBlock } from './evaluation-rows';
 
 /**
  * A weighted least-squares functional J(u) = ½ Σ_k w_k (u(t_k, x_k) − d_k)² of the coefficients u
@@ -34,15 +35,15 @@ export class LeastSquaresFunctional {
   readonly rowCount: number;
   private readonly buf: Float64Array;
 
-  /** @internal The evaluation rows, grouped by time. */
-  readonly slices: readonly EvaluationSlice[];
+  /** @internal The evaluation rows, in blocks (a time slice, or sensor histories). */
+  readonly blocks: readonly EvaluationBlock[];
 
   /** @internal Use the factory functions. */
-  constructor(readonly trialSet: DoubleTree, slices: readonly EvaluationSlice[]) {
-    this.slices = slices;
+  constructor(readonly trialSet: DoubleTree, blocks: readonly EvaluationBlock[]) {
+    this.blocks = blocks;
     let n = 0;
     let m = 0;
-    for (const s of slices) {
+    for (const s of blocks) {
       n += s.rowCount;
       m = Math.max(m, s.rowCount);
     }
@@ -63,8 +64,8 @@ export class LeastSquaresFunctional {
     this.check(u, 'u');
     const out = new Float64Array(this.rowCount);
     let o = 0;
-    for (const s of this.slices) {
-      applySlice(s, u, out.subarray(o));
+    for (const s of this.blocks) {
+      s.apply(u, out.subarray(o));
       o += s.rowCount;
     }
     return out;
@@ -74,8 +75,8 @@ export class LeastSquaresFunctional {
   value(u: Float64Array): number {
     this.check(u, 'u');
     let J = 0;
-    for (const s of this.slices) {
-      applySlice(s, u, this.buf);
+    for (const s of this.blocks) {
+      s.apply(u, this.buf);
       for (let k = 0; k < s.rowCount; k++) {
         const r = this.buf[k]! - s.targets[k]!;
         J += 0.5 * s.weights[k]! * r * r;
@@ -90,10 +91,10 @@ export class LeastSquaresFunctional {
     this.check(u, 'u');
     const g = out ?? new Float64Array(this.trialSet.size);
     g.fill(0);
-    for (const s of this.slices) {
-      applySlice(s, u, this.buf);
+    for (const s of this.blocks) {
+      s.apply(u, this.buf);
       for (let k = 0; k < s.rowCount; k++) this.buf[k] = s.weights[k]! * (this.buf[k]! - s.targets[k]!);
-      applySliceTransposed(s, this.buf, g);
+      s.applyTransposed(this.buf, g);
     }
     return g;
   }
@@ -103,10 +104,10 @@ export class LeastSquaresFunctional {
     this.check(v, 'v');
     const g = out ?? new Float64Array(this.trialSet.size);
     g.fill(0);
-    for (const s of this.slices) {
-      applySlice(s, v, this.buf);
+    for (const s of this.blocks) {
+      s.apply(v, this.buf);
       for (let k = 0; k < s.rowCount; k++) this.buf[k] = s.weights[k]! * this.buf[k]!;
-      applySliceTransposed(s, this.buf, g);
+      s.applyTransposed(this.buf, g);
     }
     return g;
   }
@@ -151,27 +152,38 @@ export function probeMisfit(system: SpaceTimeSystem, obs: ProbeData): LeastSquar
     for (let j = 0; j < d; j++) flat[k * d + j] = p[j]!;
   });
   const w = obs.weights ?? 1;
-  const slices: EvaluationSlice[] = [];
+  const np = points.length;
+  // rows time-major, as the readings: row i·np + k is sensor k at times[i]
+  const targets = new Float64Array(times.length * np);
+  const weights = new Float64Array(times.length * np);
   for (let i = 0; i < times.length; i++) {
     const t = times[i]!;
     if (!(Number.isFinite(t) && t >= 0 && t <= T)) throw new InvalidArgumentError(`times[${i}] = ${t} is outside [0, ${T}]`, { field: `times[${i}]`, expected: `[0, ${T}]`, received: t });
     const row = data[i];
-    if (!row || row.length !== points.length) throw new InvalidArgumentError(`data[${i}] must have one value per point (${points.length})`, { field: `data[${i}]`, received: describeValue(row) });
-    const targets = new Float64Array(points.length);
-    const weights = new Float64Array(points.length);
-    for (let k = 0; k < points.length; k++) {
+    if (!row || row.length !== np) throw new InvalidArgumentError(`data[${i}] must have one value per point (${np})`, { field: `data[${i}]`, received: describeValue(row) });
+    for (let k = 0; k < np; k++) {
       const v = row[k]!;
       if (!Number.isFinite(v)) throw new InvalidArgumentError(`data[${i}][${k}] = ${v} is not a finite number`, { field: `data[${i}][${k}]`, received: v });
-      targets[k] = v;
+      targets[i * np + k] = v;
       const wk = typeof w === 'number' ? w : w[i]?.[k];
       if (typeof wk !== 'number' || !(wk >= 0) || !Number.isFinite(wk)) {
         throw new InvalidArgumentError(`weight of reading [${i}][${k}] is ${describeValue(wk)}; expected a finite number ≥ 0`, { field: typeof w === 'number' ? 'weights' : `weights[${i}][${k}]`, expected: 'finite ≥ 0', received: wk });
       }
-      weights[k] = wk;
+      weights[i * np + k] = wk;
     }
-    slices.push(pointSlice(domain, system.trialSet, T, t, flat, weights, targets, 'points'));
   }
-  return new LeastSquaresFunctional(system.trialSet, slices);
+  for (let k = 0; k < flat.length; k++) {
+    if (!Number.isFinite(flat[k]!)) throw new InvalidArgumentError(`points[${Math.floor(k / d)}] has a coordinate ${flat[k]}; expected finite numbers`, { field: `points[${Math.floor(k / d)}]`, received: flat[k] });
+  }
+  // One operator for all readings: the spatial work is done once for all times.
+  const E = new PointSeriesOperator(domain, system.trialSet, T, times, flat);
+  for (let k = 0; k < np; k++) {
+    if (!E.inside[k]) {
+      const c = Array.from(flat.subarray(k * d, (k + 1) * d)).join(', ');
+      throw new InvalidArgumentError(`points[${k}] = (${c}) lies outside the domain`, { field: `points[${k}]`, expected: 'a point of the closed domain', received: c });
+    }
+  }
+  return new LeastSquaresFunctional(system.trialSet, [new SeriesBlock(E, weights, targets)]);
 }
 
 /**
@@ -191,7 +203,7 @@ export function terminalTracking(system: SpaceTimeSystem, target?: (x: number, y
   if (target !== undefined && typeof target !== 'function') throw new InvalidArgumentError('target must be a function (x, y) => number', { field: 'target' });
   const { domain, T } = system.problem;
   const tg = target ?? (() => 0);
-  return new LeastSquaresFunctional(system.trialSet, [quadratureSlice(domain, system.trialSet, T, T, 1, () => true, tg, 'target')]);
+  return new LeastSquaresFunctional(system.trialSet, [new SliceBlock(quadratureSlice(domain, system.trialSet, T, T, 1, () => true, tg, 'target'))]);
 }
 
 /** Options of {@link regionTracking}. */
@@ -239,14 +251,14 @@ export function regionTracking(system: SpaceTimeSystem, opts: RegionTrackingOpti
   const target = opts.target ?? (() => 0);
   const breaks = temporalBreakpoints(system.trialSet, T, from, to);
   const { nodes, weights } = gaussLegendre01(nq);
-  const slices: EvaluationSlice[] = [];
+  const slices: EvaluationBlock[] = [];
   for (let b = 0; b + 1 < breaks.length; b++) {
     const a = breaks[b]!;
     const h = breaks[b + 1]! - a;
     for (let q = 0; q < nq; q++) {
       const t = a + h * nodes[q]!;
       const s = quadratureSlice(domain, system.trialSet, T, t, h * weights[q]!, inside, (x, y) => target(t, x, y), 'target');
-      if (s.rowCount > 0) slices.push(s);
+      if (s.rowCount > 0) slices.push(new SliceBlock(s));
     }
   }
   return new LeastSquaresFunctional(system.trialSet, slices);
@@ -284,12 +296,21 @@ function temporalBreakpoints(set: DoubleTree, T: number, from: number, to: numbe
 export function combineFunctionals(terms: Array<[number, LeastSquaresFunctional]>): LeastSquaresFunctional {
   if (!Array.isArray(terms) || terms.length === 0) throw new InvalidArgumentError('terms must be a non-empty array of [weight, functional] pairs', { field: 'terms' });
   const set = terms[0]![1]?.trialSet;
-  const slices: EvaluationSlice[] = [];
+  const blocks: EvaluationBlock[] = [];
   terms.forEach(([alpha, J], i) => {
     if (!(J instanceof LeastSquaresFunctional)) throw new InvalidArgumentError(`terms[${i}][1] must be a functional (e.g. from probeMisfit)`, { field: `terms[${i}]` });
     if (J.trialSet !== set) throw new InvalidArgumentError(`terms[${i}] lives on another index set; all terms must belong to the same system`, { field: `terms[${i}]` });
     if (!(Number.isFinite(alpha) && alpha >= 0)) throw new InvalidArgumentError(`terms[${i}] has weight ${alpha}; expected a finite number ≥ 0`, { field: `terms[${i}][0]`, expected: '≥ 0', received: alpha });
-    for (const s of J.slices) slices.push({ ...s, weights: s.weights.map((w) => alpha * w), scratch: new Float64Array(s.mesh.vertexCount) });
+    for (const s of J.blocks) blocks.push(s.scaled(alpha));
   });
-  return new LeastSquaresFunctional(set!, slices);
+  return new LeastSquaresFunctional(set!, blocks);
+}
+
+/** Sensor readings as an {@link EvaluationBlock}: rows of a {@link PointSeriesOperator}. */
+class SeriesBlock implements EvaluationBlock {
+  constructor(private readonly E: PointSeriesOperator, readonly weights: Float64Array, readonly targets: Float64Array) {}
+  get rowCount(): number { return this.E.rowCount; }
+  apply(u: Float64Array, out: Float64Array): void { this.E.apply(u, out); }
+  applyTransposed(r: Float64Array, g: Float64Array): void { this.E.applyTransposed(r, g); }
+  scaled(alpha: number): EvaluationBlock { return new SeriesBlock(this.E, this.weights.map((w) => alpha * w), this.targets); }
 }

@@ -1,50 +1,201 @@
 /**
- * Values of a space-time function u = Σ c_{λν} σ_λ ⊗ φ_ν at fixed points for many times
- * (sensor histories), at a cost that does not grow with the number of times beyond O(levels) each.
+ * Values of a space-time function u = Σ c_{λν} σ_λ ⊗ φ_ν at fixed points for many times (sensor
+ * histories, and the observation operator of sensor data), at a cost that does not grow with the
+ * number of times beyond O(levels · points) each.
  *
  * Because a hierarchical hat φ_ν is the same function in every set that contains ν, its value at a
- * point x does not depend on the fibre it is used in. So, once per point, the weights φ_ν(x) of
- * every vertex ν of the union U of all fibres are read off the leaf mesh of U (the transpose of the
+ * point x does not depend on the fibre it is used in. So, once per point, the weights φ_ν(x) of the
+ * vertices ν of the union U of all fibres are read off the leaf mesh of U (the transpose of the
  * hierarchical-to-nodal transform applied to the barycentric coordinates of x: a few vertices per
- * generation are nonzero), and, once per temporal function λ, its spatial value at the point
- * w_λ(x) = Σ_ν c_{λν} φ_ν(x). Then u(t, x) = Σ_λ σ_λ(t) w_λ(x), where at most three trial wavelets
- * per level (two at level 0) have supports containing t: they are found by a binary search in the
- * level's sorted indices. Setup: one leaf mesh of U, O(depth) work per point and one pass over the
- * coefficients; then O(levels · points) per time instead of a leaf mesh per time.
+ * generation are nonzero). An application then forms, for each temporal function λ active at one
+ * of the times, w_λ(x) = Σ_ν c_{λν} φ_ν(x) over the few ν with a weight, and u(t, x) =
+ * Σ_λ σ_λ(t) w_λ(x), where at most three trial wavelets per level (two at level 0) are nonzero at
+ * t; they are found once, by a binary search in each level's sorted indices. A time no longer
+ * costs a leaf mesh of the functions active at it.
  */
 import { InvalidArgumentError } from '../errors';
 import { evaluateTemporal } from '../time/index';
 import type { SpatialDomain } from '../space/index';
 import { localIndices } from '../space/operator-plan';
-import { liftingOf } from '../space/boundary-lifting';
+import type { LeafMesh } from '../space/leaf-mesh';
 import type { DoubleTree } from './double-tree';
 import { unionSorted } from './fibre-pool';
 
 /**
- * Spatial values w_λ(x_p) of every temporal function at every point, as `values[λ · points + p]`;
- * `inside[p]` is 0 for a point outside Ω (its row stays 0). @internal
+ * The linear map E from coefficients u on a trial set to the values u(t_k, x_p) at fixed points for
+ * given times, rows time-major (row k · points + p), with its transpose; the part of the function
+ * that lives in the coefficients (a lifting of held boundary values is the caller's). Points outside
+ * Ω have `inside[p] = 0` and rows of zeros. Module comment: how. @internal
  */
-export function pointValuesPerFunction(
-  domain: SpatialDomain, set: DoubleTree, coefficients: Float64Array, points: ArrayLike<number>,
-): { values: Float64Array; inside: Uint8Array } {
+export class PointSeriesOperator {
+  readonly timeCount: number;
+  readonly pointCount: number;
+  readonly rowCount: number;
+  readonly inside: Uint8Array;
+  // Per-point weights φ_ν(x_p) as CSR over the mesh vertices of the union of all fibres.
+  private readonly vStart: Int32Array;
+  private readonly rowPoint: Int32Array;
+  private readonly rowWeight: Float64Array;
+  // Per distinct fibre id: positions in the fibre of the vertices with weights, and those vertices.
+  private readonly hitPos: (Int32Array | undefined)[] = [];
+  private readonly hitVertex: (Int32Array | undefined)[] = [];
+  // Temporal functions active at some time (and seen by some point): node, fibre id, offset.
+  private readonly usedNode: Int32Array;
+  // Per time: active functions as slots into usedNode, with σ(t).
+  private readonly actStart: Int32Array;
+  private readonly actSlot: Int32Array;
+  private readonly actSigma: Float64Array;
+  private readonly work: Float64Array; // usedNode.length × points
+
+  constructor(domain: SpatialDomain, private readonly set: DoubleTree, T: number, times: ArrayLike<number>, points: ArrayLike<number>) {
+    const d = domain.dim;
+    const np = points.length / d;
+    this.timeCount = times.length;
+    this.pointCount = np;
+    this.rowCount = times.length * np;
+    const { tree } = set;
+    // Union of all fibres (each distinct fibre once) and its leaf mesh.
+    const ids = new Set<number>();
+    for (let i = 0; i < tree.size; i++) ids.add(set.nodeFibre[i]!);
+    const union = unionSorted([...ids].map((id) => set.pool.get(id)));
+    const mesh = domain.leafMesh(union);
+    const { vStart, rowPoint, rowWeight, inside } = pointWeights(domain, mesh, points);
+    this.vStart = vStart;
+    this.rowPoint = rowPoint;
+    this.rowWeight = rowWeight;
+    this.inside = inside;
+    for (const id of ids) {
+      const loc = localIndices(domain, mesh, set.pool.get(id));
+      const pos: number[] = [];
+      for (let k = 0; k < loc.length; k++) if (vStart[loc[k]!]! < vStart[loc[k]! + 1]!) pos.push(k);
+      this.hitPos[id] = Int32Array.from(pos);
+      this.hitVertex[id] = Int32Array.from(pos, (k) => loc[k]!);
+    }
+    // Active functions per time (at most three per level, two at level 0), found by binary search.
+    const slotOf = new Int32Array(tree.size).fill(-1);
+    const used: number[] = [];
+    const actStart = new Int32Array(times.length + 1);
+    const actSlot: number[] = [];
+    const actSigma: number[] = [];
+    for (let k = 0; k < times.length; k++) {
+      const t = times[k]!;
+      for (let l = 0; l <= tree.maxLevel; l++) {
+        const a = tree.levelStart[l]!, b = tree.levelStart[l + 1]!;
+        if (a === b) continue;
+        // trial wavelets of level l ≥ 1 with index k have support [2k − 2, 2k + 4]·2^-l·T: those
+        // nonzero at t have S/2 − 2 < k < S/2 + 1 with S = t·2^l/T, so k ∈ [⌊S/2⌋ − 1, ⌊S/2⌋ + 1]
+        // (both functions at level 0)
+        const s = Math.floor(((t / T) * 2 ** l) / 2);
+        const lo = l === 0 ? 0 : s - 1, hi = l === 0 ? 1 : s + 1;
+        for (let i = lowerBound(tree.index, a, b, lo); i < b && tree.index[i]! <= hi; i++) {
+          if (this.hitPos[set.nodeFibre[i]!]!.length === 0) continue;
+          const sigma = evaluateTemporal('trial', l, tree.index[i]!, 0, t, T).value;
+          if (sigma === 0) continue;
+          if (slotOf[i] < 0) {
+            slotOf[i] = used.length;
+            used.push(i);
+          }
+          actSlot.push(slotOf[i]!);
+          actSigma.push(sigma);
+        }
+      }
+      actStart[k + 1] = actSlot.length;
+    }
+    this.usedNode = Int32Array.from(used);
+    this.actStart = actStart;
+    this.actSlot = Int32Array.from(actSlot);
+    this.actSigma = Float64Array.from(actSigma);
+    this.work = new Float64Array(used.length * np);
+  }
+
+  /** out[k · points + p] = (E u) at (t_k, x_p); overwrites rowCount entries. */
+  apply(u: Float64Array, out: Float64Array): void {
+    const np = this.pointCount;
+    const W = this.work;
+    W.fill(0);
+    const { vStart, rowPoint, rowWeight, set } = this;
+    // W[s, p] = w_λ(x_p) = Σ_ν u_{λν} φ_ν(x_p) for the used functions λ
+    for (let s = 0; s < this.usedNode.length; s++) {
+      const i = this.usedNode[s]!;
+      const id = set.nodeFibre[i]!;
+      const pos = this.hitPos[id]!, vert = this.hitVertex[id]!;
+      const o = set.functionOffset[i]!;
+      for (let j = 0; j < pos.length; j++) {
+        const c = u[o + pos[j]!]!;
+        if (c === 0) continue;
+        const v = vert[j]!;
+        for (let q = vStart[v]!; q < vStart[v + 1]!; q++) W[s * np + rowPoint[q]!]! += c * rowWeight[q]!;
+      }
+    }
+    out.fill(0, 0, this.rowCount);
+    for (let k = 0; k < this.timeCount; k++) {
+      for (let a = this.actStart[k]!; a < this.actStart[k + 1]!; a++) {
+        const s = this.actSlot[a]!, sigma = this.actSigma[a]!;
+        for (let p = 0; p < np; p++) out[k * np + p]! += sigma * W[s * np + p]!;
+      }
+    }
+  }
+
+  /** g += Eᵀ r (r has rowCount entries, time-major). */
+  applyTransposed(r: Float64Array, g: Float64Array): void {
+    const np = this.pointCount;
+    const R = this.work;
+    R.fill(0);
+    for (let k = 0; k < this.timeCount; k++) {
+      for (let a = this.actStart[k]!; a < this.actStart[k + 1]!; a++) {
+        const s = this.actSlot[a]!, sigma = this.actSigma[a]!;
+        for (let p = 0; p < np; p++) R[s * np + p]! += sigma * r[k * np + p]!;
+      }
+    }
+    const { vStart, rowPoint, rowWeight, set } = this;
+    for (let s = 0; s < this.usedNode.length; s++) {
+      const i = this.usedNode[s]!;
+      const id = set.nodeFibre[i]!;
+      const pos = this.hitPos[id]!, vert = this.hitVertex[id]!;
+      const o = set.functionOffset[i]!;
+      for (let j = 0; j < pos.length; j++) {
+        const v = vert[j]!;
+        let acc = 0;
+        for (let q = vStart[v]!; q < vStart[v + 1]!; q++) acc += rowWeight[q]! * R[s * np + rowPoint[q]!]!;
+        g[o + pos[j]!]! += acc;
+      }
+    }
+  }
+}
+
+/**
+ * The weights φ_ν(x_p) of every mesh vertex ν at every point, as CSR over the vertices
+ * (vStart, rowPoint, rowWeight): the barycentric coordinates of x_p in its leaf element, pushed
+ * through the transpose of the hierarchical-to-nodal transform (u[m] += ½(u[a] + u[b]) in
+ * increasing m), visiting only the touched vertices, in decreasing order (a max-heap).
+ */
+function pointWeights(domain: SpatialDomain, mesh: LeafMesh, points: ArrayLike<number>): { vStart: Int32Array; rowPoint: Int32Array; rowWeight: Float64Array; inside: Uint8Array } {
   const d = domain.dim;
   const np = points.length / d;
-  const { tree } = set;
-  // Union of all fibres (each distinct fibre once) and its leaf mesh.
-  const ids = new Set<number>();
-  for (let i = 0; i < tree.size; i++) ids.add(set.nodeFibre[i]!);
-  const union = unionSorted([...ids].map((id) => set.pool.get(id)));
-  const mesh = domain.leafMesh(union);
   const n = mesh.vertexCount;
-  // Per point, the nonzero weights φ_ν(x_p) by mesh vertex: CSR over vertices (point, weight).
   const entryPoint: number[] = [];
   const entryVertex: number[] = [];
   const entryWeight: number[] = [];
   const inside = new Uint8Array(np);
   const w = new Float64Array(n);
-  const heap = new Int32Array(n); // max-heap of touched vertices (a vertex's parents come before it)
+  const heap = new Int32Array(n);
   const queued = new Uint8Array(n);
+  let size = 0;
+  const push = (v: number, weight: number): void => {
+    w[v]! += weight;
+    if (queued[v]) return;
+    queued[v] = 1;
+    let k = size++;
+    while (k > 0) {
+      const up = (k - 1) >> 1;
+      if (heap[up]! >= v) break;
+      heap[k] = heap[up]!;
+      k = up;
+    }
+    heap[k] = v;
+  };
   const f = domain.forest;
+  const c = f.vCoord;
   const local = domain.beginMeshQuery(mesh);
   try {
     for (let p = 0; p < np; p++) {
@@ -52,22 +203,6 @@ export function pointValuesPerFunction(
       const e = domain.locateLeaf(x, y);
       if (e < 0) continue;
       inside[p] = 1;
-      let size = 0;
-      const push = (v: number, weight: number): void => {
-        w[v]! += weight;
-        if (queued[v]) return;
-        queued[v] = 1;
-        let k = size++;
-        while (k > 0) {
-          const up = (k - 1) >> 1;
-          if (heap[up]! >= v) break;
-          heap[k] = heap[up]!;
-          k = up;
-        }
-        heap[k] = v;
-      };
-      // barycentric coordinates of x in leaf element e: the nodal weights
-      const c = f.vCoord;
       if (d === 1) {
         const a = f.eVert[2 * e]!, b = f.eVert[2 * e + 1]!;
         const s = Math.min(1, Math.max(0, (x - c[a]!) / (c[b]! - c[a]!)));
@@ -83,8 +218,6 @@ export function pointValuesPerFunction(
         push(local[b]!, l1);
         push(local[g]!, l2);
       }
-      // Transpose of hierarchical → nodal (u[m] += ½(u[a] + u[b]) in increasing m): visit the
-      // touched vertices in decreasing order and pass half of each weight to both parents.
       while (size > 0) {
         const m = heap[0]!;
         const last = heap[--size]!;
@@ -115,65 +248,17 @@ export function pointValuesPerFunction(
   } finally {
     domain.endMeshQuery(mesh);
   }
-  const start = new Int32Array(n + 1);
-  for (const v of entryVertex) start[v + 1]!++;
-  for (let v = 0; v < n; v++) start[v + 1]! += start[v]!;
-  const fill = start.slice(0, n);
+  const vStart = new Int32Array(n + 1);
+  for (const v of entryVertex) vStart[v + 1]!++;
+  for (let v = 0; v < n; v++) vStart[v + 1]! += vStart[v]!;
+  const fill = vStart.slice(0, n);
   const rowPoint = new Int32Array(entryVertex.length);
   const rowWeight = new Float64Array(entryVertex.length);
   entryVertex.forEach((v, k) => {
     rowPoint[fill[v]!] = entryPoint[k]!;
     rowWeight[fill[v]!++] = entryWeight[k]!;
   });
-  // w_λ(x_p) = Σ_ν c_{λν} φ_ν(x_p), each fibre's local indices computed once.
-  const values = new Float64Array(tree.size * np);
-  const localOf: (Int32Array | undefined)[] = [];
-  for (let i = 0; i < tree.size; i++) {
-    const id = set.nodeFibre[i]!;
-    const loc = (localOf[id] ??= localIndices(domain, mesh, set.pool.get(id)));
-    const o = set.functionOffset[i]!;
-    for (let k = 0; k < loc.length; k++) {
-      const v = loc[k]!;
-      const ck = coefficients[o + k]!;
-      for (let q = start[v]!; q < start[v + 1]!; q++) values[i * np + rowPoint[q]!]! += ck * rowWeight[q]!;
-    }
-  }
-  return { values, inside };
-}
-
-/**
- * u(t_k, x_p) into `out[k · points + p]` from the per-function values of
- * {@link pointValuesPerFunction}; points outside Ω get `outside`. @internal
- */
-export function pointSeriesAt(
-  domain: SpatialDomain, tree: DoubleTree['tree'], T: number, perFunction: { values: Float64Array; inside: Uint8Array },
-  points: ArrayLike<number>, times: ArrayLike<number>, outside: number, out: Float64Array,
-): void {
-  const np = perFunction.inside.length;
-  const { values, inside } = perFunction;
-  const lifting = liftingOf(domain.forest);
-  for (let k = 0; k < times.length; k++) {
-    const t = times[k]!;
-    const row = out.subarray(k * np, (k + 1) * np);
-    row.fill(0);
-    for (let l = 0; l <= tree.maxLevel; l++) {
-      const a = tree.levelStart[l]!, b = tree.levelStart[l + 1]!;
-      if (a === b) continue;
-      // trial wavelets of level l ≥ 1 with index k have support [2k − 2, 2k + 4]·2^-l·T: those
-      // nonzero at t have S/2 − 2 < k < S/2 + 1 with S = t·2^l/T, so k ∈ [⌊S/2⌋ − 1, ⌊S/2⌋ + 1]
-      // (both functions at level 0)
-      const s = Math.floor(((t / T) * 2 ** l) / 2);
-      const lo = l === 0 ? 0 : s - 1, hi = l === 0 ? 1 : s + 1;
-      let i = lowerBound(tree.index, a, b, lo);
-      for (; i < b && tree.index[i]! <= hi; i++) {
-        const sigma = evaluateTemporal('trial', l, tree.index[i]!, 0, t, T).value;
-        if (sigma === 0) continue;
-        for (let p = 0; p < np; p++) row[p]! += sigma * values[i * np + p]!;
-      }
-    }
-    lifting.addAtPoints(t, points, row);
-    for (let p = 0; p < np; p++) if (!inside[p]) row[p] = outside;
-  }
+  return { vStart, rowPoint, rowWeight, inside };
 }
 
 /** First position in [a, b) of the sorted `index` with a value ≥ v. */

@@ -21,7 +21,7 @@ import type { LeafMesh } from '../space/leaf-mesh';
 import { liftingOf } from '../space/boundary-lifting';
 import type { DoubleTree } from './double-tree';
 import { positionsIn, unionSorted } from './fibre-pool';
-import { checkSeriesInput, pointSeriesAt, pointValuesPerFunction } from './point-series';
+import { PointSeriesOperator, checkSeriesInput } from './point-series';
 import { checkFloat64Array, checkInstance, checkMemory, checkNumber, checkNumberArray, checkOptions } from '../validation/index';
 
 /** Nodal values of u(t, ·) on the leaf mesh of the union of the fibres active at t. */
@@ -172,9 +172,16 @@ export class SpaceTimeSolution {
     if (o.outside !== undefined && typeof o.outside !== 'number') checkNumber(o.outside, 'opts.outside');
     const np = points.length / this.domain.dim;
     checkMemory(8 * (this.trialSet.tree.size * np + times.length * np), `sampleAtPoints of ${times.length} times × ${np} points`, times.length > this.trialSet.tree.size ? 'times' : 'points', 'sample fewer points or times per call');
-    const perFunction = pointValuesPerFunction(this.domain, this.trialSet, this.coefficients, points);
-    const data = new Float64Array(times.length * np);
-    pointSeriesAt(this.domain, this.trialSet.tree, this.T, perFunction, points, times, opts.outside ?? NaN, data);
+    const E = new PointSeriesOperator(this.domain, this.trialSet, this.T, times, points);
+    const data = new Float64Array(E.rowCount);
+    E.apply(this.coefficients, data);
+    const lifting = liftingOf(this.domain.forest);
+    const outside = opts.outside ?? NaN;
+    for (let k = 0; k < times.length; k++) {
+      const row = data.subarray(k * np, (k + 1) * np);
+      lifting.addAtPoints(times[k]!, points, row);
+      for (let p = 0; p < np; p++) if (!E.inside[p]) row[p] = outside;
+    }
     return ndarray(data, [times.length, np]);
   }
 
