@@ -80,8 +80,9 @@ export function evaluateAt(
     throw new InvalidArgumentError(`out must be a Float64Array of length ≥ ${np}`, { field: 'out', expected: `length ≥ ${np}`, received: describeValue(out) });
   }
   const { mesh, values } = nodalValues(domain, set, coeffs);
-  const f = domain.forest;
   const local = domain.beginMeshQuery(mesh);
+  const baryVertex = new Int32Array(3);
+  const baryWeight = new Float64Array(3);
   try {
     for (let p = 0; p < np; p++) {
       const x = points[p * d]!, y = d === 2 ? points[p * d + 1]! : 0;
@@ -97,23 +98,44 @@ export function evaluateAt(
           received: d === 1 ? x : `${x}, ${y}`,
         });
       }
-      const c = f.vCoord;
-      if (d === 1) {
-        const a = f.eVert[2 * e]!, b = f.eVert[2 * e + 1]!;
-        const xa = c[a]!, xb = c[b]!;
-        const t = Math.min(1, Math.max(0, (x - xa) / (xb - xa)));
-        res[p] = (1 - t) * values[local[a]!]! + t * values[local[b]!]!;
-      } else {
-        const a = f.eVert[3 * e]!, b = f.eVert[3 * e + 1]!, g = f.eVert[3 * e + 2]!;
-        const ax = c[2 * a]!, ay = c[2 * a + 1]!, bx = c[2 * b]!, by = c[2 * b + 1]!, gx = c[2 * g]!, gy = c[2 * g + 1]!;
-        const det = (bx - ax) * (gy - ay) - (by - ay) * (gx - ax);
-        const l1 = ((x - ax) * (gy - ay) - (y - ay) * (gx - ax)) / det;
-        const l2 = ((bx - ax) * (y - ay) - (by - ay) * (x - ax)) / det;
-        res[p] = (1 - l1 - l2) * values[local[a]!]! + l1 * values[local[b]!]! + l2 * values[local[g]!]!;
-      }
+      const nv = leafBarycentric(domain, e, x, y, baryVertex, baryWeight);
+      let v = 0;
+      for (let k = 0; k < nv; k++) v += baryWeight[k]! * values[local[baryVertex[k]!]!]!;
+      res[p] = v;
     }
   } finally {
     domain.endMeshQuery(mesh);
   }
   return res;
+}
+
+/**
+ * The forest vertices of leaf element e and the barycentric coordinates of (x, y) in it (y ignored
+ * in 1D, where the coordinate is clamped to the element) into `vertex` and `weight`; returns their
+ * number, dim + 1. @internal
+ */
+export function leafBarycentric(domain: SpatialDomain, e: number, x: number, y: number, vertex: Int32Array, weight: Float64Array): number {
+  const f = domain.forest;
+  const c = f.vCoord;
+  if (domain.dim === 1) {
+    const a = f.eVert[2 * e]!, b = f.eVert[2 * e + 1]!;
+    const t = Math.min(1, Math.max(0, (x - c[a]!) / (c[b]! - c[a]!)));
+    vertex[0] = a;
+    vertex[1] = b;
+    weight[0] = 1 - t;
+    weight[1] = t;
+    return 2;
+  }
+  const a = f.eVert[3 * e]!, b = f.eVert[3 * e + 1]!, g = f.eVert[3 * e + 2]!;
+  const ax = c[2 * a]!, ay = c[2 * a + 1]!, bx = c[2 * b]!, by = c[2 * b + 1]!, gx = c[2 * g]!, gy = c[2 * g + 1]!;
+  const det = (bx - ax) * (gy - ay) - (by - ay) * (gx - ax);
+  const l1 = ((x - ax) * (gy - ay) - (y - ay) * (gx - ax)) / det;
+  const l2 = ((bx - ax) * (y - ay) - (by - ay) * (x - ax)) / det;
+  vertex[0] = a;
+  vertex[1] = b;
+  vertex[2] = g;
+  weight[0] = 1 - l1 - l2;
+  weight[1] = l1;
+  weight[2] = l2;
+  return 3;
 }

@@ -17,6 +17,7 @@ import { InvalidArgumentError } from '../errors';
 import { evaluateTemporal } from '../time/index';
 import type { SpatialDomain } from '../space/index';
 import { localIndices } from '../space/operator-plan';
+import { leafBarycentric } from '../space/evaluate';
 import type { LeafMesh } from '../space/leaf-mesh';
 import type { DoubleTree } from './double-tree';
 import { unionSorted } from './fibre-pool';
@@ -36,18 +37,19 @@ export class PointSeriesOperator {
   private readonly vStart: Int32Array;
   private readonly rowPoint: Int32Array;
   private readonly rowWeight: Float64Array;
-  // Per distinct fibre id: positions in the fibre of the vertices with weights, and those vertices.
-  private readonly hitPos: (Int32Array | undefined)[] = [];
-  private readonly hitVertex: (Int32Array | undefined)[] = [];
-  // Temporal functions active at some time (and seen by some point): node, fibre id, offset.
-  private readonly usedNode: Int32Array;
+  // Temporal functions active at some time and seen by some point ("used", by slot): the
+  // coefficients with a point weight, as coefficient index and mesh vertex, slot by slot.
+  private readonly usedCount: number;
+  private readonly slotStart: Int32Array;
+  private readonly entryCoef: Int32Array;
+  private readonly entryVertex: Int32Array;
   // Per time: active functions as slots into usedNode, with σ(t).
   private readonly actStart: Int32Array;
   private readonly actSlot: Int32Array;
   private readonly actSigma: Float64Array;
   private readonly work: Float64Array; // usedNode.length × points
 
-  constructor(domain: SpatialDomain, private readonly set: DoubleTree, T: number, times: ArrayLike<number>, points: ArrayLike<number>) {
+  constructor(domain: SpatialDomain, set: DoubleTree, T: number, times: ArrayLike<number>, points: ArrayLike<number>) {
     const d = domain.dim;
     const np = points.length / d;
     this.timeCount = times.length;
@@ -64,12 +66,15 @@ export class PointSeriesOperator {
     this.rowPoint = rowPoint;
     this.rowWeight = rowWeight;
     this.inside = inside;
+    // Per distinct fibre id: positions in the fibre of the vertices with weights, and those vertices.
+    const hitPos: Int32Array[] = [];
+    const hitVertex: Int32Array[] = [];
     for (const id of ids) {
       const loc = localIndices(domain, mesh, set.pool.get(id));
       const pos: number[] = [];
       for (let k = 0; k < loc.length; k++) if (vStart[loc[k]!]! < vStart[loc[k]! + 1]!) pos.push(k);
-      this.hitPos[id] = Int32Array.from(pos);
-      this.hitVertex[id] = Int32Array.from(pos, (k) => loc[k]!);
+      hitPos[id] = Int32Array.from(pos);
+      hitVertex[id] = Int32Array.from(pos, (k) => loc[k]!);
     }
     // Active functions per time (at most three per level, two at level 0), found by binary search.
     const slotOf = new Int32Array(tree.size).fill(-1);
@@ -88,7 +93,7 @@ export class PointSeriesOperator {
         const s = Math.floor(((t / T) * 2 ** l) / 2);
         const lo = l === 0 ? 0 : s - 1, hi = l === 0 ? 1 : s + 1;
         for (let i = lowerBound(tree.index, a, b, lo); i < b && tree.index[i]! <= hi; i++) {
-          if (this.hitPos[set.nodeFibre[i]!]!.length === 0) continue;
+          if (hitPos[set.nodeFibre[i]!]!.length === 0) continue;
           const sigma = evaluateTemporal('trial', l, tree.index[i]!, 0, t, T).value;
           if (sigma === 0) continue;
           if (slotOf[i] < 0) {
@@ -101,7 +106,15 @@ export class PointSeriesOperator {
       }
       actStart[k + 1] = actSlot.length;
     }
-    this.usedNode = Int32Array.from(used);
+    this.usedCount = used.length;
+    this.slotStart = new Int32Array(used.length + 1);
+    used.forEach((i, slot) => { this.slotStart[slot + 1] = this.slotStart[slot]! + hitPos[set.nodeFibre[i]!]!.length; });
+    this.entryCoef = new Int32Array(this.slotStart[used.length]!);
+    this.entryVertex = new Int32Array(this.entryCoef.length);
+    used.forEach((i, slot) => {
+      const id = set.nodeFibre[i]!, o = set.functionOffset[i]!, at = this.slotStart[slot]!;
+      hitPos[id]!.forEach((k, j) => { this.entryCoef[at + j] = o + k; this.entryVertex[at + j] = hitVertex[id]![j]!; });
+    });
     this.actStart = actStart;
     this.actSlot = Int32Array.from(actSlot);
     this.actSigma = Float64Array.from(actSigma);
@@ -113,17 +126,11 @@ export class PointSeriesOperator {
     const np = this.pointCount;
     const W = this.work;
     W.fill(0);
-    const { vStart, rowPoint, rowWeight, set } = this;
+    const { vStart, rowPoint, rowWeight, slotStart, entryCoef, entryVertex } = this;
     // W[s, p] = w_λ(x_p) = Σ_ν u_{λν} φ_ν(x_p) for the used functions λ
-    for (let s = 0; s < this.usedNode.length; s++) {
-      const i = this.usedNode[s]!;
-      const id = set.nodeFibre[i]!;
-      const pos = this.hitPos[id]!, vert = this.hitVertex[id]!;
-      const o = set.functionOffset[i]!;
-      for (let j = 0; j < pos.length; j++) {
-        const c = u[o + pos[j]!]!;
-        if (c === 0) continue;
-        const v = vert[j]!;
+    for (let s = 0; s < this.usedCount; s++) {
+      for (let j = slotStart[s]!; j < slotStart[s + 1]!; j++) {
+        const c = u[entryCoef[j]!]!, v = entryVertex[j]!;
         for (let q = vStart[v]!; q < vStart[v + 1]!; q++) W[s * np + rowPoint[q]!]! += c * rowWeight[q]!;
       }
     }
@@ -147,17 +154,13 @@ export class PointSeriesOperator {
         for (let p = 0; p < np; p++) R[s * np + p]! += sigma * r[k * np + p]!;
       }
     }
-    const { vStart, rowPoint, rowWeight, set } = this;
-    for (let s = 0; s < this.usedNode.length; s++) {
-      const i = this.usedNode[s]!;
-      const id = set.nodeFibre[i]!;
-      const pos = this.hitPos[id]!, vert = this.hitVertex[id]!;
-      const o = set.functionOffset[i]!;
-      for (let j = 0; j < pos.length; j++) {
-        const v = vert[j]!;
+    const { vStart, rowPoint, rowWeight, slotStart, entryCoef, entryVertex } = this;
+    // g_{λν} += Σ_p φ_ν(x_p) R[s, p]
+    for (let s = 0; s < this.usedCount; s++) {
+      for (let j = slotStart[s]!; j < slotStart[s + 1]!; j++) {
         let acc = 0;
-        for (let q = vStart[v]!; q < vStart[v + 1]!; q++) acc += rowWeight[q]! * R[s * np + rowPoint[q]!]!;
-        g[o + pos[j]!]! += acc;
+        for (let q = vStart[entryVertex[j]!]!; q < vStart[entryVertex[j]! + 1]!; q++) acc += rowWeight[q]! * R[s * np + rowPoint[q]!]!;
+        g[entryCoef[j]!]! += acc;
       }
     }
   }
@@ -194,8 +197,8 @@ function pointWeights(domain: SpatialDomain, mesh: LeafMesh, points: ArrayLike<n
     }
     heap[k] = v;
   };
-  const f = domain.forest;
-  const c = f.vCoord;
+  const baryVertex = new Int32Array(3);
+  const baryWeight = new Float64Array(3);
   const local = domain.beginMeshQuery(mesh);
   try {
     for (let p = 0; p < np; p++) {
@@ -203,21 +206,8 @@ function pointWeights(domain: SpatialDomain, mesh: LeafMesh, points: ArrayLike<n
       const e = domain.locateLeaf(x, y);
       if (e < 0) continue;
       inside[p] = 1;
-      if (d === 1) {
-        const a = f.eVert[2 * e]!, b = f.eVert[2 * e + 1]!;
-        const s = Math.min(1, Math.max(0, (x - c[a]!) / (c[b]! - c[a]!)));
-        push(local[a]!, 1 - s);
-        push(local[b]!, s);
-      } else {
-        const a = f.eVert[3 * e]!, b = f.eVert[3 * e + 1]!, g = f.eVert[3 * e + 2]!;
-        const ax = c[2 * a]!, ay = c[2 * a + 1]!, bx = c[2 * b]!, by = c[2 * b + 1]!, gx = c[2 * g]!, gy = c[2 * g + 1]!;
-        const det = (bx - ax) * (gy - ay) - (by - ay) * (gx - ax);
-        const l1 = ((x - ax) * (gy - ay) - (y - ay) * (gx - ax)) / det;
-        const l2 = ((bx - ax) * (y - ay) - (by - ay) * (x - ax)) / det;
-        push(local[a]!, 1 - l1 - l2);
-        push(local[b]!, l1);
-        push(local[g]!, l2);
-      }
+      const nv = leafBarycentric(domain, e, x, y, baryVertex, baryWeight);
+      for (let k = 0; k < nv; k++) push(local[baryVertex[k]!]!, baryWeight[k]!);
       while (size > 0) {
         const m = heap[0]!;
         const last = heap[--size]!;
