@@ -1,5 +1,6 @@
 /** Help texts of the command line. */
 import { PROBLEM_DEFAULTS } from '../problem-file/index';
+import { SENSOR_TIMES_DEFAULT } from '../problem-file/schema';
 
 export const CAUTION = `CAUTION: chronomesh computes approximate solutions of a mathematical model. Results
 can be wrong through modelling assumptions, input mistakes, discretisation and
@@ -36,8 +37,9 @@ described by PROBLEM.json.
                  "probes":[{"t","x","y","value"}…], "rate": r, "stopReason",
                  "tolerance", "toleranceReached", "forecast", "heldDataError",
                  "exactErrors": {"gradientL2","valueL2","ratioToEstimate",
-                 "ratioRange","rate"} or null}; steps carry "trueError" when
-                 the file has an exact solution
+                 "ratioRange","rate"} or null, "sensors": {"times","points",
+                 "values"} or null}; steps carry "trueError" when the file has
+                 an exact solution
                 (rate: least-squares slope of −log E against log N over the
                 second half of the steps; forecast: {"rate","unknowns",
                 "seconds"} where E would reach a missed tolerance at the
@@ -113,6 +115,10 @@ problem file fields (JSON object):
               over a few diffusion times L²/κ and continue from its end state)
   bulk        Dörfler parameter θ in (0, 1) (default 0.5 in 1D, 0.7 in 2D)
   probes      list of [t, x] or [t, x, y]
+  sensors     {"points": [[x, y], …], "times": n or [t, …]}: sensor histories,
+              u at fixed points read at n evenly spaced times over [start,
+              horizon] (default ${SENSOR_TIMES_DEFAULT}) or at the listed times; printed at the
+              last time, all in sensors.csv with --out and "sensors" with --json
   slices      list of times to export with --out
   exact       a known solution u(t, x, y) to verify against (for instance a
               manufactured one, with the source computed from it): checked

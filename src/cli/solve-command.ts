@@ -140,7 +140,7 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     );
   }
   if (opts.json) {
-    log(JSON.stringify({ steps: run.steps, probes: run.probes, rate: run.rate, stopReason: run.stopReason, tolerance, toleranceReached, forecast, heldDataError: held, exactErrors: run.exactErrors }));
+    log(JSON.stringify({ steps: run.steps, probes: run.probes, rate: run.rate, stopReason: run.stopReason, tolerance, toleranceReached, forecast, heldDataError: held, exactErrors: run.exactErrors, sensors: run.sensors }));
   } else {
     log(`${built.spec.title ?? file}: ${run.steps.length} steps (${built.spec.strategy}), stopped by ${run.stopReason}`);
     log(`last step: ${last.dofs} unknowns, estimator ${last.estimate.toExponential(3)}; observed rate ${rateText(run.rate)}`);
@@ -152,6 +152,11 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
         `observed rate of the true error ${rateText(ex.rate)}`);
     }
     for (const p of run.probes) log(`u(t = ${p.t}, x = ${p.x}${p.y === null ? '' : `, y = ${p.y}`}) = ${p.value.toPrecision(6)}`);
+    if (run.sensors !== null) {
+      const { times, points, values } = run.sensors;
+      log(`sensor histories: ${points.length} sensor${points.length === 1 ? '' : 's'} at ${times.length} times (sensors.csv with --out); at t = ${times[times.length - 1]}: ` +
+        points.map((p, i) => `u(${p.join(', ')}) = ${values[times.length - 1]![i]!.toPrecision(6)}`).join(', '));
+    }
     if (written.length > 0) {
       log(`wrote ${written.length} files into ${opts.out}`);
       const state = written.find((w) => w.endsWith('end-state.json'));

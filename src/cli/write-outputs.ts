@@ -43,6 +43,11 @@ export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): st
     ...run.steps.map((s, i) => csvLine([i, s.dofs, s.estimate, s.iterations, s.riseChecks, s.seconds, ...(truth ? [s.trueError ?? ''] : [])])),
   ].join('\n') + '\n');
   save('probes.csv', [csvLine(['t', 'x', 'y', 'value']), ...run.probes.map((p) => csvLine([p.t, p.x, p.y, p.value]))].join('\n') + '\n');
+  if (run.sensors !== null) {
+    // one row per reading time, one column per sensor, named by its position
+    const { times, points, values } = run.sensors;
+    save('sensors.csv', [csvLine(['t', ...points.map((p) => `u(${p.join(' ')})`)]), ...times.map((t, k) => csvLine([t, ...values[k]!]))].join('\n') + '\n');
+  }
   const times = sliceTimes(spec);
   const name = spec.title ?? 'u';
   const entries = times.map((t, i) => {

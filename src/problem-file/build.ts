@@ -147,6 +147,15 @@ export function buildProblem(spec: ProblemSpec): BuiltProblem {
       }
     });
   }
+  // Sensors too.
+  if (spec.sensors !== null) {
+    const { points } = spec.sensors;
+    const free = domain.initialFreeVertices();
+    const inside = evaluateAt(domain, free, new Float64Array(free.length), points.flat(), undefined, { outside: NaN });
+    inside.forEach((v, i) => {
+      if (Number.isNaN(v)) throw new InvalidArgumentError(`sensors.points[${i}]: the point (${points[i]!.join(', ')}) lies outside the domain`, { field: `sensors.points[${i}]` });
+    });
+  }
   // A known solution must solve this problem, or the true errors reported against it mean nothing.
   if (spec.exact) checkExactSolution(spec, spec.exact, domain);
   const spreads: CoefficientSpread[] = [];

@@ -45,6 +45,11 @@ export interface ProbeValue {
 export interface RunResult {
   steps: RunStep[];
   probes: ProbeValue[];
+  /**
+   * The file's sensor histories, `values[k][i]` = u(times[k], points[i]) (absolute times), read
+   * with `SpaceTimeSolution.sampleAtPoints`; null when the file has no `sensors`.
+   */
+  sensors: { times: number[]; points: number[][]; values: number[][] } | null;
   /** Least-squares slope of −log E against log N over the second half of the steps (null with < 2 points). */
   rate: number | null;
   solution: SpaceTimeSolution;
@@ -209,6 +214,12 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
     const value = solution.evaluate(p[0]! - spec.start, pt)[0]!; // probes are in absolute time
     return { t: p[0]!, x: pt[0]!, y: pt.length > 1 ? pt[1]! : null, value };
   });
+  let sensors: RunResult['sensors'] = null;
+  if (spec.sensors !== null) {
+    const { points, times } = spec.sensors;
+    const h = solution.sampleAtPoints(times.map((t) => t - spec.start), points.flat()); // absolute → the solver's clock
+    sensors = { times, points, values: times.map((_, k) => points.map((__, i) => h.get(k, i))) };
+  }
   let exactErrors: ExactErrors | null = null;
   if (known) {
     const e = last.errors !== null && last.solution === solution ? last.errors : spaceTimeErrors(solution, known);
@@ -222,5 +233,5 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
       rate: observedRate(withError.map((s) => ({ dofs: s.dofs, estimate: s.trueError! }))),
     };
   }
-  return { steps, probes, rate: observedRate(steps), solution, set, stopReason, exactErrors, heldDataError };
+  return { steps, probes, sensors, rate: observedRate(steps), solution, set, stopReason, exactErrors, heldDataError };
 }

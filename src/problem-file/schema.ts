@@ -72,6 +72,8 @@ export interface ProblemSpec {
   bulk: number | null;
   /** Probe points as [t, x] or [t, x, y]. */
   probes: number[][];
+  /** Sensor histories: fixed points ([x] or [x, y]) read at the given absolute times; null if none. */
+  sensors: { points: number[][]; times: number[] } | null;
   slices: number[];
   /** A known solution u(t, x[, y]) for verification, with its derivatives (./exact-solution.ts); null if none. */
   exact: ExactSolutionSpec | null;
@@ -81,6 +83,7 @@ export interface ProblemSpec {
 export const PROBLEM_FIELDS = [
   'title', 'description', 'domain', 'start', 'horizon', 'diffusion', 'reaction', 'source', 'initial', 'insulated',
   'boundary', 'strategy', 'tolerance', 'maxDofs', 'maxSeconds', 'maxSteps', 'bulk', 'probes', 'slices', 'exact',
+  'sensors',
 ] as const;
 
 const DOMAIN_FIELDS: Record<DomainSpec['shape'], string[]> = {
@@ -238,6 +241,7 @@ export function parseProblem(json: unknown, opts: ParseProblemOptions = {}): Pro
     return [time(p[0], `${f}[0] (t)`), ...p.slice(1).map((c, j) => num(c, `${f}[${j + 1}]`, '(finite)', () => true))];
   });
   const slices = list('slices').map((t, i) => time(t, `slices[${i}]`));
+  const sensors = o.sensors === undefined ? null : parseSensors(o.sensors, dim, start, horizon, time);
   const spec: ProblemSpec = {
     title: text('title'),
     description: text('description'),
@@ -258,6 +262,7 @@ export function parseProblem(json: unknown, opts: ParseProblemOptions = {}): Pro
     maxSteps: o.maxSteps === undefined ? PROBLEM_DEFAULTS.maxSteps : int(o.maxSteps, 'maxSteps', 1, 10000),
     bulk: o.bulk === undefined ? PROBLEM_DEFAULTS.bulk : num(o.bulk, 'bulk', 'in (0, 1) (the Dörfler parameter θ)', (x) => x > 0 && x < 1),
     probes,
+    sensors,
     slices,
     exact: o.exact === undefined ? null : compileExact(exactSource(o.exact), dim),
   };
@@ -341,4 +346,35 @@ function initialState(o: Record<string, unknown>, space: ('x' | 'y')[], opts: Pa
 function exactSource(v: unknown): string {
   if (typeof v !== 'string' && typeof v !== 'number') bad('exact', `must be an expression string in t and the space variables, such as "exp(-pi^2*t)*sin(pi*x)", found ${typeName(v)}`, v);
   return String(v);
+}
+
+/** Default number of evenly spaced sensor reading times (both ends included). */
+export const SENSOR_TIMES_DEFAULT = 101;
+
+/**
+ * `sensors`: {"points": [[x, y], …], "times": n or [t, …]}, read at n evenly spaced times over
+ * [start, horizon] (both ends; default 101) or at the listed absolute times.
+ */
+function parseSensors(
+  v: unknown, dim: 1 | 2, start: number, horizon: number, time: (t: unknown, field: string) => number,
+): { points: number[][]; times: number[] } {
+  if (v === null || typeof v !== 'object' || Array.isArray(v)) bad('sensors', `must be an object {"points": […], "times": n or […]}, found ${typeName(v)}`, v);
+  const o = v as Record<string, unknown>;
+  checkKeys(o, ['points', 'times'], 'sensors');
+  if (!Array.isArray(o.points) || o.points.length === 0) bad('sensors.points', `must be a non-empty list of ${dim === 1 ? '[x]' : '[x, y]'}, found ${typeName(o.points)}`, o.points);
+  const points = (o.points as unknown[]).map((p, i) => {
+    const f = `sensors.points[${i}]`;
+    if (!Array.isArray(p) || p.length !== dim) bad(f, `must be ${dim === 1 ? '[x]' : '[x, y]'}, found ${typeName(p)}`, p);
+    return (p as unknown[]).map((c, j) => num(c, `${f}[${j}]`, '(finite)', () => true));
+  });
+  let times: number[];
+  if (o.times === undefined || typeof o.times === 'number') {
+    const n = o.times === undefined ? SENSOR_TIMES_DEFAULT : int(o.times, 'sensors.times', 2, 1e6);
+    times = Array.from({ length: n }, (_, k) => (k === n - 1 ? horizon : start + ((horizon - start) * k) / (n - 1)));
+  } else {
+    if (!Array.isArray(o.times) || o.times.length === 0) bad('sensors.times', `must be a count of evenly spaced times (≥ 2) or a non-empty list of times, found ${typeName(o.times)}`, o.times);
+    times = (o.times as unknown[]).map((t, k) => time(t, `sensors.times[${k}]`));
+  }
+  if (points.length * times.length > 1e7) bad('sensors.times', `asks for ${points.length} × ${times.length} readings, more than 10⁷; read fewer times`, times.length);
+  return { points, times };
 }

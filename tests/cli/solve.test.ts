@@ -30,7 +30,7 @@ describe('chronomesh solve', () => {
     const lines = r.stdout.trimEnd().split('\n');
     expect(lines.length).toBe(1);
     const doc = JSON.parse(lines[0]!) as { steps: { dofs: number; estimate: number; iterations: number; riseChecks: number; seconds: number }[]; probes: { t: number; x: number; y: number | null; value: number }[]; rate: number };
-    expect(Object.keys(doc)).toEqual(['steps', 'probes', 'rate', 'stopReason', 'tolerance', 'toleranceReached', 'forecast', 'heldDataError', 'exactErrors']);
+    expect(Object.keys(doc)).toEqual(['steps', 'probes', 'rate', 'stopReason', 'tolerance', 'toleranceReached', 'forecast', 'heldDataError', 'exactErrors', 'sensors']);
     expect(doc.steps.length).toBeGreaterThan(3);
     for (const s of doc.steps) expect(Object.keys(s)).toEqual(['dofs', 'estimate', 'iterations', 'riseChecks', 'seconds']);
     expect(doc.steps[doc.steps.length - 1]!.dofs).toBeLessThanOrEqual(3000);
