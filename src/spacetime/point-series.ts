@@ -14,6 +14,7 @@
  * costs a leaf mesh of the functions active at it.
  */
 import { InvalidArgumentError } from '../errors';
+import { checkMemory } from '../validation/index';
 import { evaluateTemporal } from '../time/index';
 import type { SpatialDomain } from '../space/index';
 import { localIndices } from '../space/operator-plan';
@@ -56,6 +57,8 @@ export class PointSeriesOperator {
     this.pointCount = np;
     this.rowCount = times.length * np;
     const { tree } = set;
+    // the work array holds a value per (active temporal function, point): at most nodes × points
+    checkMemory(8 * tree.size * np, `point values of ${tree.size} temporal functions at ${np} points`, 'points', 'use fewer points per call');
     // Union of all fibres (each distinct fibre once) and its leaf mesh.
     const ids = new Set<number>();
     for (let i = 0; i < tree.size; i++) ids.add(set.nodeFibre[i]!);

@@ -7,7 +7,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import {
-  HeatProblem, InvalidArgumentError, SpaceTimeSolution, SpaceTimeSystem, combineFunctionals, intervalDomain, lShapeDomain, probeMisfit, solveAdaptive,
+  HeatProblem, InvalidArgumentError, ResourceLimitError, SpaceTimeSolution, SpaceTimeSystem, combineFunctionals, intervalDomain, lShapeDomain, probeMisfit,
+  setMemoryBudget, solveAdaptive,
 } from '../../src/index';
 import { seededRandom } from '../spacetime/reference';
 
@@ -62,5 +63,13 @@ describe('probeMisfit rows', () => {
     expect(caught).toBeInstanceOf(InvalidArgumentError);
     expect((caught as InvalidArgumentError).field).toBe('points[1]');
     expect(String(caught)).toMatch(/points\[1\] = \(0\.5, -0\.5\) lies outside the domain/);
+    // the per-(function, sensor) work array is checked against the memory budget before it is made
+    const previous = setMemoryBudget(1000);
+    try {
+      expect(() => probeMisfit(system, { times: [0.5], points: Array.from({ length: 100 }, () => [0.5, 0.5]), data: [new Array(100).fill(0)] }))
+        .toThrow(ResourceLimitError);
+    } finally {
+      setMemoryBudget(previous);
+    }
   });
 });
