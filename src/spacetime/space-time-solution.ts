@@ -85,7 +85,8 @@ export class SpaceTimeSolution {
    * u(t, x) at the given points (`[x0, x1, …]` in 1D, `[x0, y0, x1, y1, …]` in 2D). Each call
    * builds u(t, ·) on its leaf mesh (time linear in the set's size), so pass all points of one
    * time in one call; for many calls at one time, such as an initial state sampled point by point,
-   * use {@link SpaceTimeSolution.state} once and its `valueAt`.
+   * use {@link SpaceTimeSolution.state} once and its `valueAt`; for many times at fixed points
+   * (sensor histories), {@link SpaceTimeSolution.sampleAtPoints}.
    */
   evaluate(t: number, points: ArrayLike<number>): Float64Array {
     const { set, coeffs } = this.spatialCoefficients(t);
