@@ -9,7 +9,10 @@
  * (hierarchical hats do not depend on the set they are used in), so a row is a barycentric
  * combination of three (two in 1D) nodal values of that mesh. A slice stores its active
  * functions, the leaf mesh, the local index of every fibre entry and, per row, the vertices and
- * barycentric weights: apply and transpose are passes over these flat arrays.
+ * barycentric weights: apply and transpose are passes over these flat arrays. Slices serve the
+ * quadrature rows of the tracking integrals (many points at one time); sensor readings (few points
+ * at many times) use src/spacetime/point-series.ts instead, and both enter the functionals as an
+ * {@link EvaluationBlock}.
  */
 import { InvalidArgumentError } from '../errors';
 import type { SpatialDomain } from '../space/index';

@@ -136,26 +136,9 @@ export function buildProblem(spec: ProblemSpec): BuiltProblem {
     initial(x!, y!);
     if (source) for (const t of [0, duration / 2, duration]) source(t, x!, y!);
   }
-  // Probes must lie in the closed domain.
-  if (spec.probes.length > 0) {
-    const flat = spec.probes.flatMap((p) => p.slice(1));
-    const free = domain.initialFreeVertices();
-    const inside = evaluateAt(domain, free, new Float64Array(free.length), flat, undefined, { outside: NaN });
-    inside.forEach((v, i) => {
-      if (Number.isNaN(v)) {
-        throw new InvalidArgumentError(`probes[${i}]: the point (${spec.probes[i]!.slice(1).join(', ')}) lies outside the domain`, { field: `probes[${i}]` });
-      }
-    });
-  }
-  // Sensors too.
-  if (spec.sensors !== null) {
-    const { points } = spec.sensors;
-    const free = domain.initialFreeVertices();
-    const inside = evaluateAt(domain, free, new Float64Array(free.length), points.flat(), undefined, { outside: NaN });
-    inside.forEach((v, i) => {
-      if (Number.isNaN(v)) throw new InvalidArgumentError(`sensors.points[${i}]: the point (${points[i]!.join(', ')}) lies outside the domain`, { field: `sensors.points[${i}]` });
-    });
-  }
+  // Probes and sensors must lie in the closed domain.
+  checkInside(domain, spec.probes.map((p) => p.slice(1)), 'probes');
+  if (spec.sensors !== null) checkInside(domain, spec.sensors.points, 'sensors.points');
   // A known solution must solve this problem, or the true errors reported against it mean nothing.
   if (spec.exact) checkExactSolution(spec, spec.exact, domain);
   const spreads: CoefficientSpread[] = [];
@@ -172,4 +155,14 @@ export function buildProblem(spec: ProblemSpec): BuiltProblem {
   const zeroInitial = spec.initial.constant && spec.initial.fn(0, 0, 0) === 0;
   const problem = new HeatProblem({ domain, T: duration, ...(zeroInitial ? {} : { initial }), ...(source ? { source } : {}) });
   return { spec, domain, problem, coefficientSpread: spreads };
+}
+
+/** Each point ([x] or [x, y]) must lie in the closed domain; the error names `${field}[i]`. */
+function checkInside(domain: SpatialDomain, points: number[][], field: string): void {
+  if (points.length === 0) return;
+  const free = domain.initialFreeVertices();
+  const inside = evaluateAt(domain, free, new Float64Array(free.length), points.flat(), undefined, { outside: NaN });
+  inside.forEach((v, i) => {
+    if (Number.isNaN(v)) throw new InvalidArgumentError(`${field}[${i}]: the point (${points[i]!.join(', ')}) lies outside the domain`, { field: `${field}[${i}]` });
+  });
 }

@@ -44,11 +44,11 @@ export class PointSeriesOperator {
   private readonly slotStart: Int32Array;
   private readonly entryCoef: Int32Array;
   private readonly entryVertex: Int32Array;
-  // Per time: active functions as slots into usedNode, with σ(t).
+  // Per time: its active functions as used slots, with σ(t).
   private readonly actStart: Int32Array;
   private readonly actSlot: Int32Array;
   private readonly actSigma: Float64Array;
-  private readonly work: Float64Array; // usedNode.length × points
+  private readonly work: Float64Array; // used slots × points
 
   constructor(domain: SpatialDomain, set: DoubleTree, T: number, times: ArrayLike<number>, points: ArrayLike<number>) {
     const d = domain.dim;

@@ -172,7 +172,8 @@ export class SpaceTimeSolution {
     const o = checkOptions<{ outside?: number }>(opts, 'opts', ['outside']);
     if (o.outside !== undefined && typeof o.outside !== 'number') checkNumber(o.outside, 'opts.outside');
     const np = points.length / this.domain.dim;
-    checkMemory(8 * (this.trialSet.tree.size * np + times.length * np), `sampleAtPoints of ${times.length} times × ${np} points`, times.length > this.trialSet.tree.size ? 'times' : 'points', 'sample fewer points or times per call');
+    // the output here; the operator checks its own work array (per temporal function and point)
+    checkMemory(8 * times.length * np, `sampleAtPoints of ${times.length} times × ${np} points`, 'times', 'sample fewer times or points per call');
     const E = new PointSeriesOperator(this.domain, this.trialSet, this.T, times, points);
     const data = new Float64Array(E.rowCount);
     E.apply(this.coefficients, data);
