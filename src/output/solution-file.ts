@@ -104,6 +104,8 @@ function domainSections(domain: SpatialDomain): { info: DomainInfo; sections: Re
     'boundary.transfer': b.transfer,
     'boundary.vertexValuePart': b.vertexValuePart,
   };
+  // Only anisotropic domains have this section, so isotropic files and their hashes are unchanged.
+  if (m.kappaTensor !== null) sections['domain.kappaTensor'] = m.kappaTensor;
   const parts: PartInfo[] = b.parts.map((p) => {
     const spec = p.spec as { value?: unknown; flux?: unknown; ambient?: unknown };
     const raw = p.kind === 'value' ? spec.value : p.kind === 'flux' ? spec.flux : spec.ambient;
@@ -314,6 +316,7 @@ function rebuildDomain(c: Container, info: Record<string, unknown>): SpatialDoma
   const vertexFree = c.section('domain.vertexFree', 'u8', nv);
   const kappa = c.section('domain.kappa', 'f64', ne);
   const reaction = c.section('domain.reaction', 'f64', ne);
+  const kappaTensor = c.has('domain.kappaTensor') ? c.section('domain.kappaTensor', 'f64', 3 * ne) : null;
   const edgeVertices = c.section('boundary.edgeVertices', 'i32', 2 * nb);
   const edgeKind = c.section('boundary.edgeKind', 'u8', nb);
   const edgePart = c.section('boundary.edgePart', 'i32', nb);
@@ -323,6 +326,13 @@ function rebuildDomain(c: Container, info: Record<string, unknown>): SpatialDoma
   for (let i = 0; i < elements.length; i++) if (!(elements[i]! >= 0 && elements[i]! < nv)) throw malformed('domain.elements', `domain.elements[${i}] = ${elements[i]} is not a vertex in [0, ${nv})`);
   for (let i = 0; i < neighbors.length; i++) if (!(neighbors[i]! >= -3 - nb && neighbors[i]! < ne)) throw malformed('domain.neighbors', `domain.neighbors[${i}] = ${neighbors[i]} is neither an element nor a boundary code`);
   for (let i = 0; i < ne; i++) if (!(kappa[i]! > 0 && Number.isFinite(kappa[i]!)) || !(reaction[i]! >= 0 && Number.isFinite(reaction[i]!))) throw malformed('domain.kappa', `κ or c of initial element ${i} is out of range`);
+  if (kappaTensor !== null) {
+    if (dim !== 2) throw malformed('domain.kappaTensor', 'a diffusion tensor section belongs to a 2D domain');
+    for (let i = 0; i < ne; i++) {
+      const xx = kappaTensor[3 * i]!, xy = kappaTensor[3 * i + 1]!, yy = kappaTensor[3 * i + 2]!;
+      if (!(xx > 0 && xx * yy - xy * xy > 0 && Number.isFinite(xx + xy + yy))) throw malformed('domain.kappaTensor', `the diffusion tensor of initial element ${i} is not positive definite`);
+    }
+  }
   for (let i = 0; i < edgeVertices.length; i++) if (!(edgeVertices[i]! >= 0 && edgeVertices[i]! < nv)) throw malformed('boundary.edgeVertices', `boundary.edgeVertices[${i}] is not a vertex`);
   const parts = partsRaw.map((p: unknown, k: number) => {
     const q = p as Partial<PartInfo> | null;
@@ -364,6 +374,7 @@ function rebuildDomain(c: Container, info: Record<string, unknown>): SpatialDoma
     neighbors,
     vertexFree,
     kappa,
+    kappaTensor,
     reaction,
     boundary: { edgeCount: nb, edgeVertices, edgeKind, edgePart, transfer, vertexValuePart, parts: normalised, hasData, hasConvection },
     reoriented,

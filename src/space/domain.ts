@@ -55,6 +55,11 @@ export class SpatialDomain {
     return this.forest.boundary.parts.map((p) => p.spec);
   }
 
+  /** Whether the domain was given a diffusion tensor (`diffusionTensor`) instead of a scalar κ. */
+  get anisotropic(): boolean {
+    return this.forest.kappaTensor !== null;
+  }
+
   /** Vertices created so far (grows as the forest is refined). */
   get vertexCount(): number {
     return this.forest.vertexCount;

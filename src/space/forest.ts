@@ -16,6 +16,12 @@
  * and 1/(2(1 − z)) for (b, c, m), so classes of descendants follow without touching coordinates
  * (robust at any depth), and newest-vertex bisection produces only finitely many of them. Element
  * measures are exact: |child| = |parent| / 2.
+ *
+ * With an anisotropic diffusion tensor K the stiffness also depends on the orientation, so the
+ * elements of such a material have *oriented* classes: z, the unit direction d of v1 − v0 and the
+ * tensor K/κ (κ its largest eigenvalue). The children's directions are d·(−z)/|z| for (c, a, m) and
+ * d·(z − 1)/|z − 1| for (b, c, m); their tensor is the parent's. Newest-vertex bisection also
+ * produces only finitely many edge directions, so these classes stay few as well.
  */
 import { InvalidMeshError } from '../errors';
 import type { BoundaryTables } from './boundary';
@@ -26,7 +32,10 @@ export class BisectionForest {
   readonly nv: number; // vertices per element
   readonly initialVertexCount: number;
   readonly initialElementCount: number;
+  /** κ per initial element (for an anisotropic one, the largest eigenvalue of its tensor). */
   readonly kappa: Float64Array;
+  /** Diffusion tensors (xx, xy, yy per initial element), or null if the domain is isotropic. */
+  readonly kappaTensor: Float64Array | null;
   readonly reaction: Float64Array;
   /** Boundary parts per initial boundary edge (./boundary). */
   readonly boundary: BoundaryTables;
@@ -59,8 +68,14 @@ export class BisectionForest {
   /** Shape classes: canonical third vertex z (2 per class), child classes (2 per class, −1 unknown). */
   shapeZ: number[] = [];
   shapeChild: number[] = [];
-  /** Unit-κ stiffness of each class: k00 k01 k02 k11 k12 k22. */
+  /** Unit-κ stiffness of each class: k00 k01 k02 k11 k12 k22 (for an oriented class, with K/κ). */
   shapeK: number[] = [];
+  /** Oriented classes: direction of v1 − v0 (2 per class, 0 for plain classes) and tensor id (−1 for plain). */
+  private shapeDir: number[] = [];
+  private shapeTensor: number[] = [];
+  /** Distinct normalized tensors K/κ, 3 per id, and the id of each initial element (−1 if isotropic). */
+  private tensorUnit: number[] = [];
+  private readonly materialTensor: Int32Array;
   private shapeIndex = new Map<string, number>();
 
   constructor(init: InitialMesh) {
@@ -72,6 +87,7 @@ export class BisectionForest {
     this.initialVertexCount = nvInit;
     this.initialElementCount = neInit;
     this.kappa = init.kappa;
+    this.kappaTensor = init.kappaTensor;
     this.reaction = init.reaction;
     this.boundary = init.boundary;
     this.initialMesh = init;
@@ -92,6 +108,7 @@ export class BisectionForest {
     this.eMat = new Int32Array(ec);
     this.eShape = new Int32Array(d === 2 ? ec : 0);
     this.initialMeasure = new Float64Array(neInit);
+    this.materialTensor = this.unitTensors(init);
     this.vCoord.set(init.coords);
     for (let i = 0; i < nvInit; i++) {
       this.vParentA[i] = this.vParentB[i] = this.vGod0[i] = this.vGod1[i] = -1;
@@ -113,24 +130,65 @@ export class BisectionForest {
         this.initialMeasure[e] = 0.5 * (ax * by - ay * bx);
         // z = (v2 − v0) / (v1 − v0)
         const den = ax * ax + ay * ay;
-        this.eShape[e] = this.shapeOf((bx * ax + by * ay) / den, (by * ax - bx * ay) / den);
+        const len = Math.sqrt(den);
+        this.eShape[e] = this.shapeOf((bx * ax + by * ay) / den, (by * ax - bx * ay) / den, ax / len, ay / len, this.materialTensor[e]!);
       }
     }
     this.elementCount = neInit;
   }
 
-  /** Class id of the canonical shape z = x + iy (registered on first use). */
-  private shapeOf(x: number, y: number): number {
-    const key = `${Math.round(x * 2 ** 40)},${Math.round(y * 2 ** 40)}`;
+  /** Ids of the distinct normalized tensors K/κ per initial element (−1 everywhere for an isotropic domain). */
+  private unitTensors(init: InitialMesh): Int32Array {
+    const ne = init.kappa.length;
+    const ids = new Int32Array(ne).fill(-1);
+    const t = init.kappaTensor;
+    if (t === null || init.dim !== 2) return ids;
+    const byKey = new Map<string, number>();
+    for (let e = 0; e < ne; e++) {
+      const k = init.kappa[e]!;
+      const xx = t[3 * e]! / k, xy = t[3 * e + 1]! / k, yy = t[3 * e + 2]! / k;
+      const key = `${xx},${xy},${yy}`;
+      let id = byKey.get(key);
+      if (id === undefined) {
+        id = this.tensorUnit.length / 3;
+        byKey.set(key, id);
+        this.tensorUnit.push(xx, xy, yy);
+      }
+      ids[e] = id;
+    }
+    return ids;
+  }
+
+  /**
+   * Class id of the canonical shape z = x + iy, with direction (dx, dy) of v1 − v0 and normalized
+   * tensor `tensor` for an oriented class (tensor ≥ 0), registered on first use.
+   */
+  private shapeOf(x: number, y: number, dx: number, dy: number, tensor: number): number {
+    const r = (v: number): number => Math.round(v * 2 ** 40);
+    const key = tensor < 0 ? `${r(x)},${r(y)}` : `${r(x)},${r(y)},${r(dx)},${r(dy)},${tensor}`;
     let id = this.shapeIndex.get(key);
     if (id === undefined) {
       id = this.shapeZ.length / 2;
       this.shapeIndex.set(key, id);
       this.shapeZ.push(x, y);
       this.shapeChild.push(-1, -1);
-      // triangle (0, 0), (1, 0), (x, y): b = (−y, y, 0), c = (x − 1, −x, 1), 4|T| = 2y
-      const b0 = -y, b1 = y, c0 = x - 1, c1 = -x, s = 1 / (2 * y);
-      this.shapeK.push(s * (b0 * b0 + c0 * c0), s * (b0 * b1 + c0 * c1), s * c0, s * (b1 * b1 + c1 * c1), s * c1, s);
+      if (tensor < 0) {
+        // triangle (0, 0), (1, 0), (x, y): b = (−y, y, 0), c = (x − 1, −x, 1), 4|T| = 2y
+        const b0 = -y, b1 = y, c0 = x - 1, c1 = -x, s = 1 / (2 * y);
+        this.shapeK.push(s * (b0 * b0 + c0 * c0), s * (b0 * b1 + c0 * c1), s * c0, s * (b1 * b1 + c1 * c1), s * c1, s);
+        this.shapeDir.push(0, 0); // unused: plain classes do not depend on the direction
+      } else {
+        // triangle (0, 0), d, z·d (|d| = 1, so 4|T| = 2y); b_i = y_{i+1} − y_{i+2}, c_i = x_{i+2} − x_{i+1},
+        // entries g_iᵀ (K/κ) g_j / (4|T|) with g = (b, c) (element-matrices.ts)
+        const x1 = dx, y1 = dy, x2 = x * dx - y * dy, y2 = x * dy + y * dx;
+        const b = [y1 - y2, y2, -y1], c = [x2 - x1, -x2, x1];
+        const txx = this.tensorUnit[3 * tensor]!, txy = this.tensorUnit[3 * tensor + 1]!, tyy = this.tensorUnit[3 * tensor + 2]!;
+        const s = 1 / (2 * y);
+        const k = (i: number, j: number): number => s * (txx * b[i]! * b[j]! + txy * (b[i]! * c[j]! + c[i]! * b[j]!) + tyy * c[i]! * c[j]!);
+        this.shapeK.push(k(0, 0), k(0, 1), k(0, 2), k(1, 1), k(1, 2), k(2, 2));
+        this.shapeDir.push(dx, dy);
+      }
+      this.shapeTensor.push(tensor);
     }
     return id;
   }
@@ -141,18 +199,32 @@ export class BisectionForest {
     if (known >= 0) return known;
     const x = this.shapeZ[2 * shape]!, y = this.shapeZ[2 * shape + 1]!;
     let cx: number, cy: number;
+    // w: the child's first edge over the parent's, −z for (c, a, m) and z − 1 for (b, c, m)
+    let wx: number, wy: number;
     if (k === 0) {
       // (z − ½) / z
       const den = x * x + y * y;
       cx = ((x - 0.5) * x + y * y) / den;
       cy = (y * x - (x - 0.5) * y) / den;
+      wx = -x;
+      wy = -y;
     } else {
       // 1 / (2 (1 − z))
       const ux = 2 * (1 - x), uy = -2 * y, den = ux * ux + uy * uy;
       cx = ux / den;
       cy = -uy / den;
+      wx = x - 1;
+      wy = y;
     }
-    const id = this.shapeOf(cx, cy);
+    const tensor = this.shapeTensor[shape]!;
+    let dx = 0, dy = 0;
+    if (tensor >= 0) {
+      const px = this.shapeDir[2 * shape]!, py = this.shapeDir[2 * shape + 1]!;
+      const wl = Math.hypot(wx, wy);
+      dx = (px * wx - py * wy) / wl;
+      dy = (px * wy + py * wx) / wl;
+    }
+    const id = this.shapeOf(cx, cy, dx, dy, tensor);
     this.shapeChild[2 * shape + k] = id;
     return id;
   }

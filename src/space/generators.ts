@@ -6,7 +6,7 @@ import { buildIntervalMesh, buildTriangulation } from './initial-mesh';
 import { BYTES_PER_INPUT_CELL, BYTES_PER_INPUT_TRIANGLE, checkMemory, checkOptions } from '../validation/index';
 
 /** Keys of {@link DomainOptions}; the Record type makes a new option a compile error until listed here. */
-const DOMAIN_KEYS: Record<keyof Required<DomainOptions>, true> = { kappa: true, reaction: true, insulated: true, boundary: true };
+const DOMAIN_KEYS: Record<keyof Required<DomainOptions>, true> = { kappa: true, diffusionTensor: true, reaction: true, insulated: true, boundary: true };
 
 /** Unknown keys are refused with the nearest valid name; undefined gives the defaults. */
 function domainOptions(opts: unknown): DomainOptions {

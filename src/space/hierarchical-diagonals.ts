@@ -13,6 +13,7 @@
  * grows, so a lookup costs O(1) per vertex and nothing is rebuilt per set.
  */
 import { convectionDiagonal } from './boundary-segments';
+import { gradProduct } from './diffusion-tensor';
 import type { SpatialDomain } from './domain';
 
 interface State {
@@ -52,8 +53,12 @@ function addElement(s: State, domain: SpatialDomain, e: number, k: number): void
   const area = 0.5 * Math.abs((x1 - x0) * (y2 - y0) - (x2 - x0) * (y1 - y0));
   // Edge opposite local vertex k.
   const [ax, ay, bx, by] = k === 0 ? [x1, y1, x2, y2] : k === 1 ? [x2, y2, x0, y0] : [x0, y0, x1, y1];
-  const e2 = (bx - ax) ** 2 + (by - ay) ** 2;
-  s.A[v]! += (kappa * e2) / (4 * area) + (c * area) / 6 + convectionDiagonal(f, e, k);
+  // ∇λ = (ay − by, bx − ax) / (2|T|) for the vertex opposite the edge (a, b), so with a tensor
+  // ∫_T ∇λ·K∇λ = gᵀKg / (4|T|) for g = (ay − by, bx − ax); with K = κI, κ|e|²/(4|T|)
+  const stiff = f.kappaTensor === null
+    ? kappa * ((bx - ax) ** 2 + (by - ay) ** 2)
+    : gradProduct(f.kappaTensor, mat, ay - by, bx - ax, ay - by, bx - ax);
+  s.A[v]! += stiff / (4 * area) + (c * area) / 6 + convectionDiagonal(f, e, k);
   s.M[v]! += area / 6;
 }
 

@@ -1,5 +1,5 @@
 /** Public exports of the space module (re-exported by src/index.ts). */
-export type { Coefficient, DomainOptions } from './domain-options';
+export type { Coefficient, DiffusionTensor, DomainOptions, TensorCoefficient } from './domain-options';
 export type { BoundaryData, BoundarySelector, BoundaryPart, ValuePart, FluxPart, ConvectionPart } from './boundary';
 export { SpatialDomain } from './domain';
 export { intervalDomain, triangulatedDomain, rectangleDomain, lShapeDomain, squareWithHoleDomain } from './generators';

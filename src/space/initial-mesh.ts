@@ -7,6 +7,7 @@
  */
 import { InvalidArgumentError, InvalidMeshError, describeValue } from '../errors';
 import type { Coefficient, DomainOptions } from './domain-options';
+import { sampleDiffusionTensor } from './diffusion-tensor';
 import { checkNoHangingNodes } from './hanging-nodes';
 import { checkNoOverlap } from './mesh-overlap';
 import { EdgeKind, buildBoundaryTables, isValueKind, naturalEdgeCode, type BoundaryTables } from './boundary';
@@ -25,7 +26,13 @@ export interface InitialMesh {
   /** 2D: 3 per element, entry k = element across the edge opposite vertex k, or a boundary code. */
   readonly neighbors: Int32Array;
   readonly vertexFree: Uint8Array;
+  /**
+   * κ per element; for an anisotropic element the largest eigenvalue of its tensor (the scale of
+   * diffusion times and other bounds, docs/method.md §4.4).
+   */
   readonly kappa: Float64Array;
+  /** Diffusion tensors (xx, xy, yy per element) when the domain was given `diffusionTensor`, else null. */
+  readonly kappaTensor: Float64Array | null;
   readonly reaction: Float64Array;
   /** Boundary parts per initial boundary edge (see ./boundary). */
   readonly boundary: BoundaryTables;
@@ -174,6 +181,11 @@ export function buildIntervalMesh(a: number, b: number, cells: number, opts: Dom
     elements[2 * e + 1] = e + 1;
     centroids[2 * e] = 0.5 * (coords[e]! + coords[e + 1]!);
   }
+  if (opts.diffusionTensor !== undefined) {
+    throw new InvalidArgumentError('diffusionTensor is for 2D domains; on an interval give the scalar kappa', {
+      field: 'diffusionTensor', expected: 'no diffusionTensor in 1D (use kappa)', received: 'a diffusion tensor',
+    });
+  }
   const kappa = sampleCoefficient(opts.kappa, 1, centroids, 'kappa');
   const reaction = sampleCoefficient(opts.reaction, 0, centroids, 'reaction');
   const vertexFree = new Uint8Array(cells + 1).fill(1);
@@ -212,7 +224,7 @@ export function buildIntervalMesh(a: number, b: number, cells: number, opts: Dom
   vertexFree[0] = isValueKind(boundary.edgeKind[0]!) ? 0 : 1;
   vertexFree[cells] = isValueKind(boundary.edgeKind[1]!) ? 0 : 1;
   requireSomeDirichletOrReaction(vertexFree, reaction, boundary);
-  return { dim: 1, coords, elements, neighbors: new Int32Array(0), vertexFree, kappa, reaction, boundary, reoriented: 0 };
+  return { dim: 1, coords, elements, neighbors: new Int32Array(0), vertexFree, kappa, kappaTensor: null, reaction, boundary, reoriented: 0 };
 }
 
 /** Edge bookkeeping uses Maps, which hold at most 2^24 entries; ~1.5 edges per triangle. */
@@ -245,6 +257,11 @@ export function buildTriangulation(
     });
   }
   checkFinitePoints(coords);
+  if (opts.diffusionTensor !== undefined && opts.kappa !== undefined) {
+    throw new InvalidArgumentError('give either kappa or diffusionTensor, not both', {
+      field: 'diffusionTensor', expected: 'kappa (isotropic) or diffusionTensor (anisotropic)', received: 'both',
+    });
+  }
   const { elements, reoriented } = orientAndLabel(coords, triF);
   const neighbors = linkNeighbours(elements, nv);
   const bEdges = boundaryEdges(elements, neighbors);
@@ -255,10 +272,11 @@ export function buildTriangulation(
   const boundary = applyBoundaryParts(opts, coords, bEdges, neighbors);
   const vertexFree = freeVertices(nv, bEdges, neighbors);
   const centroids = elementCentroids(coords, elements);
-  const kappa = sampleCoefficient(opts.kappa, 1, centroids, 'kappa');
+  const tensor = opts.diffusionTensor === undefined ? null : sampleDiffusionTensor(opts.diffusionTensor, centroids);
+  const kappa = tensor === null ? sampleCoefficient(opts.kappa, 1, centroids, 'kappa') : tensor.scale;
   const reaction = sampleCoefficient(opts.reaction, 0, centroids, 'reaction');
   requireSomeDirichletOrReaction(vertexFree, reaction, boundary);
-  return { dim: 2, coords, elements, neighbors, vertexFree, kappa, reaction, boundary, reoriented };
+  return { dim: 2, coords, elements, neighbors, vertexFree, kappa, kappaTensor: tensor?.entries ?? null, reaction, boundary, reoriented };
 }
 
 /** Every coordinate is a finite number. */

@@ -87,6 +87,7 @@ export function extractLeafMesh(closure: VertexClosure, set: Int32Array, field =
     elements,
     elementMaterial,
     kappa: f.kappa,
+    ...(f.kappaTensor !== null ? { kappaTensor: f.kappaTensor } : {}),
     reaction: f.reaction,
     forestElement,
     memberLocal,

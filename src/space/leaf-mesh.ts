@@ -29,8 +29,13 @@ export interface LeafMesh {
   readonly elements: Int32Array;
   /** Initial (coarse) element each leaf element descends from; indexes `kappa` and `reaction`. */
   readonly elementMaterial: Int32Array;
-  /** Diffusion coefficient κ per initial element. */
+  /** Diffusion coefficient κ per initial element (for an anisotropic one, the largest eigenvalue of its tensor). */
   readonly kappa: Float64Array;
+  /**
+   * Diffusion tensors K (xx, xy, yy per initial element, 2D) of an anisotropic domain; when present,
+   * the stiffness uses K instead of κ.
+   */
+  readonly kappaTensor?: Float64Array;
   /** Reaction coefficient c per initial element. */
   readonly reaction: Float64Array;
   /** @internal Leaf-element edges on flux / convection parts of the boundary (absent if the domain has none). */

@@ -58,6 +58,7 @@ export function problemFingerprint(problem: HeatProblem): string {
     new Uint8Array(m.coords.buffer, m.coords.byteOffset, m.coords.byteLength),
     new Uint8Array(m.elements.buffer, m.elements.byteOffset, m.elements.byteLength),
     new Uint8Array(m.kappa.buffer, m.kappa.byteOffset, m.kappa.byteLength),
+    ...(m.kappaTensor !== null ? [new Uint8Array(m.kappaTensor.buffer, m.kappaTensor.byteOffset, m.kappaTensor.byteLength)] : []),
     new Uint8Array(m.reaction.buffer, m.reaction.byteOffset, m.reaction.byteLength),
     b.edgeKind,
     new Uint8Array(b.transfer.buffer, b.transfer.byteOffset, b.transfer.byteLength),

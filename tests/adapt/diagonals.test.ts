@@ -10,6 +10,7 @@ const CASES = [
     ['interval with variable κ and reaction', () => intervalDomain(0, 2, 3, { kappa: (x) => 1 + x, reaction: 0.7 })],
     ['square, graded', () => rectangleDomain(0, 1, 0, 1, 2, 2, { kappa: (x, y) => (x + y < 1 ? 1 : 4), reaction: 1 })],
     ['L-shape', () => lShapeDomain(1)],
+    ['square with a tensor rotated per element', () => rectangleDomain(0, 1, 0, 1, 2, 2, { diffusionTensor: (x, y) => ({ xx: 1 + x, xy: 0.4 * (y - 0.5), yy: 3 - y }), reaction: 0.5 })],
     ['interval with convection at one end, held value at the other', () => intervalDomain(0, 2, 3, { boundary: [{ kind: 'convection', where: [[3]], transferCoefficient: 2.5 }, { kind: 'value', where: [[0]], value: 1 }] })],
     ['square with value, flux and convection parts (h varies)', () => rectangleDomain(0, 1, 0, 1, 2, 2, {
       kappa: (x) => (x < 0.5 ? 1 : 3),

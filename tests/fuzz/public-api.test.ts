@@ -52,6 +52,10 @@ const fn = (name: string, valid: unknown[], bad: unknown[] = []): Slot => ({
 });
 const NOT_DOMAIN = [null, undefined, {}, 5, 'dom', pI, setI];
 const BAD_DOMAIN_OPTS = [{ kapa: 1 }, { kappa: -1 }, { kappa: '1' }, { kappa: NaN }, { reaction: -1 }, { reaction: [1] }, { insulated: 5 }, { kappa: () => NaN }];
+const BAD_TENSOR_OPTS = [
+  ...BAD_DOMAIN_OPTS, { diffusionTensor: { xx: 1, xy: 2, yy: 1 } }, { diffusionTensor: { xx: NaN, xy: 0, yy: 1 } }, { diffusionTensor: [1, 0, 1] },
+  { diffusionTensor: () => ({ xx: 1, xy: 0 }) }, { kappa: 1, diffusionTensor: { xx: 1, xy: 0, yy: 1 } }, { diffusionTensor: null },
+];
 
 // ---------------------------------------------------------------- entries
 const entries: Entry[] = [
@@ -62,7 +66,7 @@ const entries: Entry[] = [
   },
   {
     name: 'rectangleDomain',
-    slots: [num('x0', -2, 0), num('x1', 1, 3, [], /x1|x0, x1/), int('nx', 1, 5, [1e5]), int('ny', 1, 5, [1e5]), opts('opts', [undefined, { kappa: 3 }], BAD_DOMAIN_OPTS, /^(opts|kappa|reaction|insulated)/)],
+    slots: [num('x0', -2, 0), num('x1', 1, 3, [], /x1|x0, x1/), int('nx', 1, 5, [1e5]), int('ny', 1, 5, [1e5]), opts('opts', [undefined, { kappa: 3 }, { diffusionTensor: { xx: 2, xy: 0.5, yy: 1 } }], BAD_TENSOR_OPTS, /^(opts|kappa|reaction|insulated|diffusionTensor)/)],
     call: ([x0, x1, nx, ny, o]) => cm.rectangleDomain(x0 as number, x1 as number, 0, 1, nx as number, ny as number, o as never).vertexCount,
   },
   {

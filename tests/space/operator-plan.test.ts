@@ -10,6 +10,14 @@ import { growForest, matVec, randomClosedSubset, randomVector, relErr, rng } fro
 const domains: [string, () => SpatialDomain][] = [
   ['interval, variable κ and c, one end insulated', () => intervalDomain(-1, 2, 3, { kappa: [1, 3, 0.5], reaction: (x) => 1 + x * x, insulated: (x) => x > 0 })],
   ['unit square', () => rectangleDomain(0, 1, 0, 1, 2, 2, { kappa: (x, y) => 1 + x + 2 * y, reaction: 0.7 })],
+  // anisotropic: a tensor rotated differently on every initial element, with a reaction term
+  ['unit square, diffusion tensor varying per element', () => rectangleDomain(0, 1, 0, 1, 2, 2, {
+    diffusionTensor: (x, y) => ({ xx: 2 + x, xy: 0.7 - y, yy: 0.5 + y }), reaction: 0.7,
+  })],
+  ['unstructured polygon, one strongly anisotropic tensor', () => triangulatedDomain(
+    [0, 0, 1, 0, 1.3, 0.8, 0.4, 1.2, -0.2, 0.6, 0.5, 0.45], [0, 1, 5, 1, 2, 5, 2, 3, 5, 3, 4, 5, 4, 0, 5],
+    { diffusionTensor: { xx: 10, xy: 3, yy: 1 } },
+  )],
   ['L-shape, insulated top', () => lShapeDomain(1, { insulated: (_x, y) => y > 0.99 })],
   ['square with hole', () => squareWithHoleDomain(1, { reaction: (x) => (x > 0 ? 2 : 0) })],
   ['unstructured polygon', () => triangulatedDomain(

@@ -10,7 +10,13 @@
  * vertices; the children of the one or two triangles bisected at v, spanned by its interpolation
  * parents and godparents, otherwise) at the coordinates of every leaf-mesh vertex. No transform
  * kernel and no element-record code of src/space is used.
+ *
+ * With a diffusion tensor K (anisotropic domains) the stiffness is ∫_T ∇λ_i·K∇λ_j = |T| ∇λ_iᵀK∇λ_j
+ * with the barycentric gradients read off the inverse of the element's Jacobian
+ * J = [p1 − p0, p2 − p0] (∇λ_1, ∇λ_2 are the rows of J⁻¹, ∇λ_0 = −∇λ_1 − ∇λ_2; common practice),
+ * the inverse taken by ml-matrix.
  */
+import { Matrix, inverse } from 'ml-matrix';
 import type { SpatialDomain } from '../../src/space/index';
 
 function union(a: Int32Array, b: Int32Array): Int32Array {
@@ -105,14 +111,24 @@ export function denseNodalMatrices(domain: SpatialDomain, set: Int32Array): { M:
     const P = loc.map((i) => [xy[2 * i]!, xy[2 * i + 1]!] as [number, number]);
     const area = 0.5 * Math.abs((P[1]![0] - P[0]![0]) * (P[2]![1] - P[0]![1]) - (P[2]![0] - P[0]![0]) * (P[1]![1] - P[0]![1]));
     const K = [[0, 0, 0], [0, 0, 0], [0, 0, 0]];
-    for (let k = 0; k < 3; k++) {
+    const tensor = mesh.kappaTensor;
+    if (tensor !== undefined) {
+      const m = mesh.elementMaterial[e]!;
+      const Kt = new Matrix([[tensor[3 * m]!, tensor[3 * m + 1]!], [tensor[3 * m + 1]!, tensor[3 * m + 2]!]]);
+      const Jinv = inverse(new Matrix([[P[1]![0] - P[0]![0], P[2]![0] - P[0]![0]], [P[1]![1] - P[0]![1], P[2]![1] - P[0]![1]]]));
+      const g1 = Jinv.getRow(0), g2 = Jinv.getRow(1);
+      const G = new Matrix([[-g1[0]! - g2[0]!, -g1[1]! - g2[1]!], g1, g2]); // rows ∇λ_0, ∇λ_1, ∇λ_2
+      const S = G.mmul(Kt).mmul(G.transpose()).mul(area);
+      for (let p = 0; p < 3; p++) for (let q = 0; q < 3; q++) K[p]![q] = S.get(p, q);
+    }
+    for (let k = 0; tensor === undefined && k < 3; k++) {
       // angle at vertex k, opposite edge (k+1, k+2)
       const i = (k + 1) % 3, j = (k + 2) % 3;
       const ux = P[i]![0] - P[k]![0], uy = P[i]![1] - P[k]![1], vx = P[j]![0] - P[k]![0], vy = P[j]![1] - P[k]![1];
       const cot = (ux * vx + uy * vy) / Math.abs(ux * vy - uy * vx);
       K[i]![j] = K[j]![i] = -0.5 * kap * cot;
     }
-    for (let i = 0; i < 3; i++) K[i]![i] = -(K[i]![(i + 1) % 3]! + K[i]![(i + 2) % 3]!);
+    for (let i = 0; tensor === undefined && i < 3; i++) K[i]![i] = -(K[i]![(i + 1) % 3]! + K[i]![(i + 2) % 3]!);
     for (let p = 0; p < 3; p++) {
       for (let q = 0; q < 3; q++) {
         const mass = (area / 12) * (p === q ? 2 : 1);

@@ -84,6 +84,8 @@ export interface Container {
   section(name: string, type: 'f64', length?: number): Float64Array;
   section(name: string, type: 'i32', length?: number): Int32Array;
   section(name: string, type: 'u8', length?: number): Uint8Array;
+  /** Whether the file has a section `name` (for optional sections). */
+  has(name: string): boolean;
 }
 
 function hexBytes(b: Uint8Array, from: number, n: number): string {
@@ -200,5 +202,5 @@ export function readContainer(bytes: Uint8Array, format: string, version: number
     if (type === 'f64') return Float64Array.from({ length: e.length }, (_, i) => v.getFloat64(8 * i, true));
     return Int32Array.from({ length: e.length }, (_, i) => v.getInt32(4 * i, true));
   }
-  return { header, section: section as Container['section'] };
+  return { header, section: section as Container['section'], has: (name: string) => byName.has(name) };
 }

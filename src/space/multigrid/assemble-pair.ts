@@ -14,6 +14,7 @@
  * Dirichlet vertices get no entries (their rows stay empty). The mesh must
  * have passed `validateLeafMesh` (indices, materials, coefficients).
  */
+import { gradProduct } from '../diffusion-tensor';
 import { InvalidMeshError } from '../../errors';
 import { robinSegments } from '../boundary-segments';
 import type { LeafMesh } from '../leaf-mesh';
@@ -179,6 +180,7 @@ function assemble2d(mesh: LeafMesh, rows: PairedRows, sizes: ExactSizes): void {
   const free = mesh.isFree;
   const mats = mesh.elementMaterial;
   const kap = mesh.kappa;
+  const ten = mesh.kappaTensor ?? null;
   const rea = mesh.reaction;
   const diag = rows.diag;
   for (let e = 0; e < mesh.elementCount; e++) {
@@ -194,25 +196,26 @@ function assemble2d(mesh: LeafMesh, rows: PairedRows, sizes: ExactSizes): void {
     if (!(Math.abs(b0 * c1 - b1 * c0) > 0)) throw degenerate(e, 0.5 * Math.abs(b0 * c1 - b1 * c0));
     const area = elementSize(mesh, sizes, 3, e);
     const mat = mats[e]!;
-    const sk = kap[mat]! / (4 * area);
+    // isotropic: κ/(4|T|) · g_i·g_j; anisotropic: g_iᵀKg_j / (4|T|) (../diffusion-tensor)
+    const sk = ten === null ? kap[mat]! / (4 * area) : 1 / (4 * area);
     const c = rea[mat]!;
     const mo = area / 12; // off-diagonal mass; diagonal 2·mo
     const f0 = free[v0]!, f1 = free[v1]!, f2 = free[v2]!;
     if (f0) {
-      diag[2 * v0] = diag[2 * v0]! + sk * (b0 * b0 + c0 * c0) + 2 * c * mo;
+      diag[2 * v0] = diag[2 * v0]! + sk * gradProduct(ten, mat, b0, c0, b0, c0) + 2 * c * mo;
       diag[2 * v0 + 1] = diag[2 * v0 + 1]! + 2 * mo;
     }
     if (f1) {
-      diag[2 * v1] = diag[2 * v1]! + sk * (b1 * b1 + c1 * c1) + 2 * c * mo;
+      diag[2 * v1] = diag[2 * v1]! + sk * gradProduct(ten, mat, b1, c1, b1, c1) + 2 * c * mo;
       diag[2 * v1 + 1] = diag[2 * v1 + 1]! + 2 * mo;
     }
     if (f2) {
-      diag[2 * v2] = diag[2 * v2]! + sk * (b2 * b2 + c2 * c2) + 2 * c * mo;
+      diag[2 * v2] = diag[2 * v2]! + sk * gradProduct(ten, mat, b2, c2, b2, c2) + 2 * c * mo;
       diag[2 * v2 + 1] = diag[2 * v2 + 1]! + 2 * mo;
     }
-    const k01 = sk * (b0 * b1 + c0 * c1) + c * mo;
-    const k12 = sk * (b1 * b2 + c1 * c2) + c * mo;
-    const k20 = sk * (b2 * b0 + c2 * c0) + c * mo;
+    const k01 = sk * gradProduct(ten, mat, b0, c0, b1, c1) + c * mo;
+    const k12 = sk * gradProduct(ten, mat, b1, c1, b2, c2) + c * mo;
+    const k20 = sk * gradProduct(ten, mat, b2, c2, b0, c0) + c * mo;
     if (f0 && f1) { rows.add(v0, v1, k01, mo); rows.add(v1, v0, k01, mo); }
     if (f1 && f2) { rows.add(v1, v2, k12, mo); rows.add(v2, v1, k12, mo); }
     if (f2 && f0) { rows.add(v2, v0, k20, mo); rows.add(v0, v2, k20, mo); }

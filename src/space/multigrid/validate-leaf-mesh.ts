@@ -72,4 +72,14 @@ export function validateLeafMesh(mesh: LeafMesh): void {
     const c = mesh.reaction[k]!;
     if (!(c >= 0) || !Number.isFinite(c)) fail(`reaction[${k}]`, 'a finite number ≥ 0', c, 'coefficients');
   }
+  const t = mesh.kappaTensor;
+  if (t === undefined) return;
+  if (mesh.dim !== 2) fail('kappaTensor', 'absent in 1D (a scalar kappa)', 'a tensor', 'coefficients');
+  checkLength('kappaTensor', t, 3 * nm);
+  for (let k = 0; k < nm; k++) {
+    const xx = t[3 * k]!, xy = t[3 * k + 1]!, yy = t[3 * k + 2]!;
+    if (!(xx > 0 && xx * yy - xy * xy > 0 && Number.isFinite(xx + xy + yy))) {
+      fail(`kappaTensor[${3 * k}…${3 * k + 2}]`, 'a symmetric positive definite tensor (xx > 0, xx·yy − xy² > 0)', `${xx}, ${xy}, ${yy}`, 'coefficients');
+    }
+  }
 }

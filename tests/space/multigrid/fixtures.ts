@@ -22,6 +22,8 @@ export interface FixtureOptions {
   kappa?: number[];
   /** Reaction per initial element (default all 0). */
   reaction?: number[];
+  /** Diffusion tensors (xx, xy, yy per initial element; 2D), replacing κ in the stiffness. */
+  kappaTensor?: number[];
 }
 
 export class BisectionFixture {
@@ -37,6 +39,7 @@ export class BisectionFixture {
   private readonly edgeCells = new Map<number, number[]>();
   kappa: number[];
   reaction: number[];
+  kappaTensor: number[] | undefined;
   /** Vertex is on the Dirichlet boundary (decided by `dirichlet` predicate). */
   dirichlet: (x: number, y: number) => boolean;
 
@@ -82,6 +85,7 @@ export class BisectionFixture {
 
   private setMaterials(count: number, opts: FixtureOptions): void {
     this.kappa = opts.kappa ?? new Array<number>(count).fill(1);
+    this.kappaTensor = opts.kappaTensor;
     this.reaction = opts.reaction ?? new Array<number>(count).fill(0);
   }
 
@@ -259,6 +263,7 @@ export class BisectionFixture {
       dim: d, vertexCount: n, globalId, coords, generation, parentA, parentB, isFree,
       elementCount: mats.length, elements: Int32Array.from(elems), elementMaterial: Int32Array.from(mats),
       kappa: Float64Array.from(this.kappa), reaction: Float64Array.from(this.reaction),
+      ...(this.kappaTensor !== undefined ? { kappaTensor: Float64Array.from(this.kappaTensor) } : {}),
     };
   }
 }

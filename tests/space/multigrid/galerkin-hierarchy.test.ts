@@ -42,6 +42,7 @@ const meshes: [string, () => BisectionFixture][] = [
   ['1d graded', () => BisectionFixture.interval([0, 1], { left: true, right: true }).gradeTowardPoint(12, 0.37)],
   ['2d uniform, 4 pieces, materials', () => BisectionFixture.square(4, { kappa: [1, 10, 0.1, 3], reaction: [0, 1, 0, 4], dirichlet: (x) => x === 0 }).uniform(5)],
   ['2d graded to corner', () => BisectionFixture.square(2).gradeTowardPoint(14, 0, 0)],
+  ['2d graded to corner, anisotropic tensors', () => BisectionFixture.square(2, { kappaTensor: [4, 1, 0.5, 1, -0.3, 2] }).gradeTowardPoint(10, 0, 0)],
   ['2d graded to edge', () => BisectionFixture.square(2, { dirichlet: (_x, y) => y === 1 }).gradeTowardBottomEdge(7)],
 ];
 

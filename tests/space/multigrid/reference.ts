@@ -14,7 +14,10 @@ export function freeIndices(mesh: LeafMesh): number[] {
   return out;
 }
 
-/** Element stiffness (per unit κ) and mass of element e, from barycentric gradients. */
+/**
+ * Element stiffness (per unit κ; with the element's tensor K for an anisotropic mesh, then κ = 1
+ * must be used by the caller: see kappaOf) and mass of element e, from barycentric gradients.
+ */
 function elementMatrices(mesh: LeafMesh, e: number): { v: number[]; S: number[][]; Ms: number[][] } {
   const d = mesh.dim;
   const v = Array.from(mesh.elements.subarray((d + 1) * e, (d + 1) * (e + 1)));
@@ -34,11 +37,21 @@ function elementMatrices(mesh: LeafMesh, e: number): { v: number[]; S: number[][
   const V = new Matrix(X.map((p) => [1, p[0]!, p[1]!]));
   const C = inverse(V); // column i holds (a_i, g_i)
   const area = 0.5 * Math.abs((X[1]![0]! - X[0]![0]!) * (X[2]![1]! - X[0]![1]!) - (X[2]![0]! - X[0]![0]!) * (X[1]![1]! - X[0]![1]!));
-  const S = [0, 1, 2].map((i) => [0, 1, 2].map((j) => area * (C.get(1, i) * C.get(1, j) + C.get(2, i) * C.get(2, j))));
+  const t = mesh.kappaTensor;
+  const m = mesh.elementMaterial[e]!;
+  // ∫_T ∇λ_i·K∇λ_j = |T| g_iᵀ K g_j (K = I for the per-unit-κ isotropic stiffness)
+  const [kxx, kxy, kyy] = t === undefined ? [1, 0, 1] : [t[3 * m]!, t[3 * m + 1]!, t[3 * m + 2]!];
+  const S = [0, 1, 2].map((i) => [0, 1, 2].map((j) => area * (
+    kxx * C.get(1, i) * C.get(1, j) + kxy * (C.get(1, i) * C.get(2, j) + C.get(2, i) * C.get(1, j)) + kyy * C.get(2, i) * C.get(2, j))));
   // mass by the edge-midpoint rule (exact for quadratics on triangles; common practice)
   const mids = [[0.5, 0.5, 0], [0, 0.5, 0.5], [0.5, 0, 0.5]];
   const Ms = [0, 1, 2].map((i) => [0, 1, 2].map((j) => (area / 3) * mids.reduce((s, m) => s + m[i]! * m[j]!, 0)));
   return { v, S, Ms };
+}
+
+/** The factor of the element stiffness: κ, or 1 where the tensor is already in it. */
+function kappaOf(mesh: LeafMesh, mat: number): number {
+  return mesh.kappaTensor === undefined ? mesh.kappa[mat]! : 1;
 }
 
 /** Dense K (κ-stiffness + c·mass) and M on the free vertices. */
@@ -52,7 +65,7 @@ export function denseMatrices(mesh: LeafMesh): { free: number[]; K: Matrix; M: M
   for (let e = 0; e < mesh.elementCount; e++) {
     const { v, S, Ms } = elementMatrices(mesh, e);
     const mat = mesh.elementMaterial[e]!;
-    const kap = mesh.kappa[mat]!;
+    const kap = kappaOf(mesh, mat);
     const c = mesh.reaction[mat]!;
     v.forEach((vi, i) => v.forEach((vj, j) => {
       const p = pos.get(vi);
@@ -76,7 +89,7 @@ export function makeOperator(mesh: LeafMesh): (alpha: number, x: Float64Array, y
     const mat = mesh.elementMaterial[e]!;
     for (let i = 0; i < nv; i++) for (let j = 0; j < nv; j++) {
       const o = ((e * nv + i) * nv + j) * 2;
-      loc[o] = mesh.kappa[mat]! * S[i]![j]! + mesh.reaction[mat]! * Ms[i]![j]!;
+      loc[o] = kappaOf(mesh, mat) * S[i]![j]! + mesh.reaction[mat]! * Ms[i]![j]!;
       loc[o + 1] = Ms[i]![j]!;
     }
   }
