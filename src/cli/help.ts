@@ -66,7 +66,10 @@ problem file fields (JSON object):
               probes, slices and every expression in t use absolute time;
               a run that continues another from its end state sets start
               to that run's horizon, so time-dependent data carry on
-  diffusion   κ(x, y) > 0, default "${PROBLEM_DEFAULTS.diffusion}" (taken at initial-element centroids)
+  diffusion   κ(x, y) > 0, default "${PROBLEM_DEFAULTS.diffusion}" (taken at initial-element centroids);
+              2D: or a tensor {"xx":…,"xy":…,"yy":…} (expressions; xy default 0,
+              xx·yy − xy² > 0) for anisotropic diffusion ∇·(K∇u); flux and
+              convection parts then prescribe the conormal flux n·K∇u
   reaction    c(x, y) ≥ 0, default "${PROBLEM_DEFAULTS.reaction}" (taken at initial-element centroids)
               (a warning names the element where either varies most inside,
               if by more than 1 %: give more cells there)

@@ -6,7 +6,7 @@
  */
 import {
   HeatProblem, InvalidArgumentError, InvalidMeshError, evaluateAt, intervalDomain, lShapeDomain, rectangleDomain,
-  triangulatedDomain, type BoundaryPart, type DomainOptions, type SpatialDomain,
+  triangulatedDomain, type BoundaryPart, type DiffusionTensor, type DomainOptions, type SpatialDomain,
 } from './core';
 import type { CompiledExpression } from './expression';
 import { checkExactSolution } from './exact-solution';
@@ -55,6 +55,26 @@ function spatial(e: CompiledExpression, field: string, dim: number, ok: (v: numb
 
 const finite = (v: number) => Number.isFinite(v);
 
+/**
+ * The tensor of `"diffusion": {"xx", "xy", "yy"}` as the domain takes it (sampled at the initial
+ * elements' centroids); a tensor that is not positive definite is refused naming the field and point.
+ */
+function tensorField(K: NonNullable<ProblemSpec['diffusionTensor']>, dim: number): (x: number, y: number) => DiffusionTensor {
+  const xx = spatial(K.xx, 'diffusion.xx', dim, (v) => v > 0 && Number.isFinite(v), 'a finite number > 0');
+  const xy = spatial(K.xy, 'diffusion.xy', dim, finite, 'a finite number');
+  const yy = spatial(K.yy, 'diffusion.yy', dim, (v) => v > 0 && Number.isFinite(v), 'a finite number > 0');
+  return (x, y) => {
+    const t = { xx: xx(x, y), xy: xy(x, y), yy: yy(x, y) };
+    if (!(t.xx * t.yy - t.xy * t.xy > 1e-12 * Math.max(t.xx, t.yy) ** 2)) {
+      throw new InvalidArgumentError(
+        `diffusion: the tensor (xx, xy, yy) = (${t.xx}, ${t.xy}, ${t.yy}) at (x, y) = (${x}, ${y}) is not positive definite (it needs xx·yy − xy² > 0)`,
+        { field: 'diffusion.xy', expected: 'xx·yy − xy² > 0', received: `${t.xx}, ${t.xy}, ${t.yy}` },
+      );
+    }
+    return t;
+  };
+}
+
 /** A problem-file boundary part as the core's {@link BoundaryPart}, with every value checked where it is used. */
 /** `start` (the problem's start time) only turns the solver's t into the file's t in messages. */
 function boundaryPart(b: BoundaryPartSpec, field: string, dim: number, start: number): BoundaryPart {
@@ -89,8 +109,11 @@ function boundaryPart(b: BoundaryPartSpec, field: string, dim: number, start: nu
 export function buildProblem(spec: ProblemSpec): BuiltProblem {
   const d = spec.domain;
   const dim = d.shape === 'interval' ? 1 : 2;
+  const K = spec.diffusionTensor;
   const opts: DomainOptions = {
-    kappa: spatial(spec.diffusion, 'diffusion', dim, (v) => v > 0 && Number.isFinite(v), 'a finite number > 0'),
+    ...(K === null
+      ? { kappa: spatial(spec.diffusion, 'diffusion', dim, (v) => v > 0 && Number.isFinite(v), 'a finite number > 0') }
+      : { diffusionTensor: tensorField(K, dim) }),
     reaction: spatial(spec.reaction, 'reaction', dim, (v) => v >= 0 && Number.isFinite(v), 'a finite number ≥ 0'),
   };
   if (spec.insulated) {
@@ -142,8 +165,12 @@ export function buildProblem(spec: ProblemSpec): BuiltProblem {
   // A known solution must solve this problem, or the true errors reported against it mean nothing.
   if (spec.exact) checkExactSolution(spec, spec.exact, domain);
   const spreads: CoefficientSpread[] = [];
-  for (const [field, e, f] of [['diffusion', spec.diffusion, opts.kappa], ['reaction', spec.reaction, opts.reaction]] as const) {
-    const s = e.constant ? null : coefficientSpread(mesh, field, f as (x: number, y: number) => number);
+  const coefficients: [CoefficientSpread['field'], CompiledExpression][] = K === null
+    ? [['diffusion', spec.diffusion]]
+    : [['diffusion.xx', K.xx], ['diffusion.xy', K.xy], ['diffusion.yy', K.yy]];
+  coefficients.push(['reaction', spec.reaction]);
+  for (const [field, e] of coefficients) {
+    const s = e.constant ? null : coefficientSpread(mesh, field, (x, y) => e.fn(0, x, y));
     if (s) spreads.push(s);
   }
   spec.boundary.forEach((b, p) => {

@@ -12,7 +12,7 @@ import type { LeafMesh } from './core';
 /** The largest variation of one coefficient inside an initial element. */
 export interface CoefficientSpread {
   /** The problem-file field: `diffusion`, `reaction` or `boundary[p].transferCoefficient`. */
-  readonly field: 'diffusion' | 'reaction' | `boundary[${number}].transferCoefficient`;
+  readonly field: 'diffusion' | 'diffusion.xx' | 'diffusion.xy' | 'diffusion.yy' | 'reaction' | `boundary[${number}].transferCoefficient`;
   /** max |v(p) − v(centroid)| / max |v| over the element's (edge's) sample points (0 … 2). */
   readonly relative: number;
   /** Centroid of the initial element (midpoint of the initial boundary edge) where it is largest ([x, 0] in 1D). */

@@ -8,8 +8,8 @@
  * before any work it is checked, with exact derivatives (./derivative.ts), at sample points of the
  * initial mesh and times in (0, T], for the problem the library solves — κ and c taken at the
  * centroid of each initial element:
- *   - the heat equation ∂t u − κ Δu + c u = f in every element,
- *   - continuity of the flux κ ∂u/∂n across the edges where κ jumps,
+ *   - the heat equation ∂t u − ∇·(K∇u) + c u = f in every element (K = κI unless `diffusion` is a tensor),
+ *   - continuity of the flux κ ∂u/∂n (n·K∇u with a diffusion tensor) across the edges where κ (K) jumps,
  *   - the initial state u(0, ·) = u0,
  *   - the boundary condition of every initial boundary edge at its midpoint (in 1D at the end
  *     point): the value g (0 on the default part), the flux κ ∂u/∂n = q (0 where insulated) or the
@@ -30,14 +30,16 @@ export interface ExactSolutionSpec {
   /** null in 1D. */
   dy: CompiledExpression | null;
   dyy: CompiledExpression | null;
+  /** ∂x∂y u (2D, for a diffusion tensor's cross term); null in 1D. */
+  dxy: CompiledExpression | null;
 }
 
 /** Compiles the `exact` field (an expression in t, x[, y]) with its derivatives. @internal */
 export function compileExact(source: string, dim: 1 | 2): ExactSolutionSpec {
   const vars = dim === 1 ? (['t', 'x'] as const) : (['t', 'x', 'y'] as const);
-  const wrt = dim === 1 ? [['t'], ['x'], ['x', 'x']] as const : [['t'], ['x'], ['x', 'x'], ['y'], ['y', 'y']] as const;
-  const [value, dt, dx, dxx, dy, dyy] = compileWithDerivatives(source, 'exact', vars, wrt);
-  return { value: value!, dt: dt!, dx: dx!, dxx: dxx!, dy: dy ?? null, dyy: dyy ?? null };
+  const wrt = dim === 1 ? [['t'], ['x'], ['x', 'x']] as const : [['t'], ['x'], ['x', 'x'], ['y'], ['y', 'y'], ['x', 'y']] as const;
+  const [value, dt, dx, dxx, dy, dyy, dxy] = compileWithDerivatives(source, 'exact', vars, wrt);
+  return { value: value!, dt: dt!, dx: dx!, dxx: dxx!, dy: dy ?? null, dyy: dyy ?? null, dxy: dxy ?? null };
 }
 
 /** The known solution as the error norms take it (value and spatial gradient). @internal */
@@ -68,7 +70,10 @@ function mismatch(what: string, t: number, x: number, y: number, dim: number, lh
   );
 }
 
-/** The initial mesh: coordinates, elements, and κ and c per element as the library takes them (at the centroid). */
+/**
+ * The initial mesh: coordinates, elements, and the diffusion tensor (xx, xy, yy; κ, 0, κ when
+ * isotropic) and c per element as the library takes them (at the centroid).
+ */
 interface InitialMesh {
   dim: number;
   coords: Float64Array;
@@ -77,6 +82,7 @@ interface InitialMesh {
   vertexCount: number;
   centroid: Float64Array;
   kappa: Float64Array;
+  tensor: Float64Array;
   reaction: Float64Array;
 }
 
@@ -87,7 +93,9 @@ function initialMesh(spec: ProblemSpec, domain: SpatialDomain): InitialMesh {
   const ne = mesh.elementCount;
   const centroid = new Float64Array(2 * ne);
   const kappa = new Float64Array(ne);
+  const tensor = new Float64Array(3 * ne);
   const reaction = new Float64Array(ne);
+  const K = spec.diffusionTensor;
   for (let e = 0; e < ne; e++) {
     let cx = 0, cy = 0;
     for (let j = 0; j < nv; j++) {
@@ -97,10 +105,17 @@ function initialMesh(spec: ProblemSpec, domain: SpatialDomain): InitialMesh {
     }
     centroid[2 * e] = cx;
     centroid[2 * e + 1] = cy;
-    kappa[e] = spec.diffusion.fn(0, cx, cy);
+    if (K === null) {
+      kappa[e] = spec.diffusion.fn(0, cx, cy);
+      tensor[3 * e] = tensor[3 * e + 2] = kappa[e]!;
+    } else {
+      const xx = K.xx.fn(0, cx, cy), xy = K.xy.fn(0, cx, cy), yy = K.yy.fn(0, cx, cy);
+      tensor.set([xx, xy, yy], 3 * e);
+      kappa[e] = 0.5 * (xx + yy) + Math.hypot(0.5 * (xx - yy), xy); // largest eigenvalue, for scales
+    }
     reaction[e] = spec.reaction.fn(0, cx, cy);
   }
-  return { dim, coords: mesh.coords, elements: mesh.elements, elementCount: ne, vertexCount: mesh.vertexCount, centroid, kappa, reaction };
+  return { dim, coords: mesh.coords, elements: mesh.elements, elementCount: ne, vertexCount: mesh.vertexCount, centroid, kappa, tensor, reaction };
 }
 
 /**
@@ -176,10 +191,18 @@ export function checkExactSolution(spec: ProblemSpec, exact: ExactSolutionSpec, 
   const T = spec.duration; // the solver's clock (the expressions are shifted to it)
   const src = exact.value.source;
   const u = exact.value.fn, ut = exact.dt.fn, ux = exact.dx.fn, uxx = exact.dxx.fn;
-  const uy = exact.dy?.fn, uyy = exact.dyy?.fn;
+  const uy = exact.dy?.fn, uyy = exact.dyy?.fn, uxy = exact.dxy?.fn;
   const f = spec.source.fn, u0 = spec.initial.fn;
   const times = [T * 0.137, T * 0.5, T * 0.911, T];
-  const normalFlux = (t: number, x: number, y: number, nx: number, ny: number): number => ux(t, x, y) * nx + (uy ? uy(t, x, y) * ny : 0);
+  const tn = m.tensor;
+  // the conormal flux n·K∇u with element e's tensor (κ ∂u/∂n when isotropic)
+  const normalFlux = (e: number, t: number, x: number, y: number, nx: number, ny: number): number => {
+    const gx = ux(t, x, y), gy = uy ? uy(t, x, y) : 0;
+    return nx * (tn[3 * e]! * gx + tn[3 * e + 1]! * gy) + ny * (tn[3 * e + 1]! * gx + tn[3 * e + 2]! * gy);
+  };
+  const sameTensor = (a: number, b: number): boolean => tn[3 * a] === tn[3 * b] && tn[3 * a + 1] === tn[3 * b + 1] && tn[3 * a + 2] === tn[3 * b + 2];
+  const fluxName = spec.diffusionTensor === null ? 'κ ∂u/∂n' : 'n·K∇u';
+  const tensorText = (e: number): string => (spec.diffusionTensor === null ? fmt(m.kappa[e]!) : `(xx, xy, yy) = (${fmt(tn[3 * e]!)}, ${fmt(tn[3 * e + 1]!)}, ${fmt(tn[3 * e + 2]!)})`);
   // Sample points per element: its centroid and the points halfway to each vertex (so that a
   // solution right only at a few special points, as on a two-triangle mesh, is still caught).
   const inElement: { x: number; y: number; e: number }[] = [];
@@ -205,19 +228,25 @@ export function checkExactSolution(spec: ProblemSpec, exact: ExactSolutionSpec, 
     for (let j = 0; j <= dim; j++) {
       const v = m.elements[(dim + 1) * e + j]!;
       const x = m.coords[dim * v]!, y = dim === 2 ? m.coords[dim * v + 1]! : 0;
-      if (spec.diffusion.fn(0, x, y) !== m.kappa[e] || spec.reaction.fn(0, x, y) !== m.reaction[e]) varies = true;
+      const K = spec.diffusionTensor;
+      const diffusionVaries = K === null
+        ? spec.diffusion.fn(0, x, y) !== m.kappa[e]
+        : K.xx.fn(0, x, y) !== tn[3 * e] || K.xy.fn(0, x, y) !== tn[3 * e + 1] || K.yy.fn(0, x, y) !== tn[3 * e + 2];
+      if (diffusionVaries || spec.reaction.fn(0, x, y) !== m.reaction[e]) varies = true;
     }
     if (!varies) return '';
-    return ` (diffusion and reaction are taken at initial-element centroids, here κ = ${fmt(m.kappa[e]!)}, c = ${fmt(m.reaction[e]!)}: ` +
+    return ` (diffusion and reaction are taken at initial-element centroids, here ${spec.diffusionTensor === null ? 'κ' : 'K'} = ${tensorText(e)}, c = ${fmt(m.reaction[e]!)}: ` +
       'a known solution must solve the problem with these constants per initial element)';
   };
   for (const { x, y, e } of inElement) {
     const a = u(0, x, y), b = u0(0, x, y);
     if (!(Math.abs(a - b) <= RELATIVE * (Math.abs(a) + Math.abs(b) + uScale))) mismatch(`the initial state (u(${fmt(spec.start)}, ·) = initial)`, spec.start, x, y, dim, a, b, src);
-    const k = m.kappa[e]!, c = m.reaction[e]!;
+    const kxx = tn[3 * e]!, kxy = tn[3 * e + 1]!, kyy = tn[3 * e + 2]!, c = m.reaction[e]!;
     for (const t of times) {
-      // ∂t u − κ Δu + c u = f with κ, c constant on the element; every term kept for the scale
-      const terms = [ut(t, x, y), -k * (uxx(t, x, y) + (uyy ? uyy(t, x, y) : 0)), c * u(t, x, y)];
+      // ∂t u − ∇·(K∇u) + c u = f with K (κI when isotropic) and c constant on the element:
+      // ∇·(K∇u) = Kxx uxx + 2 Kxy uxy + Kyy uyy; every term kept for the scale
+      const div = kxx * uxx(t, x, y) + (uyy ? kyy * uyy(t, x, y) : 0) + (uxy && kxy !== 0 ? 2 * kxy * uxy(t, x, y) : 0);
+      const terms = [ut(t, x, y), -div, c * u(t, x, y)];
       const lhs = terms[0]! + terms[1]! + terms[2]!;
       const rhs = f(t, x, y);
       const scale = terms.reduce((s, v) => s + Math.abs(v), Math.abs(rhs));
@@ -228,36 +257,36 @@ export function checkExactSolution(spec: ProblemSpec, exact: ExactSolutionSpec, 
     if (e2 >= 0) {
       // Interior facet: where κ jumps, the flux κ ∂u/∂n must still be continuous (a weak solution),
       // each side's derivative taken just inside its element.
-      if (m.kappa[e1] === m.kappa[e2]) continue;
+      if (sameTensor(e1, e2)) continue;
       for (const t of times) {
         const side = (e: number): number => {
           const px = mx + 1e-9 * (m.centroid[2 * e]! - mx), py = my + 1e-9 * (m.centroid[2 * e + 1]! - my);
-          return m.kappa[e]! * normalFlux(t, px, py, nx, ny);
+          return normalFlux(e, t, px, py, nx, ny);
         };
         const q1 = side(e1), q2 = side(e2);
         if (!(Math.abs(q1 - q2) <= RELATIVE * (Math.abs(q1) + Math.abs(q2) + fluxScale))) {
-          mismatch(`continuity of the flux κ ∂u/∂n across the interface where the diffusion jumps from ${fmt(m.kappa[e1]!)} to ${fmt(m.kappa[e2]!)}`, t + spec.start, mx, my, dim, q1, q2, src);
+          mismatch(`continuity of the flux ${fluxName} across the interface where the diffusion jumps from ${tensorText(e1)} to ${tensorText(e2)}`, t + spec.start, mx, my, dim, q1, q2, src);
         }
       }
       continue;
     }
     const { part, index, insulated } = conditionAt(spec, mx, my);
-    const name = part === null ? (insulated ? 'the insulated boundary (κ ∂u/∂n = 0)' : 'the default boundary value 0') : `boundary[${index}] (${part.kind})`;
+    const name = part === null ? (insulated ? `the insulated boundary (${fluxName} = 0)` : 'the default boundary value 0') : `boundary[${index}] (${part.kind})`;
     for (const t of times) {
       const value = u(t, mx, my);
-      const flux = m.kappa[e1]! * normalFlux(t, mx, my, nx, ny);
+      const flux = normalFlux(e1, t, mx, my, nx, ny);
       if (part === null && !insulated) {
         if (!(Math.abs(value) <= RELATIVE * uScale)) mismatch(name, t + spec.start, mx, my, dim, value, 0, src);
       } else if (part === null || part.kind === 'flux') {
         const q = part === null ? 0 : part.data.fn(t, mx, my);
-        if (!(Math.abs(flux - q) <= RELATIVE * (Math.abs(flux) + Math.abs(q) + fluxScale))) mismatch(`${name}, κ ∂u/∂n`, t + spec.start, mx, my, dim, flux, q, src);
+        if (!(Math.abs(flux - q) <= RELATIVE * (Math.abs(flux) + Math.abs(q) + fluxScale))) mismatch(`${name}, ${fluxName}`, t + spec.start, mx, my, dim, flux, q, src);
       } else if (part.kind === 'value') {
         const g = part.data.fn(t, mx, my);
         if (!(Math.abs(value - g) <= RELATIVE * (Math.abs(value) + Math.abs(g) + uScale))) mismatch(name, t + spec.start, mx, my, dim, value, g, src);
       } else {
         const h = part.transferCoefficient!.fn(0, mx, my);
         const want = h * (part.data.fn(t, mx, my) - value);
-        if (!(Math.abs(flux - want) <= RELATIVE * (Math.abs(flux) + Math.abs(want) + fluxScale))) mismatch(`${name}, κ ∂u/∂n = h (ambient − u)`, t + spec.start, mx, my, dim, flux, want, src);
+        if (!(Math.abs(flux - want) <= RELATIVE * (Math.abs(flux) + Math.abs(want) + fluxScale))) mismatch(`${name}, ${fluxName} = h (ambient − u)`, t + spec.start, mx, my, dim, flux, want, src);
       }
     }
   }

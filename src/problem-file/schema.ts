@@ -53,7 +53,10 @@ export interface ProblemSpec {
   horizon: number;
   /** horizon − start: the length of the solver's clock (its T). */
   duration: number;
+  /** κ(x, y); the default "1" when `diffusionTensor` is given (the file's `diffusion` is then an object). */
   diffusion: CompiledExpression;
+  /** The entries of an anisotropic diffusion tensor (`"diffusion": {"xx": …, "xy": …, "yy": …}`, 2D), else null. */
+  diffusionTensor: { xx: CompiledExpression; xy: CompiledExpression; yy: CompiledExpression } | null;
   reaction: CompiledExpression;
   source: CompiledExpression;
   /** u0(x, y): the expression, or for a state (`"initial": {"state": …}`) its interpolation. */
@@ -115,10 +118,25 @@ function pair(v: unknown, field: string): [number, number] {
   return [num(v[0], `${field}[0]`, '(finite)', () => true), num(v[1], `${field}[1]`, '(finite)', () => true)];
 }
 
-function expression(obj: Record<string, unknown>, field: string, fallback: string, vars: ('t' | 'x' | 'y')[]): CompiledExpression {
-  const v = obj[field] ?? fallback;
+function expression(obj: Record<string, unknown>, key: string, fallback: string, vars: ('t' | 'x' | 'y')[], field = key): CompiledExpression {
+  const v = obj[key] ?? fallback;
   if (typeof v !== 'string' && typeof v !== 'number') bad(field, `must be an expression string such as "1 + x*y" or a number, found ${typeName(v)}`, v);
   return compileExpression(String(v), field, vars);
+}
+
+/** `diffusion`: an expression (isotropic κ) or, in 2D, an object {"xx", "xy", "yy"} of expressions (a tensor). */
+function diffusionFields(o: Record<string, unknown>, dim: 1 | 2, space: ('x' | 'y')[]): Pick<ProblemSpec, 'diffusion' | 'diffusionTensor'> {
+  const v = o.diffusion;
+  if (v === null || typeof v !== 'object') return { diffusion: expression(o, 'diffusion', PROBLEM_DEFAULTS.diffusion, space), diffusionTensor: null };
+  if (dim !== 2) bad('diffusion', 'may be a tensor {"xx", "xy", "yy"} only on a 2D domain; on an interval give one expression', v);
+  if (Array.isArray(v)) bad('diffusion', 'must be an expression or an object {"xx": …, "xy": …, "yy": …} (a diffusion tensor), found a list', v);
+  const t = v as Record<string, unknown>;
+  checkKeys(t, ['xx', 'xy', 'yy'], 'diffusion');
+  for (const k of ['xx', 'yy'] as const) if (t[k] === undefined) bad(`diffusion.${k}`, 'is required for a diffusion tensor (xy defaults to 0)', undefined);
+  return {
+    diffusion: compileExpression(PROBLEM_DEFAULTS.diffusion, 'diffusion', space),
+    diffusionTensor: { xx: expression(t, 'xx', '1', space, 'diffusion.xx'), xy: expression(t, 'xy', '0', space, 'diffusion.xy'), yy: expression(t, 'yy', '1', space, 'diffusion.yy') },
+  };
 }
 
 function parseBoundaryPart(v: unknown, field: string, space: ('x' | 'y')[]): BoundaryPartSpec {
@@ -249,7 +267,7 @@ export function parseProblem(json: unknown, opts: ParseProblemOptions = {}): Pro
     start,
     horizon,
     duration: horizon - start,
-    diffusion: expression(o, 'diffusion', PROBLEM_DEFAULTS.diffusion, space),
+    ...diffusionFields(o, dim, space),
     reaction: expression(o, 'reaction', PROBLEM_DEFAULTS.reaction, space),
     source: expression(o, 'source', PROBLEM_DEFAULTS.source, ['t', ...space]),
     ...initialState(o, space, opts),
@@ -286,6 +304,7 @@ function shiftedToStart(spec: ProblemSpec): ProblemSpec {
     exact: x === null ? null : {
       value: shifted(x.value, s), dt: shifted(x.dt, s), dx: shifted(x.dx, s), dxx: shifted(x.dxx, s),
       dy: x.dy === null ? null : shifted(x.dy, s), dyy: x.dyy === null ? null : shifted(x.dyy, s),
+      dxy: x.dxy === null ? null : shifted(x.dxy, s),
     },
   };
 }
