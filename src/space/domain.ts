@@ -5,6 +5,7 @@
  * refinement strategies (./refinement.ts), leaf-mesh extraction (./leaf-mesh-extraction.ts) and
  * point location (./point-location.ts); they share the scratch of one VertexClosure.
  */
+import { anisotropyRatio } from './diffusion-tensor';
 import { InvalidArgumentError, describeValue } from '../errors';
 import { BisectionForest } from './forest';
 import type { InitialMesh } from './initial-mesh';
@@ -59,6 +60,15 @@ export class SpatialDomain {
   get anisotropic(): boolean {
     return this.forest.kappaTensor !== null;
   }
+
+  /**
+   * Largest ratio of the eigenvalues of the diffusion tensors (1 for a scalar κ). The spatial inner
+   * solvers use more V-cycles as it grows (docs/method.md §4.4).
+   */
+  get anisotropyRatio(): number {
+    return (this.anisotropy ??= anisotropyRatio(this.forest.kappaTensor));
+  }
+  private anisotropy: number | undefined;
 
   /** Vertices created so far (grows as the forest is refined). */
   get vertexCount(): number {

@@ -4,6 +4,7 @@
  * spatial module or, for small problems and tests, an exact dense Cholesky
  * solve (ml-matrix) of the hierarchical matrix.
  */
+import { cyclesForAnisotropy } from '../space/diffusion-tensor';
 import { CholeskyDecomposition, Matrix } from 'ml-matrix';
 import { InvalidArgumentError } from '../errors';
 import type { SpatialDomain } from '../space/index';
@@ -15,7 +16,11 @@ import type { FibrePool } from '../spacetime/fibre-pool';
 import type { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import { EpochMap } from '../spacetime/epoch-map';
 
-/** How the spatial inverses inside K_Y and K_X are realised. */
+/**
+ * How the spatial inverses inside K_Y and K_X are realised: V-cycles (`cycles` per application;
+ * default 1, more for anisotropic diffusion, see {@link SpatialDomain.anisotropyRatio}) or exact
+ * dense solves (small problems and tests only).
+ */
 export type InnerSolver =
   | { kind: 'multigrid'; cycles?: number }
   | { kind: 'exact' };
@@ -156,7 +161,9 @@ export class FibreInverseCache {
     }
     const fibre = this.pool.get(fibreId);
     const mesh = this.domain.leafMesh(fibre);
-    const mg = new MultilevelPreconditioner(mesh, { cycles: this.solver.cycles ?? 1 }).useScratch(this.scratch);
+    // one V-cycle unless the diffusion is anisotropic (cyclesForAnisotropy, docs/method.md §4.4)
+    const cycles = this.solver.cycles ?? cyclesForAnisotropy(this.domain.anisotropyRatio);
+    const mg = new MultilevelPreconditioner(mesh, { cycles }).useScratch(this.scratch);
     return new MultigridFibreInverse(this.domain, mesh, fibre, mg, this.scratch);
   }
 
