@@ -71,5 +71,5 @@ describe('TSDoc and README examples', () => {
       expect(actual, `${name} line ${line} never printed`).toBeDefined();
       expect(outputMatches(actual!, expected), `${name} line ${line}: printed "${actual}", the example states "${expected}"`).toBe(true);
     }
-  });
+  }, 30_000); // a few examples run a small adaptive solve (the README's laminate: about 2.5 s alone)
 });
