@@ -143,13 +143,13 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     log(JSON.stringify({ steps: run.steps, probes: run.probes, rate: run.rate, stopReason: run.stopReason, tolerance, toleranceReached, forecast, heldDataError: held, exactErrors: run.exactErrors, sensors: run.sensors }));
   } else {
     log(`${built.spec.title ?? file}: ${run.steps.length} steps (${built.spec.strategy}), stopped by ${run.stopReason}`);
-    log(`last step: ${last.dofs} unknowns, estimator ${last.estimate.toExponential(3)}; observed rate ${rateText(run.rate)}`);
+    log(`last step: ${last.dofs} unknowns, estimator ${last.estimate.toExponential(3)}; observed rate ${rateText(run.rate, 'E')}`);
     if (held > 0) log(`held-value data error (not in the estimator, not reduced by refinement): about ${held.toExponential(2)}`);
     const ex = run.exactErrors;
     if (ex) {
       log(`true error against the file's exact solution: ${ex.gradientL2.toExponential(3)} in L2(0,T;H1), ${ex.valueL2.toExponential(3)} in L2(0,T;L2); ` +
         `${ex.ratioToEstimate.toFixed(2)} × the estimator (${ex.ratioRange[0].toFixed(2)}–${ex.ratioRange[1].toFixed(2)} over the steps); ` +
-        `observed rate of the true error ${rateText(ex.rate)}`);
+        `observed rate of the true error ${rateText(ex.rate, 'the true error')}`);
     }
     for (const p of run.probes) log(`u(t = ${p.t}, x = ${p.x}${p.y === null ? '' : `, y = ${p.y}`}) = ${p.value.toPrecision(6)}`);
     if (run.sensors !== null) {
@@ -201,7 +201,11 @@ function roundedDuration(s: number): string {
   return `${roundedCount(s / 86400)} days`;
 }
 
-/** An observed rate for the summary; none when the run's second half did not grow N twofold (src/adapt/forecast.ts). */
-function rateText(rate: number | null): string {
-  return rate === null ? 'n/a (N grew less than twofold over the second half of the steps)' : rate.toFixed(2);
+/**
+ * An observed rate for the summary; none when the run's second half did not grow N twofold
+ * (src/adapt/forecast.ts), and a negative one said to be a rise of `what`, not a rate. @internal
+ */
+export function rateText(rate: number | null, what: string): string {
+  if (rate === null) return 'n/a (N grew less than twofold over the second half of the steps)';
+  return rate < 0 ? `${rate.toFixed(2)} (${what} rose over the second half of the steps)` : rate.toFixed(2);
 }

@@ -4,6 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { ROOT, runCli } from './spawn';
+import { rateText } from '../../src/cli/solve-command';
 
 const dir = mkdtempSync(join(tmpdir(), 'chronomesh-solve-'));
 
@@ -159,6 +160,14 @@ describe('chronomesh solve with a tolerance', () => {
     expect(r.stderr).not.toMatch(/forecast|raise maxDofs/);
     // its last steps hardly grow (151 → 153 unknowns): no slope is read off them (a "rate" of 10 was)
     expect(r.stdout).toMatch(/observed rate n\/a \(N grew less than twofold over the second half of the steps\)/);
+  });
+
+  it('a negative observed rate is said to be a rise, not printed as a rate', () => {
+    // a 13-step run stopped at 45 unknowns while E rose printed "observed rate -0.21"
+    expect(rateText(-0.2134, 'E')).toBe('-0.21 (E rose over the second half of the steps)');
+    expect(rateText(-0.05, 'the true error')).toBe('-0.05 (the true error rose over the second half of the steps)');
+    expect(rateText(0.353, 'E')).toBe('0.35');
+    expect(rateText(null, 'E')).toMatch(/^n\/a/);
   });
 
   it('a run too short for a rate says so instead of extrapolating', async () => {
