@@ -8,7 +8,8 @@ import { outputCases } from './output';
 import { solutionFileCases } from './solution-file';
 import { estimationCases } from './estimation';
 import { exprCases } from './expr';
+import { anisotropyCases } from './anisotropy';
 
 export type Suite = (quick: boolean) => BenchCase[];
 
-export const suites: Suite[] = [timeCases, spaceCases, spaceMultigridCases, spacetimeCases, outputCases, solutionFileCases, estimationCases, exprCases];
+export const suites: Suite[] = [timeCases, spaceCases, spaceMultigridCases, spacetimeCases, outputCases, solutionFileCases, estimationCases, exprCases, anisotropyCases];
