@@ -1,4 +1,5 @@
 /** `chronomesh solve PROBLEM.json [--json] [--out DIR] [--checkpoint FILE] [--resume FILE] [--quiet] [--debug]`. */
+import { cyclesForAnisotropy } from '../space/diffusion-tensor';
 import { readFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { buildProblem, parseProblem, runProblem, type RunResult } from '../problem-file/index';
@@ -76,6 +77,15 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
         `it is taken constant per initial ${edge ? 'boundary edge (at its midpoint)' : 'element (at the centroid)'}, a change of the problem that refinement does not undo and the estimator does not see: ` +
         'give the initial mesh more cells where it varies',
     );
+  }
+  if (built.domain.anisotropic) {
+    // The inner V-cycles lose efficiency with the eigenvalue ratio r of K; more cycles make up for it
+    // up to r ≈ 100 (docs/method.md §4.4).
+    const r = built.domain.anisotropyRatio;
+    const note = `diffusion tensor with eigenvalue ratio up to ${Number(r.toPrecision(3))}: the spatial inner solvers run ${cyclesForAnisotropy(r)} V-cycles per application`;
+    progress(r > 100
+      ? `warning: ${note}, and beyond a ratio of about 100 PCG iterations grow with it; initial elements stretched along the strong direction by about √r help (docs/method.md §4.4)`
+      : `${note} (docs/method.md §4.4)`);
   }
   if (opts.out !== undefined) checkWritable(opts.out);
   if ((opts.checkpoint !== undefined || opts.resume !== undefined) && built.spec.strategy !== 'adaptive') {

@@ -57,3 +57,30 @@ describe('coefficients that vary inside initial elements', () => {
     expect(progress.filter((l) => /^warning: boundary\[0\]\.transferCoefficient varies by up to 21 % along the initial boundary edge with midpoint \(0\.5, 0\); it is taken constant per initial boundary edge/.test(l))).toHaveLength(1);
   });
 });
+
+describe('a diffusion tensor in a problem file, from the command line', () => {
+  const run = (diffusion: object): string[] => {
+    const file = join(mkdtempSync(join(tmpdir(), 'chronomesh-tensor-')), 'p.json');
+    writeFileSync(file, JSON.stringify({ domain: { shape: 'rectangle', from: [0, 0], to: [1, 1], cells: [2, 2] }, horizon: 0.1, initial: '1', diffusion, maxDofs: 150 }));
+    const progress: string[] = [];
+    solveFile(file, { log: () => {}, progress: (l) => progress.push(l) });
+    return progress;
+  };
+
+  it('says how many V-cycles the eigenvalue ratio takes (ratio 10: 4 cycles; docs/method.md §4.4)', () => {
+    const p = run({ xx: 1, xy: 0, yy: 0.1 });
+    expect(p).toContain('diffusion tensor with eigenvalue ratio up to 10: the spatial inner solvers run 4 V-cycles per application (docs/method.md §4.4)');
+    // each entry is constant: no spread warning
+    expect(p.filter((l) => /varies by up to/.test(l))).toEqual([]);
+  });
+
+  it('warns beyond a ratio of 100 and names the remedy', () => {
+    const p = run({ xx: 1, xy: 0, yy: 0.004 });
+    expect(p.filter((l) => /^warning: diffusion tensor with eigenvalue ratio up to 250: .* 16 V-cycles .* stretched along the strong direction/.test(l))).toHaveLength(1);
+  }, 60_000);
+
+  it('warns per entry that varies inside an initial element', () => {
+    const p = run({ xx: '1 + x', xy: 0, yy: 1 });
+    expect(p.filter((l) => /^warning: diffusion\.xx varies by up to \d+ % inside the initial element/.test(l))).toHaveLength(1);
+  });
+});
