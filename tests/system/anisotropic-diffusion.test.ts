@@ -184,6 +184,51 @@ describe('anisotropic diffusion against outside references', () => {
   });
 });
 
+describe('anisotropic diffusion on the coarsest meshes a user may bring', () => {
+  // The two-triangle squares (either diagonal) and a three-triangle fan with no interior vertex,
+  // the meshes on which an estimator once went blind (tests/adapt/coarse-meshes.test.ts).
+  const meshes: [string, number[], number[]][] = [
+    ['two triangles (diagonal 0–2)', [0, 0, 1, 0, 1, 1, 0, 1], [0, 1, 2, 0, 2, 3]],
+    ['two triangles (diagonal 1–3)', [0, 0, 1, 0, 1, 1, 0, 1], [0, 1, 3, 1, 2, 3]],
+    ['three-triangle fan', [0, 0, 1, 0, 1, 0.5, 1, 1, 0, 1], [0, 1, 2, 0, 2, 3, 0, 3, 4]],
+  ];
+  /** err/E every third step and the true errors, along a run to 2 500 unknowns. */
+  const track = (problem: HeatProblem, exact: KnownSolution): { ratios: number[]; errors: number[] } => {
+    const ratios: number[] = [], errors: number[] = [];
+    solveAdaptive(problem, {
+      maxUnknowns: 2500,
+      onStep: (step, solution) => {
+        if (step.step % 3 !== 0) return;
+        const e = spaceTimeErrors(solution, exact).gradientL2;
+        errors.push(e);
+        ratios.push(e / step.estimate);
+      },
+    });
+    return { ratios, errors };
+  };
+  const expectHonest = ({ ratios, errors }: { ratios: number[]; errors: number[] }, name: string): void => {
+    if (process.env.CHRONOMESH_VERBOSE) console.log(name, errors.map((e) => e.toFixed(3)).join(' '), ratios.map((q) => q.toFixed(2)).join(' '));
+    expect(ratios.length).toBeGreaterThan(3);
+    expect(Math.max(...ratios) / Math.min(...ratios)).toBeLessThanOrEqual(3);
+    expect(Math.min(...ratios)).toBeGreaterThan(0.5);
+    expect(errors.at(-1)!).toBeLessThan(0.7 * errors[0]!);
+  };
+
+  // measured err/E: 1.04–2.14 (both two-triangle meshes) and 1.20–1.50 (fan); errors 0.43 → 0.22
+  it.each(meshes)('%s, orthotropic K = diag(5, 0.5), u0 ≡ 1: err/E in a band of width ≤ 3', (name, P, T) => {
+    const domain = triangulatedDomain(P, T, { diffusionTensor: { xx: 5, xy: 0, yy: 0.5 } });
+    expectHonest(track(new HeatProblem({ domain, T: 0.5, initial: () => 1 }), orthotropicExact(5, 0.5)), name);
+  }, 60_000);
+
+  // measured err/E: 1.08–1.79 (two triangles) and 1.20–1.45 (fan); errors 0.54–0.59 → 0.05
+  it.each(meshes)('%s, rotated K (eigenvalues 3 and 0.3 at 30°), smooth solution: err/E in a band of width ≤ 3', (name, P, T) => {
+    const K = rotated(3, 0.3, PI / 6);
+    const m = manufactured(K);
+    const domain = triangulatedDomain(P, T, { diffusionTensor: K });
+    expectHonest(track(new HeatProblem({ domain, T: 0.5, initial: m.initial, source: m.source }), m.exact), name);
+  }, 60_000);
+});
+
 describe('inner V-cycles for anisotropic diffusion (docs/method.md §4.4)', () => {
   it('anisotropyRatio is the largest eigenvalue ratio (against ml-matrix eigenvalues)', () => {
     const tensors = [rotated(2, 0.1, 0.3), { xx: 3, xy: -1, yy: 2 }, { xx: 1, xy: 0, yy: 1 }];
