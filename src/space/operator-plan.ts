@@ -108,12 +108,14 @@ export class SpatialOperatorPlan {
   private readonly r: Float64Array;
   private readonly r2: Float64Array;
 
+  constructor(domain: SpatialDomain, inSet: Int32Array, outSet: Int32Array);
   /**
-   * @param shared (internal) the leaf mesh and element tables of a closed superset of both sets,
-   *   built once for several plans (one-shot passes group their plans by fibre union); the plan then
-   *   works on that mesh, which is exact because hierarchical M and A do not depend on the mesh
-   *   they are assembled on as long as it resolves every basis function involved.
+   * @param shared the leaf mesh and element tables of a closed superset of both sets, built once for
+   *   several plans (one-shot passes group their plans by fibre union); the plan then works on that
+   *   mesh, which is exact because hierarchical M and A do not depend on the mesh they are assembled
+   *   on as long as it resolves every basis function involved. @internal
    */
+  constructor(domain: SpatialDomain, inSet: Int32Array, outSet: Int32Array, shared: SharedLeafMesh);
   constructor(domain: SpatialDomain, inSet: Int32Array, outSet: Int32Array, shared?: SharedLeafMesh) {
     checkInstance(domain, SpatialDomain, 'domain', 'a SpatialDomain');
     this.domain = domain;
