@@ -407,7 +407,7 @@ export function readSolutionFile(bytes: Uint8Array, opts: DecodeSolutionOptions 
     const own = domainSections(domain).info;
     if (own.hash !== dInfo.hash) {
       throw new InvalidArgumentError(
-        `opts.domain is not the saved domain: its description hash is ${own.hash}, the file's ${String(dInfo.hash)} (initial mesh, κ, c and boundary must be the same)`,
+        `opts.domain is not the saved domain: its description hash is ${own.hash}, the file's ${String(dInfo.hash)} (initial mesh, κ or diffusion tensor, c and boundary must be the same)`,
         { field: 'opts.domain', expected: `domain hash ${String(dInfo.hash)}`, received: own.hash },
       );
     }

@@ -29,9 +29,14 @@ describe('checkpoints', () => {
     expect(Array.from(last.coefficients)).toEqual(Array.from(run.solution.coefficients));
   });
 
+  // an anisotropic plate: its tensor goes through the checkpoint's domain sections and fingerprint
+  const laminate = () => new HeatProblem({
+    domain: rectangleDomain(0, 1, 0, 1, 2, 2, { diffusionTensor: { xx: 2, xy: 0.6, yy: 0.5 } }), T: 0.3, initial: () => 1,
+  });
   it.each([
     ['1D', rod, 10, 4],
     ['2D', plate, 9, 3],
+    ['2D, diffusion tensor', laminate, 8, 3],
   ] as const)('%s: resuming from step k continues to the uninterrupted answer', (_name, make, steps, k) => {
     const saved: Uint8Array[] = [];
     const full = solveAdaptive(make(), { maxSteps: steps, checkpoint: (b) => { saved.push(b); } });
@@ -47,6 +52,15 @@ describe('checkpoints', () => {
       expect(Math.abs(h.estimate - full.history[i]!.estimate)).toBeLessThanOrEqual(1e-10 * full.history[i]!.estimate);
     });
     expect(resumed.stopReason).toBe('steps');
+  });
+
+  it('a checkpoint of an anisotropic run is refused for the same mesh with another tensor', () => {
+    const saved: Uint8Array[] = [];
+    solveAdaptive(laminate(), { maxSteps: 3, checkpoint: (b) => { saved.push(b); } });
+    const other = new HeatProblem({ domain: rectangleDomain(0, 1, 0, 1, 2, 2, { diffusionTensor: { xx: 2, xy: -0.6, yy: 0.5 } }), T: 0.3, initial: () => 1 });
+    expect(() => solveAdaptive(other, { resume: saved[1]! })).toThrow(/not the saved domain.*diffusion tensor/);
+    const isotropic = new HeatProblem({ domain: rectangleDomain(0, 1, 0, 1, 2, 2, { kappa: 2 }), T: 0.3, initial: () => 1 });
+    expect(() => solveAdaptive(isotropic, { resume: saved[1]! })).toThrow(/not the saved domain/);
   });
 
   it('a finished run continues with a larger maxSteps, and the async driver resumes too', async () => {
