@@ -205,6 +205,11 @@ describe('a diffusion tensor in a problem file', () => {
     expect(Math.abs(run.solution.evaluate(0.25, [0.3, 0.6])[0]! - Math.exp(-0.25) * Math.sin(0.3 * PI) * Math.sin(0.6 * PI))).toBeLessThan(0.02);
   }, 60_000);
 
+  it('is checked at absolute times when the run starts later (the cross derivative is shifted too)', () => {
+    // u = e^{−t} sin πx sin πy in absolute time t ∈ [0.2, 0.7]; every expression in t is shifted
+    expect(() => buildProblem(parseProblem({ ...tensorFile, start: 0.2, horizon: 0.7, initial: 'exp(-0.2)*sin(pi*x)*sin(pi*y)' }))).not.toThrow();
+  });
+
   it('is refused with a source that misses the cross term, naming the equation and the point', () => {
     const wrong = { ...tensorFile, source: 'exp(-t)*(3*pi^2 - 1)*sin(pi*x)*sin(pi*y)' };
     expect(checkError(wrong).message).toMatch(/does not satisfy the heat equation .* at t = [\d.]+, x = [\d.]+, y = [\d.]+/);
