@@ -103,8 +103,8 @@ describe('anisotropic diffusion against outside references', () => {
       energy.push(spaceTimeErrors(solution, m.exact).gradientL2);
     }
     if (process.env.CHRONOMESH_VERBOSE) console.log(point, energy);
-    // Two levels halve h: point errors fall like h² or better (measured 1.4e-3 → 8.7e-5; level 8
-    // gives 5.5e-6), gradient errors by a factor ≈ 4 (measured 0.064 → 0.016). A wrong cross term
+    // Two levels quarter h: point errors fall like h² (measured 1.4e-3 → 8.7e-5; level 8
+    // gives 5.5e-6), gradient errors like h (measured 0.064 → 0.016). A wrong cross term
     // stops the point errors near 10⁻² (checked by flipping the sign of Kxy in the source).
     expect(point[1]!).toBeLessThan(point[0]! / 8);
     expect(point[1]!).toBeLessThan(2e-4);
