@@ -41,8 +41,9 @@ export function anisotropyRatio(entries: Float64Array | null): number {
  * needs about r times more iterations; with exact inner solves the count does not depend on r
  * (docs/method.md §4.4). Measured on the unit square, sparse grid of level 5, u0 ≡ 1 (PCG
  * iterations to 10⁻⁸ for 1 / 2 / 4 / 8 cycles): r = 3: 56 / 29 / 22 / 21; r = 10: 207 / 86 / 41 / 24;
- * r = 30: 771 / 307 / 129 / 58; r = 100: 2555 / 1100 / 475 / 203; the time per solve is least near
- * r/2.5 cycles. One cycle for isotropic domains (r < 1.5), at most 16.
+ * r = 30: 771 / 307 / 129 / 58; r = 100: 2555 / 1100 / 475 / 203; the time per solve was least at
+ * 2–4 cycles for r = 3, 4 for r = 10, 8 (of those tried) for r = 30 and 100. Hence r/2.5 cycles;
+ * one for isotropic domains (r < 1.5), at most 16 (the bench's `aniso.` rows give the cost).
  */
 export function cyclesForAnisotropy(r: number): number {
   return r < 1.5 ? 1 : Math.min(16, Math.max(2, Math.round(r / 2.5)));
