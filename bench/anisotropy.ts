@@ -1,6 +1,7 @@
 /**
  * Cost of anisotropic diffusion (`aniso.` rows; docs/method.md §4.4). K = diag(1, 1/r) on the unit
- * square (2 × 2 cells), with the default number of V-cycles for the eigenvalue ratio r:
+ * square (2 × 2 cells), with the default number of V-cycles for it (from the mapped anisotropy,
+ * about 3r on these meshes):
  *
  * - `aniso.vcycle.r<r>`: one application of the spatial inner solver (the cycles the library uses
  *   for r) on a uniform mesh, per vertex; compare with `aniso.vcycle.r1` (one cycle, isotropic).
@@ -23,7 +24,7 @@ function domain(r: number) {
 function vcycle(r: number, size: number): BenchInstance {
   const dom = domain(r);
   const mesh = dom.leafMesh(dom.uniformSet(Math.max(1, Math.round(Math.log2(size / 4) / 2))));
-  const cycles = cyclesForAnisotropy(dom.anisotropyRatio);
+  const cycles = cyclesForAnisotropy(dom.mappedAnisotropy);
   const pre = new MultilevelPreconditioner(mesh, { cycles });
   const x = randomVector(mesh.vertexCount);
   const z = new Float64Array(mesh.vertexCount);
@@ -39,7 +40,7 @@ function solve(r: number, level: number): BenchInstance {
     iterations = new SpaceTimeSystem(problem, set).solve({ relTol: 1e-8, maxIterations: 2000 }).pcg.iterations;
   };
   run();
-  return { units: set.size, run, extra: { pcgIterations: iterations, cycles: cyclesForAnisotropy(dom.anisotropyRatio) } };
+  return { units: set.size, run, extra: { pcgIterations: iterations, cycles: cyclesForAnisotropy(dom.mappedAnisotropy) } };
 }
 
 export function anisotropyCases(quick: boolean): BenchCase[] {

@@ -79,12 +79,15 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     );
   }
   if (built.domain.anisotropic) {
-    // The inner V-cycles lose efficiency with the eigenvalue ratio r of K; more cycles make up for it
-    // up to r ≈ 100 (docs/method.md §4.4).
+    // The inner V-cycles lose efficiency as the elements mapped by K^{-1/2} flatten; more cycles make
+    // up for it until they reach 16 (docs/method.md §4.4).
     const r = built.domain.anisotropyRatio;
-    const note = `diffusion tensor with eigenvalue ratio up to ${Number(r.toPrecision(3))}: the spatial inner solvers run ${cyclesForAnisotropy(r)} V-cycles per application`;
-    progress(r > 100
-      ? `warning: ${note}, and beyond a ratio of about 100 PCG iterations grow with it; initial elements stretched along the strong direction by about √r help (docs/method.md §4.4)`
+    const A = built.domain.mappedAnisotropy;
+    const cycles = cyclesForAnisotropy(A);
+    const note = `diffusion tensor with eigenvalue ratio up to ${Number(r.toPrecision(3))}; mapped by K^(-1/2) the elements have anisotropy up to ` +
+      `${Number(A.toPrecision(3))}, so the spatial inner solvers run ${cycles} V-cycle${cycles === 1 ? '' : 's'} per application`;
+    progress(A > 8 * 16
+      ? `warning: ${note}, the most they run: PCG iterations grow beyond it; initial elements stretched along the strong direction by about √${Number(r.toPrecision(3))} help (docs/method.md §4.4)`
       : `${note} (docs/method.md §4.4)`);
   }
   if (opts.out !== undefined) checkWritable(opts.out);

@@ -35,18 +35,45 @@ export function anisotropyRatio(entries: Float64Array | null): number {
 }
 
 /**
- * V-cycles per application of the spatial inner solvers for an anisotropy ratio r. A V-cycle with
- * point Gauss–Seidel smoothing contracts like 1 − c/r on anisotropic stiffness (it is the isotropic
- * cycle on elements stretched by √r; common practice), and PCG on the space-time system then
- * needs about r times more iterations; with exact inner solves the count does not depend on r
- * (docs/method.md §4.4). Measured on the unit square, sparse grid of level 5, u0 ≡ 1 (PCG
- * iterations to 10⁻⁸ for 1 / 2 / 4 / 8 cycles): r = 3: 56 / 29 / 22 / 21; r = 10: 207 / 86 / 41 / 24;
- * r = 30: 771 / 307 / 129 / 58; r = 100: 2555 / 1100 / 475 / 203; the time per solve was least at
- * 2–4 cycles for r = 3, 4 for r = 10, 8 (of those tried) for r = 30 and 100. Hence r/2.5 cycles;
- * one for isotropic domains (r < 1.5), at most 16 (the bench's `aniso.` rows give the cost).
+ * Anisotropy of the triangle (0, 0), (x1, y1), (x2, y2) as a V-cycle sees it under the tensor
+ * (xx, xy, yy): the stiffness with K on a triangle T is the isotropic stiffness on the mapped
+ * triangle K^{−1/2}T, so what matters is the shape of the mapped triangle. Its *metric* M′ — the
+ * symmetric matrix in which all three edges have length 1, so that M′ = I for an equilateral
+ * triangle — is K^{1/2} M K^{1/2} with M the metric of T, and the anisotropy returned is the
+ * condition number of M′, i.e. the ratio of the eigenvalues of M K (common practice in anisotropic
+ * mesh adaptation). An equilateral mapped triangle gives 1, a right isosceles one 3.
  */
-export function cyclesForAnisotropy(r: number): number {
-  return r < 1.5 ? 1 : Math.min(16, Math.max(2, Math.round(r / 2.5)));
+export function mappedAnisotropy(x1: number, y1: number, x2: number, y2: number, xx: number, xy: number, yy: number): number {
+  // M from eᵀ M e = 1 for the edges e = p1, p2 − p1, −p2: m11 ex² + 2 m12 ex ey + m22 ey² = 1 (Cramer)
+  const ex = [x1, x2 - x1, -x2], ey = [y1, y2 - y1, -y2];
+  const row = (k: number): [number, number, number] => [ex[k]! * ex[k]!, 2 * ex[k]! * ey[k]!, ey[k]! * ey[k]!];
+  const A = [row(0), row(1), row(2)];
+  const det3 = (m: number[][]): number =>
+    m[0]![0]! * (m[1]![1]! * m[2]![2]! - m[1]![2]! * m[2]![1]!) - m[0]![1]! * (m[1]![0]! * m[2]![2]! - m[1]![2]! * m[2]![0]!) + m[0]![2]! * (m[1]![0]! * m[2]![1]! - m[1]![1]! * m[2]![0]!);
+  const D = det3(A);
+  const [m11, m12, m22] = [0, 1, 2].map((k) => det3(A.map((r) => r.map((v, j) => (j === k ? 1 : v)))) / D) as [number, number, number];
+  // eigenvalues of M K (similar to the SPD K^{1/2} M K^{1/2}) from its trace and determinant
+  const tr = m11 * xx + 2 * m12 * xy + m22 * yy;
+  const det = (m11 * m22 - m12 * m12) * (xx * yy - xy * xy);
+  const disc = Math.sqrt(Math.max(0, 0.25 * tr * tr - det));
+  return (0.5 * tr + disc) / Math.max(0.5 * tr - disc, 1e-300);
+}
+
+/**
+ * V-cycles per application of the spatial inner solvers, from the largest mapped anisotropy A of
+ * the mesh's element classes ({@link mappedAnisotropy}, over every shape bisection produces):
+ * ⌈A/8⌉, between 1 and 16. A V-cycle with point Gauss–Seidel smoothing works on the stiffness as
+ * on the mapped elements, and it slows down as they flatten (common practice); PCG on the
+ * space-time system then needs more iterations, while with exact inner solves the count does not
+ * depend on the anisotropy (docs/method.md §4.4). Measured (sparse grid of level 4 on the unit
+ * square, u0 ≡ 1, PCG iterations to 10⁻⁸ with 1 / 4 / 16 cycles): A = 3 (2 × 20 cells,
+ * K = diag(1, 0.01)): 31 / 20 / 20; A = 30 (2 × 2, diag(1, 0.1)): 162 / 37 / 20; A = 120 (4 × 2,
+ * diag(1, 0.1)): 972 / 162 / 37; A = 300 (2 × 2, diag(1, 0.01)): 892 / 196 / 55; A = 2026 (2 × 20,
+ * eigenvalues 1 and 0.01 at 30°): 2298 / 388 / 79. Among 1, 2, 4, 8 and 16 cycles the time per
+ * solve was least near A/8 cycles where that is below 16. A scalar κ always takes one cycle.
+ */
+export function cyclesForAnisotropy(A: number): number {
+  return Math.min(16, Math.max(1, Math.ceil(A / 8)));
 }
 
 /** Sampled tensors: `entries` (xx, xy, yy per element) and `scale` (largest eigenvalue per element). */

@@ -70,6 +70,27 @@ export class SpatialDomain {
   }
   private anisotropy: number | undefined;
 
+  /**
+   * How flat the elements look to the spatial V-cycles: the largest condition number of the metric
+   * of an element mapped by K^{−1/2}, over all element shapes bisection produces (1 for an
+   * equilateral mapped element, 3 for a right isosceles one; 1 for an isotropic domain). The inner
+   * solvers run ⌈A/8⌉ V-cycles, at most 16 (docs/method.md §4.4). A mesh whose elements are
+   * stretched along the strong direction of K by about √r has a small A; on the rectangle
+   * generator's right triangles A is about three times the eigenvalue ratio r.
+   *
+   * @example
+   * ```ts
+   * import { rectangleDomain } from 'chronomesh';
+   * const K = { xx: 1, xy: 0, yy: 0.01 }; // ratio 100
+   * console.log(rectangleDomain(0, 1, 0, 1, 2, 2, { diffusionTensor: K }).mappedAnisotropy.toFixed(0)); // → 300
+   * console.log(rectangleDomain(0, 1, 0, 1, 2, 20, { diffusionTensor: K }).mappedAnisotropy.toFixed(0)); // → 3
+   * ```
+   */
+  get mappedAnisotropy(): number {
+    return (this.mapped ??= this.forest.mappedAnisotropy());
+  }
+  private mapped: number | undefined;
+
   /** Vertices created so far (grows as the forest is refined). */
   get vertexCount(): number {
     return this.forest.vertexCount;

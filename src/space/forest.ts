@@ -24,6 +24,7 @@
  * produces only finitely many edge directions, so these classes stay few as well.
  */
 import { InvalidMeshError } from '../errors';
+import { mappedAnisotropy } from './diffusion-tensor';
 import type { BoundaryTables } from './boundary';
 import { DIRICHLET_EDGE, type InitialMesh } from './initial-mesh';
 
@@ -191,6 +192,29 @@ export class BisectionForest {
       this.shapeTensor.push(tensor);
     }
     return id;
+  }
+
+  /**
+   * The largest mapped anisotropy (./diffusion-tensor.ts) over the oriented classes of the initial
+   * elements and of all their descendants: the closure of each initial class under bisection
+   * (finitely many classes, registered here if not met yet). 1 for an isotropic domain.
+   */
+  mappedAnisotropy(): number {
+    let worst = 1;
+    const seen = new Set<number>();
+    const stack: number[] = [];
+    for (let e = 0; e < this.initialElementCount; e++) if (this.dim === 2 && this.materialTensor[e]! >= 0) stack.push(this.eShape[e]!);
+    while (stack.length > 0) {
+      const c = stack.pop()!;
+      if (seen.has(c)) continue;
+      seen.add(c);
+      const x = this.shapeZ[2 * c]!, y = this.shapeZ[2 * c + 1]!, dx = this.shapeDir[2 * c]!, dy = this.shapeDir[2 * c + 1]!;
+      const t = this.shapeTensor[c]!;
+      // the class's triangle (0, 0), d, z·d with its normalized tensor (the scale does not matter)
+      worst = Math.max(worst, mappedAnisotropy(dx, dy, x * dx - y * dy, x * dy + y * dx, this.tensorUnit[3 * t]!, this.tensorUnit[3 * t + 1]!, this.tensorUnit[3 * t + 2]!));
+      stack.push(this.childShape(c, 0), this.childShape(c, 1));
+    }
+    return worst;
   }
 
   /** Class of child k (0: (c, a, m), 1: (b, c, m)) of an element of class `shape`. */

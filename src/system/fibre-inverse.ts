@@ -18,7 +18,7 @@ import { EpochMap } from '../spacetime/epoch-map';
 
 /**
  * How the spatial inverses inside K_Y and K_X are realised: V-cycles (`cycles` per application;
- * default 1, more for anisotropic diffusion, see {@link SpatialDomain.anisotropyRatio}) or exact
+ * default 1, more for anisotropic diffusion, see {@link SpatialDomain.mappedAnisotropy}) or exact
  * dense solves (small problems and tests only).
  */
 export type InnerSolver =
@@ -162,7 +162,7 @@ export class FibreInverseCache {
     const fibre = this.pool.get(fibreId);
     const mesh = this.domain.leafMesh(fibre);
     // one V-cycle unless the diffusion is anisotropic (cyclesForAnisotropy, docs/method.md §4.4)
-    const cycles = this.solver.cycles ?? cyclesForAnisotropy(this.domain.anisotropyRatio);
+    const cycles = this.solver.cycles ?? cyclesForAnisotropy(this.domain.mappedAnisotropy);
     const mg = new MultilevelPreconditioner(mesh, { cycles }).useScratch(this.scratch);
     return new MultigridFibreInverse(this.domain, mesh, fibre, mg, this.scratch);
   }

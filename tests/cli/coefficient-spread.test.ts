@@ -67,16 +67,16 @@ describe('a diffusion tensor in a problem file, from the command line', () => {
     return progress;
   };
 
-  it('says how many V-cycles the eigenvalue ratio takes (ratio 10: 4 cycles; docs/method.md §4.4)', () => {
+  it('says how many V-cycles the mapped anisotropy takes (ratio 10 on right triangles: 30, 4 cycles; docs/method.md §4.4)', () => {
     const p = run({ xx: 1, xy: 0, yy: 0.1 });
-    expect(p).toContain('diffusion tensor with eigenvalue ratio up to 10: the spatial inner solvers run 4 V-cycles per application (docs/method.md §4.4)');
+    expect(p).toContain('diffusion tensor with eigenvalue ratio up to 10; mapped by K^(-1/2) the elements have anisotropy up to 30, so the spatial inner solvers run 4 V-cycles per application (docs/method.md §4.4)');
     // each entry is constant: no spread warning
     expect(p.filter((l) => /varies by up to/.test(l))).toEqual([]);
   });
 
-  it('warns beyond a ratio of 100 and names the remedy', () => {
+  it('warns when the cycles reach their limit of 16 and names the remedy', () => {
     const p = run({ xx: 1, xy: 0, yy: 0.004 });
-    expect(p.filter((l) => /^warning: diffusion tensor with eigenvalue ratio up to 250: .* 16 V-cycles .* stretched along the strong direction/.test(l))).toHaveLength(1);
+    expect(p.filter((l) => /^warning: diffusion tensor with eigenvalue ratio up to 250; .* anisotropy up to 750, so .* 16 V-cycles .* the most they run: .* stretched along the strong direction by about √250/.test(l))).toHaveLength(1);
   }, 60_000);
 
   it('warns per entry that varies inside an initial element', () => {

@@ -24,6 +24,7 @@ import {
   type DiffusionTensor, type KnownSolution,
 } from '../../src/index';
 import { heatExact2D } from '../helpers/heat-exact';
+import { cyclesForAnisotropy } from '../../src/space/diffusion-tensor';
 
 /** u0 ≡ 1 on the unit square with K = diag(k1, k2), by the change of variables of the module comment. */
 function orthotropicExact(k1: number, k2: number): KnownSolution {
@@ -242,6 +243,26 @@ describe('inner V-cycles for anisotropic diffusion (docs/method.md §4.4)', () =
     expect(rectangleDomain(0, 1, 0, 1, 1, 1, { kappa: 3 }).anisotropyRatio).toBe(1);
   });
 
+  it('mappedAnisotropy: 3 for right isosceles elements, about 3r for rotated ones, 3 again on elements stretched by √r', () => {
+    // Worked by hand: the right triangle (0, 0), (1, 0), (0, 1) has unit edges in the metric
+    // [[1, ½], [½, 1]] (condition number 3). Its descendants include (0, 0), (1, 1), (0, 2), right
+    // angled with the hypotenuse along y, whose metric is diag(¾, ¼); with K = diag(1, 1/r) the
+    // product M K = diag(¾, 1/(4r)) has condition number 3r.
+    expect(rectangleDomain(0, 1, 0, 1, 2, 2, { diffusionTensor: { xx: 2, xy: 0, yy: 2 } }).mappedAnisotropy).toBeCloseTo(3, 9);
+    expect(rectangleDomain(0, 1, 0, 1, 2, 2, { diffusionTensor: { xx: 1, xy: 0, yy: 0.1 } }).mappedAnisotropy).toBeCloseTo(30, 8);
+    expect(rectangleDomain(0, 1, 0, 1, 2, 20, { diffusionTensor: { xx: 1, xy: 0, yy: 0.01 } }).mappedAnisotropy).toBeCloseTo(3, 8);
+    expect(rectangleDomain(0, 1, 0, 1, 2, 2, { kappa: 5 }).mappedAnisotropy).toBe(1);
+  });
+
+  it('on elements stretched along the strong direction one cycle is enough, and is the default', () => {
+    // K = diag(1, 0.01) on 2 × 20 cells (elements 10 times longer in x): mapped, they are right isosceles
+    const domain = rectangleDomain(0, 1, 0, 1, 2, 20, { diffusionTensor: { xx: 1, xy: 0, yy: 0.01 } });
+    const problem = new HeatProblem({ domain, T: 0.5, initial: () => 1 });
+    const set = DoubleTree.sparseGrid(domain, 3);
+    // measured 31 iterations at level 4 with one cycle, against 892 on the 2 × 2 mesh
+    expect(new SpaceTimeSystem(problem, set).solve({ relTol: 1e-8 }).pcg.iterations).toBeLessThanOrEqual(40);
+  }, 60_000);
+
   it.each([[10, 4], [30, 12]] as const)('ratio %d: the default (%d cycles) keeps PCG iterations bounded, one cycle does not', (r, cycles) => {
     const domain = rectangleDomain(0, 1, 0, 1, 2, 2, { diffusionTensor: { xx: 1, xy: 0, yy: 1 / r } });
     const problem = new HeatProblem({ domain, T: 0.5, initial: () => 1 });
@@ -251,7 +272,7 @@ describe('inner V-cycles for anisotropic diffusion (docs/method.md §4.4)', () =
     expect(byDefault).toBeLessThanOrEqual(45);
     const one = new SpaceTimeSystem(problem, set, { inner: { kind: 'multigrid', cycles: 1 } }).solve({ relTol: 1e-8, maxIterations: 5000 }).pcg.iterations;
     expect(one).toBeGreaterThan(3 * byDefault);
-    expect(cycles).toBeGreaterThan(1); // documents the rule r/2.5 of cyclesForAnisotropy
+    expect(cyclesForAnisotropy(domain.mappedAnisotropy)).toBe(cycles); // ⌈3r/8⌉ on these meshes
   }, 60_000);
 });
 
