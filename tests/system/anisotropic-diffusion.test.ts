@@ -21,7 +21,7 @@ import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import {
   DoubleTree, HeatProblem, SpaceTimeSystem, decodeSolution, encodeSolution, rectangleDomain, solve, solveAdaptive, spaceTimeErrors, triangulatedDomain,
-  type DiffusionTensor, type KnownSolution,
+  type DiffusionTensor, type KnownSolution, type SpaceTimeSolution,
 } from '../../src/index';
 import { heatExact2D } from '../helpers/heat-exact';
 import { cyclesForAnisotropy } from '../../src/space/diffusion-tensor';
@@ -55,6 +55,21 @@ function manufactured(K: DiffusionTensor): { exact: KnownSolution; initial: (x: 
   };
 }
 
+/** err/E every third step and the true errors along an adaptive run to `maxUnknowns`, and its solution. */
+function track(problem: HeatProblem, exact: KnownSolution, maxUnknowns: number): { ratios: number[]; errors: number[]; solution: SpaceTimeSolution } {
+  const ratios: number[] = [], errors: number[] = [];
+  const { solution } = solveAdaptive(problem, {
+    maxUnknowns,
+    onStep: (step, sol) => {
+      if (step.step % 3 !== 0) return;
+      const e = spaceTimeErrors(sol, exact).gradientL2;
+      errors.push(e);
+      ratios.push(e / step.estimate);
+    },
+  });
+  return { ratios, errors, solution };
+}
+
 /** K with eigenvalues `along` (direction at angle θ to the x axis) and `across`. */
 function rotated(along: number, across: number, theta: number): DiffusionTensor {
   const c = Math.cos(theta), s = Math.sin(theta);
@@ -65,17 +80,7 @@ describe('anisotropic diffusion against outside references', () => {
   it('orthotropic K = diag(5, 0.5), u0 ≡ 1: adaptive run, true error falls and err/E stays in a band of width ≤ 3', () => {
     const domain = rectangleDomain(0, 1, 0, 1, 2, 2, { diffusionTensor: { xx: 5, xy: 0, yy: 0.5 } });
     const exact = orthotropicExact(5, 0.5);
-    const errors: number[] = [];
-    const ratios: number[] = [];
-    const r = solveAdaptive(new HeatProblem({ domain, T: 0.5, initial: () => 1 }), {
-      maxUnknowns: 6000,
-      onStep: (step, solution) => {
-        if (step.step % 3 !== 0) return;
-        const err = spaceTimeErrors(solution, exact).gradientL2;
-        errors.push(err);
-        ratios.push(err / step.estimate);
-      },
-    });
+    const { errors, ratios, solution } = track(new HeatProblem({ domain, T: 0.5, initial: () => 1 }), exact, 6000);
     if (process.env.CHRONOMESH_VERBOSE) console.log(errors.map((e) => e.toFixed(3)).join(' '), ratios.map((q) => q.toFixed(2)).join(' '));
     expect(errors.length).toBeGreaterThan(3);
     expect(errors.at(-1)!).toBeLessThan(0.5 * errors[0]!);
@@ -84,7 +89,7 @@ describe('anisotropic diffusion against outside references', () => {
     // Point value: the fast direction x has cooled more than the slow direction y.
     const t = 0.05;
     for (const [x, y] of [[0.5, 0.5], [0.2, 0.5], [0.5, 0.15]] as const) {
-      expect(Math.abs(r.solution.evaluate(t, [x, y])[0]! - exact.value(t, x, y))).toBeLessThan(0.05);
+      expect(Math.abs(solution.evaluate(t, [x, y])[0]! - exact.value(t, x, y))).toBeLessThan(0.05);
     }
   }, 120_000);
 
@@ -193,20 +198,6 @@ describe('anisotropic diffusion on the coarsest meshes a user may bring', () => 
     ['two triangles (diagonal 1–3)', [0, 0, 1, 0, 1, 1, 0, 1], [0, 1, 3, 1, 2, 3]],
     ['three-triangle fan', [0, 0, 1, 0, 1, 0.5, 1, 1, 0, 1], [0, 1, 2, 0, 2, 3, 0, 3, 4]],
   ];
-  /** err/E every third step and the true errors, along a run to 2 500 unknowns. */
-  const track = (problem: HeatProblem, exact: KnownSolution): { ratios: number[]; errors: number[] } => {
-    const ratios: number[] = [], errors: number[] = [];
-    solveAdaptive(problem, {
-      maxUnknowns: 2500,
-      onStep: (step, solution) => {
-        if (step.step % 3 !== 0) return;
-        const e = spaceTimeErrors(solution, exact).gradientL2;
-        errors.push(e);
-        ratios.push(e / step.estimate);
-      },
-    });
-    return { ratios, errors };
-  };
   const expectHonest = ({ ratios, errors }: { ratios: number[]; errors: number[] }, name: string): void => {
     if (process.env.CHRONOMESH_VERBOSE) console.log(name, errors.map((e) => e.toFixed(3)).join(' '), ratios.map((q) => q.toFixed(2)).join(' '));
     expect(ratios.length).toBeGreaterThan(3);
@@ -218,7 +209,7 @@ describe('anisotropic diffusion on the coarsest meshes a user may bring', () => 
   // measured err/E: 1.04–2.14 (both two-triangle meshes) and 1.20–1.50 (fan); errors 0.43 → 0.22
   it.each(meshes)('%s, orthotropic K = diag(5, 0.5), u0 ≡ 1: err/E in a band of width ≤ 3', (name, P, T) => {
     const domain = triangulatedDomain(P, T, { diffusionTensor: { xx: 5, xy: 0, yy: 0.5 } });
-    expectHonest(track(new HeatProblem({ domain, T: 0.5, initial: () => 1 }), orthotropicExact(5, 0.5)), name);
+    expectHonest(track(new HeatProblem({ domain, T: 0.5, initial: () => 1 }), orthotropicExact(5, 0.5), 2500), name);
   }, 60_000);
 
   // measured err/E: 1.08–1.79 (two triangles) and 1.20–1.45 (fan); errors 0.54–0.59 → 0.05
@@ -226,7 +217,7 @@ describe('anisotropic diffusion on the coarsest meshes a user may bring', () => 
     const K = rotated(3, 0.3, PI / 6);
     const m = manufactured(K);
     const domain = triangulatedDomain(P, T, { diffusionTensor: K });
-    expectHonest(track(new HeatProblem({ domain, T: 0.5, initial: m.initial, source: m.source }), m.exact), name);
+    expectHonest(track(new HeatProblem({ domain, T: 0.5, initial: m.initial, source: m.source }), m.exact, 2500), name);
   }, 60_000);
 });
 
