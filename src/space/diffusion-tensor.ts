@@ -20,7 +20,8 @@ export function largestEigenvalue(xx: number, xy: number, yy: number): number {
 
 /**
  * Largest ratio of the eigenvalues of the tensors (xx, xy, yy per element), 1 for none: the
- * anisotropy the spatial V-cycles see.
+ * strength of the anisotropy, reported to users (the V-cycles go by {@link mappedAnisotropy},
+ * which also depends on the element shapes).
  */
 export function anisotropyRatio(entries: Float64Array | null): number {
   if (entries === null) return 1;

@@ -62,8 +62,9 @@ export class SpatialDomain {
   }
 
   /**
-   * Largest ratio of the eigenvalues of the diffusion tensors (1 for a scalar κ). The spatial inner
-   * solvers use more V-cycles as it grows (docs/method.md §4.4).
+   * Largest ratio of the eigenvalues of the diffusion tensors (1 for a scalar κ). How many V-cycles
+   * the spatial inner solvers run depends on it through {@link SpatialDomain.mappedAnisotropy}, which
+   * also counts the element shapes (docs/method.md §4.4).
    */
   get anisotropyRatio(): number {
     return (this.anisotropy ??= anisotropyRatio(this.forest.kappaTensor));
