@@ -9,6 +9,7 @@ import {
   triangulatedDomain, type BoundaryPart, type DiffusionTensor, type DomainOptions, type SpatialDomain,
 } from './core';
 import type { CompiledExpression } from './expression';
+import { positiveDefinite } from '../space/diffusion-tensor';
 import { checkExactSolution } from './exact-solution';
 import { coefficientSpread, transferSpread, type CoefficientSpread } from './coefficient-spread';
 import type { BoundaryPartSpec, ProblemSpec } from './schema';
@@ -65,7 +66,7 @@ function tensorField(K: NonNullable<ProblemSpec['diffusionTensor']>, dim: number
   const yy = spatial(K.yy, 'diffusion.yy', dim, (v) => v > 0 && Number.isFinite(v), 'a finite number > 0');
   return (x, y) => {
     const t = { xx: xx(x, y), xy: xy(x, y), yy: yy(x, y) };
-    if (!(t.xx * t.yy - t.xy * t.xy > 1e-12 * Math.max(t.xx, t.yy) ** 2)) {
+    if (!positiveDefinite(t.xx, t.xy, t.yy)) {
       throw new InvalidArgumentError(
         `diffusion: the tensor (xx, xy, yy) = (${t.xx}, ${t.xy}, ${t.yy}) at (x, y) = (${x}, ${y}) is not positive definite (it needs xx·yy − xy² > 0)`,
         { field: 'diffusion.xy', expected: 'xx·yy − xy² > 0', received: `${t.xx}, ${t.xy}, ${t.yy}` },

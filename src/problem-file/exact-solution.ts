@@ -18,6 +18,7 @@
  */
 import { InvalidArgumentError, type KnownSolution, type SpatialDomain } from './core';
 import { compileWithDerivatives } from './derivative';
+import { largestEigenvalue } from '../space/diffusion-tensor';
 import type { CompiledExpression } from './expression';
 import type { BoundaryPartSpec, ProblemSpec } from './schema';
 
@@ -111,7 +112,7 @@ function initialMesh(spec: ProblemSpec, domain: SpatialDomain): InitialMesh {
     } else {
       const xx = K.xx.fn(0, cx, cy), xy = K.xy.fn(0, cx, cy), yy = K.yy.fn(0, cx, cy);
       tensor.set([xx, xy, yy], 3 * e);
-      kappa[e] = 0.5 * (xx + yy) + Math.hypot(0.5 * (xx - yy), xy); // largest eigenvalue, for scales
+      kappa[e] = largestEigenvalue(xx, xy, yy); // for scales, as the library takes κ (docs/method.md §4.4)
     }
     reaction[e] = spec.reaction.fn(0, cx, cy);
   }

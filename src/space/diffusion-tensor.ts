@@ -77,6 +77,15 @@ export function cyclesForAnisotropy(A: number): number {
   return Math.min(16, Math.max(1, Math.ceil(A / 8)));
 }
 
+/**
+ * Whether [[xx, xy], [xy, yy]] is positive definite: xx > 0 and xx·yy − xy² > 0, the latter relative
+ * to λ_max², which also keeps out a tensor whose determinant is lost to rounding (an eigenvalue ratio
+ * beyond ≈ 10¹²).
+ */
+export function positiveDefinite(xx: number, xy: number, yy: number): boolean {
+  return xx > 0 && xx * yy - xy * xy > 1e-12 * largestEigenvalue(xx, xy, yy) ** 2;
+}
+
 /** Sampled tensors: `entries` (xx, xy, yy per element) and `scale` (largest eigenvalue per element). */
 export interface SampledTensors {
   entries: Float64Array;
@@ -99,10 +108,7 @@ function put(t: unknown, e: number, field: string, out: Float64Array): void {
     if (name !== 'xx' && name !== 'xy' && name !== 'yy') refuse(field, `has an unknown entry '${name}' (the entries are xx, xy, yy)`, t);
   }
   const xx = k.xx as number, xy = k.xy as number, yy = k.yy as number;
-  // Positive definite: xx > 0 and det > 0; the relative bound keeps a tensor whose determinant is
-  // lost to rounding (an eigenvalue ratio beyond ≈ 10¹²) out as well.
-  const det = xx * yy - xy * xy;
-  if (!(xx > 0) || !(det > 1e-12 * largestEigenvalue(xx, xy, yy) ** 2)) {
+  if (!positiveDefinite(xx, xy, yy)) {
     refuse(field, `must be symmetric positive definite (xx > 0 and xx·yy − xy² > 0), received xx = ${xx}, xy = ${xy}, yy = ${yy} on initial element ${e}`, t);
   }
   out[3 * e] = xx;
