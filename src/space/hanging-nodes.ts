@@ -10,6 +10,7 @@
  * every edge.
  */
 import { InvalidMeshError } from '../errors';
+import { TRIANGULATION_WORDS, type MeshWords } from './mesh-overlap';
 
 /** Relative tolerances of the test "v lies strictly inside edge [i, j]" (parameter and distance). */
 const T_EPS = 1e-10;
@@ -19,7 +20,7 @@ const D_EPS = 1e-10;
  * Throws InvalidMeshError if a boundary vertex lies strictly inside a boundary edge.
  * `bEdges` holds triples (slot 3e + k, i, j) of boundary edges.
  */
-export function checkNoHangingNodes(coords: Float64Array, bEdges: ArrayLike<number>): void {
+export function checkNoHangingNodes(coords: Float64Array, bEdges: ArrayLike<number>, words: MeshWords = TRIANGULATION_WORDS): void {
   const nb = bEdges.length / 3;
   if (nb === 0) return;
   const nv = coords.length / 2;
@@ -99,8 +100,8 @@ export function checkNoHangingNodes(coords: Float64Array, bEdges: ArrayLike<numb
         if (t > T_EPS && t < 1 - T_EPS && Math.abs(cr) <= D_EPS * l2) {
           const e = (bEdges[q]! / 3) | 0;
           throw new InvalidMeshError(
-            `the mesh is not conforming: vertex ${v} lies inside edge [${i}, ${j}] of triangles[${e}] (hanging node)`,
-            { field: `triangles[${e}]`, expected: 'no vertex inside another triangle’s edge', received: `vertex ${v} on edge [${i}, ${j}]` },
+            `the mesh is not conforming: ${words.vertex} ${v} lies inside edge [${i}, ${j}] of ${words.cell(e)} (hanging node)`,
+            { field: words.cellField(e), expected: `no ${words.vertex} inside another triangle’s edge`, received: `${words.vertex} ${v} on edge [${i}, ${j}]` },
           );
         }
       }

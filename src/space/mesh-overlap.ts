@@ -19,11 +19,27 @@ import { InvalidMeshError } from '../errors';
 const TWO_PI = 2 * Math.PI;
 
 /**
+ * How the errors name a mesh's parts: a domain's triangulation says `triangles[e]` and "vertex v",
+ * a NodalField says "cell e" (field `cells[3e..3e+2]`) and "point v". @internal
+ */
+export interface MeshWords {
+  /** The cell e in a message. */
+  cell(e: number): string;
+  /** The input field holding cell e. */
+  cellField(e: number): string;
+  /** The word for a vertex. */
+  vertex: string;
+}
+
+/** The words of a domain's triangulation (`triangles[e]`, "vertex v"). @internal */
+export const TRIANGULATION_WORDS: MeshWords = { cell: (e) => `triangles[${e}]`, cellField: (e) => `triangles[${e}]`, vertex: 'vertex' };
+
+/**
  * Throws {@link InvalidMeshError} naming the vertex or the triangles involved when the
  * counter-clockwise triangles `elements` overlap. `neighbors[3e + k] < 0` marks the edge of
  * triangle e opposite its vertex k as a boundary edge.
  */
-export function checkNoOverlap(coords: Float64Array, elements: Int32Array, neighbors: Int32Array): void {
+export function checkNoOverlap(coords: Float64Array, elements: Int32Array, neighbors: Int32Array, words: MeshWords = TRIANGULATION_WORDS): void {
   const nv = coords.length / 2;
   const ne = elements.length / 3;
   const angle = new Float64Array(nv);
@@ -45,17 +61,17 @@ export function checkNoOverlap(coords: Float64Array, elements: Int32Array, neigh
     if (sum > limit) {
       const turns = sum / TWO_PI;
       throw new InvalidMeshError(
-        `triangles overlap around ${onBoundary[v] ? 'boundary ' : ''}vertex ${v}: their angles there add up to ${(sum * 180 / Math.PI).toFixed(1)}° ` +
-          `(${turns.toFixed(2)} turns; at most ${onBoundary[v] ? '360° at a boundary vertex' : 'one turn, 360°, around an interior vertex'})`,
-        { field: `triangles[${firstTri[v]}]`, expected: 'triangles around each vertex covering at most one turn', received: `${(sum * 180 / Math.PI).toFixed(1)}° at vertex ${v}` },
+        `triangles overlap around ${onBoundary[v] ? 'boundary ' : ''}${words.vertex} ${v}: their angles there add up to ${(sum * 180 / Math.PI).toFixed(1)}° ` +
+          `(${turns.toFixed(2)} turns; at most ${onBoundary[v] ? `360° at a boundary ${words.vertex}` : `one turn, 360°, around an interior ${words.vertex}`})`,
+        { field: words.cellField(firstTri[v]!), expected: `triangles around each ${words.vertex} covering at most one turn`, received: `${(sum * 180 / Math.PI).toFixed(1)}° at ${words.vertex} ${v}` },
       );
     }
   }
-  checkBoundaryCrossings(coords, elements, neighbors);
+  checkBoundaryCrossings(coords, elements, neighbors, words);
 }
 
 /** Boundary edges (as vertex pairs) that properly cross each other, found with a bucket grid. */
-function checkBoundaryCrossings(coords: Float64Array, elements: Int32Array, neighbors: Int32Array): void {
+function checkBoundaryCrossings(coords: Float64Array, elements: Int32Array, neighbors: Int32Array, words: MeshWords): void {
   const ne = elements.length / 3;
   let nb = 0;
   for (let s = 0; s < 3 * ne; s++) if (neighbors[s]! < 0) nb++;
@@ -115,9 +131,9 @@ function checkBoundaryCrossings(coords: Float64Array, elements: Int32Array, neig
         if (u === a || u === b || v === a || v === b) continue;
         if (orient(a, b, u) * orient(a, b, v) < 0 && orient(u, v, a) * orient(u, v, b) < 0) {
           throw new InvalidMeshError(
-            `triangles overlap: boundary edge [${a}, ${b}] of triangles[${owner[i]}] crosses boundary edge [${u}, ${v}] of triangles[${owner[j]}] ` +
+            `triangles overlap: boundary edge [${a}, ${b}] of ${words.cell(owner[i]!)} crosses boundary edge [${u}, ${v}] of ${words.cell(owner[j]!)} ` +
               '(part of the mesh is folded over another part)',
-            { field: `triangles[${Math.max(owner[i]!, owner[j]!)}]`, expected: 'non-overlapping triangles (boundary curves that do not cross)', received: `edges [${a}, ${b}] and [${u}, ${v}] cross` },
+            { field: words.cellField(Math.max(owner[i]!, owner[j]!)), expected: 'non-overlapping triangles (boundary curves that do not cross)', received: `edges [${a}, ${b}] and [${u}, ${v}] cross` },
           );
         }
       }

@@ -7,6 +7,11 @@
 import { InvalidArgumentError, InvalidMeshError, describeValue } from '../errors';
 import { checkNumberArray, checkOneOf } from '../validation/index';
 import { SimplexLocator } from './simplex-locator';
+import { checkNoHangingNodes } from './hanging-nodes';
+import { checkNoOverlap, type MeshWords } from './mesh-overlap';
+
+/** How the mesh checks name a NodalField's parts. */
+const CELL_WORDS: MeshWords = { cell: (e) => `cell ${e}`, cellField: (e) => `cells[${3 * e}..${3 * e + 2}]`, vertex: 'point' };
 
 /** The arrays of a {@link NodalField}: flat, `dim` coordinates per point and `dim + 1` point indices per cell. */
 export interface NodalFieldData {
@@ -30,9 +35,8 @@ const DEGENERATE = 1e-14;
  *
  * The input is checked before anything is built: lengths, finite numbers, point indices in range,
  * cells of positive size, and cells that do not overlap (where they did, a value depended on which
- * of the overlapping cells the point was found in). In 2D the overlap check sees repeated and
- * folded cells, cells inside others and meshes laid over each other, but not two cells without a
- * common edge that overlap so little that neither holds the other's centroid.
+ * of the overlapping cells the point was found in). In 2D the cells must also meet edge to edge: a
+ * point inside another cell's edge (a hanging node) is refused, since the field would jump there.
  *
  * @example
  * ```ts
@@ -122,14 +126,32 @@ export class NodalField {
   }
 
   /**
-   * Triangles must not overlap. Checked: an edge belongs to at most two triangles, two triangles
-   * that share an edge lie on opposite sides of it (a folded or repeated triangle does not), and no
-   * triangle's centroid lies inside another triangle (a copy, a triangle inside another, two meshes
-   * laid over each other). Not seen: two triangles without a common edge that overlap so little
-   * that neither holds the other's centroid.
+   * Triangles must not overlap and must meet edge to edge. Checked, in this order:
+   *  - an edge belongs to at most two triangles, and two triangles that share an edge lie on
+   *    opposite sides of it (a folded or repeated triangle does not);
+   *  - no point lies inside a boundary edge (a hanging node: the field would jump along that edge,
+   *    and its value there would depend on the cell a point is found in);
+   *  - the angles around each point add up to at most one turn, and no two boundary edges cross
+   *    (./mesh-overlap.ts: with the checks above this rules out any overlap within one connected
+   *    piece of the mesh, however slight);
+   *  - no triangle's centroid lies inside another triangle (a piece of the mesh lying wholly
+   *    inside another, whose boundaries therefore do not cross).
    */
   private checkTrianglesApart(): void {
     const m = this.cellCount, n = this.pointCount, c = this.cells;
+    // Counter-clockwise copy of the cells for the checks of ./mesh-overlap.ts and ./hanging-nodes.ts;
+    // swapping corners 1 and 2 of a clockwise cell moves its edge slots 1 and 2 alike.
+    const ccw = Int32Array.from(c);
+    const slotOf = new Int32Array(3 * m);
+    for (let e = 0; e < m; e++) {
+      const flip = this.measure(e) < 0;
+      if (flip) {
+        ccw[3 * e + 1] = c[3 * e + 2]!;
+        ccw[3 * e + 2] = c[3 * e + 1]!;
+      }
+      for (let k = 0; k < 3; k++) slotOf[3 * e + k] = 3 * e + (flip && k > 0 ? 3 - k : k);
+    }
+    const neighbors = new Int32Array(3 * m).fill(-1);
     // Edges grouped by their lower point (counting sort): entry = 3·cell + corner opposite the edge.
     const start = new Int32Array(n + 1);
     for (let e = 0; e < m; e++) for (let k = 0; k < 3; k++) start[Math.min(c[3 * e + (k + 1) % 3]!, c[3 * e + (k + 2) % 3]!) + 1]!++;
@@ -154,6 +176,8 @@ export class NodalField {
             });
           }
           shared = r;
+          neighbors[slotOf[q]!] = (r / 3) | 0;
+          neighbors[slotOf[r]!] = (q / 3) | 0;
           if (this.side(v, w, c[q]!) * this.side(v, w, c[r]!) > 0) {
             const a = (q / 3) | 0, b = (r / 3) | 0;
             throw new InvalidMeshError(`cells ${a} and ${b} lie on the same side of their common edge (points ${v} and ${w}), so they overlap (a folded or repeated cell)`, {
@@ -163,6 +187,14 @@ export class NodalField {
         }
       }
     }
+    const bEdges: number[] = [];
+    for (let s = 0; s < 3 * m; s++) {
+      if (neighbors[s]! >= 0) continue;
+      const e = (s / 3) | 0, k = s % 3;
+      bEdges.push(s, ccw[3 * e + ((k + 1) % 3)]!, ccw[3 * e + ((k + 2) % 3)]!);
+    }
+    checkNoHangingNodes(this.points, bEdges, CELL_WORDS);
+    checkNoOverlap(this.points, ccw, neighbors, CELL_WORDS);
     const p = this.points;
     for (let e = 0; e < m; e++) {
       const i = c[3 * e]!, j = c[3 * e + 1]!, k = c[3 * e + 2]!;

@@ -7,7 +7,9 @@
  * keeps the sign of its area; a triangle that flips overlaps its neighbours. And a copy of a cell
  * on points of its own, shifted by less than a third of the cell's smallest altitude, keeps the
  * copy's centroid strictly inside the original (barycentric coordinates move by at most
- * |shift| / altitude), so it must be refused.
+ * |shift| / altitude), so it must be refused. Two triangles without common points overlap exactly
+ * when no line along one of their six edges separates them (the separating axis theorem for convex
+ * polygons; common practice in collision detection), however small the overlap.
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
@@ -76,6 +78,44 @@ describe('NodalField overlap check, property-based', () => {
     // both kinds were drawn (a property that only ever sees valid meshes tests nothing)
     expect(flipped).toBeGreaterThan(20);
     expect(kept).toBeGreaterThan(20);
+  });
+
+  it('two triangles without common points: accepted exactly when a separating axis exists', () => {
+    // the largest gap (or, negative, the least overlap depth) along the six edge normals
+    const gap = (p: number[]): number => {
+      let best = -Infinity;
+      for (let t = 0; t < 2; t++) {
+        for (let k = 0; k < 3; k++) {
+          const a = 3 * t + k, b = 3 * t + ((k + 1) % 3);
+          const nx = p[2 * b + 1]! - p[2 * a + 1]!, ny = p[2 * a]! - p[2 * b]!;
+          const len = Math.hypot(nx, ny);
+          const proj = (v: number) => (p[2 * v]! * nx + p[2 * v + 1]! * ny) / len;
+          const [lo0, hi0] = [Math.min(proj(0), proj(1), proj(2)), Math.max(proj(0), proj(1), proj(2))];
+          const [lo1, hi1] = [Math.min(proj(3), proj(4), proj(5)), Math.max(proj(3), proj(4), proj(5))];
+          best = Math.max(best, lo1 - hi0, lo0 - hi1);
+        }
+      }
+      return best;
+    };
+    let apart = 0, overlapping = 0, slight = 0;
+    fc.assert(
+      fc.property(fc.array(fc.integer({ min: 0, max: 1000 }), { minLength: 12, maxLength: 12 }), (ints) => {
+        const p = ints.map((k) => k / 1000);
+        for (const e of [0, 1]) if (Math.abs(signedArea(p, [0, 1, 2, 3, 4, 5], e)) < 1e-3) return; // too thin to tell
+        const g = gap(p);
+        if (Math.abs(g) < 1e-6) return; // touching within rounding: either answer is defensible
+        if (g > 0) apart++;
+        else {
+          overlapping++;
+          if (g > -0.02) slight++;
+        }
+        expect(accepted(p, [0, 1, 2, 3, 4, 5])).toBe(g > 0);
+      }),
+      { seed: SEED, numRuns: 1000 },
+    );
+    expect(apart).toBeGreaterThan(50);
+    expect(overlapping).toBeGreaterThan(50);
+    expect(slight).toBeGreaterThan(5); // overlaps too slight for a centroid to fall inside the other cell
   });
 
   it('a shifted copy of any cell is refused; the mesh without it is accepted', () => {

@@ -165,10 +165,28 @@ describe('NodalField', () => {
       const shifted = points.map((c, i) => c + (i % 2 === 0 ? 0.31 : 0.17));
       const n = points.length / 2;
       const e = refusal(mesh([...points, ...shifted], [...cells, ...cells.map((k) => k + n)]));
-      expect(String(e)).toMatch(/cells \d+ and \d+ overlap: the centroid \([\d.e-]+, [\d.e-]+\) of cell \d+ lies inside cell \d+/);
+      // (the two boundaries cross, which the boundary-crossing check sees first)
+      expect(String(e)).toMatch(/triangles overlap: boundary edge \[\d+, \d+\] of cell \d+ crosses boundary edge \[\d+, \d+\] of cell \d+/);
     }
     // a small triangle inside a large one, no points in common
     expect(String(refusal(mesh([0, 0, 1, 0, 0, 1, 0.1, 0.1, 0.2, 0.1, 0.1, 0.2], [0, 1, 2, 3, 4, 5])))).toMatch(/cells 0 and 1 overlap: the centroid/);
+    // two triangles without a common edge that overlap at their tips, so little that neither holds
+    // the other's centroid: (0,0),(1,0),(0,1) and (0.45,0.45),(1.45,0.45),(0.45,1.45) share the
+    // sliver below the line x + y = 1 (area 0.005) while each centroid lies outside the other
+    const tips = [0, 0, 1, 0, 0, 1, 0.45, 0.45, 1.45, 0.45, 0.45, 1.45];
+    expect(String(refusal(mesh(tips, [0, 1, 2, 3, 4, 5])))).toMatch(/triangles overlap: boundary edge \[\d, \d\] of cell \d crosses boundary edge \[\d, \d\] of cell \d/);
+    // two pieces that share only point 0 and overlap in angle there: the unit square (two cells,
+    // angles 0°–90° at point 0) and a long thin cell between 80° and 100°. No centroid lies inside
+    // another cell ((2/3, 1/3), (1/3, 2/3) and (0, 1.31)) and no edge is shared
+    const c80 = 2 * Math.cos((80 * Math.PI) / 180), s80 = 2 * Math.sin((80 * Math.PI) / 180);
+    const wedge = [0, 0, 1, 0, 1, 1, 0, 1, c80, s80, -c80, s80];
+    expect(String(refusal(mesh(wedge, [0, 1, 2, 0, 2, 3, 0, 4, 5])))).toMatch(/triangles overlap: boundary edge \[\d, \d\] of cell \d crosses boundary edge \[\d, \d\] of cell \d/);
+    // a hanging node: point 4 halves the edge [0, 1] of cell 0 but is not its corner, so the field
+    // would jump along that edge
+    const hanging = [0, 0, 1, 0, 0.5, 1, 0.5, -1, 0.5, 0];
+    const h = refusal(mesh(hanging, [0, 1, 2, 0, 3, 4, 4, 3, 1]));
+    expect(String(h)).toMatch(/not conforming: point 4 lies inside edge \[0, 1\] of cell 0 \(hanging node\)/);
+    expect(h.field).toBe('cells[0..2]');
     // three cells on one edge (a fan folded onto itself)
     expect(String(refusal(mesh([0, 0, 1, 0, 0.5, 1, 0.5, -1, 0.5, 0.5], [0, 1, 2, 1, 0, 3, 0, 1, 4])))).toMatch(/cells 0, 1 and 2 share the edge between points 0 and 1/);
     // in 1D: segments that share more than an end point; touching ones are fine
