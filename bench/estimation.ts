@@ -5,9 +5,15 @@
  * separable sources and eight probes read at 20 times (the setting of examples/heater-estimation).
  * The gradient/forward time ratio (`gradientOverForward`, from interleaved pairs) is the figure of
  * merit: ideally about 2 (one forward and one adjoint solve of similar iteration counts).
+ *
+ * `estimation.region-build` and `estimation.region-hessian-apply`: a space-time tracking functional
+ * (regionTracking over a quarter of the unit square, with a target) built on the sets of adaptive
+ * runs (u0 ≡ 1, T = 0.5, to about 2·10⁴ and 8·10⁴ unknowns; 5·10³ with `--quick`), per unknown of
+ * the set; `bytesPerUnknown` is what one functional holds: the growth of heap and array buffers
+ * over one build, between two forced collections (`npm run bench` exposes the collector).
  */
 import {
-  DoubleTree, HeatProblem, ReducedFunctional, SpaceTimeSystem, probeMisfit, rectangleDomain, sourceAmplitudes,
+  DoubleTree, HeatProblem, ReducedFunctional, SpaceTimeSystem, probeMisfit, rectangleDomain, regionTracking, solveAdaptive, sourceAmplitudes,
 } from '../src/index';
 import type { BenchCase, BenchInstance } from './harness';
 
@@ -68,10 +74,43 @@ export function estimationCases(quick: boolean): BenchCase[] {
     return cached.J;
   };
   const cases: BenchCase[] = [];
+  const tracked = quick ? [5e3] : [2e4, 8e4];
+  for (const size of tracked) {
+    for (const which of ['region-build', 'region-hessian-apply'] as const) {
+      cases.push({ component: `estimation.${which}`, sizes: [size], setup: (n) => trackingInstance(n, which) });
+    }
+  }
   for (const level of levels) {
     for (const which of ['forward', 'gradient', 'hessian-vector', 'probe-hessian-apply'] as const) {
       cases.push({ component: `estimation.${which}.L${level}`, sizes: [level], setup: (l) => instance(get(l), which) });
     }
   }
   return cases;
+}
+
+let adaptiveSet: { size: number; system: SpaceTimeSystem } | null = null;
+
+function trackingInstance(size: number, which: 'region-build' | 'region-hessian-apply'): BenchInstance {
+  if (!adaptiveSet || adaptiveSet.size !== size) {
+    const problem = new HeatProblem({ domain: rectangleDomain(0, 1, 0, 1, 2, 2), T: 0.5, initial: () => 1 });
+    adaptiveSet = { size, system: new SpaceTimeSystem(problem, solveAdaptive(problem, { maxUnknowns: size }).set) };
+  }
+  const { system } = adaptiveSet;
+  const n = system.size;
+  const build = () => regionTracking(system, { inside: (x, y) => x < 0.5 && y < 0.5, target: (t, x, y) => t * x * y });
+  const gc = (globalThis as { gc?: () => void }).gc;
+  const mem = () => {
+    gc?.();
+    gc?.(); // a second pass frees what the first left to finalizers
+    const m = process.memoryUsage();
+    return m.heapUsed + m.arrayBuffers;
+  };
+  const before = mem();
+  const J = build();
+  const bytesPerUnknown = Math.round((mem() - before) / n);
+  const extra = { rows: J.rowCount, temporalLevels: system.trialSet.tree.maxLevel + 1, bytesPerUnknown };
+  if (which === 'region-build') return { units: n, run: () => void build(), extra };
+  const v = new Float64Array(n).map((_, i) => Math.sin(0.37 * i));
+  const out = new Float64Array(n);
+  return { units: n, run: () => void J.hessianApply(v, out), extra };
 }

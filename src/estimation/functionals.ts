@@ -13,7 +13,7 @@ import { gaussLegendre01 } from '../numerics/gauss-legendre';
 import type { DoubleTree } from '../spacetime/double-tree';
 import type { SpaceTimeSystem } from '../system/space-time-system';
 import { PointSeriesOperator } from '../spacetime/point-series';
-import { SliceBlock, quadratureSlice, type EvaluationBlock } from './evaluation-rows';
+import { FrameMeshes, SliceBlock, quadratureRows, rowTargets, sliceFrame, type EvaluationBlock, type QuadratureRows, type SliceFrame } from './evaluation-rows';
 
 /**
  * A weighted least-squares functional J(u) = ½ Σ_k w_k (u(t_k, x_k) − d_k)² of the coefficients u
@@ -79,7 +79,7 @@ export class LeastSquaresFunctional {
       s.apply(u, this.buf);
       for (let k = 0; k < s.rowCount; k++) {
         const r = this.buf[k]! - s.targets[k]!;
-        J += 0.5 * s.weights[k]! * r * r;
+        J += 0.5 * (s.scale * s.weights[k]!) * r * r;
       }
     }
     if (!Number.isFinite(J)) throw new InvalidArgumentError(`functional value is ${J}: the coefficients contain non-finite values`, { field: 'u', received: J });
@@ -93,7 +93,7 @@ export class LeastSquaresFunctional {
     g.fill(0);
     for (const s of this.blocks) {
       s.apply(u, this.buf);
-      for (let k = 0; k < s.rowCount; k++) this.buf[k] = s.weights[k]! * (this.buf[k]! - s.targets[k]!);
+      for (let k = 0; k < s.rowCount; k++) this.buf[k] = s.scale * s.weights[k]! * (this.buf[k]! - s.targets[k]!);
       s.applyTransposed(this.buf, g);
     }
     return g;
@@ -106,7 +106,7 @@ export class LeastSquaresFunctional {
     g.fill(0);
     for (const s of this.blocks) {
       s.apply(v, this.buf);
-      for (let k = 0; k < s.rowCount; k++) this.buf[k] = s.weights[k]! * this.buf[k]!;
+      for (let k = 0; k < s.rowCount; k++) this.buf[k] = s.scale * s.weights[k]! * this.buf[k]!;
       s.applyTransposed(this.buf, g);
     }
     return g;
@@ -202,8 +202,10 @@ export function probeMisfit(system: SpaceTimeSystem, obs: ProbeData): LeastSquar
 export function terminalTracking(system: SpaceTimeSystem, target?: (x: number, y: number) => number): LeastSquaresFunctional {
   if (target !== undefined && typeof target !== 'function') throw new InvalidArgumentError('target must be a function (x, y) => number', { field: 'target' });
   const { domain, T } = system.problem;
-  const tg = target ?? (() => 0);
-  return new LeastSquaresFunctional(system.trialSet, [new SliceBlock(quadratureSlice(domain, system.trialSet, T, T, 1, () => true, tg, 'target'))]);
+  const { frame, sigma } = sliceFrame(domain, system.trialSet, T, [T]);
+  const rows = quadratureRows(frame.mesh, () => true);
+  const targets = target ? rowTargets(frame.mesh, rows, target, 'target', T) : new Float64Array(rows.count);
+  return new LeastSquaresFunctional(system.trialSet, [new SliceBlock({ t: T, frame, sigma: sigma[0]!, rows }, 1, targets)]);
 }
 
 /** Options of {@link regionTracking}. */
@@ -223,8 +225,11 @@ export interface RegionTrackingOptions {
  * ∫_from^to ∫_region (u − u_d)² / 2 dx dt. Time quadrature: Gauss–Legendre on every interval
  * between consecutive breakpoints of the trial functions (u is linear in t there); space: the
  * degree-5 rule on each leaf element of the slice, the region's indicator taken at the points
- * (exact when the region is a union of leaf elements). Cost: one slice per time point, so about
- * (number of temporal breakpoints in the window) × (slice size).
+ * (exact when the region is a union of leaf elements). Cost: the value of every active trial
+ * function at every time point, plus one leaf mesh and one set of quadrature rows per distinct
+ * union of active fibres (on adaptive sets usually one: the coarsest temporal function's fibre
+ * holds nearly every vertex). Memory per time point is about 8 bytes per row with a target, and
+ * a few bytes per active fibre entry without one.
  *
  * @example
  * ```ts
@@ -248,19 +253,30 @@ export function regionTracking(system: SpaceTimeSystem, opts: RegionTrackingOpti
     if (opts[k] !== undefined && typeof opts[k] !== 'function') throw new InvalidArgumentError(`${k} must be a function`, { field: k });
   }
   const inside = opts.inside ?? (() => true);
-  const target = opts.target ?? (() => 0);
+  const target = opts.target;
   const breaks = temporalBreakpoints(system.trialSet, T, from, to);
   const { nodes, weights } = gaussLegendre01(nq);
-  const slices: EvaluationBlock[] = [];
+  // One frame for the time points of an interval (the active functions do not change between
+  // breakpoints), one leaf mesh and one set of rows for all frames with the same vertices (`inside`
+  // does not depend on t), and one array of zero targets for all slices when there is no target.
+  const meshes = new FrameMeshes(domain);
+  const specs: { t: number; frame: SliceFrame; sigma: Float64Array; rows: QuadratureRows; scale: number }[] = [];
+  let most = 0;
   for (let b = 0; b + 1 < breaks.length; b++) {
     const a = breaks[b]!;
     const h = breaks[b + 1]! - a;
-    for (let q = 0; q < nq; q++) {
-      const t = a + h * nodes[q]!;
-      const s = quadratureSlice(domain, system.trialSet, T, t, h * weights[q]!, inside, (x, y) => target(t, x, y), 'target');
-      if (s.rowCount > 0) slices.push(new SliceBlock(s));
-    }
+    const times = Array.from(nodes, (s) => a + h * s);
+    const { frame, sigma, shared } = sliceFrame(domain, system.trialSet, T, times, meshes);
+    const rows = (shared.rows ??= quadratureRows(frame.mesh, inside));
+    if (rows.count === 0) continue;
+    most = Math.max(most, rows.count);
+    times.forEach((t, q) => specs.push({ t, frame, sigma: sigma[q]!, rows, scale: h * weights[q]! }));
   }
+  const zeros = new Float64Array(target ? 0 : most);
+  const slices: EvaluationBlock[] = specs.map(({ t, frame, sigma, rows, scale }) => {
+    const targets = target ? rowTargets(frame.mesh, rows, (x, y) => target(t, x, y), 'target', t) : zeros;
+    return new SliceBlock({ t, frame, sigma, rows }, scale, targets);
+  });
   return new LeastSquaresFunctional(system.trialSet, slices);
 }
 
@@ -308,9 +324,9 @@ export function combineFunctionals(terms: Array<[number, LeastSquaresFunctional]
 
 /** Sensor readings as an {@link EvaluationBlock}: rows of a {@link PointSeriesOperator}. */
 class SeriesBlock implements EvaluationBlock {
-  constructor(private readonly E: PointSeriesOperator, readonly weights: Float64Array, readonly targets: Float64Array) {}
+  constructor(private readonly E: PointSeriesOperator, readonly weights: Float64Array, readonly targets: Float64Array, readonly scale = 1) {}
   get rowCount(): number { return this.E.rowCount; }
   apply(u: Float64Array, out: Float64Array): void { this.E.apply(u, out); }
   applyTransposed(r: Float64Array, g: Float64Array): void { this.E.applyTransposed(r, g); }
-  scaled(alpha: number): EvaluationBlock { return new SeriesBlock(this.E, this.weights.map((w) => alpha * w), this.targets); }
+  scaled(alpha: number): EvaluationBlock { return new SeriesBlock(this.E, this.weights, this.targets, alpha * this.scale); }
 }
