@@ -74,6 +74,13 @@ problem file fields (JSON object):
               (a warning names the element where either varies most inside,
               if by more than 1 %: give more cells there)
   source      f(t, x, y), default "${PROBLEM_DEFAULTS.source}"
+  curveSources list of sources concentrated on a polyline (2D, heat per unit
+              length and time: a heating cable, a pipe seen from above) or at a
+              point (1D, heat per unit time): {"curve":[[x,y],…] (1D: [[x]]),
+              "time":g(t) (default "1"), "density":ρ(x,y) (default "1")}; the
+              load is ∫∫ g ρ v along the curve. The curve must lie inside the
+              domain. No point sources in 2D (the temperature there would be
+              infinite): spread one over a small disc with "source"
   initial     u0(x, y), default "${PROBLEM_DEFAULTS.initial}"; or {"state":"FILE"} to start from a
               state file (path relative to this file), such as the
               end-state.json of an earlier run's --out: values at the points of

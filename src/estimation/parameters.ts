@@ -6,7 +6,7 @@
  */
 import { checkOptions } from '../validation/checks';
 import { InvalidArgumentError, describeValue } from '../errors';
-import type { SeparableTerm } from '../system/heat-problem';
+import type { CurveSource, SeparableTerm } from '../system/heat-problem';
 import type { SpaceTimeSystem } from '../system/space-time-system';
 import { controlLoad, type ControlBasis } from './control-load';
 import { InitialStateMap } from './initial-state-map';
@@ -66,8 +66,9 @@ class ColumnMap implements ParameterMap {
 /**
  * Amplitudes m_i of separable sources f = Σ_i m_i g_i(t) h_i(x) (e.g. heater powers): column i is
  * the system's right-hand side for the source g_i h_i alone, so a forward solve with amplitudes m
- * reproduces `system.rightHandSide({ source })` with the scaled terms. Cost: one right-hand side
- * per term, memory one vector per term.
+ * reproduces `system.rightHandSide({ source })` with the scaled terms. A term may also be a source
+ * concentrated on a curve or at a point ({@link CurveSource}: a heating cable of unknown power).
+ * Cost: one right-hand side per term, memory one vector per term.
  *
  * @example
  * ```ts
@@ -81,13 +82,22 @@ class ColumnMap implements ParameterMap {
  * console.log(heaters.size); // → 2
  * ```
  */
-export function sourceAmplitudes(system: SpaceTimeSystem, terms: SeparableTerm[]): ParameterMap {
+export function sourceAmplitudes(system: SpaceTimeSystem, terms: (SeparableTerm | CurveSource)[]): ParameterMap {
   if (!Array.isArray(terms) || terms.length === 0) throw new InvalidArgumentError('terms must be a non-empty array of { time, space } source terms', { field: 'terms' });
   const columns = terms.map((term, i) => {
-    if (!term || typeof term.time !== 'function' || typeof term.space !== 'function') {
-      throw new InvalidArgumentError(`terms[${i}] must be { time: (t) => number, space: (x, y) => number }`, { field: `terms[${i}]`, received: describeValue(term) });
+    // a concentrated source (a heating cable of unknown power, say): { curve, time?, density? }
+    if (term && typeof term === 'object' && 'curve' in term) {
+      try {
+        return system.rightHandSide({ curveSources: [term] });
+      } catch (e) {
+        if (e instanceof InvalidArgumentError) throw new InvalidArgumentError(e.message.replace(/curveSources\[0\]/g, `terms[${i}]`), { field: (e.field ?? '').replace('curveSources[0]', `terms[${i}]`), received: e.received });
+        throw e;
+      }
     }
-    return system.rightHandSide({ source: [term] });
+    if (!term || typeof term.time !== 'function' || typeof (term as SeparableTerm).space !== 'function') {
+      throw new InvalidArgumentError(`terms[${i}] must be { time: (t) => number, space: (x, y) => number } or a concentrated source { curve, time?, density? }`, { field: `terms[${i}]`, received: describeValue(term) });
+    }
+    return system.rightHandSide({ source: [term as SeparableTerm] });
   });
   return new ColumnMap(columns, terms.map((_, i) => `amplitude ${i}`), system.size);
 }

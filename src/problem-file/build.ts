@@ -180,8 +180,27 @@ export function buildProblem(spec: ProblemSpec): BuiltProblem {
     const s = transferSpread(mesh, domain.forest.boundary.edgePart, p, (x, y) => h(0, x, y));
     if (s) spreads.push(s);
   });
+  const curveSources = spec.curveSources.map((c, j) => {
+    const f = `curveSources[${j}]`;
+    const time = (t: number): number => {
+      const v = c.time.fn(t, 0, 0);
+      if (!Number.isFinite(v)) throw new InvalidArgumentError(`${f}.time: ${JSON.stringify(c.time.source)} evaluates to ${v} at t = ${t + spec.start} (expected a finite number)`, { field: `${f}.time`, expected: 'a finite number', received: v });
+      return v;
+    };
+    const density = (x: number, y: number): number => {
+      const v = c.density.fn(0, x, y);
+      if (!Number.isFinite(v)) pointError(c.density, `${f}.density`, dim, spec.start, x, y, v, 'a finite number');
+      return v;
+    };
+    for (const t of [0, duration / 2, duration]) time(t);
+    for (const p of c.curve) density(p[0]!, p[1] ?? 0);
+    const unit = c.density.constant && c.density.fn(0, 0, 0) === 1;
+    return { curve: c.curve, time, ...(unit ? {} : { density }) };
+  });
   const zeroInitial = spec.initial.constant && spec.initial.fn(0, 0, 0) === 0;
-  const problem = new HeatProblem({ domain, T: duration, ...(zeroInitial ? {} : { initial }), ...(source ? { source } : {}) });
+  const problem = new HeatProblem({
+    domain, T: duration, ...(zeroInitial ? {} : { initial }), ...(source ? { source } : {}), ...(curveSources.length > 0 ? { curveSources } : {}),
+  });
   return { spec, domain, problem, coefficientSpread: spreads };
 }
 

@@ -75,6 +75,11 @@ export interface ProblemSpec {
   bulk: number | null;
   /** Probe points as [t, x] or [t, x, y]. */
   probes: number[][];
+  /**
+   * Sources concentrated at a point (1D) or on a polyline (2D): the points, the time profile g(t)
+   * (default "1") and the density ρ(x, y) along the curve (default "1"); the load is ∫∫_Γ g ρ v.
+   */
+  curveSources: { curve: number[][]; time: CompiledExpression; density: CompiledExpression }[];
   /** Sensor histories: fixed points ([x] or [x, y]) read at the given absolute times; null if none. */
   sensors: { points: number[][]; times: number[] } | null;
   slices: number[];
@@ -86,7 +91,7 @@ export interface ProblemSpec {
 export const PROBLEM_FIELDS = [
   'title', 'description', 'domain', 'start', 'horizon', 'diffusion', 'reaction', 'source', 'initial', 'insulated',
   'boundary', 'strategy', 'tolerance', 'maxDofs', 'maxSeconds', 'maxSteps', 'bulk', 'probes', 'slices', 'exact',
-  'sensors',
+  'sensors', 'curveSources',
 ] as const;
 
 const DOMAIN_FIELDS: Record<DomainSpec['shape'], string[]> = {
@@ -162,6 +167,29 @@ function parseBoundaryPart(v: unknown, field: string, space: ('x' | 'y')[]): Bou
     where: sub('where', '0', space),
     data: sub(dataName, '0', ['t', ...space]),
     transferCoefficient: kind === 'convection' ? sub('transferCoefficient', '0', space) : null,
+  };
+}
+
+/**
+ * One of `curveSources`: {"curve": [[x]] (1D) or [[x, y], …] (2D polyline), "time": expression in
+ * t, "density": expression in x, y}. The points are checked here for shape and finiteness; whether
+ * the curve lies inside the domain is checked when the problem is built (with the domain).
+ */
+function parseCurveSource(v: unknown, field: string, dim: 1 | 2, space: ('x' | 'y')[]): ProblemSpec['curveSources'][number] {
+  if (v === null || typeof v !== 'object' || Array.isArray(v)) bad(field, `must be an object {"curve": […], "time": …, "density": …}, found ${typeName(v)}`, v);
+  const o = v as Record<string, unknown>;
+  checkKeys(o, ['curve', 'time', 'density'], field);
+  const shape = dim === 1 ? '[[x]] (one point)' : '[[x, y], …] (a polyline of at least two points)';
+  if (!Array.isArray(o.curve) || o.curve.length === 0) bad(`${field}.curve`, `is required: ${shape}, found ${typeName(o.curve)}`, o.curve);
+  const curve = (o.curve as unknown[]).map((p, k) => {
+    const f = `${field}.curve[${k}]`;
+    if (!Array.isArray(p) || p.length !== dim) bad(f, `must be ${dim === 1 ? '[x]' : '[x, y]'}, found ${typeName(p)}`, p);
+    return (p as unknown[]).map((c, j) => num(c, `${f}[${j}]`, '(finite)', () => true));
+  });
+  return {
+    curve,
+    time: expression(o, 'time', '1', ['t'], `${field}.time`),
+    density: expression(o, 'density', '1', space, `${field}.density`),
   };
 }
 
@@ -270,6 +298,7 @@ export function parseProblem(json: unknown, opts: ParseProblemOptions = {}): Pro
     ...diffusionFields(o, dim, space),
     reaction: expression(o, 'reaction', PROBLEM_DEFAULTS.reaction, space),
     source: expression(o, 'source', PROBLEM_DEFAULTS.source, ['t', ...space]),
+    curveSources: list('curveSources').map((c, i) => parseCurveSource(c, `curveSources[${i}]`, dim, space)),
     ...initialState(o, space, opts),
     insulated: o.insulated === undefined ? null : expression(o, 'insulated', '0', space),
     boundary: list('boundary').map((p, i) => parseBoundaryPart(p, `boundary[${i}]`, space)),
@@ -300,6 +329,7 @@ function shiftedToStart(spec: ProblemSpec): ProblemSpec {
   return {
     ...spec,
     source: shifted(spec.source, s),
+    curveSources: spec.curveSources.map((c) => ({ ...c, time: shifted(c.time, s) })),
     boundary: spec.boundary.map((b) => ({ ...b, data: shifted(b.data, s) })),
     exact: x === null ? null : {
       value: shifted(x.value, s), dt: shifted(x.dt, s), dx: shifted(x.dx, s), dxx: shifted(x.dxx, s),

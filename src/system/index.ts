@@ -1,6 +1,6 @@
 /** Public exports of the system module (re-exported by src/index.ts). */
 export type { LinearOperator } from '../numerics/linear-operator';
-export { HeatProblem, type HeatProblemSpec, type SeparableTerm } from './heat-problem';
+export { HeatProblem, type CurveSource, type HeatProblemSpec, type SeparableTerm } from './heat-problem';
 export { SpaceTimeSystem, type SpaceTimeSystemOptions, type SpatialCaches, type SystemSolveOptions } from './space-time-system';
 export { FibreInverseCache, type InnerSolver, type FibreInverse } from './fibre-inverse';
 export { SchurOperator } from './schur-operator';

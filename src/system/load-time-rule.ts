@@ -8,9 +8,10 @@
  * coarse-scale part, and that data error is invisible to the estimator (a source pulse of length
  * 0.001 on (0, 1): E = 0, u ≡ 0; a boundary flux pulse: the same).
  *
- * Three groups of data are watched at fixed places: the source at points of the domain
- * (../space/sample-points.ts), the flux and ambient data (times h) at points of the natural
- * boundary edges, and the prescribed values at the vertices that carry them. The dyadic intervals
+ * Four groups of data are watched at fixed places: the source at points of the domain
+ * (../space/sample-points.ts), the time profiles of the concentrated sources (one place each,
+ * weighted by ∫_Γ |ρ| ds), the flux and ambient data (times h) at points of the natural boundary
+ * edges, and the prescribed values at the vertices that carry them. The dyadic intervals
  * I_{l,k} = [k, k + 1]·T·2^{−l} are checked from l = 0 on: where, for some group, the 4-point rule
  * on I disagrees with the same rule on pieces of at most T/1024 (at least MIN_PIECES), summed over
  * the places with their weights and over the two linear moments on I, by more than TOLERANCE of
@@ -23,6 +24,7 @@ import { InvalidArgumentError } from '../errors';
 import { gaussLegendre01 } from '../numerics/gauss-legendre';
 import { boundarySamplePoints, domainSamplePoints } from '../space/sample-points';
 import { heldValuesOf } from '../space/held-values';
+import { curveWeight } from '../space/curve-load';
 import type { HeatProblem } from './heat-problem';
 
 /** Gauss points per half interval: as the loads. */
@@ -56,7 +58,7 @@ interface WatchedGroup {
 /** The breakpoints of the time-dependent data of `problem` (none without source or boundary data). @internal */
 export function loadBreakpoints(problem: HeatProblem): LoadBreakpoints {
   const T = problem.T;
-  const groups = [sourceGroup(problem), boundaryGroup(problem), heldGroup(problem)].filter((g): g is WatchedGroup => g !== null);
+  const groups = [sourceGroup(problem), curveGroup(problem), boundaryGroup(problem), heldGroup(problem)].filter((g): g is WatchedGroup => g !== null);
   const { nodes, weights } = gaussLegendre01(LOAD_TIME_POINTS);
   // The two linear moments per place of the rule on [a, b] applied to `pieces` equal pieces (into
   // out, 2 per place), and Σ_p w_p ∫ |g| (returned). The loads apply the rule to each piece between
@@ -160,6 +162,23 @@ function sourceGroup(problem: HeatProblem): WatchedGroup | null {
     return values;
   };
   return { weights: w, sample };
+}
+
+/** The time profiles of the concentrated sources, one place per source weighted by ∫_Γ |ρ| ds. */
+function curveGroup(problem: HeatProblem): WatchedGroup | null {
+  const curves = problem.curveSources;
+  if (!curves) return null;
+  const weights = Float64Array.from(curves, (c) => curveWeight(problem.domain, c.curve));
+  const values = new Float64Array(curves.length);
+  const sample = (t: number): Float64Array => {
+    curves.forEach((c, j) => {
+      const g = c.time(t);
+      if (!Number.isFinite(g)) throw new InvalidArgumentError(`curveSources[${j}].time(${t}) returned ${g}; expected a finite number`, { field: `curveSources[${j}].time`, received: g });
+      values[j] = g;
+    });
+    return values;
+  };
+  return { weights, sample };
 }
 
 /** Flux and ambient data at points of the natural boundary edges, weighted by h on convection edges. */

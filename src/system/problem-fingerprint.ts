@@ -3,7 +3,8 @@
  * run resumed with another problem is refused (docs/solution-files.md §4). Functions cannot be
  * compared, so their values are: the fingerprint is the CRC-32 of T, the initial mesh (points,
  * elements, κ, c, boundary kinds and h) and of the data sampled at fixed points — u0 and f at up to
- * 16 initial-element centroids, f and the boundary data at two times. Equal problems give equal
+ * 16 initial-element centroids, f and the boundary data at two times, and the points, time profiles
+ * and densities of concentrated sources. Equal problems give equal
  * fingerprints; different ones almost always differ (unless they agree at every sample).
  */
 import { crc32, hex32 } from '../numerics/crc32';
@@ -52,6 +53,14 @@ export function problemFingerprint(problem: HeatProblem): string {
     const i = b.edgeVertices[2 * e]!, j = b.edgeVertices[2 * e + 1]!;
     const x = 0.5 * (m.coords[i * d]! + m.coords[j * d]!), y = d === 2 ? 0.5 * (m.coords[i * d + 1]! + m.coords[j * d + 1]!) : 0;
     for (const t of times) values.push(e, data(t, x, y));
+  }
+  // Concentrated sources (nothing is added without them, so other fingerprints are unchanged):
+  // the points, the time profile at the two times and the density at the points.
+  for (const c of problem.curveSources ?? []) {
+    const P = c.curve.points, dd = c.curve.dim;
+    values.push(P.length, ...P);
+    for (const t of times) values.push(c.time(t));
+    for (let k = 0; k < P.length / dd; k++) values.push(c.curve.density ? c.curve.density(P[dd * k]!, dd === 2 ? P[dd * k + 1]! : 0) : 1);
   }
   const parts: Uint8Array[] = [
     new Uint8Array(Float64Array.from(values).buffer),

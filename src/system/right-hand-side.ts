@@ -10,6 +10,7 @@
 import { InvalidArgumentError } from '../errors';
 import { evaluateTemporal } from '../time/index';
 import { loadVector } from '../space/index';
+import { curveLoadVector } from '../space/curve-load';
 import type { DoubleTree } from '../spacetime/double-tree';
 import { gaussLegendre01 } from '../numerics/gauss-legendre';
 import type { HeatProblem } from './heat-problem';
@@ -32,10 +33,12 @@ export function sourceLoad(problem: HeatProblem, testSet: DoubleTree): Float64Ar
   const domain = problem.domain;
   const f = problem.source;
   const sep = problem.separableSource;
-  if (!f && !sep) return out;
+  const curves = problem.curveSources;
+  if (!f && !sep && !curves) return out;
   const breaks = problem.loadTimeBreakpoints().times;
   const pieces: number[] = [];
   const sepCache = new Map<number, Float64Array[]>();
+  const curveCache = new Map<number, Float64Array[]>();
   let scratch = new Float64Array(0);
   for (let i = 0; i < tree.size; i++) {
     const fibreId = testSet.nodeFibre[i]!;
@@ -56,6 +59,14 @@ export function sourceLoad(problem: HeatProblem, testSet: DoubleTree): Float64Ar
         sepCache.set(fibreId, spaceLoads);
       }
     }
+    let curveLoads: Float64Array[] | undefined;
+    if (curves) {
+      curveLoads = curveCache.get(fibreId);
+      if (!curveLoads) {
+        curveLoads = curves.map((c) => curveLoadVector(domain, fibre, c.curve));
+        curveCache.set(fibreId, curveLoads);
+      }
+    }
     halfPieces(a, b, breaks, pieces);
     for (let piece = 0; piece < pieces.length; piece += 2) {
       const lo = pieces[piece]!, hi = pieces[piece + 1]!;
@@ -69,6 +80,17 @@ export function sourceLoad(problem: HeatProblem, testSet: DoubleTree): Float64Ar
           for (let p = 0; p < n; p++) {
             out[o0 + p]! += p0 * load[p]!;
             out[o1 + p]! += p1 * load[p]!;
+          }
+        }
+        if (curves && curveLoads) {
+          for (let j = 0; j < curves.length; j++) {
+            const g = curves[j]!.time(t);
+            if (!Number.isFinite(g)) throw new InvalidArgumentError(`curveSources[${j}].time(${t}) returned ${g}; expected a finite number`, { field: `curveSources[${j}].time`, received: g });
+            const load = curveLoads[j]!;
+            for (let p = 0; p < n; p++) {
+              out[o0 + p]! += g * p0 * load[p]!;
+              out[o1 + p]! += g * p1 * load[p]!;
+            }
           }
         }
         if (sep && spaceLoads) {

@@ -127,7 +127,7 @@ export class SpaceTimeSystem {
    * b = Bᵀ K_Y ℓ_f + g ⊗ ℓ_0 for the system's own data, or for other data on the same domain and
    * interval (many right-hand sides with one operator: control, estimation, uncertainty studies).
    */
-  rightHandSide(data?: Pick<HeatProblemSpec, 'initial' | 'source'>): Float64Array {
+  rightHandSide(data?: Pick<HeatProblemSpec, 'initial' | 'source' | 'curveSources'>): Float64Array {
     const problem = data ? new HeatProblem({ domain: this.problem.domain, T: this.problem.T, ...data }) : this.problem;
     const lf = data ? this.dataSourceLoad(problem) : this.ownSourceLoad();
     const v = new Float64Array(this.testSet.size);

@@ -1,0 +1,169 @@
+/**
+ * Sources concentrated at a point (1D) or on a curve (2D), against outside references.
+ *
+ * - A unit point source switched on at t = 0 at x₀ in the rod (0, 1) held at 0, starting at rest,
+ *   has two closed forms (tests/helpers/point-source.ts: eigenfunction series with the steady
+ *   Green's function, and images of the free-space kernel integrated in time). They are checked
+ *   against each other where both converge; then point values and the true error ‖∂x(u − u_δ)‖ in
+ *   L2(0,T;L2) along an adaptive run, against its estimator E.
+ * - A straight line source across the unit square (insulated top and bottom, held sides) gives a
+ *   y-independent field, the rod's solution with x₀ the line's position: on a line along initial
+ *   edges (x = ½, where pieces lie on edges shared by two elements) and on one crossing elements
+ *   (x = 0.37), as a polyline with a kink-free middle point.
+ * - Load vectors against a closed form: with all of the boundary insulated, the hierarchical
+ *   coefficients of an affine g are its values at the initial vertices and 0 elsewhere (its
+ *   hierarchical surpluses vanish; common practice), so Σ_j g(v_j) ℓ_j = ∫_Γ ρ g ds, which Simpson's
+ *   rule gives exactly for ρ, g affine (a quadratic along each segment).
+ */
+import { describe, expect, it } from 'vitest';
+import {
+  DoubleTree, HeatProblem, InvalidArgumentError, SpaceTimeSystem, intervalDomain, lShapeDomain, problemFingerprint, rectangleDomain, solveAdaptive,
+  sourceAmplitudes, spaceTimeErrors, type KnownSolution,
+} from '../../src/index';
+import { checkSourceCurve, curveLoadVector } from '../../src/space/curve-load';
+import { imageForm, rod, seriesForm } from '../helpers/point-source';
+
+describe('concentrated sources', () => {
+  it('the two closed forms of the rod agree (t = 0.005 … 0.1)', () => {
+    for (const t of [0.005, 0.02, 0.1]) {
+      for (const x of [0.05, 0.25, 0.3, 0.7]) {
+        const [a, ga] = seriesForm(t, x, 0.25), [b, gb] = imageForm(t, x, 0.25);
+        expect(Math.abs(a - b)).toBeLessThan(1e-12);
+        if (x !== 0.25) expect(Math.abs(ga - gb)).toBeLessThan(1e-9);
+      }
+    }
+  });
+
+  it('1D point source: point values and the true error against E along an adaptive run', () => {
+    const x0 = 0.25;
+    const problem = new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 0.5, curveSources: [{ curve: [[x0]], time: () => 1 }] });
+    const exact: KnownSolution = {
+      value: (t, x) => rod(t, x, x0)[0],
+      gradient: (t, x, _y, g) => { g[0] = rod(t, x, x0)[1]; },
+    };
+    const ratios: number[] = [];
+    const errors: number[] = [];
+    const { solution, history } = solveAdaptive(problem, {
+      maxUnknowns: 2500,
+      onStep: (step, sol) => {
+        if (step.step % 4 !== 0) return;
+        const e = spaceTimeErrors(sol, exact).gradientL2;
+        errors.push(e);
+        ratios.push(e / step.estimate);
+      },
+    });
+    for (const [t, x] of [[0.02, 0.25], [0.02, 0.4], [0.2, 0.25], [0.5, 0.8]] as const) {
+      expect(Math.abs(solution.evaluate(t, [x])[0]! - rod(t, x, x0)[0])).toBeLessThan(2e-3 * rod(0.5, x0, x0)[0]);
+    }
+    // honest estimator: err/E within a band of width ≤ 3, and the error falls
+    expect(ratios.length).toBeGreaterThan(3);
+    expect(Math.max(...ratios) / Math.min(...ratios)).toBeLessThan(3);
+    for (const r of ratios) expect(r).toBeGreaterThan(0.3);
+    expect(errors[errors.length - 1]!).toBeLessThan(0.3 * errors[0]!);
+    expect(history.length).toBeGreaterThan(8);
+  });
+
+  for (const xc of [0.5, 0.37]) {
+    it(`2D line source along x = ${xc}: the rod's solution in every row`, () => {
+      const domain = rectangleDomain(0, 1, 0, 1, 2, 2, { insulated: (_x, y) => y < 1e-9 || y > 1 - 1e-9 });
+      const problem = new HeatProblem({ domain, T: 0.5, curveSources: [{ curve: [[xc, 0], [xc, 0.4], [xc, 1]] }] });
+      const { solution } = solveAdaptive(problem, { maxUnknowns: 12000 });
+      const peak = rod(0.5, xc, xc)[0];
+      for (const [t, x, y] of [[0.05, xc, 0.5], [0.05, 0.6, 0.2], [0.5, xc, 0.9], [0.5, 0.8, 0.5], [0.3, 0.1, 0.05]] as const) {
+        expect(Math.abs(solution.evaluate(t, [x, y])[0]! - rod(t, x, xc)[0]), `(${t}, ${x}, ${y})`).toBeLessThan(2e-3 * peak);
+      }
+    });
+  }
+
+  it('2D load vectors: Σ g(v) ℓ_v over the initial vertices is ∫_Γ ρ g ds (Simpson), on refined meshes', () => {
+    const domain = rectangleDomain(0, 2, 0, 1, 4, 2, { insulated: () => true, reaction: 1 }); // reaction: an all-insulated body needs it (it does not enter the loads)
+    const density = (x: number, y: number) => 1 + 0.5 * x - 0.25 * y;
+    const g = (x: number, y: number) => 2 - x + 3 * y;
+    // along an initial edge, across elements, through a vertex, and folded back over itself
+    const curves = [
+      [[0.5, 0], [0.5, 1]],
+      [[0.1, 0.13], [1.77, 0.91], [1.2, 0.05]],
+      [[0, 0], [1, 0.5], [2, 1]],
+      [[0.3, 0.3], [1.7, 0.6], [0.3, 0.3]],
+    ];
+    for (const pts of curves) {
+      let exact = 0;
+      for (let k = 0; k + 1 < pts.length; k++) {
+        const [ax, ay] = pts[k]!, [bx, by] = pts[k + 1]!;
+        const f = (s: number) => density(ax! + s * (bx! - ax!), ay! + s * (by! - ay!)) * g(ax! + s * (bx! - ax!), ay! + s * (by! - ay!));
+        exact += (Math.hypot(bx! - ax!, by! - ay!) / 6) * (f(0) + 4 * f(0.5) + f(1));
+      }
+      const curve = checkSourceCurve(domain, pts, density, 'c');
+      for (const level of [0, 2, 5]) {
+        const set = domain.uniformSet(level);
+        const load = curveLoadVector(domain, set, curve);
+        let sum = 0;
+        for (let i = 0; i < set.length; i++) {
+          const v = set[i]!;
+          if (v >= domain.initialVertexCount) continue;
+          const x = domain.forest.vCoord[2 * v]!, y = domain.forest.vCoord[2 * v + 1]!;
+          sum += g(x, y) * load[i]!;
+        }
+        expect(Math.abs(sum - exact) / Math.abs(exact), `${JSON.stringify(pts)} level ${level}`).toBeLessThan(1e-12);
+      }
+    }
+  });
+
+  it('a short pulse in the time profile is resolved by the loads (superposition of two switch-ons)', () => {
+    // on during [0.3, 0.31] only: u(t) = U(t − 0.3) − U(t − 0.31) (linearity, common practice)
+    const x0 = 0.25;
+    const problem = new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 1, curveSources: [{ curve: [[x0]], time: (t) => (t >= 0.3 && t < 0.31 ? 100 : 0) }] });
+    const breaks = problem.loadTimeBreakpoints().times;
+    expect(breaks.some((t) => Math.abs(t - 0.3) < 0.01)).toBe(true);
+    // the loop refines in time toward both switches, in many small steps (45 to 3 853 unknowns)
+    const { solution } = solveAdaptive(problem, { maxUnknowns: 4000, maxSteps: 200 });
+    const U = (t: number, x: number) => (t > 0 ? rod(t, x, x0)[0] : 0);
+    // within 1.5 %: 1.1 % at the source during the pulse, 0.5 % just after it, 0.3 % at the end
+    for (const [t, x] of [[0.305, 0.25], [0.35, 0.25], [0.5, 0.6], [0.8, 0.25]] as const) {
+      const exact = 100 * (U(t - 0.3, x) - U(t - 0.31, x));
+      expect(Math.abs(solution.evaluate(t, [x])[0]! - exact), `(${t}, ${x})`).toBeLessThan(0.015 * exact);
+    }
+  });
+
+  it('as a parameter: sourceAmplitudes with a curve term reproduces the scaled right-hand side; fingerprints tell curves apart', () => {
+    const domain = rectangleDomain(0, 1, 0, 1, 2, 2);
+    const set = DoubleTree.sparseGrid(domain, 3);
+    const system = new SpaceTimeSystem(new HeatProblem({ domain, T: 0.5 }), set);
+    const cable = { curve: [[0.1, 0.3], [0.9, 0.6]], time: (t: number) => 1 + t };
+    const map = sourceAmplitudes(system, [cable, { time: () => 1, space: (x: number) => x }]);
+    const b = new Float64Array(system.size);
+    map.addTo(Float64Array.of(2.5, 0), b);
+    const ref = system.rightHandSide({ curveSources: [{ ...cable, time: (t: number) => 2.5 * (1 + t) }] });
+    let diff = 0, norm = 0;
+    for (let i = 0; i < b.length; i++) {
+      diff = Math.max(diff, Math.abs(b[i]! - ref[i]!));
+      norm = Math.max(norm, Math.abs(ref[i]!));
+    }
+    expect(norm).toBeGreaterThan(0);
+    expect(diff / norm).toBeLessThan(1e-13);
+    expect(() => sourceAmplitudes(system, [{ curve: [[0.1, 0.3], [1.9, 0.6]] }])).toThrow(/segment 0 of terms\[0\]\.curve/);
+    const fp = (curve: number[][]) => problemFingerprint(new HeatProblem({ domain, T: 0.5, curveSources: [{ curve }] }));
+    expect(fp([[0.1, 0.3], [0.9, 0.6]])).toBe(fp([[0.1, 0.3], [0.9, 0.6]]));
+    expect(fp([[0.1, 0.3], [0.9, 0.6]])).not.toBe(fp([[0.1, 0.3], [0.9, 0.61]]));
+    expect(fp([[0.1, 0.3], [0.9, 0.6]])).not.toBe(problemFingerprint(new HeatProblem({ domain, T: 0.5 })));
+  });
+
+  it('input errors name the source and the point, before any work', () => {
+    const square = rectangleDomain(0, 1, 0, 1, 2, 2);
+    const make = (curveSources: unknown) => () => new HeatProblem({ domain: square, T: 1, curveSources: curveSources as never });
+    expect(make([{ curve: [[0.5, 0.5]] }])).toThrow(/curveSources\[0\]\.curve has 1 point; in 2D a source curve is a polyline of at least two points/);
+    expect(make([{ curve: [[0.2, 0.2], [0.2, 0.2]] }])).toThrow(/curveSources\[0\]\.curve\[0\] and curveSources\[0\]\.curve\[1\] coincide/);
+    expect(make([{ curve: [[0.2, 0.2], [1.5, 0.2]] }])).toThrow(/segment 0 of curveSources\[0\]\.curve, from \(0\.2, 0\.2\) to \(1\.5, 0\.2\), leaves the domain \(38\.5 % of it lies outside\)/);
+    expect(make([{ curve: [[0.2, NaN], [0.5, 0.2]] }])).toThrow(/curveSources\[0\]\.curve\[0\] has coordinate NaN/);
+    expect(make([{ curve: [[0.2, 0.2], [0.5, 0.2]], power: 3 }])).toThrow(InvalidArgumentError);
+    expect(make([{ curve: [[0.2, 0.2], [0.5, 0.2]], density: 2 }])).toThrow(/curveSources\[0\]\.density must be a function/);
+    // an L-shape: a segment from one arm to the other crosses the missing quarter
+    const L = lShapeDomain(1);
+    expect(() => new HeatProblem({ domain: L, T: 1, curveSources: [{ curve: [[-0.5, -0.5], [0.5, 0.5], [0.5, -0.5]] }] })).toThrow(/segment 1 of curveSources\[0\]\.curve/);
+    expect(() => new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 1, curveSources: [{ curve: [[1.2]] }] })).toThrow(/curveSources\[0\]\.curve\[0\] = \[1\.2\] lies outside the domain/);
+    expect(() => new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 1, curveSources: [{ curve: [[0.2], [0.4]] }] })).toThrow(/in 1D a concentrated source sits at one point/);
+    // non-finite data at run time name the source
+    const bad = new HeatProblem({ domain: square, T: 1, curveSources: [{ curve: [[0.2, 0.2], [0.6, 0.7]], density: (x) => (x > 0.5 ? NaN : 1) }] });
+    expect(() => solveAdaptive(bad, { maxUnknowns: 200 })).toThrow(/curveSources\[0\]\.density\(0\.\d+, 0\.\d+\) returned NaN/);
+  });
+});
