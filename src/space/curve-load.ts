@@ -290,8 +290,9 @@ function clipToTriangle(P: Float64Array, k: number, xy: Float64Array, i0: number
     const tol = EPS * Math.hypot(ex, ey) * (Math.hypot(ex, ey) + Math.hypot(bx - ax, by - ay));
     if (f0 < -tol && f1 < -tol) return null;
     if (f0 >= -tol && f1 >= -tol) continue;
+    // exactly one end is outside: the segment enters the half-plane (first end outside) or leaves it
     const s = f0 / (f0 - f1);
-    if (f0 < 0) s0 = Math.max(s0, s);
+    if (f0 < -tol) s0 = Math.max(s0, s);
     else s1 = Math.min(s1, s);
     if (s0 >= s1) return null;
   }
