@@ -247,11 +247,10 @@ function forEachPiece(mesh: LeafMesh, curve: SourceCurve, piece: (seg: number, e
         for (const k of cells[j * nx + i]!) {
           if (stamp[k] === e) continue;
           stamp[k] = e;
-          const r = clipToTriangle(P, k, xy, i0, i1, i2);
-          if (r !== null) {
+          if (clipToTriangle(P, k, xy, i0, i1, i2)) {
             pSeg.push(k);
-            pS0.push(r[0]);
-            pS1.push(r[1]);
+            pS0.push(clipped[0]!);
+            pS1.push(clipped[1]!);
             pEl.push(e);
           }
         }
@@ -272,29 +271,34 @@ function forEachPiece(mesh: LeafMesh, curve: SourceCurve, piece: (seg: number, e
   }
 }
 
+// The range of the last successful clipToTriangle (module scratch: loads are built synchronously).
+const clipped = new Float64Array(2);
+
 /**
- * The parameter range [s0, s1] ⊆ [0, 1] of segment k of P inside the closed triangle (i0, i1, i2),
- * or null (Cyrus–Beck: the intersection of the three edges' half-planes, either orientation).
+ * Whether segment k of P meets the closed triangle (i0, i1, i2) in a piece of positive length; its
+ * parameter range [s0, s1] ⊆ [0, 1] is then in `clipped` (Cyrus–Beck: the intersection of the three
+ * edges' half-planes, either orientation).
  */
-function clipToTriangle(P: Float64Array, k: number, xy: Float64Array, i0: number, i1: number, i2: number): [number, number] | null {
+function clipToTriangle(P: Float64Array, k: number, xy: Float64Array, i0: number, i1: number, i2: number): boolean {
   const ax = P[2 * k]!, ay = P[2 * k + 1]!, bx = P[2 * k + 2]!, by = P[2 * k + 3]!;
   const orient = Math.sign((xy[2 * i1]! - xy[2 * i0]!) * (xy[2 * i2 + 1]! - xy[2 * i0 + 1]!) - (xy[2 * i1 + 1]! - xy[2 * i0 + 1]!) * (xy[2 * i2]! - xy[2 * i0]!));
   let s0 = 0, s1 = 1;
-  const vs = [i0, i1, i2];
   for (let m = 0; m < 3; m++) {
-    const p = vs[m]!, q = vs[(m + 1) % 3]!;
+    const p = m === 0 ? i0 : m === 1 ? i1 : i2, q = m === 0 ? i1 : m === 1 ? i2 : i0;
     const ex = xy[2 * q]! - xy[2 * p]!, ey = xy[2 * q + 1]! - xy[2 * p + 1]!;
     // f(s) = orient · cross(edge, X(s) − p) ≥ 0 inside; a tolerance relative to the edge and the segment
     const f0 = orient * (ex * (ay - xy[2 * p + 1]!) - ey * (ax - xy[2 * p]!));
     const f1 = orient * (ex * (by - xy[2 * p + 1]!) - ey * (bx - xy[2 * p]!));
     const tol = EPS * Math.hypot(ex, ey) * (Math.hypot(ex, ey) + Math.hypot(bx - ax, by - ay));
-    if (f0 < -tol && f1 < -tol) return null;
+    if (f0 < -tol && f1 < -tol) return false;
     if (f0 >= -tol && f1 >= -tol) continue;
     // exactly one end is outside: the segment enters the half-plane (first end outside) or leaves it
     const s = f0 / (f0 - f1);
     if (f0 < -tol) s0 = Math.max(s0, s);
     else s1 = Math.min(s1, s);
-    if (s0 >= s1) return null;
+    if (s0 >= s1) return false;
   }
-  return s1 - s0 > 1e-12 ? [s0, s1] : null;
+  clipped[0] = s0;
+  clipped[1] = s1;
+  return s1 - s0 > 1e-12;
 }

@@ -123,7 +123,7 @@ describe('concentrated sources', () => {
     const adaptive = solveAdaptive(new HeatProblem({ domain, T: 0.5, initial: () => 1 }), { maxUnknowns: 1500 }).set;
     const meshes = [domain.leafMesh(domain.uniformSet(2)), domain.leafMesh(domain.uniformSet(3)), domain.leafMesh(adaptive.fibre(0))];
     for (const pts of curves) {
-      const curve = checkSourceCurve(domain, pts, (x) => 1 + x, 'c');
+      const curve = checkSourceCurve(domain, pts, (x: number) => 1 + x, 'c');
       for (const mesh of meshes) {
         const r = new Float64Array(mesh.vertexCount);
         nodalCurveLoad(mesh, curve, r);
