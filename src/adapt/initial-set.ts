@@ -9,6 +9,7 @@ import { MAX_TEMPORAL_LEVEL } from '../time/index';
 import type { HeatProblem } from '../system/heat-problem';
 import { dataResolvedSet, type SampledDatum } from '../space/data-resolution';
 import { boundaryDataResolvedSet } from '../space/boundary-data-resolution';
+import { curveResolvedSet } from '../space/curve-resolution';
 import { unionOfTwoSorted } from '../space/operator-plan';
 
 /**
@@ -24,7 +25,7 @@ export const DEEPEST_SET_LEVEL = MAX_TEMPORAL_LEVEL - 2;
 /**
  * The smallest sparse grid with at least one unknown (level 1 unless the mesh is very coarse),
  * with every fibre refined where the load quadrature would miss features of the source or the
- * initial state (§2.1), graded toward t = 0 down to the shortest diffusion time of the initial
+ * initial state, and near concentrated sources close to a held boundary (§2.1), graded toward t = 0 down to the shortest diffusion time of the initial
  * mesh and of the elements that resolve the initial state.
  */
 export function defaultInitialSet(problem: HeatProblem): DoubleTree {
@@ -35,8 +36,9 @@ export function defaultInitialSet(problem: HeatProblem): DoubleTree {
       const initial = dataResolvedSet(closure, initialData(problem));
       const source = dataResolvedSet(closure, sourceData(problem));
       const boundary = boundaryDataResolvedSet(closure, sampleTimes(problem.T));
+      const curves = curveResolvedSet(closure, (problem.curveSources ?? []).map((c) => c.curve));
       const tau = Math.min(shortestDiffusionTime(problem.domain), initial.tau);
-      const extra = unionOfTwoSorted(unionOfTwoSorted(initial.set, source.set), boundary);
+      const extra = unionOfTwoSorted(unionOfTwoSorted(unionOfTwoSorted(initial.set, source.set), boundary), curves);
       return withPulseNodes(problem, withVertices(problem, gradedTowardsStart(problem, set, tau), extra));
     }
   }

@@ -271,15 +271,15 @@ function forEachPiece(mesh: LeafMesh, curve: SourceCurve, piece: (seg: number, e
   }
 }
 
-// The range of the last successful clipToTriangle (module scratch: loads are built synchronously).
-const clipped = new Float64Array(2);
+/** The range of the last successful clipToTriangle (module scratch: loads are built synchronously). @internal */
+export const clipped = new Float64Array(2);
 
 /**
  * Whether segment k of P meets the closed triangle (i0, i1, i2) in a piece of positive length; its
  * parameter range [s0, s1] ⊆ [0, 1] is then in `clipped` (Cyrus–Beck: the intersection of the three
- * edges' half-planes, either orientation).
+ * edges' half-planes, either orientation). @internal
  */
-function clipToTriangle(P: Float64Array, k: number, xy: Float64Array, i0: number, i1: number, i2: number): boolean {
+export function clipToTriangle(P: Float64Array, k: number, xy: Float64Array, i0: number, i1: number, i2: number): boolean {
   const ax = P[2 * k]!, ay = P[2 * k + 1]!, bx = P[2 * k + 2]!, by = P[2 * k + 3]!;
   const orient = Math.sign((xy[2 * i1]! - xy[2 * i0]!) * (xy[2 * i2 + 1]! - xy[2 * i0 + 1]!) - (xy[2 * i1 + 1]! - xy[2 * i0 + 1]!) * (xy[2 * i2]! - xy[2 * i0]!));
   let s0 = 0, s1 = 1;

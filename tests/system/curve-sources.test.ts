@@ -18,7 +18,7 @@
 import { describe, expect, it } from 'vitest';
 import {
   DoubleTree, HeatProblem, InvalidArgumentError, SpaceTimeSystem, intervalDomain, lShapeDomain, problemFingerprint, rectangleDomain, solveAdaptive,
-  sourceAmplitudes, spaceTimeErrors, type KnownSolution,
+  sourceAmplitudes, spaceTimeErrors, triangulatedDomain, type KnownSolution,
 } from '../../src/index';
 import { checkSourceCurve, curveLoadVector, nodalCurveLoad } from '../../src/space/curve-load';
 import { imageForm, rod, seriesForm } from '../helpers/point-source';
@@ -157,6 +157,27 @@ describe('concentrated sources', () => {
         // the reference's own error: O(N⁻²) per element crossing (the integrand has kinks there), 3e-6 at most seen
         expect(diff / top, `${JSON.stringify(pts)} on ${mesh.elementCount} elements`).toBeLessThan(2e-5);
       }
+    }
+  });
+
+  it('sources close to a held boundary on the coarsest meshes: the estimator is awake from the first step', () => {
+    // 1D: x₀ = 0.01 in two cells (err/E at the first step was 4.7 before the first set resolved it)
+    const x0 = 0.01;
+    const exact: KnownSolution = { value: (t, x) => rod(t, x, x0)[0], gradient: (t, x, _y, g) => { g[0] = rod(t, x, x0)[1]; } };
+    const ratios: number[] = [];
+    solveAdaptive(new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 0.5, curveSources: [{ curve: [[x0]] }] }), {
+      maxUnknowns: 600,
+      onStep: (step, sol) => { if (step.step < 6) ratios.push(spaceTimeErrors(sol, exact).gradientL2 / step.estimate); },
+    });
+    expect(ratios[0]!).toBeLessThan(2);
+    expect(Math.max(...ratios) / Math.min(...ratios)).toBeLessThan(3);
+    // 2D: a short cable next to a corner of the square cut into two triangles (no free vertex); E at
+    // the first step was 0.35 of its largest value over the next steps, and for a cable along a held
+    // edge 0.44 (a run with a tolerance could have stopped there)
+    const square = triangulatedDomain([[0, 0], [1, 0], [1, 1], [0, 1]], [[0, 1, 2], [0, 2, 3]]);
+    for (const curve of [[[0.05, 0.05], [0.12, 0.05]], [[0.05, 0.3], [0.05, 0.7]]]) {
+      const E = solveAdaptive(new HeatProblem({ domain: square, T: 0.5, curveSources: [{ curve }] }), { maxUnknowns: 3000, maxSteps: 6 }).history.map((h) => h.estimate);
+      expect(E[0]! / Math.max(...E), JSON.stringify(curve)).toBeGreaterThan(0.6);
     }
   });
 
