@@ -37,8 +37,13 @@ export function sourceLoad(problem: HeatProblem, testSet: DoubleTree): Float64Ar
   if (!f && !sep && !curves) return out;
   const breaks = problem.loadTimeBreakpoints().times;
   const pieces: number[] = [];
-  const sepCache = new Map<number, Float64Array[]>();
-  const curveCache = new Map<number, Float64Array[]>();
+  // Separable factors g(t)·ℓ_x: the terms of a separable source, then the concentrated sources; the
+  // spatial loads are computed once per distinct fibre.
+  const factors: { time: (t: number) => number; field: string; load: (fibre: Int32Array) => Float64Array }[] = [
+    ...(sep ?? []).map((term, j) => ({ time: term.time, field: `source[${j}].time`, load: (fib: Int32Array) => loadVector(domain, fib, checkedSpace(term.space, j)) })),
+    ...(curves ?? []).map((c, j) => ({ time: c.time, field: `curveSources[${j}].time`, load: (fib: Int32Array) => curveLoadVector(domain, fib, c.curve) })),
+  ];
+  const factorCache = new Map<number, Float64Array[]>();
   let scratch = new Float64Array(0);
   for (let i = 0; i < tree.size; i++) {
     const fibreId = testSet.nodeFibre[i]!;
@@ -51,21 +56,10 @@ export function sourceLoad(problem: HeatProblem, testSet: DoubleTree): Float64Ar
     const o1 = testSet.functionOffset[2 * i + 1]!;
     const [a, b] = testNodeInterval(l, k, T);
     if (scratch.length < n) scratch = new Float64Array(n);
-    let spaceLoads: Float64Array[] | undefined;
-    if (sep) {
-      spaceLoads = sepCache.get(fibreId);
-      if (!spaceLoads) {
-        spaceLoads = sep.map((term, j) => loadVector(domain, fibre, checkedSpace(term.space, j)));
-        sepCache.set(fibreId, spaceLoads);
-      }
-    }
-    let curveLoads: Float64Array[] | undefined;
-    if (curves) {
-      curveLoads = curveCache.get(fibreId);
-      if (!curveLoads) {
-        curveLoads = curves.map((c) => curveLoadVector(domain, fibre, c.curve));
-        curveCache.set(fibreId, curveLoads);
-      }
+    let spaceLoads = factorCache.get(fibreId);
+    if (!spaceLoads) {
+      spaceLoads = factors.map((fac) => fac.load(fibre));
+      factorCache.set(fibreId, spaceLoads);
     }
     halfPieces(a, b, breaks, pieces);
     for (let piece = 0; piece < pieces.length; piece += 2) {
@@ -82,26 +76,13 @@ export function sourceLoad(problem: HeatProblem, testSet: DoubleTree): Float64Ar
             out[o1 + p]! += p1 * load[p]!;
           }
         }
-        if (curves && curveLoads) {
-          for (let j = 0; j < curves.length; j++) {
-            const g = curves[j]!.time(t);
-            if (!Number.isFinite(g)) throw new InvalidArgumentError(`curveSources[${j}].time(${t}) returned ${g}; expected a finite number`, { field: `curveSources[${j}].time`, received: g });
-            const load = curveLoads[j]!;
-            for (let p = 0; p < n; p++) {
-              out[o0 + p]! += g * p0 * load[p]!;
-              out[o1 + p]! += g * p1 * load[p]!;
-            }
-          }
-        }
-        if (sep && spaceLoads) {
-          for (let j = 0; j < sep.length; j++) {
-            const g = sep[j]!.time(t);
-            if (!Number.isFinite(g)) throw new InvalidArgumentError(`source[${j}].time(${t}) returned ${g}; expected a finite number`, { field: `source[${j}].time`, received: g });
-            const load = spaceLoads[j]!;
-            for (let p = 0; p < n; p++) {
-              out[o0 + p]! += g * p0 * load[p]!;
-              out[o1 + p]! += g * p1 * load[p]!;
-            }
+        for (let j = 0; j < factors.length; j++) {
+          const g = factors[j]!.time(t);
+          if (!Number.isFinite(g)) throw new InvalidArgumentError(`${factors[j]!.field}(${t}) returned ${g}; expected a finite number`, { field: factors[j]!.field, received: g });
+          const load = spaceLoads[j]!;
+          for (let p = 0; p < n; p++) {
+            out[o0 + p]! += g * p0 * load[p]!;
+            out[o1 + p]! += g * p1 * load[p]!;
           }
         }
       }
