@@ -10,6 +10,7 @@ import type { HeatProblem } from '../system/heat-problem';
 import { dataResolvedSet, type SampledDatum } from '../space/data-resolution';
 import { boundaryDataResolvedSet } from '../space/boundary-data-resolution';
 import { curveResolvedSet } from '../space/curve-resolution';
+import { loadTimeBreakpoints } from '../system/load-time-rule';
 import { unionOfTwoSorted } from '../space/operator-plan';
 
 /**
@@ -114,7 +115,7 @@ function withVertices(problem: HeatProblem, set: DoubleTree, extra: Int32Array):
  * (l + 2, 2k) and (l + 2, 2k + 1), centred in its halves.
  */
 function withPulseNodes(problem: HeatProblem, set: DoubleTree): DoubleTree {
-  const breaks = problem.loadTimeBreakpoints();
+  const breaks = loadTimeBreakpoints(problem);
   if (breaks.times.length === 0) return set;
   const { tree } = set;
   let fibre = set.fibre(Math.max(0, tree.find(1, 0)));

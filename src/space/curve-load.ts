@@ -12,87 +12,16 @@
  * three edge half-planes; common practice) and ρ λ_k is integrated on each piece by the 3-point
  * Gauss–Legendre rule: exact for ρ of degree ≤ 4 along the piece. A piece that runs along an edge
  * shared by two elements is clipped by both; the pieces of a segment are swept in order of their
- * start, and the part of a piece already covered is skipped, so each part of Γ counts once.
+ * start, and the part of a piece already covered is skipped, so each part of Γ counts once. The
+ * curves are checked when the problem is made (./source-curve.ts).
  */
 import { InvalidArgumentError, describeValue } from '../errors';
-import type { SpatialDomain } from './domain';
-import { hierarchicalToNodalTransposed } from './hierarchical';
 import type { LeafMesh } from './leaf-mesh';
-import { localIndices } from './operator-plan';
 import { INTERVAL_POINTS, INTERVAL_WEIGHTS } from './quadrature';
-
-/** A checked source curve: `dim` coordinates per point (one point in 1D, a polyline in 2D). */
-export interface SourceCurve {
-  readonly dim: 1 | 2;
-  readonly points: Float64Array;
-  /** Density ρ along the curve (per unit length in 2D; a factor in 1D); null for 1. */
-  readonly density: ((x: number, y: number) => number) | null;
-  /** The field named in errors, e.g. `curveSources[0]`. */
-  readonly field: string;
-}
+import type { SourceCurve } from './source-curve';
 
 /** Relative tolerance of the geometric tests (against the segment's or the mesh's size). */
 const EPS = 1e-12;
-
-/**
- * Checks `curve` (an array of points, `[x]` in 1D and `[x, y]` in 2D) against `domain` before any
- * work: finite coordinates, one point in 1D and at least two distinct consecutive points in 2D, and
- * the whole curve inside the closed domain (in 2D: its length clipped against the initial mesh
- * equals its length). Errors name `${field}.curve[k]`.
- */
-export function checkSourceCurve(domain: SpatialDomain, curve: unknown, density: unknown, field: string): SourceCurve {
-  const d = domain.dim;
-  const where = `${field}.curve`;
-  if (!Array.isArray(curve)) {
-    throw new InvalidArgumentError(`${where} must be an array of points (${d === 1 ? '[[x]]: one point in 1D' : '[[x, y], …]: a polyline in 2D'}), found ${describeValue(curve)}`, { field: where, expected: 'an array of points', received: describeValue(curve) });
-  }
-  if (d === 1 && curve.length !== 1) {
-    throw new InvalidArgumentError(`${where} has ${curve.length} points; in 1D a concentrated source sits at one point, [[x]]`, { field: where, expected: 'one point', received: curve.length });
-  }
-  if (d === 2 && curve.length < 2) {
-    throw new InvalidArgumentError(`${where} has ${curve.length} point${curve.length === 1 ? '' : 's'}; in 2D a source curve is a polyline of at least two points (a point source is not in H⁻¹ in 2D: spread it over a small disc instead)`, { field: where, expected: 'at least two points', received: curve.length });
-  }
-  const points = new Float64Array(d * curve.length);
-  curve.forEach((p: unknown, k: number) => {
-    const ok = p !== null && typeof p === 'object' && typeof (p as ArrayLike<number>).length === 'number' && (p as ArrayLike<number>).length === d;
-    if (!ok) throw new InvalidArgumentError(`${where}[${k}] must be a point of ${d} coordinate${d === 1 ? '' : 's'}, found ${describeValue(p)}`, { field: `${where}[${k}]`, expected: `${d} numbers`, received: describeValue(p) });
-    for (let j = 0; j < d; j++) {
-      const v = (p as ArrayLike<number>)[j];
-      if (typeof v !== 'number' || !Number.isFinite(v)) throw new InvalidArgumentError(`${where}[${k}] has coordinate ${describeValue(v)}; expected finite numbers`, { field: `${where}[${k}]`, expected: 'finite numbers', received: describeValue(v) });
-      points[d * k + j] = v;
-    }
-  });
-  if (density !== undefined && typeof density !== 'function') {
-    throw new InvalidArgumentError(`${field}.density must be a function (x, y) => number, found ${describeValue(density)}`, { field: `${field}.density`, expected: 'a function', received: describeValue(density) });
-  }
-  const out: SourceCurve = { dim: d, points, density: (density as SourceCurve['density']) ?? null, field };
-  const initial = domain.leafMesh(domain.uniformSet(0));
-  if (d === 1) {
-    if (locatePoint(initial, points[0]!) < 0) {
-      throw new InvalidArgumentError(`${where}[0] = [${points[0]}] lies outside the domain`, { field: `${where}[0]`, expected: 'a point of the closed domain', received: points[0] });
-    }
-    return out;
-  }
-  const ext = meshExtent(initial);
-  for (let k = 0; k + 1 < curve.length; k++) {
-    const len = Math.hypot(points[2 * k + 2]! - points[2 * k]!, points[2 * k + 3]! - points[2 * k + 1]!);
-    if (!(len > EPS * ext)) {
-      throw new InvalidArgumentError(`${where}[${k}] and ${where}[${k + 1}] coincide: every segment of a source curve needs a positive length`, { field: `${where}[${k + 1}]`, expected: 'a point distinct from the one before', received: `(${points[2 * k + 2]}, ${points[2 * k + 3]})` });
-    }
-  }
-  // The part of each segment inside the domain: its pieces in the initial elements.
-  const inside = new Float64Array(curve.length - 1);
-  forEachPiece(initial, out, (seg, _e, s0, s1) => void (inside[seg]! += s1 - s0));
-  for (let k = 0; k + 1 < curve.length; k++) {
-    if (inside[k]! < 1 - 1e-9) {
-      throw new InvalidArgumentError(
-        `segment ${k} of ${where}, from (${points[2 * k]}, ${points[2 * k + 1]}) to (${points[2 * k + 2]}, ${points[2 * k + 3]}), leaves the domain (${(100 * (1 - inside[k]!)).toFixed(1)} % of it lies outside)`,
-        { field: `${where}[${k + 1}]`, expected: 'a curve inside the closed domain', received: `${(100 * inside[k]!).toFixed(1)} % inside` },
-      );
-    }
-  }
-  return out;
-}
 
 /**
  * Nodal load ∫_Γ ρ λ_j ds (2D) or ρ(x₀) λ_j(x₀) (1D) on every local vertex of `mesh`, added into `r`.
@@ -139,32 +68,6 @@ export function nodalCurveLoad(mesh: LeafMesh, curve: SourceCurve, r: Float64Arr
   });
 }
 
-/**
- * Load vector of a source curve in hierarchical coordinates: out[i] = ∫_Γ ρ φ_{set[i]} ds (2D) or
- * ρ(x₀) φ_{set[i]}(x₀) (1D), as ./load.ts does for sources spread over the domain.
- */
-export function curveLoadVector(domain: SpatialDomain, set: Int32Array, curve: SourceCurve): Float64Array {
-  const mesh = domain.leafMesh(set);
-  const r = new Float64Array(mesh.vertexCount);
-  nodalCurveLoad(mesh, curve, r);
-  hierarchicalToNodalTransposed(mesh, r);
-  const loc = localIndices(domain, mesh, set);
-  const out = new Float64Array(set.length);
-  for (let i = 0; i < set.length; i++) out[i] = r[loc[i]!]!;
-  return out;
-}
-
-/** ∫_Γ |ρ| ds (2D) or |ρ(x₀)| (1D), by the same pieces on the initial mesh: the size of the source. */
-export function curveWeight(domain: SpatialDomain, curve: SourceCurve): number {
-  const mesh = domain.leafMesh(domain.uniformSet(0));
-  const r = new Float64Array(mesh.vertexCount);
-  const abs: SourceCurve = { ...curve, density: curve.density ? (x, y) => Math.abs(curve.density!(x, y)) : null };
-  nodalCurveLoad(mesh, abs, r);
-  let s = 0;
-  for (let i = 0; i < r.length; i++) s += r[i]!;
-  return s;
-}
-
 function finiteDensity(v: number, curve: SourceCurve, x: number, y: number): number {
   if (typeof v !== 'number' || !Number.isFinite(v)) {
     const at = curve.dim === 1 ? `${x}` : `${x}, ${y}`;
@@ -187,19 +90,6 @@ function locatePoint(mesh: LeafMesh, x: number): number {
     if (x >= Math.min(a, b) - tol && x <= Math.max(a, b) + tol) return e;
   }
   return -1;
-}
-
-/** Largest side of the bounding box of a 2D mesh. */
-function meshExtent(mesh: LeafMesh): number {
-  const xy = mesh.coords;
-  let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
-  for (let i = 0; i < mesh.vertexCount; i++) {
-    x0 = Math.min(x0, xy[2 * i]!);
-    x1 = Math.max(x1, xy[2 * i]!);
-    y0 = Math.min(y0, xy[2 * i + 1]!);
-    y1 = Math.max(y1, xy[2 * i + 1]!);
-  }
-  return Math.max(x1 - x0, y1 - y0);
 }
 
 /**

@@ -17,7 +17,8 @@
 import type { VertexClosure } from './vertex-closure';
 import { EdgeKind } from './boundary';
 import { bisectWhere, sampleSpacing } from './data-resolution';
-import { clipToTriangle, clipped, type SourceCurve } from './curve-load';
+import { clipToTriangle, clipped } from './curve-load';
+import type { SourceCurve } from './source-curve';
 
 /** Largest diameter of an element meeting a source, in units of the source's distance to the held boundary. */
 const RESOLUTION = 4;

@@ -5,6 +5,8 @@ import { hierarchicalToNodalTransposed } from './hierarchical';
 import type { LeafMesh } from './leaf-mesh';
 import { localIndices } from './operator-plan';
 import { INTERVAL_POINTS, INTERVAL_WEIGHTS, TRIANGLE_POINTS, TRIANGLE_WEIGHTS } from './quadrature';
+import { nodalCurveLoad } from './curve-load';
+import type { SourceCurve } from './source-curve';
 
 /**
  * Nodal load ∫ f λ_j on every local vertex of `mesh`, added into `r` (length vertexCount), by the
@@ -85,4 +87,19 @@ export function loadVector(domain: SpatialDomain, set: Int32Array, f: (x: number
     res[i] = v;
   }
   return res;
+}
+
+/**
+ * Load vector of a source curve in hierarchical coordinates: out[i] = ∫_Γ ρ φ_{set[i]} ds (2D) or
+ * ρ(x₀) φ_{set[i]}(x₀) (1D), as loadVector does for sources spread over the domain (./curve-load.ts).
+ */
+export function curveLoadVector(domain: SpatialDomain, set: Int32Array, curve: SourceCurve): Float64Array {
+  const mesh = domain.leafMesh(set);
+  const r = new Float64Array(mesh.vertexCount);
+  nodalCurveLoad(mesh, curve, r);
+  hierarchicalToNodalTransposed(mesh, r);
+  const loc = localIndices(domain, mesh, set);
+  const out = new Float64Array(set.length);
+  for (let i = 0; i < set.length; i++) out[i] = r[loc[i]!]!;
+  return out;
 }

@@ -22,7 +22,7 @@ import type { HeatProblem } from './heat-problem';
 import { initialLoad, sourceLoad } from './right-hand-side';
 import type { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import { gaussLegendre01 } from '../numerics/gauss-legendre';
-import { LOAD_TIME_POINTS, halfPieces } from './load-time-rule';
+import { LOAD_TIME_POINTS, halfPieces, loadTimeBreakpoints } from './load-time-rule';
 
 /** True when the domain has boundary data that enters the loads. */
 export function hasBoundaryData(domain: SpatialDomain): boolean {
@@ -39,7 +39,7 @@ export function addBoundaryLoads(problem: HeatProblem, testSet: DoubleTree, plan
   if (nd > 0) problem.heldDataError(); // refuses held values that jump in time (checked once per problem)
   const natural = tables.parts.some((p) => p.kind !== 'value' && p.data !== null);
   const { nodes, weights } = gaussLegendre01(LOAD_TIME_POINTS);
-  const breaks = problem.loadTimeBreakpoints().times;
+  const breaks = loadTimeBreakpoints(problem).times;
   const pieces: number[] = [];
   const { tree } = testSet;
   const gq = new Float64Array(nd);

@@ -5,11 +5,10 @@
  */
 import { InvalidArgumentError } from '../errors';
 import { SpatialDomain, type NodalField } from '../space/index';
-import { checkSourceCurve, type SourceCurve } from '../space/curve-load';
+import { checkSourceCurve, type SourceCurve } from '../space/source-curve';
 import { initialFromField, isNodalField } from './initial-field';
 import { heldDataError, type HeldDataError } from '../space/held-data-error';
 import { checkHeldValueContinuity } from '../space/held-value-continuity';
-import { loadBreakpoints, type LoadBreakpoints } from './load-time-rule';
 import { checkOptions } from '../validation/index';
 
 /** A separable source term g(t)·h(x, y); sums of these are integrated factor by factor. */
@@ -89,7 +88,6 @@ export class HeatProblem {
   /** The concentrated sources, checked (null without any). @internal */
   readonly curveSources: readonly CheckedCurveSource[] | null;
   private heldData: HeldDataError | null = null;
-  private breakpoints: LoadBreakpoints | null = null;
 
   constructor(spec: HeatProblemSpec) {
     if (spec === null || typeof spec !== 'object') throw new InvalidArgumentError('problem specification must be an object', { field: 'spec' });
@@ -123,16 +121,6 @@ export class HeatProblem {
       throw new InvalidArgumentError('source must be a function (t, x, y) => number or an array of separable terms', { field: 'source' });
     }
     this.curveSources = checkCurveSources(domain, spec.curveSources);
-  }
-
-  /**
-   * Breakpoints in (0, T) of the composite time rule of the loads, where the source or the boundary
-   * data vary faster in time than the loads' Gauss rule resolves (./load-time-rule.ts); computed
-   * once. @internal
-   */
-  loadTimeBreakpoints(): LoadBreakpoints {
-    this.breakpoints ??= loadBreakpoints(this);
-    return this.breakpoints;
   }
 
   /**

@@ -24,7 +24,7 @@ import { InvalidArgumentError } from '../errors';
 import { gaussLegendre01 } from '../numerics/gauss-legendre';
 import { boundarySamplePoints, domainSamplePoints } from '../space/sample-points';
 import { heldValuesOf } from '../space/held-values';
-import { curveWeight } from '../space/curve-load';
+import { curveWeight } from '../space/source-curve';
 import type { HeatProblem } from './heat-problem';
 
 /** Gauss points per half interval: as the loads. */
@@ -53,6 +53,21 @@ export interface LoadBreakpoints {
 interface WatchedGroup {
   readonly weights: Float64Array;
   readonly sample: (t: number) => Float64Array;
+}
+
+// Computed once per problem (a problem's data never change).
+const cache = new WeakMap<HeatProblem, LoadBreakpoints>();
+
+/**
+ * Breakpoints in (0, T) of the composite time rule of the loads, where the source or the boundary
+ * data vary faster in time than the loads' Gauss rule resolves; computed once per problem. Kept
+ * here rather than on HeatProblem, so that a problem's constructor does not carry the rule (a
+ * one-function import of HeatProblem has a size budget). @internal
+ */
+export function loadTimeBreakpoints(problem: HeatProblem): LoadBreakpoints {
+  let b = cache.get(problem);
+  if (b === undefined) cache.set(problem, (b = loadBreakpoints(problem)));
+  return b;
 }
 
 /** The breakpoints of the time-dependent data of `problem` (none without source or boundary data). @internal */
@@ -168,7 +183,7 @@ function sourceGroup(problem: HeatProblem): WatchedGroup | null {
 function curveGroup(problem: HeatProblem): WatchedGroup | null {
   const curves = problem.curveSources;
   if (!curves) return null;
-  const weights = Float64Array.from(curves, (c) => curveWeight(problem.domain, c.curve));
+  const weights = Float64Array.from(curves, (c) => curveWeight(c.curve));
   const values = new Float64Array(curves.length);
   const sample = (t: number): Float64Array => {
     curves.forEach((c, j) => {

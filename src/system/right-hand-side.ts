@@ -10,12 +10,12 @@
 import { InvalidArgumentError } from '../errors';
 import { evaluateTemporal } from '../time/index';
 import { loadVector } from '../space/index';
-import { curveLoadVector } from '../space/curve-load';
+import { curveLoadVector } from '../space/load';
 import type { DoubleTree } from '../spacetime/double-tree';
 import { gaussLegendre01 } from '../numerics/gauss-legendre';
 import type { HeatProblem } from './heat-problem';
 
-import { LOAD_TIME_POINTS as TIME_POINTS, halfPieces } from './load-time-rule';
+import { LOAD_TIME_POINTS as TIME_POINTS, halfPieces, loadTimeBreakpoints } from './load-time-rule';
 
 /** The interval of test node (level, index) on (0, T). */
 function testNodeInterval(level: number, index: number, T: number): [number, number] {
@@ -35,7 +35,7 @@ export function sourceLoad(problem: HeatProblem, testSet: DoubleTree): Float64Ar
   const sep = problem.separableSource;
   const curves = problem.curveSources;
   if (!f && !sep && !curves) return out;
-  const breaks = problem.loadTimeBreakpoints().times;
+  const breaks = loadTimeBreakpoints(problem).times;
   const pieces: number[] = [];
   // Separable factors g(t)·ℓ_x: the terms of a separable source, then the concentrated sources; the
   // spatial loads are computed once per distinct fibre.

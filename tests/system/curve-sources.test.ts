@@ -20,8 +20,11 @@ import {
   DoubleTree, HeatProblem, InvalidArgumentError, SpaceTimeSystem, intervalDomain, lShapeDomain, problemFingerprint, rectangleDomain, solveAdaptive,
   sourceAmplitudes, spaceTimeErrors, triangulatedDomain, type KnownSolution,
 } from '../../src/index';
-import { checkSourceCurve, curveLoadVector, nodalCurveLoad } from '../../src/space/curve-load';
+import { nodalCurveLoad } from '../../src/space/curve-load';
+import { checkSourceCurve } from '../../src/space/source-curve';
+import { curveLoadVector } from '../../src/space/load';
 import { imageForm, rod, seriesForm } from '../helpers/point-source';
+import { loadTimeBreakpoints } from '../../src/system/load-time-rule';
 
 describe('concentrated sources', () => {
   it('the two closed forms of the rod agree (t = 0.005 … 0.1)', () => {
@@ -185,7 +188,7 @@ describe('concentrated sources', () => {
     // on during [0.3, 0.31] only: u(t) = U(t − 0.3) − U(t − 0.31) (linearity, common practice)
     const x0 = 0.25;
     const problem = new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 1, curveSources: [{ curve: [[x0]], time: (t) => (t >= 0.3 && t < 0.31 ? 100 : 0) }] });
-    const breaks = problem.loadTimeBreakpoints().times;
+    const breaks = loadTimeBreakpoints(problem).times;
     expect(breaks.some((t) => Math.abs(t - 0.3) < 0.01)).toBe(true);
     // the loop refines in time toward both switches, in many small steps (45 to 3 853 unknowns)
     const { solution } = solveAdaptive(problem, { maxUnknowns: 4000, maxSteps: 200 });

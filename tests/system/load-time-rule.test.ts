@@ -16,6 +16,7 @@
 import { describe, expect, it } from 'vitest';
 import { DoubleTree, HeatProblem, evaluateTemporal, loadVector, rectangleDomain, solveAdaptive, spaceTimeErrors, testIndexSet } from '../../src/index';
 import { sourceLoad } from '../../src/system/right-hand-side';
+import { loadTimeBreakpoints } from '../../src/system/load-time-rule';
 
 const PI = Math.PI;
 const t0 = 0.3, t1 = 0.301, A = 1000, K = 2 * PI * PI;
@@ -29,16 +30,16 @@ const amp = (t: number) => {
 describe('source loads of sources that vary fast in time', () => {
   it('a pulse: breakpoints gather around it, none for sources smooth in time', () => {
     const domain = rectangleDomain(0, 1, 0, 1, 2, 2);
-    const b = new HeatProblem({ domain, T: 1, source: (t, x, y) => pulse(t) * x * y }).loadTimeBreakpoints().times;
+    const b = loadTimeBreakpoints(new HeatProblem({ domain, T: 1, source: (t, x, y) => pulse(t) * x * y })).times;
     expect(b.length).toBeGreaterThan(5);
     expect(b.filter((t) => t > 0.28 && t < 0.32).length).toBeGreaterThan(b.length / 2);
     for (const f of [(t: number, x: number) => t * x, (t: number, x: number, y: number) => Math.exp(-t) * Math.sin(PI * x) * y]) {
-      expect(new HeatProblem({ domain, T: 1, source: f }).loadTimeBreakpoints().times.length).toBe(0);
+      expect(loadTimeBreakpoints(new HeatProblem({ domain, T: 1, source: f })).times.length).toBe(0);
     }
-    expect(new HeatProblem({ domain, T: 1 }).loadTimeBreakpoints().times.length).toBe(0);
+    expect(loadTimeBreakpoints(new HeatProblem({ domain, T: 1 })).times.length).toBe(0);
     // T not a power of two: the split intervals are named by level and index, not recovered from
     // the times (T = 0.8 once gave a non-integer index)
-    const odd = new HeatProblem({ domain, T: 0.8, source: (t, x, y) => (t > 0.33 && t < 0.331 ? 1000 : 0) * x * y }).loadTimeBreakpoints();
+    const odd = loadTimeBreakpoints(new HeatProblem({ domain, T: 0.8, source: (t, x, y) => (t > 0.33 && t < 0.331 ? 1000 : 0) * x * y }));
     expect(odd.times.length).toBeGreaterThan(5);
     odd.times.forEach((t, i) => {
       expect(Number.isInteger(odd.index[i]!)).toBe(true);
