@@ -111,8 +111,9 @@ export function checkSourceCurve(domain: SpatialDomain, curve: unknown, density:
       if (cuts[c + 1]! - cuts[c]! > EPS && locator.find(ax + m * ux, ay + m * uy) < 0) outside += cuts[c + 1]! - cuts[c]!;
     }
     if (outside > 1e-9) {
+      const pct = 100 * outside;
       throw new InvalidArgumentError(
-        `segment ${k} of ${where}, from (${ax}, ${ay}) to (${points[2 * k + 2]}, ${points[2 * k + 3]}), leaves the domain (${(100 * outside).toFixed(1)} % of it lies outside)`,
+        `segment ${k} of ${where}, from (${ax}, ${ay}) to (${points[2 * k + 2]}, ${points[2 * k + 3]}), leaves the domain (${pct >= 0.1 ? pct.toFixed(1) : pct.toPrecision(2)} % of it lies outside)`,
         { field: `${where}[${k + 1}]`, expected: 'a curve inside the closed domain', received: `${(100 * (1 - outside)).toFixed(1)} % inside` },
       );
     }

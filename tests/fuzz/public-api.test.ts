@@ -96,8 +96,13 @@ const entries: Entry[] = [
       num('T', 0.01, 10, [0, -1]),
       fn('initial', [undefined, () => 1, (x: number) => x]),
       fixed('source', [undefined, () => 0, [{ time: () => 1, space: () => 1 }]], [5, 'x', null, [{ time: 1 }], [null], {}], /^source/),
+      // concentrated sources: bad in 1D and in 2D alike (a point is a valid 1D curve, not a 2D one)
+      fixed('curveSources', [undefined, []], [
+        5, 'x', [5], [null], [{}], [{ curve: 5 }], [{ curve: [] }], [{ curve: [[NaN]] }], [{ curve: [[1e9, 1e9], [2e9, 2e9]] }],
+        [{ curve: [[0.5, 0.5], [0.6, 0.5]], time: 3 }], [{ curve: [[0.5, 0.5], [0.6, 0.5]], density: 'x' }], [{ curve: [[0.5, 0.5], [0.6, 0.5]], power: 1 }],
+      ], /^curveSources/),
     ],
-    call: ([domain, T, initial, source]) => new HeatProblem({ domain, T, initial, source } as never).T,
+    call: ([domain, T, initial, source, curveSources]) => new HeatProblem({ domain, T, initial, source, curveSources } as never).T,
   },
   {
     name: 'SpatialDomain.uniformSet',

@@ -235,6 +235,11 @@ describe('concentrated sources', () => {
     // an L-shape: a segment from one arm to the other crosses the missing quarter
     const L = lShapeDomain(1);
     expect(() => new HeatProblem({ domain: L, T: 1, curveSources: [{ curve: [[-0.5, -0.5], [0.5, 0.5], [0.5, -0.5]] }] })).toThrow(/segment 1 of curveSources\[0\]\.curve/);
+    // through the re-entrant corner: out of the domain beyond it; along the notch's edges and across the corner diagonally: inside
+    expect(() => new HeatProblem({ domain: L, T: 1, curveSources: [{ curve: [[-0.5, 0.5], [0.5, -0.5]] }] })).toThrow(/leaves the domain \(50\.0 % of it lies outside\)/);
+    for (const curve of [[[1, 0], [0, 0], [0, -1]], [[-1, -1], [1, 1]]]) expect(() => new HeatProblem({ domain: L, T: 1, curveSources: [{ curve }] })).not.toThrow();
+    // a start 10⁻⁷ outside is not rounding
+    expect(() => new HeatProblem({ domain: L, T: 1, curveSources: [{ curve: [[0.5, -1e-7], [0.5, 0.5]] }] })).toThrow(/leaves the domain \(0\.000020 % of it lies outside\)/);
     expect(() => new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 1, curveSources: [{ curve: [[1.2]] }] })).toThrow(/curveSources\[0\]\.curve\[0\] = \[1\.2\] lies outside the domain/);
     expect(() => new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 1, curveSources: [{ curve: [[0.2], [0.4]] }] })).toThrow(/in 1D a concentrated source sits at one point/);
     // non-finite data at run time name the source
