@@ -55,7 +55,8 @@ export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): st
     // slice times are absolute, the solution's clock starts at 0 (problem field `start`)
     const slice = { ...run.solution.slice(t - spec.start), t };
     save(file, sliceToVtu(slice, 'u'));
-    save(`slice-${String(i).padStart(4, '0')}.svg`, sliceToSvg(slice, { title: `${name}, t = ${t}`, quantity: 'u' }));
+    const lines = spec.curveSources.map((c) => c.curve);
+    save(`slice-${String(i).padStart(4, '0')}.svg`, sliceToSvg(slice, { title: `${name}, t = ${t}`, quantity: 'u', ...(lines.length > 0 ? { lines } : {}) }));
     return { t, file };
   });
   save('slices.pvd', vtkCollection(entries));

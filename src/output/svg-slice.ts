@@ -26,12 +26,18 @@ export interface SliceSvgOptions {
   axisLabels?: [string, string];
   /** Width of the picture in pixels (default 560). */
   width?: number;
+  /**
+   * Curves drawn over the field, such as those of concentrated sources (`HeatProblem`'s
+   * `curveSources`): polylines `[[x, y], …]` in 2D (a dashed line with a dark edge, legible on
+   * every colour), points `[[x]]` in 1D (a dashed vertical line).
+   */
+  lines?: ArrayLike<number>[][];
 }
 
 const fmt = (v: number) => v.toFixed(2);
 
 const SLICE_SVG_KEYS: Record<keyof Required<SliceSvgOptions>, true> = {
-  title: true, quantity: true, range: true, colorMap: true, axisLabels: true, width: true,
+  title: true, quantity: true, range: true, colorMap: true, axisLabels: true, width: true, lines: true,
 };
 
 /**
@@ -61,6 +67,14 @@ export function sliceToSvg(slice: TimeSlice, opts: SliceSvgOptions = {}): string
     if (!(o.range[0] < o.range[1])) {
       throw new InvalidArgumentError(`opts.range = [${o.range[0]}, ${o.range[1]}] must be increasing (low < high)`, { field: 'opts.range', expected: 'low < high', received: `${o.range[0]}, ${o.range[1]}` });
     }
+  }
+  if (o.lines !== undefined) {
+    const d = slice.mesh.dim;
+    if (!Array.isArray(o.lines)) throw new InvalidArgumentError('opts.lines must be an array of curves (arrays of points)', { field: 'opts.lines' });
+    o.lines.forEach((line, i) => {
+      if (!Array.isArray(line) || line.length === 0) throw new InvalidArgumentError(`opts.lines[${i}] must be a non-empty array of points`, { field: `opts.lines[${i}]` });
+      line.forEach((p, k) => checkNumberArray(p, `opts.lines[${i}][${k}]`, { length: d }));
+    });
   }
   opts = o;
   return slice.mesh.dim === 2 ? slice2d(slice, opts) : slice1d(slice, opts);
@@ -133,6 +147,14 @@ function slice2d(slice: TimeSlice, opts: SliceSvgOptions): string {
     }
   }
   out.push('</g>');
+  if (opts.lines && opts.lines.length > 0) {
+    out.push('<g class="lines" fill="none" stroke-linejoin="round" stroke-linecap="round">');
+    for (const line of opts.lines) {
+      const pts = line.map((p) => `${fmt(frameX(f, p[0]!))},${fmt(frameY(f, p[1]!))}`).join(' ');
+      out.push(`<polyline points="${pts}" stroke="#111" stroke-width="3"/>`, `<polyline points="${pts}" stroke="#fff" stroke-width="1.4" stroke-dasharray="5 3"/>`);
+    }
+    out.push('</g>');
+  }
   out.push(axesSvg(f, opts.axisLabels?.[0] ?? 'x', opts.axisLabels?.[1] ?? 'y'));
   // Colour bar: a linear gradient through the map's anchors (the same sRGB interpolation as above).
   const bx = left + plotW + 22, bw = 16, by0 = top, bh = plotH;
@@ -172,6 +194,12 @@ function slice1d(slice: TimeSlice, opts: SliceSvgOptions): string {
   out.push(`<defs><clipPath id="plot-area"><rect x="${left}" y="${top}" width="${plotW}" height="${plotH}"/></clipPath></defs>`);
   if (lo < 0 && hi > 0) out.push(`<line class="zero-line" x1="${left}" y1="${fmt(frameY(f, 0))}" x2="${left + plotW}" y2="${fmt(frameY(f, 0))}" stroke="#bbb"/>`);
   const order = Array.from({ length: mesh.vertexCount }, (_, i) => i).sort((a, b) => mesh.coords[a]! - mesh.coords[b]!);
+  for (const line of opts.lines ?? []) {
+    for (const p of line) {
+      const x = fmt(frameX(f, p[0]!));
+      out.push(`<line class="line-marker" x1="${x}" y1="${top}" x2="${x}" y2="${top + plotH}" stroke="#888" stroke-dasharray="5 3"/>`);
+    }
+  }
   out.push(`<polyline class="graph" clip-path="url(#plot-area)" fill="none" stroke="#1f4e99" stroke-width="2" stroke-linejoin="round" points="${order.map((i) => `${fmt(frameX(f, mesh.coords[i]!))},${fmt(frameY(f, values[i]!))}`).join(' ')}"/>`);
   out.push(axesSvg(f, opts.axisLabels?.[0] ?? 'x', opts.quantity ?? 'u'));
   if (opts.range && (dlo < lo || dhi > hi)) {

@@ -4,8 +4,12 @@
  * eigenfunction series and images), switched off after a quarter of the run by superposition
  * (u(t) = U(t) − U(t − τ) for a source switched off at τ; linearity, common practice).
  */
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { buildProblem, parseProblem, runProblem } from '../../src/problem-file/index';
+import { solveFile } from '../../src/cli/solve-command';
 import { rod } from '../helpers/point-source';
 
 const ROD = { domain: { shape: 'interval', from: 0, to: 1, cells: 2 }, horizon: 0.5, maxDofs: 3000 };
@@ -23,6 +27,15 @@ describe('problem-file curveSources', () => {
     const exact = (t: number, x: number) => rod(t, x, 0.25)[0] - (t > 0.25 ? rod(t - 0.25, x, 0.25)[0] : 0);
     expect(run.probes).toHaveLength(4);
     for (const { t, x, value } of run.probes) expect(Math.abs(value - exact(t - 1, x)), `(${t}, ${x})`).toBeLessThan(3e-3 * peak);
+  });
+
+  it('the slice pictures written with --out show the curves', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'chronomesh-curves-'));
+    const file = join(dir, 'cable.json');
+    writeFileSync(file, JSON.stringify({ ...SQUARE, curveSources: [{ curve: [[0.2, 0.3], [0.8, 0.3], [0.8, 0.7]] }], slices: [0.25] }));
+    solveFile(file, { quiet: true, log: () => {}, progress: () => {}, out: join(dir, 'out') });
+    const svg = readFileSync(join(dir, 'out', 'slice-0000.svg'), 'utf8');
+    expect((svg.match(/<g class="lines"[\s\S]*?<\/g>/)?.[0].match(/<polyline points="[^"]*"/g) ?? []).map((p) => p.slice(p.indexOf('"') + 1, -1).split(' ').length)).toEqual([3, 3]); // 3 points, edge and dashes
   });
 
   it('bad curve sources are named before any work', () => {

@@ -66,6 +66,29 @@ describe('slice pictures', () => {
     expect(clamped).toMatch(/class="range-note"[^>]*>data 0\.00 … 1\.27 exceed the range</);
   });
 
+  it('draws given curves over the field (the curves of concentrated sources), where they are, and checks them', () => {
+    // the plot frame maps the square's corners to the field's extreme polygon coordinates
+    const s = sliceToSvg(squareSlice([0, 1, 0, 1]), { lines: [[[0, 0], [1, 1]], [[0.25, 0.75], [0.75, 0.75], [0.75, 0.25]]] });
+    const polys = [...s.matchAll(/<polygon points="([^"]*)"/g)].flatMap((m) => m[1]!.split(' ').map((q) => q.split(',').map(Number)));
+    const X = (x: number) => Math.min(...polys.map((p) => p[0]!)) + x * (Math.max(...polys.map((p) => p[0]!)) - Math.min(...polys.map((p) => p[0]!)));
+    const Y = (y: number) => Math.max(...polys.map((p) => p[1]!)) - y * (Math.max(...polys.map((p) => p[1]!)) - Math.min(...polys.map((p) => p[1]!)));
+    const lines = [...s.matchAll(/<g class="lines"[\s\S]*?<\/g>/g)][0]![0];
+    const drawn = [...lines.matchAll(/<polyline points="([^"]*)"/g)].map((m) => m[1]!.split(' ').map((q) => q.split(',').map(Number)));
+    expect(drawn).toHaveLength(4); // a dark edge and a dashed light line per curve
+    const expected = [[[0, 0], [1, 1]], [[0.25, 0.75], [0.75, 0.75], [0.75, 0.25]]];
+    expected.forEach((curve, i) => curve.forEach(([x, y], k) => {
+      expect(Math.abs(drawn[2 * i]![k]![0]! - X(x!))).toBeLessThan(0.02);
+      expect(Math.abs(drawn[2 * i]![k]![1]! - Y(y!))).toBeLessThan(0.02);
+    }));
+    expect(s.indexOf('class="lines"')).toBeGreaterThan(s.indexOf('class="field"')); // drawn over the field
+    // in 1D, a point is a vertical marker
+    const rod = intervalDomain(0, 1, 2);
+    const { solution } = new SpaceTimeSystem(new HeatProblem({ domain: rod, T: 1, initial: () => 1 }), DoubleTree.sparseGrid(rod, 3)).solve();
+    expect(count(sliceToSvg(solution.slice(0.1), { lines: [[[0.3]]] }), /class="line-marker"/g)).toBe(1);
+    expect(() => sliceToSvg(squareSlice([0, 0, 0, 0]), { lines: [[[0.5]]] })).toThrow(/opts\.lines\[0\]\[0\]/);
+    expect(() => sliceToSvg(squareSlice([0, 0, 0, 0]), { lines: [[]] })).toThrow(/opts\.lines\[0\] must be a non-empty array of points/);
+  });
+
   it('interpolates colours linearly inside triangles: a linear field is split into sub-triangles whose colours follow it', () => {
     // u = x on the unit square (vertices (0,0), (1,0), (0,1), (1,1)).
     const mesh = square.leafMesh(square.initialFreeVertices());
