@@ -92,6 +92,76 @@ function locatePoint(mesh: LeafMesh, x: number): number {
   return -1;
 }
 
+/** The segments of a curve binned in a uniform grid over its bounding box (at most 64 × 64 cells, compressed rows). */
+interface SegmentGrid {
+  readonly x0: number; readonly y0: number; readonly x1: number; readonly y1: number;
+  readonly nx: number; readonly ny: number; readonly hx: number; readonly hy: number;
+  /** Segments of cell c: items[start[c] … start[c + 1]). */
+  readonly start: Int32Array;
+  readonly items: Int32Array;
+  /** Largest side of the bounding box (the scale of the tolerances). */
+  readonly w: number;
+}
+
+// A curve's grid does not depend on the mesh: made once per curve, for every fibre's load.
+const grids = new WeakMap<SourceCurve, SegmentGrid>();
+
+/**
+ * The grid of {@link SegmentGrid}: a segment is put in every cell of its bounding box whose centre
+ * lies within half a cell diagonal of the segment's line (so in the cells it passes through, and a
+ * few neighbours), not in every cell of its box: a long diagonal segment would fill the grid.
+ */
+function segmentGrid(curve: SourceCurve): SegmentGrid {
+  const cached = grids.get(curve);
+  if (cached) return cached;
+  const P = curve.points;
+  const ns = P.length / 2 - 1;
+  let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity, total = 0;
+  for (let k = 0; k <= ns; k++) {
+    x0 = Math.min(x0, P[2 * k]!);
+    x1 = Math.max(x1, P[2 * k]!);
+    y0 = Math.min(y0, P[2 * k + 1]!);
+    y1 = Math.max(y1, P[2 * k + 1]!);
+    if (k < ns) total += Math.hypot(P[2 * k + 2]! - P[2 * k]!, P[2 * k + 3]! - P[2 * k + 1]!);
+  }
+  const w = Math.max(x1 - x0, y1 - y0, total * 1e-9);
+  const h = w / 64;
+  const nx = Math.max(1, Math.min(64, Math.ceil((x1 - x0) / h))), ny = Math.max(1, Math.min(64, Math.ceil((y1 - y0) / h)));
+  const hx = Math.max((x1 - x0) / nx, Number.MIN_VALUE), hy = Math.max((y1 - y0) / ny, Number.MIN_VALUE);
+  const cellX = (x: number) => Math.min(nx - 1, Math.max(0, Math.floor((x - x0) / hx)));
+  const cellY = (y: number) => Math.min(ny - 1, Math.max(0, Math.floor((y - y0) / hy)));
+  const reach = 0.5 * Math.hypot(hx, hy) * (1 + 1e-9) + EPS * w;
+  // two passes: count, then fill (compressed rows)
+  const start = new Int32Array(nx * ny + 1);
+  let items = new Int32Array(0);
+  for (let pass = 0; pass < 2; pass++) {
+    for (let k = 0; k < ns; k++) {
+      const ax = P[2 * k]!, ay = P[2 * k + 1]!, bx = P[2 * k + 2]!, by = P[2 * k + 3]!;
+      const len = Math.hypot(bx - ax, by - ay);
+      for (let j = cellY(Math.min(ay, by)); j <= cellY(Math.max(ay, by)); j++) {
+        for (let i = cellX(Math.min(ax, bx)); i <= cellX(Math.max(ax, bx)); i++) {
+          const mx = x0 + (i + 0.5) * hx, my = y0 + (j + 0.5) * hy;
+          if (Math.abs((bx - ax) * (my - ay) - (by - ay) * (mx - ax)) > reach * len) continue;
+          const c = j * nx + i;
+          if (pass === 0) start[c + 1]!++;
+          else items[start[c]!++] = k;
+        }
+      }
+    }
+    if (pass === 0) {
+      for (let c = 0; c < nx * ny; c++) start[c + 1]! += start[c]!;
+      items = new Int32Array(start[nx * ny]!);
+    } else {
+      // the fill advanced every start by its count: shift back
+      for (let c = nx * ny; c > 0; c--) start[c] = start[c - 1]!;
+      start[0] = 0;
+    }
+  }
+  const grid: SegmentGrid = { x0, y0, x1, y1, nx, ny, hx, hy, start, items, w };
+  grids.set(curve, grid);
+  return grid;
+}
+
 /**
  * Calls `piece(segment, element, s0, s1)` for the parts [s0, s1] (parameters along the segment,
  * 0 at its first point) of every segment of a 2D curve inside the leaf elements of `mesh`, each part
@@ -102,27 +172,9 @@ function forEachPiece(mesh: LeafMesh, curve: SourceCurve, piece: (seg: number, e
   const P = curve.points;
   const ns = P.length / 2 - 1;
   const el = mesh.elements, xy = mesh.coords;
-  // Bucket grid over the curve's bounding box, cells about one mean segment long.
-  let cx0 = Infinity, cx1 = -Infinity, cy0 = Infinity, cy1 = -Infinity, total = 0;
-  for (let k = 0; k <= ns; k++) {
-    cx0 = Math.min(cx0, P[2 * k]!);
-    cx1 = Math.max(cx1, P[2 * k]!);
-    cy0 = Math.min(cy0, P[2 * k + 1]!);
-    cy1 = Math.max(cy1, P[2 * k + 1]!);
-    if (k < ns) total += Math.hypot(P[2 * k + 2]! - P[2 * k]!, P[2 * k + 3]! - P[2 * k + 1]!);
-  }
-  const w = Math.max(cx1 - cx0, cy1 - cy0, total * 1e-9);
-  const h = Math.max(total / ns, w / 64);
-  const nx = Math.max(1, Math.min(64, Math.ceil((cx1 - cx0) / h) + 1)), ny = Math.max(1, Math.min(64, Math.ceil((cy1 - cy0) / h) + 1));
-  const hx = Math.max((cx1 - cx0) / nx, Number.MIN_VALUE), hy = Math.max((cy1 - cy0) / ny, Number.MIN_VALUE);
+  const { x0: cx0, y0: cy0, x1: cx1, y1: cy1, nx, ny, hx, hy, start, items, w } = segmentGrid(curve);
   const cellX = (x: number) => Math.min(nx - 1, Math.max(0, Math.floor((x - cx0) / hx)));
   const cellY = (y: number) => Math.min(ny - 1, Math.max(0, Math.floor((y - cy0) / hy)));
-  const cells: number[][] = Array.from({ length: nx * ny }, () => []);
-  for (let k = 0; k < ns; k++) {
-    const a = cellX(Math.min(P[2 * k]!, P[2 * k + 2]!)), b = cellX(Math.max(P[2 * k]!, P[2 * k + 2]!));
-    const c = cellY(Math.min(P[2 * k + 1]!, P[2 * k + 3]!)), d = cellY(Math.max(P[2 * k + 1]!, P[2 * k + 3]!));
-    for (let j = c; j <= d; j++) for (let i = a; i <= b; i++) cells[j * nx + i]!.push(k);
-  }
   const tol = EPS * w;
   // Pieces found, as (segment, s0, s1, element), then swept per segment in order of s0.
   const pSeg: number[] = [], pS0: number[] = [], pS1: number[] = [], pEl: number[] = [];
@@ -134,7 +186,9 @@ function forEachPiece(mesh: LeafMesh, curve: SourceCurve, piece: (seg: number, e
     if (ex1 < cx0 - tol || ex0 > cx1 + tol || ey1 < cy0 - tol || ey0 > cy1 + tol) continue;
     for (let j = cellY(ey0 - tol); j <= cellY(ey1 + tol); j++) {
       for (let i = cellX(ex0 - tol); i <= cellX(ex1 + tol); i++) {
-        for (const k of cells[j * nx + i]!) {
+        const cell = j * nx + i;
+        for (let q = start[cell]!; q < start[cell + 1]!; q++) {
+          const k = items[q]!;
           if (stamp[k] === e) continue;
           stamp[k] = e;
           if (clipToTriangle(P, k, xy, i0, i1, i2)) {
