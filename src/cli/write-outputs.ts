@@ -74,7 +74,8 @@ export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): st
   const dim = run.solution.domain.dim;
   const meshTimes = times.map((t) => t - spec.start).filter((t) => t > 0).slice(0, 3);
   save('index-set.svg', indexSetToSvg(run.solution.domain, run.set, spec.duration, {
-    title: `${name}: space-time index set (${run.set.size} unknowns)${spec.start > 0 ? `, times from the start at t = ${spec.start}` : ''}`,
+    title: `${name}: space-time index set (${run.set.size} unknowns)`,
+    ...(spec.start > 0 ? { start: spec.start } : {}),
     ...(dim === 1 ? { logTime: true } : meshTimes.length > 0 ? { times: meshTimes } : {}),
   }));
   return written;

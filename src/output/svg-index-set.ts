@@ -25,6 +25,11 @@ export interface IndexSetSvgOptions {
   width?: number;
   /** 1D: at most this many supports are drawn (default 40000); the picture says when more exist. */
   maxSupports?: number;
+  /**
+   * The time at which the set's clock starts (default 0), for a run that continues another: the
+   * labels show absolute times start + t. `times` stay on the set's clock, in [0, T].
+   */
+  start?: number;
 }
 
 const f2 = (v: number) => v.toFixed(2);
@@ -50,6 +55,9 @@ function open(W: number, H: number, title: string | undefined): string[] {
  */
 export function indexSetToSvg(domain: SpatialDomain, set: DoubleTree, T: number, opts: IndexSetSvgOptions = {}): string {
   if (!(T > 0 && Number.isFinite(T))) throw new InvalidArgumentError(`T = ${T} must be a finite number > 0`, { field: 'T', received: T });
+  if (opts.start !== undefined && !(typeof opts.start === 'number' && Number.isFinite(opts.start))) {
+    throw new InvalidArgumentError(`opts.start = ${String(opts.start)} must be a finite number`, { field: 'opts.start', received: String(opts.start) });
+  }
   return domain.dim === 1 ? plane1d(domain, set, T, opts) : levels2d(domain, set, T, opts);
 }
 
@@ -101,7 +109,11 @@ function plane1d(domain: SpatialDomain, set: DoubleTree, T: number, opts: IndexS
   out.push('</g>');
   const xTicks: number[] = [];
   if (log) for (let k = Math.ceil(f.x0); k <= Math.floor(f.x1); k++) xTicks.push(k);
-  out.push(axesSvg(f, log ? 't (logarithmic)' : 't', 'x', log ? { xTicks, xTickLabel: (k) => (k === 0 ? '1' : `1e${k}`) } : {}));
+  const start = opts.start ?? 0;
+  // a logarithmic axis shows the time since the start; a linear one absolute times
+  const xLabel = log ? (start !== 0 ? `t − ${start} (logarithmic)` : 't (logarithmic)') : 't';
+  const linearTicks = start !== 0 ? { xTickLabel: (v: number) => String(Number((start + v).toPrecision(6))) } : {};
+  out.push(axesSvg(f, xLabel, 'x', log ? { xTicks, xTickLabel: (k) => (k === 0 ? '1' : `1e${k}`) } : linearTicks));
   const note = `${set.size} unknowns, deepest temporal level ${set.tree.maxLevel}${drawn < set.size ? `; first ${drawn} supports drawn` : ''}`;
   out.push(`<text class="caption" x="${left}" y="${H - 8}" font-size="11" fill="#444">${escapeXml(note)}</text>`);
   out.push('</svg>', '');
@@ -175,7 +187,7 @@ function levels2d(domain: SpatialDomain, set: DoubleTree, T: number, opts: Index
     const left = 70 + k * (meshW + 70);
     const fr: PlotFrame = { left, top: meshTop, width: meshW, height: meshH, x0, x1, y0, y1 };
     out.push(`<g class="panel mesh-at-time">`);
-    out.push(`<text class="panel-title" x="${f2(left + meshW / 2)}" y="${meshTop - 10}" text-anchor="middle">${escapeXml(`mesh at t = ${Number(t.toPrecision(4))} (${mesh.elementCount} triangles)`)}</text>`);
+    out.push(`<text class="panel-title" x="${f2(left + meshW / 2)}" y="${meshTop - 10}" text-anchor="middle">${escapeXml(`mesh at t = ${Number(((opts.start ?? 0) + t).toPrecision(4))} (${mesh.elementCount} triangles)`)}</text>`);
     out.push('<g class="mesh" fill="none" stroke="#333" stroke-width="0.4" stroke-linejoin="round">');
     const c = mesh.coords;
     for (let e = 0; e < mesh.elementCount; e++) {

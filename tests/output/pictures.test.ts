@@ -155,4 +155,17 @@ describe('index-set pictures', () => {
     expect(svg).toMatch(/mesh at t = 0\.5 \(\d+ triangles\)/);
     expect(() => indexSetToSvg(d, set, 2, { times: [3] })).toThrow(/outside/);
   });
+
+  it('a set whose clock starts later (a continued run) is labelled in absolute times', () => {
+    const d2 = lShapeDomain(1);
+    expect(indexSetToSvg(d2, DoubleTree.sparseGrid(d2, 3), 2, { times: [0.5, 2], start: 10 })).toMatch(/mesh at t = 10\.5 \(\d+ triangles\)[\s\S]*mesh at t = 12 \(/);
+    const d1 = intervalDomain(0, 1, 2);
+    const set = DoubleTree.sparseGrid(d1, 4);
+    expect(indexSetToSvg(d1, set, 1, { logTime: true, start: 3 })).toMatch(/axis-label x-label"[^>]*>t − 3 \(logarithmic\)</);
+    const linear = indexSetToSvg(d1, set, 1, { start: 3 });
+    const labels = [...linear.matchAll(/x-tick-label"[^>]*>([^<]*)</g)].map((m) => Number(m[1]));
+    expect(Math.min(...labels)).toBe(3);
+    expect(Math.max(...labels)).toBe(4);
+    expect(() => indexSetToSvg(d1, set, 1, { start: NaN })).toThrow(/opts\.start = NaN must be a finite number/);
+  });
 });
