@@ -5,10 +5,14 @@
  *
  * Inside the domain, exactly: every point where a segment meets a boundary edge (crossing it,
  * touching it or running along it) splits the segment; between two such points the segment is
- * either inside or outside, which its midpoint decides (point location in the initial mesh).
+ * either inside or outside, which its midpoint decides (point location in the initial mesh). A
+ * segment that runs along a boundary edge held at a value is refused too: the held value fixes u
+ * there, and the source would vanish without a trace. Along an insulated or flux edge it acts as
+ * heat put in through that edge.
  */
 import { InvalidArgumentError, describeValue } from '../errors';
 import type { SpatialDomain } from './domain';
+import { EdgeKind } from './boundary';
 import { InitialLocator } from './initial-locator';
 import { INTERVAL_POINTS, INTERVAL_WEIGHTS } from './quadrature';
 
@@ -98,9 +102,18 @@ export function checkSourceCurve(domain: SpatialDomain, curve: unknown, density:
         if (s > 0 && s < 1 && r >= -EPS && r <= 1 + EPS) cuts.push(s);
       } else {
         // parallel: the ends of the edge project onto the segment (overlap ends, if collinear)
-        for (const [px, py] of [[wx, wy], [wx + vx, wy + vy]] as const) {
-          const s = (px * ux + py * uy) / len2;
-          if (s > 0 && s < 1) cuts.push(s);
+        const s0 = (wx * ux + wy * uy) / len2, s1 = ((wx + vx) * ux + (wy + vy) * uy) / len2;
+        for (const s of [s0, s1]) if (s > 0 && s < 1) cuts.push(s);
+        // on the same line, along an edge held at a value: the held value fixes u there, and the
+        // source would be lost without a trace
+        const collinear = Math.abs(wx * uy - wy * ux) <= EPS * ext * Math.sqrt(len2);
+        const kind = b.edgeKind[e]!;
+        const overlap = Math.min(1, Math.max(s0, s1)) - Math.max(0, Math.min(s0, s1));
+        if (collinear && (kind === EdgeKind.ZeroValue || kind === EdgeKind.Value) && overlap > 1e-9) {
+          throw new InvalidArgumentError(
+            `segment ${k} of ${where} runs along a boundary edge held at a value (from (${cx}, ${cy}) to (${cx + vx}, ${cy + vy})): the held value fixes u there, so that part of the source would have no effect; move the curve inside, or make that part of the boundary insulated or a flux`,
+            { field: `${where}[${k + 1}]`, expected: 'a curve off the held boundary', received: `${(100 * overlap).toFixed(1)} % of segment ${k} on a held edge` },
+          );
         }
       }
     }
