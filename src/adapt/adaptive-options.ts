@@ -186,8 +186,9 @@ export function validateAdaptiveOptions(opts: unknown, problem: HeatProblem, fie
     throw new InvalidArgumentError(`${field}.signal must be an AbortSignal`, { field: `${field}.signal`, expected: 'AbortSignal', received: typeof o.signal });
   }
   if (o.enlargement !== undefined) {
-    const e = checkOptions<{ spatialGenerations?: number }>(o.enlargement, `${field}.enlargement`, ['spatialGenerations']);
+    const e = checkOptions<{ spatialGenerations?: number; temporalLevels?: number }>(o.enlargement, `${field}.enlargement`, ['spatialGenerations', 'temporalLevels']);
     if (e.spatialGenerations !== undefined) checkInteger(e.spatialGenerations, `${field}.enlargement.spatialGenerations`, 1, 8);
+    if (e.temporalLevels !== undefined) checkInteger(e.temporalLevels, `${field}.enlargement.temporalLevels`, 1, 4);
   }
   if (o.checkpoint !== undefined) checkFunction(o.checkpoint, `${field}.checkpoint`, 'a function (bytes, info) => void');
   if (o.resume !== undefined && !(o.resume instanceof Uint8Array)) {

@@ -1,7 +1,8 @@
 /**
  * The enlarged index set Λ̲ of the adaptive loop (docs/adaptivity.md §2): for every temporal
  * node λ of Λ add
- *   - (child(λ), ν) for the temporal children of λ and every ν in the fibre of λ, and
+ *   - (child(λ), ν) for the temporal children of λ (and their descendants, `temporalLevels` > 1)
+ *     and every ν in the fibre of λ, and
  *   - (λ, ν′) for the free vertices ν′ of the *interior refinement* of the fibre mesh of λ:
  *     every leaf bisected `dim` times (the mesh size halves) and further where that created only
  *     Dirichlet midpoints (see SpatialDomain.refineInterior);
@@ -9,7 +10,7 @@
  * initial vertices) gets the interior refinement of the initial mesh as candidates, so that
  * every temporal node can receive its first spatial unknowns.
  */
-import { nodeChildren } from '../time/index';
+import { MAX_TEMPORAL_LEVEL, nodeChildren } from '../time/index';
 import { SpatialDomain } from '../space/index';
 import { checkSetOnDomain } from '../spacetime/set-checks';
 import { checkInstance, checkInteger, checkOptions } from '../validation/index';
@@ -23,9 +24,15 @@ export interface EnlargementOptions {
    * so that h halves in 2D as in 1D).
    */
   spatialGenerations?: number;
+  /**
+   * Levels below each temporal node that the temporal candidates reach (1 to 4, default 1). Data
+   * with short pulses or sudden switches in time take fewer, larger steps with 2 at the same error
+   * per unknown (docs/adaptivity.md §2.2).
+   */
+  temporalLevels?: number;
 }
 
-const ENLARGEMENT_KEYS: Record<keyof Required<EnlargementOptions>, true> = { spatialGenerations: true };
+const ENLARGEMENT_KEYS: Record<keyof Required<EnlargementOptions>, true> = { spatialGenerations: true, temporalLevels: true };
 
 /** Λ̲ ⊇ Λ, sharing Λ's fibre pool. Grows the domain's bisection forest. *
  * @example
@@ -41,7 +48,9 @@ export function enlargeDoubleTree(domain: SpatialDomain, set: DoubleTree, opts: 
   checkSetOnDomain(set, domain, 'set');
   const o = checkOptions<EnlargementOptions>(opts, 'opts', ENLARGEMENT_KEYS);
   if (o.spatialGenerations !== undefined) checkInteger(o.spatialGenerations, 'opts.spatialGenerations', 1, 8);
+  if (o.temporalLevels !== undefined) checkInteger(o.temporalLevels, 'opts.temporalLevels', 1, 4);
   const generations = opts.spatialGenerations ?? domain.dim;
+  const depth = opts.temporalLevels ?? 1;
   const { tree } = set;
   const levels: number[] = [];
   const indices: number[] = [];
@@ -73,11 +82,21 @@ export function enlargeDoubleTree(domain: SpatialDomain, set: DoubleTree, opts: 
     levels.push(l);
     indices.push(k);
     sets.push(g);
-    const nc = nodeChildren('trial', l, k, ch);
-    for (let c = 0; c < nc; c++) {
-      levels.push(ch[2 * c]!);
-      indices.push(ch[2 * c + 1]!);
-      sets.push(f);
+    // temporal candidates: the descendants of (l, k) down to `depth` levels, each with the fibre f
+    let front = [l, k];
+    for (let d = 0; d < depth && front.length > 0; d++) {
+      const next: number[] = [];
+      for (let q = 0; q < front.length; q += 2) {
+        if (front[q]! + 1 > MAX_TEMPORAL_LEVEL) continue;
+        const nc = nodeChildren('trial', front[q]!, front[q + 1]!, ch);
+        for (let c = 0; c < nc; c++) {
+          levels.push(ch[2 * c]!);
+          indices.push(ch[2 * c + 1]!);
+          sets.push(f);
+          next.push(ch[2 * c]!, ch[2 * c + 1]!);
+        }
+      }
+      front = next;
     }
   }
   return DoubleTree.fromNodeSets(domain, levels, indices, sets, { close: true, pool: set.pool });

@@ -10,6 +10,7 @@ import {
 } from '../../src/index';
 import { rng } from '../helpers/random';
 import { FibrePool } from '../../src/spacetime/fibre-pool';
+import { nodeChildren } from '../../src/time/index';
 
 const problem1d = () => new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 0.5, initial: () => 1 });
 
@@ -93,6 +94,7 @@ describe('adaptive loop: stop reasons and callbacks', () => {
     for (const [opts, field] of [
       [{ theta: '0.5' }, 'theta'], [{ theta: 1 }, 'theta'], [{ maxSteps: 2.5 }, 'maxSteps'], [{ maxSeconds: NaN }, 'maxSeconds'],
       [{ solverFraction: 0 }, 'solverFraction'], [{ onStep: 5 }, 'onStep'], [{ initialSet: {} }, 'initialSet'], [{ thetta: 0.5 }, 'thetta'],
+      [{ enlargement: { temporalLevels: 0 } }, 'enlargement.temporalLevels'], [{ enlargement: { temporalLevels: 5 } }, 'enlargement.temporalLevels'],
     ] as const) {
       try {
         solveAdaptive(p, opts as never);
@@ -329,6 +331,40 @@ describe('adaptive loop: caches across steps', () => {
     const plans = new SpatialPlanCache(domain, a.pool);
     const caches = { plans, inverses: new FibreInverseCache(domain, a.pool, plans, { kind: 'multigrid' }) };
     expect(() => new SpaceTimeSystem(new HeatProblem({ domain, T: 1 }), b, { caches })).toThrow(/another fibre pool/);
+  });
+});
+
+describe('enlargement', () => {
+  it('temporalLevels d: the temporal candidates are the descendants of every node down to d levels, with its fibre', () => {
+    const domain = rectangleDomain(0, 1, 0, 1, 2, 2);
+    const set = DoubleTree.sparseGrid(domain, 3);
+    const one = enlargeDoubleTree(domain, set);
+    const two = enlargeDoubleTree(domain, set, { temporalLevels: 2 });
+    embeddingMap(one, two); // throws unless one ⊆ two
+    expect(two.size).toBeGreaterThan(one.size);
+    // every grandchild of every node with unknowns is in the set, and holds (at least) its fibre
+    const ch = new Float64Array(4), gch = new Float64Array(4);
+    let checked = 0;
+    for (let i = 0; i < set.tree.size; i++) {
+      const f = set.fibre(i);
+      if (f.length === 0) continue;
+      const nc = nodeChildren('trial', set.tree.level[i]!, set.tree.index[i]!, ch);
+      for (let c = 0; c < nc; c++) {
+        const ng = nodeChildren('trial', ch[2 * c]!, ch[2 * c + 1]!, gch);
+        for (let g = 0; g < ng; g++) {
+          const j = two.tree.find(gch[2 * g]!, gch[2 * g + 1]!);
+          expect(j).toBeGreaterThanOrEqual(0);
+          const fib = two.fibre(j);
+          for (const v of f) expect(fib.includes(v)).toBe(true);
+          checked++;
+        }
+      }
+    }
+    expect(checked).toBeGreaterThan(10);
+    // with depth 1 the grandchildren of the finest nodes are not there
+    const finest = set.tree.maxLevel;
+    expect([...Array(one.tree.size).keys()].some((j) => one.tree.level[j] === finest + 2)).toBe(false);
+    expect(() => enlargeDoubleTree(domain, set, { temporalLevels: 0 })).toThrow(/opts\.temporalLevels/);
   });
 });
 

@@ -190,13 +190,21 @@ describe('concentrated sources', () => {
     const problem = new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 1, curveSources: [{ curve: [[x0]], time: (t) => (t >= 0.3 && t < 0.31 ? 100 : 0) }] });
     const breaks = loadTimeBreakpoints(problem).times;
     expect(breaks.some((t) => Math.abs(t - 0.3) < 0.01)).toBe(true);
-    // the loop refines in time toward both switches, in many small steps (45 to 3 853 unknowns)
-    const { solution } = solveAdaptive(problem, { maxUnknowns: 4000, maxSteps: 200 });
+    // the loop refines in time toward both switches, in many small steps (45 to 3 853 unknowns);
+    // temporal candidates two levels deep take fewer (29 to 3 494; docs/adaptivity.md §2.2)
+    const one = solveAdaptive(problem, { maxUnknowns: 4000, maxSteps: 200 });
+    const two = solveAdaptive(problem, { maxUnknowns: 4000, maxSteps: 200, enlargement: { temporalLevels: 2 } });
+    expect(two.history.length).toBeLessThan(0.8 * one.history.length);
     const U = (t: number, x: number) => (t > 0 ? rod(t, x, x0)[0] : 0);
-    // within 1.5 %: 1.1 % at the source during the pulse, 0.5 % just after it, 0.3 % at the end
-    for (const [t, x] of [[0.305, 0.25], [0.35, 0.25], [0.5, 0.6], [0.8, 0.25]] as const) {
-      const exact = 100 * (U(t - 0.3, x) - U(t - 0.31, x));
-      expect(Math.abs(solution.evaluate(t, [x])[0]! - exact), `(${t}, ${x})`).toBeLessThan(0.015 * exact);
+    // within 1.5 % plus a small absolute slack against the peak 5.6: depth 1 is within 1.1 % at the
+    // source during the pulse, 0.5 % just after it and 0.3 % at t = 0.8 (slack 2·10⁻⁴); depth 2 ends
+    // less refined (E 0.077 against 0.051) and is 6.8·10⁻⁴ off the small value 0.0076 at t = 0.8
+    // (slack 10⁻³, 0.02 % of the peak)
+    for (const [run, slack] of [[one, 2e-4], [two, 1e-3]] as const) {
+      for (const [t, x] of [[0.305, 0.25], [0.35, 0.25], [0.5, 0.6], [0.8, 0.25]] as const) {
+        const exact = 100 * (U(t - 0.3, x) - U(t - 0.31, x));
+        expect(Math.abs(run.solution.evaluate(t, [x])[0]! - exact), `(${t}, ${x})`).toBeLessThan(0.015 * exact + slack);
+      }
     }
   });
 
