@@ -82,14 +82,23 @@ export function enlargeDoubleTree(domain: SpatialDomain, set: DoubleTree, opts: 
     levels.push(l);
     indices.push(k);
     sets.push(g);
-    // temporal candidates: the descendants of (l, k) down to `depth` levels, each with the fibre f
-    let front = [l, k];
-    for (let d = 0; d < depth && front.length > 0; d++) {
+    // temporal candidates: the children of (l, k) (and with depth > 1 their descendants down to
+    // `depth` levels), each with the fibre f
+    const nc = nodeChildren('trial', l, k, ch);
+    for (let c = 0; c < nc; c++) {
+      levels.push(ch[2 * c]!);
+      indices.push(ch[2 * c + 1]!);
+      sets.push(f);
+    }
+    if (depth === 1) continue;
+    let front: number[] = [];
+    for (let c = 0; c < nc; c++) front.push(ch[2 * c]!, ch[2 * c + 1]!);
+    for (let d = 1; d < depth && front.length > 0; d++) {
       const next: number[] = [];
       for (let q = 0; q < front.length; q += 2) {
         if (front[q]! + 1 > MAX_TEMPORAL_LEVEL) continue;
-        const nc = nodeChildren('trial', front[q]!, front[q + 1]!, ch);
-        for (let c = 0; c < nc; c++) {
+        const m = nodeChildren('trial', front[q]!, front[q + 1]!, ch);
+        for (let c = 0; c < m; c++) {
           levels.push(ch[2 * c]!);
           indices.push(ch[2 * c + 1]!);
           sets.push(f);
