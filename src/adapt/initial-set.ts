@@ -26,8 +26,9 @@ export const DEEPEST_SET_LEVEL = MAX_TEMPORAL_LEVEL - 2;
 /**
  * The smallest sparse grid with at least one unknown (level 1 unless the mesh is very coarse),
  * with every fibre refined where the load quadrature would miss features of the source or the
- * initial state, and near concentrated sources close to a held boundary (§2.1), graded toward t = 0 down to the shortest diffusion time of the initial
- * mesh and of the elements that resolve the initial state.
+ * initial state, and near concentrated sources close to a held boundary (§2.1), graded toward
+ * t = 0 down to the shortest diffusion time of the initial mesh and of the elements that resolve
+ * the initial state.
  */
 export function defaultInitialSet(problem: HeatProblem): DoubleTree {
   for (let L = 1; ; L++) {

@@ -50,12 +50,12 @@ export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): st
   }
   const times = sliceTimes(spec);
   const name = spec.title ?? 'u';
+  const lines = spec.curveSources.map((c) => c.curve); // drawn over the slice pictures
   const entries = times.map((t, i) => {
     const file = `slice-${String(i).padStart(4, '0')}.vtu`;
     // slice times are absolute, the solution's clock starts at 0 (problem field `start`)
     const slice = { ...run.solution.slice(t - spec.start), t };
     save(file, sliceToVtu(slice, 'u'));
-    const lines = spec.curveSources.map((c) => c.curve);
     save(`slice-${String(i).padStart(4, '0')}.svg`, sliceToSvg(slice, { title: `${name}, t = ${t}`, quantity: 'u', ...(lines.length > 0 ? { lines } : {}) }));
     return { t, file };
   });

@@ -23,7 +23,7 @@ import type { LeafMesh } from '../space/leaf-mesh';
 import { localIndices } from '../space/operator-plan';
 import { INTERVAL_POINTS, INTERVAL_WEIGHTS, TRIANGLE_POINTS, TRIANGLE_WEIGHTS } from '../space/quadrature';
 import type { DoubleTree } from '../spacetime/double-tree';
-import { positionsIn, sameInts, unionSorted } from '../spacetime/fibre-pool';
+import { FibrePool, positionsIn, unionSorted } from '../spacetime/fibre-pool';
 import { evaluateTemporal } from '../time/index';
 
 /**
@@ -48,22 +48,20 @@ export interface SliceFrame {
  * with its local numbering, scratch and (see {@link quadratureRows}) rows.
  */
 export class FrameMeshes {
-  private readonly byHash = new Map<number, FrameMesh[]>();
-  /** Number of distinct meshes built. */
-  count = 0;
+  // Equal vertex sets get one id (a pool of the functional's own, not the trial set's).
+  private readonly ids = new FibrePool();
+  private readonly byId: FrameMesh[] = [];
 
   constructor(private readonly domain: SpatialDomain) {}
 
   get(set: Int32Array): FrameMesh {
-    let h = 0x811c9dc5 ^ set.length;
-    for (let i = 0; i < set.length; i++) h = Math.imul(h ^ set[i]!, 0x01000193);
-    let bucket = this.byHash.get(h);
-    if (bucket === undefined) this.byHash.set(h, (bucket = []));
-    for (const m of bucket) if (sameInts(m.set, set)) return m;
-    const mesh = this.domain.leafMesh(set);
-    const m: FrameMesh = { set, mesh, loc: localIndices(this.domain, mesh, set), scratch: new Float64Array(mesh.vertexCount), rows: null };
-    bucket.push(m);
-    this.count++;
+    const id = this.ids.intern(set);
+    let m = this.byId[id];
+    if (m === undefined) {
+      const mesh = this.domain.leafMesh(set);
+      m = { set, mesh, loc: localIndices(this.domain, mesh, set), scratch: new Float64Array(mesh.vertexCount), rows: null };
+      this.byId[id] = m;
+    }
     return m;
   }
 }

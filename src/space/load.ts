@@ -71,12 +71,9 @@ export function loadVector(domain: SpatialDomain, set: Int32Array, f: (x: number
   if (!(res instanceof Float64Array) || res.length < set.length) {
     throw new InvalidArgumentError(`out must be a Float64Array of length ≥ ${set.length}`, { field: 'out', expected: `length ≥ ${set.length}`, received: describeValue(out) });
   }
-  const r = new Float64Array(mesh.vertexCount);
-  nodalLoad(mesh, f, r);
-  hierarchicalToNodalTransposed(mesh, r);
-  const loc = localIndices(domain, mesh, set);
+  hierarchicalLoad(domain, set, mesh, (r) => nodalLoad(mesh, f, r), res);
   for (let i = 0; i < set.length; i++) {
-    const v = r[loc[i]!]!;
+    const v = res[i]!;
     if (!Number.isFinite(v)) {
       throw new InvalidArgumentError(`f produced a non-finite value near vertex ${set[i]} (load entry ${i} is ${describeValue(v)})`, {
         field: 'f',
@@ -84,8 +81,20 @@ export function loadVector(domain: SpatialDomain, set: Int32Array, f: (x: number
         received: v,
       });
     }
-    res[i] = v;
   }
+  return res;
+}
+
+/**
+ * The nodal load that `addNodal` adds into a zeroed vector on `mesh` (the leaf mesh of `set`),
+ * turned into hierarchical coordinates and read off at the entries of `set` into `res`.
+ */
+function hierarchicalLoad(domain: SpatialDomain, set: Int32Array, mesh: LeafMesh, addNodal: (r: Float64Array) => void, res: Float64Array): Float64Array {
+  const r = new Float64Array(mesh.vertexCount);
+  addNodal(r);
+  hierarchicalToNodalTransposed(mesh, r);
+  const loc = localIndices(domain, mesh, set);
+  for (let i = 0; i < set.length; i++) res[i] = r[loc[i]!]!;
   return res;
 }
 
@@ -95,11 +104,5 @@ export function loadVector(domain: SpatialDomain, set: Int32Array, f: (x: number
  */
 export function curveLoadVector(domain: SpatialDomain, set: Int32Array, curve: SourceCurve): Float64Array {
   const mesh = domain.leafMesh(set);
-  const r = new Float64Array(mesh.vertexCount);
-  nodalCurveLoad(mesh, curve, r);
-  hierarchicalToNodalTransposed(mesh, r);
-  const loc = localIndices(domain, mesh, set);
-  const out = new Float64Array(set.length);
-  for (let i = 0; i < set.length; i++) out[i] = r[loc[i]!]!;
-  return out;
+  return hierarchicalLoad(domain, set, mesh, (r) => nodalCurveLoad(mesh, curve, r), new Float64Array(set.length));
 }
