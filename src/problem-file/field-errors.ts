@@ -13,6 +13,7 @@ export function bad(field: string, message: string, received?: unknown): never {
 /** What a JSON value is, in words, for messages. @internal */
 export function typeName(v: unknown): string {
   if (v === null) return 'null';
+  if (v === undefined) return 'nothing (the field is missing)';
   if (Array.isArray(v)) return 'an array';
   if (typeof v === 'string') return `the string ${JSON.stringify(v.length > 30 ? v.slice(0, 30) + '…' : v)}`;
   if (typeof v === 'object') return 'an object';

@@ -150,6 +150,11 @@ function parseBoundaryPart(v: unknown, field: string, space: ('x' | 'y')[]): Bou
   const kinds = Object.keys(BOUNDARY_FIELDS);
   if (typeof o.kind !== 'string' || !kinds.includes(o.kind)) {
     const hint = typeof o.kind === 'string' ? nearestName(o.kind, kinds) : null;
+    if (o.kind === undefined) {
+      // the data field names the kind ("value", "flux", "ambient"/"transferCoefficient")
+      const implied = 'value' in o ? 'value' : 'flux' in o ? 'flux' : 'ambient' in o || 'transferCoefficient' in o ? 'convection' : null;
+      if (implied !== null) bad(`${field}.kind`, `is missing; the part has the fields of a "${implied}" part — did you mean "kind": "${implied}"?`, o.kind);
+    }
     bad(`${field}.kind`, `must be "value", "flux" or "convection", found ${typeName(o.kind)}${hint ? `; did you mean "${hint}"?` : ''}`, o.kind);
   }
   const kind = o.kind as BoundaryPartSpec['kind'];
@@ -200,6 +205,11 @@ function parseDomain(v: unknown): DomainSpec {
   const shapes = Object.keys(DOMAIN_FIELDS);
   if (typeof d.shape !== 'string' || !shapes.includes(d.shape)) {
     const hint = typeof d.shape === 'string' ? nearestName(d.shape, shapes) : null;
+    if (d.shape === undefined) {
+      // a shape name under another key ("kind", "type", …): name the key to rename
+      const misplaced = Object.keys(d).find((k) => typeof d[k] === 'string' && shapes.includes(d[k] as string));
+      if (misplaced !== undefined) bad('domain.shape', `is missing; found "${misplaced}": "${d[misplaced] as string}" — did you mean "shape": "${d[misplaced] as string}"?`, d[misplaced]);
+    }
     bad('domain.shape', `must be one of ${shapes.map((s) => `"${s}"`).join(', ')}, found ${typeName(d.shape)}${hint ? `; did you mean "${hint}"?` : ''}`, d.shape);
   }
   const shape = d.shape as DomainSpec['shape'];
@@ -283,7 +293,12 @@ export function parseProblem(json: unknown, opts: ParseProblemOptions = {}): Pro
   const time = (v: unknown, field: string) => num(v, field, `in [${start > 0 ? `start = ${start}` : '0'}, horizon = ${horizon}]`, (t) => t >= start && t <= horizon);
   const probes = list('probes').map((p, i) => {
     const f = `probes[${i}]`;
-    if (!Array.isArray(p) || p.length !== dim + 1) bad(f, `must be ${dim === 1 ? '[t, x]' : '[t, x, y]'}, found ${typeName(p)}`, p);
+    if (!Array.isArray(p)) bad(f, `must be ${dim === 1 ? '[t, x]' : '[t, x, y]'}, found ${typeName(p)}`, p);
+    if (p.length !== dim + 1) {
+      // a point without its time is the commonest slip: say so, and where histories go
+      const pointOnly = p.length === dim ? `; a probe is one value at one time — for u over time at a point use "sensors": {"points": [${dim === 1 ? '[x]' : '[x, y]'}, …]}` : '';
+      bad(f, `must be ${dim === 1 ? '[t, x]' : '[t, x, y]'} (${dim + 1} numbers), found a list of ${p.length}${pointOnly}`, p);
+    }
     return [time(p[0], `${f}[0] (t)`), ...p.slice(1).map((c, j) => num(c, `${f}[${j + 1}]`, '(finite)', () => true))];
   });
   const slices = list('slices').map((t, i) => time(t, `slices[${i}]`));
