@@ -16,7 +16,7 @@
  * at many times) use src/spacetime/point-series.ts instead, and both enter the functionals as an
  * {@link EvaluationBlock}.
  */
-import { InvalidArgumentError } from '../errors';
+import { InvalidArgumentError, describeValue } from '../errors';
 import type { SpatialDomain } from '../space/index';
 import { hierarchicalToNodal, hierarchicalToNodalTransposed } from '../space/hierarchical';
 import type { LeafMesh } from '../space/leaf-mesh';
@@ -190,7 +190,7 @@ export function rowTargets(mesh: LeafMesh, rows: QuadratureRows, target: (x: num
       const x = pt[0]!, y = pt[1]!;
       const v = target(x, y);
       if (!Number.isFinite(v)) {
-        throw new InvalidArgumentError(`${field}(${mesh.dim === 1 ? x : `${x}, ${y}`}) at t = ${t} returned ${v}; expected a finite number`, { field, received: v });
+        throw new InvalidArgumentError(`${field}(${mesh.dim === 1 ? x : `${x}, ${y}`}) at t = ${t} returned ${describeValue(v)}; expected a finite number`, { field, received: v });
       }
       out[r++] = v;
     }

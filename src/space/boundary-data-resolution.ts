@@ -15,7 +15,7 @@
  * are checked in turn (newest-vertex bisection halves the boundary edge within two generations).
  * The data are sampled at the given times. In 1D the boundary is a point and nothing is refined.
  */
-import { InvalidArgumentError } from '../errors';
+import { InvalidArgumentError, describeValue } from '../errors';
 import { EdgeKind, naturalDataFactor, naturalEdgeIndex, type BoundaryTables } from './boundary';
 import { DATA_TOLERANCE, bisectWhere, sampleSpacing } from './data-resolution';
 import { sameValues } from '../numerics/same-values';
@@ -86,7 +86,7 @@ function edgeLoads(tables: BoundaryTables, b: number, t: number, xy: Float64Arra
       const x = (1 - l1) * x0 + l1 * x1, y = (1 - l1) * y0 + l1 * y1;
       const v = data(t, x, y);
       if (!Number.isFinite(v)) {
-        throw new InvalidArgumentError(`${field}(${t}, ${x}, ${y}) returned ${String(v)}; expected a finite number`, { field, expected: 'a finite number', received: String(v) });
+        throw new InvalidArgumentError(`${field}(${t}, ${x}, ${y}) returned ${describeValue(v)}; expected a finite number`, { field, expected: 'a finite number', received: String(v) });
       }
       values?.push(v);
       const w = (c * len * INTERVAL_WEIGHTS[q]! * v) / n;

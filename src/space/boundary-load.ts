@@ -5,7 +5,7 @@
  * segment (exact for data of degree 4 along the segment; ./quadrature); in 1D the boundary is a
  * point and the load is the data value there.
  */
-import { InvalidArgumentError } from '../errors';
+import { InvalidArgumentError, describeValue } from '../errors';
 import { EdgeKind, naturalDataFactor, type BoundaryTables } from './boundary';
 import type { LeafMesh } from './leaf-mesh';
 import { INTERVAL_POINTS, INTERVAL_WEIGHTS } from './quadrature';
@@ -49,7 +49,7 @@ export function addNodalBoundaryLoad(mesh: LeafMesh, tables: BoundaryTables, t: 
 
 function checked(v: number, field: string, t: number, x: number, y: number): number {
   if (typeof v !== 'number' || !Number.isFinite(v)) {
-    throw new InvalidArgumentError(`${field}(${t}, ${x}, ${y}) returned ${String(v)}; expected a finite number`, { field, expected: 'finite number', received: String(v) });
+    throw new InvalidArgumentError(`${field}(${t}, ${x}, ${y}) returned ${describeValue(v)}; expected a finite number`, { field, expected: 'finite number', received: String(v) });
   }
   return v;
 }

@@ -16,7 +16,7 @@
  * shortest edge). Features narrower than about SAMPLE_FRACTION·diam(Ω)/3 can still be missed
  * (the sub-element rules sample them too sparsely).
  */
-import { InvalidArgumentError } from '../errors';
+import { InvalidArgumentError, describeValue } from '../errors';
 import { BYTES_PER_FOREST_VERTEX, memoryBudget } from '../validation/index';
 import { elementDiffusionTime } from './diffusion-time';
 import { sameValues } from '../numerics/same-values';
@@ -116,7 +116,7 @@ function checked(datum: SampledDatum): (x: number, y: number) => number {
   return (x, y) => {
     const v = datum.value(x, y);
     if (!Number.isFinite(v)) {
-      throw new InvalidArgumentError(`${datum.field} is ${String(v)} at (x, y) = (${x}, ${y}); it must be finite on the whole domain`, { field: datum.field, expected: 'a finite number', received: v });
+      throw new InvalidArgumentError(`${datum.field} is ${describeValue(v)} at (x, y) = (${x}, ${y}); it must be finite on the whole domain`, { field: datum.field, expected: 'a finite number', received: v });
     }
     return v;
   };

@@ -3,7 +3,7 @@
  * lifting (./boundary-lifting) interpolates, kept apart from it so that checks of the data in time
  * need not load the lifting's mesh machinery.
  */
-import { InvalidArgumentError } from '../errors';
+import { InvalidArgumentError, describeValue } from '../errors';
 import type { BisectionForest } from './forest';
 
 export class HeldValues {
@@ -38,7 +38,7 @@ export class HeldValues {
     const p = this.part[i]!;
     const g = this.data[p]!(t, x, y);
     if (typeof g !== 'number' || !Number.isFinite(g)) {
-      throw new InvalidArgumentError(`boundary[${p}].value(${t}, ${x}, ${y}) returned ${String(g)}; expected a finite number`, {
+      throw new InvalidArgumentError(`boundary[${p}].value(${t}, ${x}, ${y}) returned ${describeValue(g)}; expected a finite number`, {
         field: `boundary[${p}].value`,
         expected: 'finite number',
         received: String(g),

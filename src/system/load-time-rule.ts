@@ -20,7 +20,7 @@
  * piece by piece between the breakpoints inside it: each piece is an interval that passed the
  * check. Data smooth in time give no breakpoints, and their loads are unchanged.
  */
-import { InvalidArgumentError } from '../errors';
+import { InvalidArgumentError, describeValue } from '../errors';
 import { gaussLegendre01 } from '../numerics/gauss-legendre';
 import { boundarySamplePoints, domainSamplePoints } from '../space/sample-points';
 import { heldValuesOf } from '../space/held-values';
@@ -169,7 +169,7 @@ function sourceGroup(problem: HeatProblem): WatchedGroup | null {
       values.fill(0);
       terms!.forEach((term, j) => {
         const g = term.time(t);
-        if (!Number.isFinite(g)) throw new InvalidArgumentError(`source[${j}].time(${t}) returned ${g}; expected a finite number`, { field: `source[${j}].time`, received: g });
+        if (!Number.isFinite(g)) throw new InvalidArgumentError(`source[${j}].time(${t}) returned ${describeValue(g)}; expected a finite number`, { field: `source[${j}].time`, received: g });
         const s = space![j]!;
         for (let p = 0; p < np; p++) values[p] = values[p]! + g * s[p]!;
       });
@@ -188,7 +188,7 @@ function curveGroup(problem: HeatProblem): WatchedGroup | null {
   const sample = (t: number): Float64Array => {
     curves.forEach((c, j) => {
       const g = c.time(t);
-      if (!Number.isFinite(g)) throw new InvalidArgumentError(`curveSources[${j}].time(${t}) returned ${g}; expected a finite number`, { field: `curveSources[${j}].time`, received: g });
+      if (!Number.isFinite(g)) throw new InvalidArgumentError(`curveSources[${j}].time(${t}) returned ${describeValue(g)}; expected a finite number`, { field: `curveSources[${j}].time`, received: g });
       values[j] = g;
     });
     return values;
@@ -225,7 +225,7 @@ function finite(v: number, field: string, x: number, y: number, t?: number): num
   if (!Number.isFinite(v)) {
     // The wording of the loads' own check (./right-hand-side.ts), which meets the same values later.
     const call = t === undefined ? `${field}(${x}, ${y})` : `${field}(${t}, ${x}, ${y})`;
-    throw new InvalidArgumentError(`${call} returned ${v}; expected a finite number`, { field, expected: 'a finite number', received: v });
+    throw new InvalidArgumentError(`${call} returned ${describeValue(v)}; expected a finite number`, { field, expected: 'a finite number', received: v });
   }
   return v;
 }

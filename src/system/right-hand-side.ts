@@ -7,7 +7,7 @@
  * data smooth in time), and, at each such time, the spatial load of f(t, ·)
  * on the fibre of μ. Separable terms g(t)h(x) load h once per fibre.
  */
-import { InvalidArgumentError } from '../errors';
+import { InvalidArgumentError, describeValue } from '../errors';
 import { evaluateTemporal } from '../time/index';
 import { loadVector } from '../space/index';
 import { curveLoadVector } from '../space/load';
@@ -78,7 +78,7 @@ export function sourceLoad(problem: HeatProblem, testSet: DoubleTree): Float64Ar
         }
         for (let j = 0; j < factors.length; j++) {
           const g = factors[j]!.time(t);
-          if (!Number.isFinite(g)) throw new InvalidArgumentError(`${factors[j]!.field}(${t}) returned ${g}; expected a finite number`, { field: factors[j]!.field, received: g });
+          if (!Number.isFinite(g)) throw new InvalidArgumentError(`${factors[j]!.field}(${t}) returned ${describeValue(g)}; expected a finite number`, { field: factors[j]!.field, received: g });
           const load = spaceLoads[j]!;
           for (let p = 0; p < n; p++) {
             out[o0 + p]! += g * p0 * load[p]!;
@@ -97,7 +97,7 @@ export function initialLoad(problem: HeatProblem, fibre: Int32Array): Float64Arr
   const u0 = problem.initial;
   return loadVector(problem.domain, fibre, (x, y) => {
     const v = u0(x, y);
-    if (!Number.isFinite(v)) throw new InvalidArgumentError(`initial(${x}, ${y}) returned ${v}; expected a finite number`, { field: 'initial', received: v });
+    if (!Number.isFinite(v)) throw new InvalidArgumentError(`initial(${x}, ${y}) returned ${describeValue(v)}; expected a finite number`, { field: 'initial', received: v });
     return v;
   });
 }
@@ -105,7 +105,7 @@ export function initialLoad(problem: HeatProblem, fibre: Int32Array): Float64Arr
 function checkedSource(f: (t: number, x: number, y: number) => number, t: number): (x: number, y: number) => number {
   return (x, y) => {
     const v = f(t, x, y);
-    if (!Number.isFinite(v)) throw new InvalidArgumentError(`source(${t}, ${x}, ${y}) returned ${v}; expected a finite number`, { field: 'source', received: v });
+    if (!Number.isFinite(v)) throw new InvalidArgumentError(`source(${t}, ${x}, ${y}) returned ${describeValue(v)}; expected a finite number`, { field: 'source', received: v });
     return v;
   };
 }
@@ -113,7 +113,7 @@ function checkedSource(f: (t: number, x: number, y: number) => number, t: number
 function checkedSpace(h: (x: number, y: number) => number, j: number): (x: number, y: number) => number {
   return (x, y) => {
     const v = h(x, y);
-    if (!Number.isFinite(v)) throw new InvalidArgumentError(`source[${j}].space(${x}, ${y}) returned ${v}; expected a finite number`, { field: `source[${j}].space`, received: v });
+    if (!Number.isFinite(v)) throw new InvalidArgumentError(`source[${j}].space(${x}, ${y}) returned ${describeValue(v)}; expected a finite number`, { field: `source[${j}].space`, received: v });
     return v;
   };
 }
