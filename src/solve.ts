@@ -55,7 +55,9 @@ function adaptive(problem: HeatProblem, opts: AdaptiveOptions): SolveResult {
   // (A run the caller stopped, by its signal or its onStep callback, returns as it is.)
   const tolerance = opts.tolerance ?? 0;
   const estimate = r.history[r.history.length - 1]!.estimate;
-  if (tolerance > 0 && !(estimate <= tolerance) && r.stopReason !== 'aborted' && r.stopReason !== 'callback') {
+  // (Nor does a run whose E reached the rounding level: no budget would lower it, and the answer is
+  // exact to working precision.)
+  if (tolerance > 0 && !(estimate <= tolerance) && r.stopReason !== 'aborted' && r.stopReason !== 'callback' && r.stopReason !== 'rounding') {
     // A run stopped by the deepest trustworthy temporal level cannot go on with more budget.
     const f = r.stopReason === 'resolution' ? null : toleranceForecast(r.history, tolerance);
     throw new ToleranceNotReachedError(
@@ -107,7 +109,9 @@ function dispatch(): Dispatch {
  * With a `tolerance` in the options, a run that a budget stops before its estimator reaches the
  * tolerance throws {@link ToleranceNotReachedError}, which carries the result so far
  * (`solveAdaptive` returns it with its `stopReason` instead). Without one, the run goes until a
- * budget stops it, and `stopReason` says which.
+ * budget stops it, and `stopReason` says which. A run that stops with `'rounding'` (E at the
+ * rounding level of the solution, see {@link AdaptiveResult.stopReason}) returns, whatever the
+ * tolerance: its answer is exact to working precision.
  *
  * @example
  * ```ts

@@ -22,6 +22,16 @@ export interface AdaptiveStep {
   unknowns: number;
   /** Estimator E of this step's solution. */
   estimate: number;
+  /**
+   * Size of this step's solution u_δ in the norm of the least-squares system, ‖u_δ‖_S =
+   * (u_δᵀ b)^{1/2} ≈ (u_δᵀ S u_δ)^{1/2} (b the system's right-hand side, u_δ solved): equivalent to
+   * the norm E measures, and close to the size of the data, ‖f‖_{L2(0,T;H⁻¹)} + ‖u0‖_{L2} (for
+   * f = 0 and zero boundary values it tends to ‖u0‖_{L2(Ω)}). E / solutionNorm is the estimate
+   * relative to the solution (where values are held on the boundary, relative to the part of u
+   * beyond them, which the unknowns carry). null for steps restored from a checkpoint written
+   * before the field existed. docs/adaptivity.md §6.
+   */
+  solutionNorm: number | null;
   /** PCG iterations of this step (all resumptions included). */
   pcgIterations: number;
   /** Estimated S-energy norm of the algebraic error of the solution (≤ `solverFraction`·E). */
@@ -150,9 +160,12 @@ export interface AdaptiveResult {
    * or `'resolution'` (the next set would go below temporal level 50, i.e. need time scales under
    * T·2⁻⁵⁰: on a set at level 51 the estimate was measured to rise while the true error fell, and
    * at MAX_TEMPORAL_LEVEL = 52 it would have no finer temporal candidates; the last completed
-   * step, whose estimate is trustworthy, is returned — docs/adaptivity.md §6).
+   * step, whose estimate is trustworthy, is returned — docs/adaptivity.md §6) or `'rounding'`
+   * (E ≤ 10⁻¹⁰ · {@link AdaptiveStep.solutionNorm}: the discrete solution solves the problem to
+   * the rounding level of double precision, as when the exact solution lies in the discrete space;
+   * refining further would only resolve rounding errors, which grow with every spatial generation).
    */
-  stopReason: 'tolerance' | 'unknowns' | 'steps' | 'time' | 'callback' | 'aborted' | 'memory' | 'resolution';
+  stopReason: 'tolerance' | 'unknowns' | 'steps' | 'time' | 'callback' | 'aborted' | 'memory' | 'resolution' | 'rounding';
   /**
    * The estimated error that held values leave because they are interpolated linearly along the
    * initial boundary edges ({@link HeatProblem.heldDataError}; 0 when they are affine there). E does

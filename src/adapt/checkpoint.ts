@@ -48,7 +48,7 @@ export function encodeCheckpoint(problem: HeatProblem, s: CheckpointState): Uint
 }
 
 const STEP_NUMBERS: (keyof AdaptiveStep)[] = ['step', 'unknowns', 'estimate', 'pcgIterations', 'algebraicError', 'maxTimeLevel', 'maxSpaceGeneration', 'spatialVertices', 'enlargedUnknowns', 'marked', 'seconds'];
-const STOP_REASONS: AdaptiveResult['stopReason'][] = ['tolerance', 'unknowns', 'steps', 'time', 'callback', 'aborted', 'memory', 'resolution'];
+const STOP_REASONS: AdaptiveResult['stopReason'][] = ['tolerance', 'unknowns', 'steps', 'time', 'callback', 'aborted', 'memory', 'resolution', 'rounding'];
 
 function bad(field: string, what: string): CorruptFileError {
   return new CorruptFileError(`the checkpoint's ${field} is malformed: ${what}`, 'malformed', { field, expected: what });
@@ -81,6 +81,9 @@ export function decodeCheckpoint(bytes: Uint8Array, problem: HeatProblem, field:
     // Checkpoints written before the field existed have no rise checks recorded.
     if (s.riseChecks === undefined) s.riseChecks = 0;
     else if (typeof s.riseChecks !== 'number' || !Number.isInteger(s.riseChecks) || s.riseChecks < 0) throw bad(`adaptive.history[${i}].riseChecks`, 'a count ≥ 0');
+    // Nor the solution's norm (null: not known for those steps).
+    if (s.solutionNorm === undefined) s.solutionNorm = null;
+    else if (s.solutionNorm !== null && (typeof s.solutionNorm !== 'number' || !Number.isFinite(s.solutionNorm) || s.solutionNorm < 0)) throw bad(`adaptive.history[${i}].solutionNorm`, 'null or a finite number ≥ 0');
     if (s.step !== i) throw bad(`adaptive.history[${i}].step`, `step number ${i}`);
     return s as unknown as AdaptiveStep;
   });

@@ -33,7 +33,8 @@ except its insulated part (zero flux) and its boundary parts, u(0) = u0, as
 described by PROBLEM.json.
 
   --json        print exactly one JSON document on stdout:
-                {"steps":[{"dofs","estimate","iterations","riseChecks","seconds"}…],
+                {"steps":[{"dofs","estimate","relativeEstimate","iterations",
+                 "riseChecks","seconds"}…],
                  "probes":[{"t","x","y","value"}…], "rate": r, "stopReason",
                  "tolerance", "toleranceReached", "forecast", "heldDataError",
                  "exactErrors": {"gradientL2","valueL2","ratioToEstimate",
@@ -44,7 +45,9 @@ described by PROBLEM.json.
                 second half of the steps; forecast: {"rate","unknowns",
                 "seconds"} where E would reach a missed tolerance at the
                 rate of the steps since N was an eighth of its last value,
-                or null; y is null in 1D)
+                or null; relativeEstimate: E divided by the size of the
+                solution in the norm E measures, the "% of ‖u‖" of the
+                progress lines, or null; y is null in 1D)
   --out DIR     write history (JSON, CSV), probe table (CSV), slices (VTK XML
                 .vtu + .pvd), pictures (SVG) and the state at T (end-state.json,
                 to continue from) into DIR (checked writable first)
@@ -122,7 +125,10 @@ problem file fields (JSON object):
               memory, and on "resolution": the next set would need time scales
               below T·2^-50, where the estimator is unreliable; initial data that
               violate the boundary values with T ≫ L²/κ get there early: solve
-              over a few diffusion times L²/κ and continue from its end state)
+              over a few diffusion times L²/κ and continue from its end state;
+              and on "rounding": E ≤ 1e-10 × ‖u‖, the discrete solution solves
+              the problem to working precision, as when a known solution lies
+              in the discrete space)
   bulk        Dörfler parameter θ in (0, 1) (default 0.5 in 1D, 0.7 in 2D)
   probes      list of [t, x] or [t, x, y]
   sensors     {"points": [[x, y], …], "times": n or [t, …]}: sensor histories,

@@ -36,7 +36,7 @@ export const TOLERANCE_NOT_REACHED = 3;
 /**
  * Reads, validates, solves and reports one problem file. Input errors throw {@link CliError}.
  * `toleranceReached` is null when the file asks for no tolerance (0), else whether the last
- * estimator is within it; a miss is also reported on the progress stream, never only implied by
+ * estimator is within it (or at the rounding level, stop reason 'rounding'); a miss is also reported on the progress stream, never only implied by
  * the stop reason.
  */
 export function solveFile(file: string, opts: SolveFileOptions = {}): { run: RunResult; written: string[]; toleranceReached: boolean | null } {
@@ -106,7 +106,7 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
   try {
     run = runProblem(built, (s, i) => {
       const truth = typeof s.trueError === 'number' ? `, true error ${s.trueError.toExponential(3)}` : '';
-      if (!opts.quiet) progress(`step ${i}: ${s.dofs} dofs, estimate ${s.estimate.toExponential(3)}${truth}, ${s.iterations} PCG iterations${s.riseChecks > 0 ? ` (re-solved ${s.riseChecks === 1 ? 'once' : 'twice'} after E rose)` : ''}, ${s.seconds.toFixed(2)} s`);
+      if (!opts.quiet) progress(`step ${i}: ${s.dofs} dofs, estimate ${s.estimate.toExponential(3)}${relativeText(s.relativeEstimate)}${truth}, ${s.iterations} PCG iterations${s.riseChecks > 0 ? ` (re-solved ${s.riseChecks === 1 ? 'once' : 'twice'} after E rose)` : ''}, ${s.seconds.toFixed(2)} s`);
     }, {
       ...(opts.checkpoint !== undefined ? { checkpoint: checkpointToFile(opts.checkpoint) } : {}),
       ...(resume !== undefined ? { resume } : {}),
@@ -121,7 +121,9 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
   const written = opts.out !== undefined ? writeOutputs(opts.out, built.spec, run) : [];
   const last = run.steps[run.steps.length - 1]!;
   const tolerance = built.spec.tolerance;
-  const toleranceReached = tolerance > 0 ? last.estimate <= tolerance : null;
+  // E at the rounding level counts as reached: nothing lowers it further, and the solution is exact
+  // to working precision (the summary says so).
+  const toleranceReached = tolerance > 0 ? last.estimate <= tolerance || run.stopReason === 'rounding' : null;
   // A run stopped by the deepest trustworthy temporal level cannot go on with more budget.
   const atDepth = run.stopReason === 'resolution';
   const forecast = toleranceReached === false && !atDepth ? toleranceForecast(run.steps.map((s) => ({ unknowns: s.dofs, estimate: s.estimate, seconds: s.seconds })), tolerance) : null;
@@ -156,12 +158,17 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     log(JSON.stringify({ steps: run.steps, probes: run.probes, rate: run.rate, stopReason: run.stopReason, tolerance, toleranceReached, forecast, heldDataError: held, exactErrors: run.exactErrors, sensors: run.sensors }));
   } else {
     log(`${built.spec.title ?? file}: ${run.steps.length} steps (${built.spec.strategy}), stopped by ${run.stopReason}`);
-    log(`last step: ${last.dofs} unknowns, estimator ${last.estimate.toExponential(3)}; observed rate ${rateText(run.rate, 'E')}`);
+    log(`last step: ${last.dofs} unknowns, estimator ${last.estimate.toExponential(3)}${relativeText(last.relativeEstimate)}; observed rate ${rateText(run.rate, 'E')}`);
+    if (run.stopReason === 'rounding') {
+      log(`the estimator is at the rounding level of double precision (E ≤ 1e-10 × ‖u‖): the discrete solution solves the problem to working precision, as when the exact solution lies in the discrete space; refining further would only resolve rounding errors`);
+    }
     if (held > 0) log(`held-value data error (not in the estimator, not reduced by refinement): about ${held.toExponential(2)}`);
     const ex = run.exactErrors;
     if (ex) {
       log(`true error against the file's exact solution: ${ex.gradientL2.toExponential(3)} in L2(0,T;H1), ${ex.valueL2.toExponential(3)} in L2(0,T;L2); ` +
-        `${ex.ratioToEstimate.toFixed(2)} × the estimator (${ex.ratioRange[0].toFixed(2)}–${ex.ratioRange[1].toFixed(2)} over the steps); ` +
+        (run.stopReason === 'rounding'
+          ? 'both at the rounding level, where their ratio means nothing; '
+          : `${ex.ratioToEstimate.toFixed(2)} × the estimator (${ex.ratioRange[0].toFixed(2)}–${ex.ratioRange[1].toFixed(2)} over the steps); `) +
         `observed rate of the true error ${rateText(ex.rate, 'the true error')}`);
     }
     for (const p of run.probes) log(`u(t = ${p.t}, x = ${p.x}${p.y === null ? '' : `, y = ${p.y}`}) = ${p.value.toPrecision(6)}`);
@@ -221,4 +228,10 @@ function roundedDuration(s: number): string {
 export function rateText(rate: number | null, what: string): string {
   if (rate === null) return 'n/a (N grew less than twofold over the second half of the steps)';
   return rate < 0 ? `${rate.toFixed(2)} (${what} rose over the second half of the steps)` : rate.toFixed(2);
+}
+
+/** " (9.2 % of ‖u‖)": E relative to the solution's norm (RunStep.relativeEstimate), or nothing. */
+function relativeText(rel: number | null): string {
+  if (rel === null) return '';
+  return rel >= 1e-4 ? ` (${(100 * rel).toPrecision(2)} % of ‖u‖)` : ` (${rel.toExponential(1)} × ‖u‖)`;
 }

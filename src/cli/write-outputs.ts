@@ -39,8 +39,9 @@ export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): st
   // With a known solution (`exact`) the history has the true error of every step as a last column.
   const truth = run.exactErrors !== null;
   save('history.csv', [
-    csvLine(['step', 'dofs', 'estimate', 'iterations', 'riseChecks', 'seconds', ...(truth ? ['trueError'] : [])]),
-    ...run.steps.map((s, i) => csvLine([i, s.dofs, s.estimate, s.iterations, s.riseChecks, s.seconds, ...(truth ? [s.trueError ?? ''] : [])])),
+    // relativeEstimate last, so that the earlier columns keep their places
+    csvLine(['step', 'dofs', 'estimate', 'iterations', 'riseChecks', 'seconds', ...(truth ? ['trueError'] : []), 'relativeEstimate']),
+    ...run.steps.map((s, i) => csvLine([i, s.dofs, s.estimate, s.iterations, s.riseChecks, s.seconds, ...(truth ? [s.trueError ?? ''] : []), s.relativeEstimate ?? ''])),
   ].join('\n') + '\n');
   save('probes.csv', [csvLine(['t', 'x', 'y', 'value']), ...run.probes.map((p) => csvLine([p.t, p.x, p.y, p.value]))].join('\n') + '\n');
   if (run.sensors !== null) {

@@ -16,6 +16,12 @@ export interface RunStep {
   dofs: number;
   /** Residual estimator E of the step's solution. */
   estimate: number;
+  /**
+   * E relative to the size of the step's solution in the norm E measures (E / ‖u_δ‖_S,
+   * `AdaptiveStep.solutionNorm`); null where that size is 0 or was not recorded (steps restored
+   * from an older checkpoint).
+   */
+  relativeEstimate: number | null;
   /** PCG iterations of the step. */
   iterations: number;
   /**
@@ -157,7 +163,7 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
   };
   const measured = new Map<number, number>(); // adaptive step number → true error
   const toStep = (h: AdaptiveStep): RunStep => ({
-    dofs: h.unknowns, estimate: h.estimate, iterations: h.pcgIterations, riseChecks: h.riseChecks, seconds: h.seconds,
+    dofs: h.unknowns, estimate: h.estimate, relativeEstimate: relativeTo(h.estimate, h.solutionNorm), iterations: h.pcgIterations, riseChecks: h.riseChecks, seconds: h.seconds,
     ...(known ? { trueError: measured.get(h.step) ?? null } : {}),
   });
   if (spec.strategy !== 'adaptive' && (adaptive.checkpoint !== undefined || adaptive.resume !== undefined)) {
@@ -197,9 +203,10 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
         break;
       }
       const t0 = performance.now();
-      const solved = new SpaceTimeSystem(problem, next).solve({ relTol: 1e-8, maxIterations: 500 });
+      const system = new SpaceTimeSystem(problem, next);
+      const solved = system.solve({ relTol: 1e-8, maxIterations: 500 });
       const estimate = residualIndicators(new SpaceTimeSystem(problem, enlargeDoubleTree(domain, next)), next, solved.pcg.solution).estimate;
-      const s: RunStep = { dofs: next.size, estimate, iterations: solved.pcg.iterations, riseChecks: 0, seconds: (performance.now() - t0) / 1000 };
+      const s: RunStep = { dofs: next.size, estimate, relativeEstimate: relativeTo(estimate, normInSystem(solved.pcg.solution, system.rightHandSide())), iterations: solved.pcg.iterations, riseChecks: 0, seconds: (performance.now() - t0) / 1000 };
       if (known) s.trueError = trueError(solved.solution);
       steps.push(s);
       onStep?.(s, steps.length - 1);
@@ -234,4 +241,16 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
     };
   }
   return { steps, probes, sensors, rate: observedRate(steps), solution, set, stopReason, exactErrors, heldDataError };
+}
+
+/** E / ‖u_δ‖_S, or null where the norm is 0 or unknown. */
+function relativeTo(estimate: number, norm: number | null): number | null {
+  return norm !== null && norm > 0 ? estimate / norm : null;
+}
+
+/** ‖u‖_S ≈ (uᵀb)^{1/2} for a solution u of S u = b (as the adaptive loop records it). */
+function normInSystem(u: Float64Array, b: Float64Array): number {
+  let ub = 0;
+  for (let i = 0; i < u.length; i++) ub += u[i]! * b[i]!;
+  return Math.sqrt(Math.max(0, ub));
 }

@@ -178,9 +178,32 @@ describe('true errors against the known solution', () => {
     expect(doc.steps.map((st) => st.trueError)).toEqual(run.steps.map((st) => st.trueError));
     expect(progress.every((l) => /true error \d\.\d{3}e-\d+/.test(l))).toBe(true);
     const csv = readFileSync(join(dir, 'out', 'history.csv'), 'utf8').trim().split('\n');
-    expect(csv[0]).toBe('step,dofs,estimate,iterations,riseChecks,seconds,trueError');
+    expect(csv[0]).toBe('step,dofs,estimate,iterations,riseChecks,seconds,trueError,relativeEstimate');
     expect(Number(csv[csv.length - 1]!.split(',')[6])).toBe(run.exactErrors!.gradientL2);
+    expect(Number(csv[csv.length - 1]!.split(',')[7])).toBe(run.steps[run.steps.length - 1]!.relativeEstimate);
     expect(readFileSync(join(dir, 'out', 'history.svg'), 'utf8')).toContain('true error');
+  });
+
+  it("a known solution in the discrete space: the run stops with 'rounding' and says why, without an error ratio", () => {
+    // u = t(½ − |x − ½|): ∂t u − ∂xx u = ½ − |x − ½| + 2t δ(x − ½) (by hand), u = 0 at both ends
+    const dir = mkdtempSync(join(tmpdir(), 'chronomesh-exact-'));
+    const file = join(dir, 'kink.json');
+    writeFileSync(file, JSON.stringify({
+      domain: { ...interval, cells: 3 }, horizon: 1, source: '0.5 - abs(x - 0.5)', curveSources: [{ curve: [[0.5]], time: '2*t' }],
+      exact: 't*(0.5 - abs(x - 0.5))', tolerance: 1e-20, maxSteps: 100,
+    }));
+    const lines: string[] = [];
+    const progress: string[] = [];
+    const { run, toleranceReached } = solveFile(file, { log: (l) => lines.push(l), progress: (l) => progress.push(l) });
+    expect(run.stopReason).toBe('rounding');
+    expect(run.steps.length).toBeLessThanOrEqual(3);
+    expect(run.exactErrors!.gradientL2).toBeLessThan(1e-12);
+    expect(toleranceReached).toBe(true); // nothing lowers E further: no warning, exit status 0
+    expect(progress.join('\n')).not.toMatch(/not reached/);
+    expect(lines.join('\n')).toMatch(/stopped by rounding/);
+    expect(lines.join('\n')).toMatch(/at the rounding level of double precision/);
+    expect(lines.join('\n')).toMatch(/both at the rounding level, where their ratio means nothing/);
+    expect(progress[0]).toMatch(/estimate \S+ \(\d\.\de-\d+ × ‖u‖\)/);
   });
 });
 

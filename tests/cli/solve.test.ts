@@ -33,7 +33,11 @@ describe('chronomesh solve', () => {
     const doc = JSON.parse(lines[0]!) as { steps: { dofs: number; estimate: number; iterations: number; riseChecks: number; seconds: number }[]; probes: { t: number; x: number; y: number | null; value: number }[]; rate: number };
     expect(Object.keys(doc)).toEqual(['steps', 'probes', 'rate', 'stopReason', 'tolerance', 'toleranceReached', 'forecast', 'heldDataError', 'exactErrors', 'sensors']);
     expect(doc.steps.length).toBeGreaterThan(3);
-    for (const s of doc.steps) expect(Object.keys(s)).toEqual(['dofs', 'estimate', 'iterations', 'riseChecks', 'seconds']);
+    for (const s of doc.steps) expect(Object.keys(s)).toEqual(['dofs', 'estimate', 'relativeEstimate', 'iterations', 'riseChecks', 'seconds']);
+    // E over the solution's norm: a positive fraction that falls along the run
+    const rel = doc.steps.map((s) => (s as unknown as { relativeEstimate: number }).relativeEstimate);
+    expect(rel.every((v) => v > 0 && v < 2)).toBe(true);
+    expect(rel[rel.length - 1]!).toBeLessThan(rel[0]!);
     expect(doc.steps[doc.steps.length - 1]!.dofs).toBeLessThanOrEqual(3000);
     // One progress line per step on stderr.
     expect(r.stderr.trimEnd().split('\n').filter((l) => /^step \d+: \d+ dofs/.test(l)).length).toBe(doc.steps.length);
@@ -69,7 +73,7 @@ describe('chronomesh solve', () => {
     expect(pvd).toContain('timestep="0.02"');
     expect(pvd).toContain('file="slice-0001.vtu"');
     const hist = readFileSync(join(out, 'history.csv'), 'utf8').trim().split('\n');
-    expect(hist[0]).toBe('step,dofs,estimate,iterations,riseChecks,seconds');
+    expect(hist[0]).toBe('step,dofs,estimate,iterations,riseChecks,seconds,relativeEstimate');
   }, 300000);
 });
 
