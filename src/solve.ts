@@ -53,15 +53,19 @@ function adaptive(problem: HeatProblem, opts: AdaptiveOptions): SolveResult {
   const result: SolveResult = { solution: r.solution, set: r.set, pcg: null, history: r.history, stopReason: r.stopReason, heldDataError: r.heldDataError };
   // A tolerance asked for and a budget that stopped the run first: not the answer requested.
   // (A run the caller stopped, by its signal or its onStep callback, returns as it is.)
-  const tolerance = opts.tolerance ?? 0;
-  const estimate = r.history[r.history.length - 1]!.estimate;
+  const lastStep = r.history[r.history.length - 1]!;
+  const estimate = lastStep.estimate;
+  // the target E had to reach: tolerance + relativeTolerance · ‖u_δ‖_S of the last step
+  const relative = (opts.relativeTolerance ?? 0) * (lastStep.solutionNorm ?? 0);
+  const tolerance = (opts.tolerance ?? 0) + relative;
+  const named = relative > 0 ? `${tolerance.toExponential(3)} (tolerance ${opts.tolerance ?? 0} + relativeTolerance ${opts.relativeTolerance} × the solution's norm ${lastStep.solutionNorm!.toExponential(3)})` : `${tolerance}`;
   // (Nor does a run whose E reached the rounding level: no budget would lower it, and the answer is
   // exact to working precision.)
   if (tolerance > 0 && !(estimate <= tolerance) && r.stopReason !== 'aborted' && r.stopReason !== 'callback' && r.stopReason !== 'rounding') {
     // A run stopped by the deepest trustworthy temporal level cannot go on with more budget.
     const f = r.stopReason === 'resolution' ? null : toleranceForecast(r.history, tolerance);
     throw new ToleranceNotReachedError(
-      `solve: the estimator is ${estimate.toExponential(3)} at ${r.set.size} unknowns, above the tolerance ${tolerance}, when the run stopped by '${r.stopReason}'; ` +
+      `solve: the estimator is ${estimate.toExponential(3)} at ${r.set.size} unknowns, above the tolerance ${named}, when the run stopped by '${r.stopReason}'; ` +
         (r.stopReason === 'resolution'
           ? resolutionAdvice('solution.state(T)')
           : 'raise that budget (maxUnknowns, maxSteps, maxSeconds, setMemoryBudget) or loosen the tolerance') +

@@ -84,6 +84,13 @@ export interface AdaptiveOptions {
    */
   tolerance?: number;
   /**
+   * Stop when E ≤ tolerance + relativeTolerance · ‖u_δ‖_S ({@link AdaptiveStep.solutionNorm}, the
+   * size of the solution in the norm E measures); in [0, 1), default 0. The usual absolute-plus-
+   * relative test (common practice): `relativeTolerance: 0.05` asks for an estimate of 5 % of the
+   * solution, whatever the units of u. Like `tolerance`, it bounds an estimate, not the error.
+   */
+  relativeTolerance?: number;
+  /**
    * Stop before a step whose Λ would exceed this many unknowns (default 2e5). The first step runs on
    * the first set whatever its size: the default one grows with data it must resolve (narrow
    * sources, hot spots, pulses; docs/adaptivity.md §2.1–2.3), so it can exceed a small budget.
@@ -151,7 +158,7 @@ export interface AdaptiveResult {
   set: DoubleTree;
   history: AdaptiveStep[];
   /**
-   * Why the loop stopped: `'tolerance'` (E ≤ tolerance), `'unknowns'` (the next set would exceed
+   * Why the loop stopped: `'tolerance'` (E ≤ tolerance + relativeTolerance · solutionNorm), `'unknowns'` (the next set would exceed
    * maxUnknowns), `'steps'` (maxSteps), `'time'` (maxSeconds; the step in progress is discarded),
    * `'callback'` (onStep returned false), `'aborted'` (the signal fired; the step in progress is
    * discarded) or `'memory'` (the next step's estimated memory — the system on Λ and the estimator
@@ -177,7 +184,7 @@ export interface AdaptiveResult {
 }
 
 const ADAPTIVE_KEYS: Record<keyof Required<AdaptiveOptions>, true> = {
-  theta: true, tolerance: true, maxUnknowns: true, maxSteps: true, maxSeconds: true,
+  theta: true, tolerance: true, relativeTolerance: true, maxUnknowns: true, maxSteps: true, maxSeconds: true,
   initialSet: true, solverFraction: true, inner: true, onStep: true, onProgress: true, signal: true, enlargement: true, markSeparately: true,
   checkpoint: true, resume: true,
 };
@@ -188,6 +195,7 @@ export function validateAdaptiveOptions(opts: unknown, problem: HeatProblem, fie
   const o = checkOptions<AdaptiveOptions>(opts, field, ADAPTIVE_KEYS);
   if (o.theta !== undefined) checkNumber(o.theta, `${field}.theta`, { min: 0, max: 1, minOpen: true, maxOpen: true });
   if (o.tolerance !== undefined) checkNumber(o.tolerance, `${field}.tolerance`, { min: 0 });
+  if (o.relativeTolerance !== undefined) checkNumber(o.relativeTolerance, `${field}.relativeTolerance`, { min: 0, max: 1, maxOpen: true });
   if (o.maxUnknowns !== undefined) checkInteger(o.maxUnknowns, `${field}.maxUnknowns`, 1, 2 ** 31 - 1);
   if (o.maxSteps !== undefined) checkInteger(o.maxSteps, `${field}.maxSteps`, 1, 1e6);
   if (o.maxSeconds !== undefined) checkNumber(o.maxSeconds, `${field}.maxSeconds`, { min: 0, minOpen: true, allowInfinity: true });

@@ -78,6 +78,7 @@ class Interrupted {
 interface Validated {
   theta: number;
   tol: number;
+  relTol: number;
   maxUnknowns: number;
   maxSteps: number;
   maxSeconds: number;
@@ -89,6 +90,7 @@ function validate(opts: AdaptiveOptions, problem: HeatProblem): Validated {
   return {
     theta: o.theta ?? defaultBulk(problem.domain.dim),
     tol: o.tolerance ?? 0,
+    relTol: o.relativeTolerance ?? 0,
     maxUnknowns: o.maxUnknowns ?? 2e5,
     maxSteps: o.maxSteps ?? 40,
     maxSeconds: o.maxSeconds ?? Infinity,
@@ -308,7 +310,7 @@ class AdaptiveRun {
     };
     // MARK and REFINE (or stop).
     let stop: AdaptiveResult['stopReason'] | null = null;
-    if (ind.estimate <= v.tol) stop = 'tolerance';
+    if (ind.estimate <= v.tol + v.relTol * solutionNorm) stop = 'tolerance';
     else if (ind.estimate <= ROUNDING_LEVEL * solutionNorm) stop = 'rounding';
     else if (this.stepNo + 1 >= v.maxSteps) stop = 'steps';
     else if (this.elapsed() >= v.maxSeconds) stop = 'time';

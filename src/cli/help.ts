@@ -45,7 +45,8 @@ described by PROBLEM.json.
                 second half of the steps; forecast: {"rate","unknowns",
                 "seconds"} where E would reach a missed tolerance at the
                 rate of the steps since N was an eighth of its last value,
-                or null; relativeEstimate: E divided by the size of the
+                or null; tolerance: the E asked for, tolerance +
+                relativeTolerance × ‖u‖ of the last step; relativeEstimate: E divided by the size of the
                 solution in the norm E measures, the "% of ‖u‖" of the
                 progress lines, or null; y is null in 1D)
   --out DIR     write history (JSON, CSV), probe table (CSV), slices (VTK XML
@@ -118,6 +119,10 @@ problem file fields (JSON object):
               estimate of the error, not a bound: against exact solutions the
               L2(0,T;H1) error was 0.7–2.3 times E, so ask for a few times less
               than the error you can accept
+  relativeTolerance  in [0, 1), default 0: adds this fraction of the size of
+              the solution (in the norm E measures, the "% of ‖u‖" printed with
+              every step) to tolerance: 0.05 stops at E ≤ 5 % of ‖u‖, whatever
+              the units of u; where values are held, of the part of u beyond them
   maxDofs     unknown budget (default ${PROBLEM_DEFAULTS.maxDofs})
   maxSeconds  wall-time budget (default ${PROBLEM_DEFAULTS.maxSeconds})
   maxSteps    step budget (default ${PROBLEM_DEFAULTS.maxSteps})

@@ -120,16 +120,21 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
   }
   const written = opts.out !== undefined ? writeOutputs(opts.out, built.spec, run) : [];
   const last = run.steps[run.steps.length - 1]!;
-  const tolerance = built.spec.tolerance;
+  // The E asked for: tolerance + relativeTolerance × ‖u‖ (the run's target, from its last step).
+  const asked = built.spec.tolerance > 0 || built.spec.relativeTolerance > 0;
+  const tolerance = asked ? run.target : 0;
+  const toleranceText = built.spec.relativeTolerance > 0
+    ? `${built.spec.tolerance > 0 ? `${built.spec.tolerance} + ` : ''}${(100 * built.spec.relativeTolerance).toPrecision(2)} % of ‖u‖ (= ${tolerance.toExponential(3)})`
+    : `${tolerance}`;
   // E at the rounding level counts as reached: nothing lowers it further, and the solution is exact
   // to working precision (the summary says so).
-  const toleranceReached = tolerance > 0 ? last.estimate <= tolerance || run.stopReason === 'rounding' : null;
+  const toleranceReached = asked ? last.estimate <= tolerance || run.stopReason === 'rounding' : null;
   // A run stopped by the deepest trustworthy temporal level cannot go on with more budget.
   const atDepth = run.stopReason === 'resolution';
   const forecast = toleranceReached === false && !atDepth ? toleranceForecast(run.steps.map((s) => ({ unknowns: s.dofs, estimate: s.estimate, seconds: s.seconds })), tolerance) : null;
   if (toleranceReached === false) {
     progress(
-      `warning: tolerance ${tolerance} not reached: the estimator is ${last.estimate.toExponential(3)} at ${last.dofs} unknowns, ` +
+      `warning: tolerance ${toleranceText} not reached: the estimator is ${last.estimate.toExponential(3)} at ${last.dofs} unknowns, ` +
         `where the run stopped by ${run.stopReason}; ` +
         (atDepth
           ? resolutionAdvice('--out writes end-state.json; start the next file from it with "initial": {"state": FILE}')
@@ -138,7 +143,7 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     );
     if (!atDepth) progress(forecast === null
       ? 'forecast: none — over the recent steps (since N was an eighth of its last value) the estimator has not fallen steadily, or N grew less than twofold'
-      : `forecast: at the rate of the recent steps (${forecast.rate.toFixed(2)}, since N was an eighth of its last value), E would reach ${tolerance} at about ` +
+      : `forecast: at the rate of the recent steps (${forecast.rate.toFixed(2)}, since N was an eighth of its last value), E would reach ${toleranceText} at about ` +
         `${roundedCount(forecast.unknowns)} unknowns, a whole run of roughly ${roundedDuration(forecast.seconds)} on this machine ` +
         (built.spec.strategy === 'adaptive'
           ? '(an extrapolation: rates on rough data usually still rise, so early in a run this over-estimates)'

@@ -62,6 +62,11 @@ export interface RunResult {
   set: DoubleTree;
   /** Why the run stopped. */
   stopReason: string;
+  /**
+   * The E a run had to reach: the file's tolerance + relativeTolerance × the last step's solution
+   * norm (0 when the file asks for neither).
+   */
+  target: number;
   /** True errors of the last solution against the file's known solution (`exact`); null without one. */
   exactErrors: ExactErrors | null;
   /**
@@ -171,7 +176,7 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
   }
   if (spec.strategy === 'adaptive') {
     const r = solveAdaptive(problem, {
-      ...(spec.bulk === null ? {} : { theta: spec.bulk }), tolerance: spec.tolerance, maxUnknowns: spec.maxDofs, maxSteps: spec.maxSteps, maxSeconds: spec.maxSeconds,
+      ...(spec.bulk === null ? {} : { theta: spec.bulk }), tolerance: spec.tolerance, relativeTolerance: spec.relativeTolerance, maxUnknowns: spec.maxDofs, maxSteps: spec.maxSteps, maxSeconds: spec.maxSeconds,
       ...(adaptive.checkpoint ? { checkpoint: adaptive.checkpoint } : {}),
       ...(adaptive.resume ? { resume: adaptive.resume } : {}),
       onStep: (h, solution) => {
@@ -206,12 +211,13 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
       const system = new SpaceTimeSystem(problem, next);
       const solved = system.solve({ relTol: 1e-8, maxIterations: 500 });
       const estimate = residualIndicators(new SpaceTimeSystem(problem, enlargeDoubleTree(domain, next)), next, solved.pcg.solution).estimate;
-      const s: RunStep = { dofs: next.size, estimate, relativeEstimate: relativeTo(estimate, normInSystem(solved.pcg.solution, system.rightHandSide())), iterations: solved.pcg.iterations, riseChecks: 0, seconds: (performance.now() - t0) / 1000 };
+      const norm = normInSystem(solved.pcg.solution, system.rightHandSide());
+      const s: RunStep = { dofs: next.size, estimate, relativeEstimate: relativeTo(estimate, norm), iterations: solved.pcg.iterations, riseChecks: 0, seconds: (performance.now() - t0) / 1000 };
       if (known) s.trueError = trueError(solved.solution);
       steps.push(s);
       onStep?.(s, steps.length - 1);
       last = { solution: solved.solution, set: next };
-      if (estimate <= spec.tolerance) { stopReason = 'tolerance'; break; }
+      if (estimate <= spec.tolerance + spec.relativeTolerance * norm) { stopReason = 'tolerance'; break; }
       if ((performance.now() - start) / 1000 >= spec.maxSeconds) { stopReason = 'time'; break; }
     }
     ({ solution, set } = last!);
@@ -240,7 +246,11 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
       rate: observedRate(withError.map((s) => ({ dofs: s.dofs, estimate: s.trueError! }))),
     };
   }
-  return { steps, probes, sensors, rate: observedRate(steps), solution, set, stopReason, exactErrors, heldDataError };
+  const lastStep = steps[steps.length - 1]!;
+  // the norm of the last step, back from E / (E / norm); 0 where it is unknown
+  const lastNorm = lastStep.relativeEstimate !== null && lastStep.relativeEstimate > 0 ? lastStep.estimate / lastStep.relativeEstimate : 0;
+  const target = spec.tolerance + spec.relativeTolerance * lastNorm;
+  return { steps, probes, sensors, rate: observedRate(steps), solution, set, stopReason, target, exactErrors, heldDataError };
 }
 
 /** E / ‖u_δ‖_S, or null where the norm is 0 or unknown. */

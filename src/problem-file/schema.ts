@@ -68,6 +68,8 @@ export interface ProblemSpec {
   boundary: BoundaryPartSpec[];
   strategy: 'adaptive' | 'sparse' | 'full';
   tolerance: number;
+  /** Adds relativeTolerance × the solution's norm to `tolerance` (the stop test is E ≤ the sum). */
+  relativeTolerance: number;
   maxDofs: number;
   maxSeconds: number;
   maxSteps: number;
@@ -90,7 +92,7 @@ export interface ProblemSpec {
 /** Top-level fields of a problem file (the contract of the command line; additions only). */
 export const PROBLEM_FIELDS = [
   'title', 'description', 'domain', 'start', 'horizon', 'diffusion', 'reaction', 'source', 'initial', 'insulated',
-  'boundary', 'strategy', 'tolerance', 'maxDofs', 'maxSeconds', 'maxSteps', 'bulk', 'probes', 'slices', 'exact',
+  'boundary', 'strategy', 'tolerance', 'relativeTolerance', 'maxDofs', 'maxSeconds', 'maxSteps', 'bulk', 'probes', 'slices', 'exact',
   'sensors', 'curveSources',
 ] as const;
 
@@ -104,7 +106,7 @@ const DOMAIN_FIELDS: Record<DomainSpec['shape'], string[]> = {
 /** Defaults of the optional fields. */
 export const PROBLEM_DEFAULTS = {
   diffusion: '1', reaction: '0', source: '0', initial: '0', strategy: 'adaptive',
-  tolerance: 0, maxDofs: 20000, maxSeconds: 60, maxSteps: 200, bulk: null,
+  tolerance: 0, relativeTolerance: 0, maxDofs: 20000, maxSeconds: 60, maxSteps: 200, bulk: null,
 } as const;
 
 
@@ -319,6 +321,7 @@ export function parseProblem(json: unknown, opts: ParseProblemOptions = {}): Pro
     boundary: list('boundary').map((p, i) => parseBoundaryPart(p, `boundary[${i}]`, space)),
     strategy: strategy as ProblemSpec['strategy'],
     tolerance: o.tolerance === undefined ? PROBLEM_DEFAULTS.tolerance : num(o.tolerance, 'tolerance', '≥ 0', (x) => x >= 0),
+    relativeTolerance: o.relativeTolerance === undefined ? PROBLEM_DEFAULTS.relativeTolerance : num(o.relativeTolerance, 'relativeTolerance', 'in [0, 1)', (x) => x >= 0 && x < 1),
     maxDofs: o.maxDofs === undefined ? PROBLEM_DEFAULTS.maxDofs : int(o.maxDofs, 'maxDofs', 1, 1e8),
     maxSeconds: o.maxSeconds === undefined ? PROBLEM_DEFAULTS.maxSeconds : num(o.maxSeconds, 'maxSeconds', '> 0', (x) => x > 0),
     maxSteps: o.maxSteps === undefined ? PROBLEM_DEFAULTS.maxSteps : int(o.maxSteps, 'maxSteps', 1, 10000),
