@@ -146,10 +146,11 @@ function adaptiveRod(quick: boolean, out: string): void {
   const res = solveAdaptive(problem, { maxUnknowns: quick ? 1500 : 15000, maxSteps: 200, theta: 0.5 });
   const h = res.history;
   console.log(`${h.length} steps in ${((performance.now() - t0) / 1000).toFixed(1)} s, stopped by: ${res.stopReason}`);
-  console.log('  step   unknowns    estimator   PCG its   deepest time level');
+  console.log('  step   unknowns    estimator   E / ‖u‖   PCG its   deepest time level');
   for (let i = 0; i < h.length; i += Math.max(1, Math.floor(h.length / 12))) {
     const x = h[i]!;
-    console.log(`  ${String(x.step).padStart(4)} ${String(x.unknowns).padStart(10)}   ${x.estimate.toExponential(3)}   ${String(x.pcgIterations).padStart(7)}   ${String(x.maxTimeLevel).padStart(18)}`);
+    const rel = x.solutionNorm ? `${(100 * x.estimate / x.solutionNorm).toPrecision(2)} %` : '—';
+    console.log(`  ${String(x.step).padStart(4)} ${String(x.unknowns).padStart(10)}   ${x.estimate.toExponential(3)}   ${rel.padStart(7)}   ${String(x.pcgIterations).padStart(7)}   ${String(x.maxTimeLevel).padStart(18)}`);
   }
   const sparse: { unknowns: number; estimate: number }[] = [];
   for (let L = 3; L <= (quick ? 7 : 10); L++) {
