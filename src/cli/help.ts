@@ -94,7 +94,10 @@ problem file fields (JSON object):
   insulated   predicate on boundary-edge midpoints (nonzero = insulated),
               e.g. "y > 0.999"; the rest of the boundary has u = 0
   boundary    list of parts, applied in order after "insulated"; "where" is an
-              expression in x, y, nonzero on the boundary edges to select:
+              expression in x, y, nonzero on the boundary edges to select
+              (evaluated at edge midpoints; a "where" or "insulated" that
+              selects no edge is refused, since its edges would silently keep
+              the default):
               {"kind":"value","where":…,"value":g(t,x,y)}        u = g
                (g is interpolated linearly between initial-mesh vertices
                along the part: exact for g affine along each initial edge,

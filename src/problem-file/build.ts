@@ -131,6 +131,8 @@ export function buildProblem(spec: ProblemSpec): BuiltProblem {
       case 'mesh': domain = triangulatedDomain(d.points, d.triangles, opts); break;
     }
   } catch (e) {
+    // Errors of the boundary parts and of insulated name their own field, which is top-level in a file.
+    if (e instanceof InvalidMeshError && (e.field?.startsWith('boundary[') || e.field === 'insulated')) throw e;
     if (e instanceof InvalidMeshError) throw new InvalidMeshError(`domain: ${e.message}`, { field: `domain.${e.field ?? ''}`, received: e.received });
     throw e;
   }

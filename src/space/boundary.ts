@@ -249,6 +249,9 @@ export function buildBoundaryTables(
     const where = part.where;
     if (typeof where === 'function') {
       for (let b = 0; b < nb; b++) if (where(mid(b, 0), mid(b, 1))) selected.push(b);
+      // A part that selects nothing leaves its edges at the defaults without a word: the heated face
+      // stays cold. Usually an exact comparison ("x == 0.001") that no midpoint meets.
+      if (selected.length === 0) throw new InvalidMeshError(`${field}.where selects no boundary edge: it is false at all ${nb} initial boundary-edge midpoints${midpointRange(dim, nb, mid)}; a part must select at least one edge (compare with a margin, e.g. x < 1e-9 rather than x == 0)`, { field: `${field}.where`, expected: 'a predicate true on at least one boundary-edge midpoint' });
     } else if (Array.isArray(where)) {
       where.forEach((item, k) => {
         const b = findEdge(item);
@@ -294,6 +297,17 @@ export function buildBoundaryTables(
     }
   }
   return { edgeCount: nb, edgeVertices: edges, edgeKind, edgePart, transfer, vertexValuePart, parts: norm, hasData, hasConvection };
+}
+
+/** ", whose midpoints span x ∈ [a, b], y ∈ [c, d]" (1D: "at x = a and x = b"), for messages. */
+function midpointRange(dim: 1 | 2, nb: number, mid: (b: number, k: number) => number): string {
+  if (dim === 1) return ` (the end points ${Array.from({ length: nb }, (_, b) => `x = ${mid(b, 0)}`).join(' and ')})`;
+  let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
+  for (let b = 0; b < nb; b++) {
+    x0 = Math.min(x0, mid(b, 0)); x1 = Math.max(x1, mid(b, 0));
+    y0 = Math.min(y0, mid(b, 1)); y1 = Math.max(y1, mid(b, 1));
+  }
+  return `, which span x ∈ [${x0}, ${x1}], y ∈ [${y0}, ${y1}]`;
 }
 
 /** True for edge kinds that hold the value (Dirichlet). */

@@ -38,6 +38,8 @@ describe('boundary parts of a domain', () => {
       [[{ kind: 'value', where: [[0, 9]] }], /boundary\[0\]\.where\[0\] = \[0,9\] is not a boundary edge/],
       [[{ kind: 'flux', where: 'left' }], /boundary\[0\]\.where must be a predicate/],
       [[{ kind: 'flux', where: () => true, flux: Infinity }], /boundary\[0\]\.flux must be a finite number/],
+      // a predicate true nowhere would leave the part without edges, silently
+      [[{ kind: 'flux', where: (mx: number) => mx === 0.3, flux: 1 }], /boundary\[0\]\.where selects no boundary edge: it is false at all 4 initial boundary-edge midpoints, which span x ∈ \[0, 1\], y ∈ \[0, 1\]/],
       ['all', /boundary must be an array/],
     ];
     for (const [boundary, msg] of bad) {
@@ -50,5 +52,12 @@ describe('boundary parts of a domain', () => {
       expect(err).toBeInstanceOf(InvalidMeshError);
       expect((err as Error).message).toMatch(msg);
     }
+  });
+
+  it('refuses an insulated predicate that selects no boundary edge, naming the field (1D and 2D)', () => {
+    expect(() => rectangleDomain(0, 1, 0, 1, 2, 2, { insulated: (_mx, my) => my > 2 })).toThrow(/^insulated selects no boundary edge: it is false at all 8 initial boundary-edge midpoints/);
+    expect(() => intervalDomain(0, 1, 2, { insulated: (mx) => mx > 2 })).toThrow(/^insulated selects no boundary edge: it is false at both end points \(x = 0 and x = 1\)/);
+    // a list that names nothing is accepted: an explicit choice
+    expect(() => rectangleDomain(0, 1, 0, 1, 2, 2, { insulated: [] })).not.toThrow();
   });
 });
