@@ -1,5 +1,6 @@
 /** `chronomesh solve PROBLEM.json [--json] [--out DIR] [--checkpoint FILE] [--resume FILE] [--quiet] [--debug]`. */
 import { cyclesForAnisotropy } from '../space/diffusion-tensor';
+import { EdgeKind } from '../space/boundary';
 import { readFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { buildProblem, parseProblem, runProblem, type RunResult } from '../problem-file/index';
@@ -78,6 +79,25 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
         'give the initial mesh more cells where it varies',
     );
   }
+  // Edges no part selects hold u = 0 by default. A file that sets up its boundary and leaves some
+  // edges out may not mean that: say how many, and where one of them lies (with the first step, so
+  // that a file refused before any step prints nothing).
+  let defaultEdgesNote: string | null = null;
+  {
+    const tables = built.domain.forest.boundary;
+    if (!opts.quiet && (built.spec.boundary.length > 0 || built.spec.insulated !== null)) {
+      const dim = built.domain.dim;
+      const c = built.domain.forest.vCoord;
+      const defaults: number[] = [];
+      for (let b = 0; b < tables.edgeCount; b++) if (tables.edgeKind[b] === EdgeKind.ZeroValue) defaults.push(b);
+      if (defaults.length > 0) {
+        const e = defaults[0]!;
+        const i = tables.edgeVertices[2 * e]!, j = tables.edgeVertices[2 * e + 1]!;
+        const at = dim === 1 ? `the end point x = ${Number(c[i]!.toPrecision(6))}` : `the edge with midpoint (${Number((0.5 * (c[2 * i]! + c[2 * j]!)).toPrecision(6))}, ${Number((0.5 * (c[2 * i + 1]! + c[2 * j + 1]!)).toPrecision(6))})`;
+        defaultEdgesNote = (`note: ${defaults.length} of ${tables.edgeCount} initial boundary ${dim === 1 ? 'end points' : 'edges'} have no part and hold u = 0 (the default), e.g. ${at}; select them with "insulated" or a boundary part if they should be otherwise`);
+      }
+    }
+  }
   if (built.domain.anisotropic) {
     // The inner V-cycles lose efficiency as the elements mapped by K^{-1/2} flatten; more cycles make
     // up for it until they reach 16 (docs/method.md §4.4).
@@ -105,6 +125,10 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
   let run: RunResult;
   try {
     run = runProblem(built, (s, i) => {
+      if (defaultEdgesNote !== null) {
+        progress(defaultEdgesNote);
+        defaultEdgesNote = null;
+      }
       const truth = typeof s.trueError === 'number' ? `, true error ${s.trueError.toExponential(3)}` : '';
       if (!opts.quiet) progress(`step ${i}: ${s.dofs} dofs, estimate ${s.estimate.toExponential(3)}${relativeText(s.relativeEstimate)}${truth}, ${s.iterations} PCG iterations${s.riseChecks > 0 ? ` (re-solved ${s.riseChecks === 1 ? 'once' : 'twice'} after E rose)` : ''}, ${s.seconds.toFixed(2)} s`);
     }, {
