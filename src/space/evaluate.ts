@@ -68,7 +68,7 @@ export function evaluateAt(
   checkNumberArray(points, 'points', { finite: false });
   if (opts.outside !== undefined && typeof opts.outside !== 'number') checkNumber(opts.outside, 'opts.outside');
   if (points.length % d !== 0) {
-    throw new InvalidArgumentError(`points must be a flat array of ${d === 1 ? 'x' : 'x, y'} values`, {
+    throw new InvalidArgumentError(`points must be a flat array of ${d === 1 ? 'x' : 'x, y'} values (x0, y0, x1, y1, …); found ${points.length} numbers, an odd count`, {
       field: 'points',
       expected: `length divisible by ${d}`,
       received: describeValue(points),

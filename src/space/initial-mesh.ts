@@ -165,6 +165,7 @@ export function buildIntervalMesh(a: number, b: number, cells: number, opts: Dom
       received: `${a}, ${b}`,
     });
   }
+  checkLengthScale(b - a, 'a, b', 'the interval');
   if (!Number.isInteger(cells) || cells < 1 || cells > 1e7) {
     throw new InvalidArgumentError(`cells must be an integer in [1, 1e7], received ${describeValue(cells)}`, {
       field: 'cells',
@@ -280,9 +281,10 @@ export function buildTriangulation(
   return { dim: 2, coords, elements, neighbors, vertexFree, kappa, kappaTensor: tensor?.entries ?? null, reaction, boundary, reoriented };
 }
 
-/** Every coordinate is a finite number. */
+/** Every coordinate is a finite number, and the mesh spans a representable length scale. */
 function checkFinitePoints(coords: Float64Array): void {
   const nv = coords.length / 2;
+  let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
   for (let i = 0; i < nv; i++) {
     for (let k = 0; k < 2; k++) {
       const c = coords[2 * i + k]!;
@@ -294,7 +296,25 @@ function checkFinitePoints(coords: Float64Array): void {
         });
       }
     }
+    x0 = Math.min(x0, coords[2 * i]!); x1 = Math.max(x1, coords[2 * i]!);
+    y0 = Math.min(y0, coords[2 * i + 1]!); y1 = Math.max(y1, coords[2 * i + 1]!);
   }
+  if (nv > 0) checkLengthScale(Math.max(x1 - x0, y1 - y0), 'points', 'the mesh');
+}
+
+/**
+ * Lengths enter squared and to higher powers (areas, element matrices, squared distances), so a
+ * domain spanning less than 1e-100 or more than 1e100 would under- or overflow them and fail later
+ * with a misleading message ("zero area"). Refused with the reason.
+ */
+function checkLengthScale(span: number, field: string, what: string): void {
+  if (span >= 1e-100 && span <= 1e100) return;
+  const Err = field === 'points' ? InvalidMeshError : InvalidArgumentError;
+  throw new Err(`${what} spans ${span.toExponential(2)}, outside the range 1e-100 … 1e100 where its squared lengths and areas are representable in double precision; express lengths in other units`, {
+    field,
+    expected: 'a domain size in [1e-100, 1e100]',
+    received: span,
+  });
 }
 
 /**

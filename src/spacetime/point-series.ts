@@ -268,7 +268,7 @@ function lowerBound(index: Float64Array, a: number, b: number, v: number): numbe
 export function checkSeriesInput(domain: SpatialDomain, T: number, times: ArrayLike<number>, points: ArrayLike<number>): void {
   const d = domain.dim;
   if (points.length % d !== 0 || points.length === 0) {
-    throw new InvalidArgumentError(`points must be a non-empty flat array of ${d === 1 ? 'x' : 'x, y'} values`, { field: 'points', expected: `length a positive multiple of ${d}`, received: points.length });
+    throw new InvalidArgumentError(`points must be a non-empty flat array of ${d === 1 ? 'x' : 'x, y'} values${d === 2 ? ` (x0, y0, x1, y1, …); found ${points.length} numbers` : ''}`, { field: 'points', expected: `length a positive multiple of ${d}`, received: points.length });
   }
   for (let k = 0; k < times.length; k++) {
     const t = times[k]!;

@@ -1,7 +1,7 @@
 /** Every bad input of the validation list raises its documented typed error naming the offending item. */
 import { describe, expect, it } from 'vitest';
 import { InvalidArgumentError, InvalidIndexSetError, InvalidMeshError } from '../../src/errors';
-import { SpatialOperatorPlan, intervalDomain, lShapeDomain, loadVector, rectangleDomain, triangulatedDomain } from '../../src/space/index';
+import { SpatialOperatorPlan, evaluateAt, intervalDomain, lShapeDomain, loadVector, rectangleDomain, triangulatedDomain } from '../../src/space/index';
 
 const P = [0, 0, 1, 0, 0, 1];
 
@@ -21,6 +21,18 @@ describe('mesh validation', () => {
   it('non-finite coordinates', () => {
     expectError(() => triangulatedDomain([0, 0, 1, NaN, 0, 1], [0, 1, 2]), InvalidMeshError, /points\[1\] has a non-finite coordinate NaN/, 'points[1]');
     expectError(() => triangulatedDomain([[0, 0], [1, Infinity], [0, 1]], [[0, 1, 2]]), InvalidMeshError, /points\[1\] has a non-finite coordinate Infinity/);
+  });
+  it('a domain too large or too small for squared lengths in double precision (it failed as "zero area")', () => {
+    expectError(() => rectangleDomain(0, 1e200, 0, 1e200, 2, 2), InvalidMeshError, /the mesh spans 1\.00e\+200, outside the range 1e-100 … 1e100 .* express lengths in other units/, 'points');
+    expectError(() => triangulatedDomain([0, 0, 1e-200, 0, 0, 1e-200], [0, 1, 2]), InvalidMeshError, /the mesh spans 1\.00e-200/, 'points');
+    expectError(() => intervalDomain(0, 1e-150, 2), InvalidArgumentError, /the interval spans 1\.00e-150/, 'a, b');
+    // the ends of the range are accepted: micrometres to light years are far inside it
+    expect(() => rectangleDomain(0, 1e-90, 0, 1e-90, 1, 1)).not.toThrow();
+    expect(() => intervalDomain(0, 1e90, 1)).not.toThrow();
+  });
+  it('point lists of odd length name the layout and the count', () => {
+    const domain = rectangleDomain(0, 1, 0, 1, 2, 2);
+    expectError(() => evaluateAt(domain, domain.uniformSet(1), new Float64Array(domain.uniformSet(1).length), [0.1, 0.2, 0.3]), InvalidArgumentError, /points must be a flat array of x, y values \(x0, y0, x1, y1, …\); found 3 numbers, an odd count/, 'points');
   });
   it('malformed arrays', () => {
     expectError(() => triangulatedDomain([0, 0, 1, 0, 0], [0, 1, 2]), InvalidMeshError, /points has length 5, which is not a multiple of 2/);
