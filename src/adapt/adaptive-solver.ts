@@ -19,6 +19,7 @@ import { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import { SpaceTimeSolution } from '../spacetime/space-time-solution';
 import type { HeatProblem } from '../system/heat-problem';
 import { FibreInverseCache } from '../system/fibre-inverse';
+import { checkDiffusionScale } from '../system/diffusion-scale';
 import { SpaceTimeSystem, type SpatialCaches } from '../system/space-time-system';
 import type { PcgResult } from '../system/pcg';
 import { validateAdaptiveOptions, type AdaptiveOptions, type AdaptiveProgress, type AdaptiveResult, type AdaptiveStep } from './adaptive-options';
@@ -153,6 +154,7 @@ class AdaptiveRun {
 
   constructor(private readonly problem: HeatProblem, private readonly opts: AdaptiveOptions) {
     this.v = validate(opts, problem);
+    checkDiffusionScale(problem);
     // Samples the held values along the initial edges now: bad data fail before any work, and the
     // result reports the data error (docs/error-norms.md §8).
     problem.heldDataError();

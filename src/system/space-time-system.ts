@@ -17,6 +17,7 @@ import { InitialTraceOperator } from './initial-trace';
 import { pcg, type PcgResult } from './pcg';
 import { validateSolveOptions, type SystemSolveOptions } from './pcg-options';
 import { validateSystemOptions } from './system-options';
+import { checkDiffusionScale } from './diffusion-scale';
 import { checkSetOnDomain } from '../spacetime/set-checks';
 import { BYTES_PER_SYSTEM_UNKNOWN, checkInstance, checkMemory } from '../validation/index';
 import { initialLoadWithLifting, sourceLoadWithBoundary } from './boundary-data-load';
@@ -77,6 +78,7 @@ export class SpaceTimeSystem {
   constructor(problem: HeatProblem, trialSet: DoubleTree, opts: SpaceTimeSystemOptions = {}) {
     checkInstance(problem, HeatProblem, 'problem', 'a HeatProblem');
     checkSetOnDomain(trialSet, problem.domain, 'trialSet'); // a trial DoubleTree of this problem's domain, not empty
+    checkDiffusionScale(problem); // diffusion that double precision can still see next to ∂t
     opts = validateSystemOptions(opts);
     // 800 B per unknown is a lower bound of what a system with its solve needs: refuse what surely does not fit.
     checkMemory(trialSet.size * BYTES_PER_SYSTEM_UNKNOWN, `the space-time system on ${trialSet.size} unknowns`, 'trialSet', 'choose a smaller index set');

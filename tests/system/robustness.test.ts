@@ -66,3 +66,24 @@ describe('short times are solved, not silently wrong', () => {
     expect(flagged.warning).toMatch(/^UNCONVERGED/);
   });
 });
+
+describe('κT/L² below what double precision resolves', () => {
+  // B = ∂t ⊗ M + M_t ⊗ A: the diffusion term carries κT/L² relative to ∂t (nondimensionalisation,
+  // common practice), so below the rounding unit it is lost. Measured before the check: in 1D the
+  // estimate was meaningless from κT/L² = 1e-17 on (E 29 to 1 250 times ‖u_δ‖), and at 1e-40 a
+  // residual came out non-finite (1D) or CG broke down (2D).
+  it('is refused before any work, naming κT/L², √(κT) and what to do (solveAdaptive and SpaceTimeSystem, 1D and 2D)', () => {
+    const rod = new HeatProblem({ domain: intervalDomain(0, 1, 2), T: 1e-17, initial: () => 1 });
+    expect(() => solveAdaptive(rod)).toThrow(/^κT\/L² = 1\.00e-17 \(largest κ 1\.00e\+0, T = 1e-17, domain diameter L = 1\.00e\+0\) is below 1e-15: over this horizon heat spreads about √\(κT\) = 3\.16e-9, .* smaller domain .* longer horizon$/);
+    const square = new HeatProblem({ domain: rectangleDomain(0, 2, 0, 2, 2, 2, { kappa: 1e-3 }), T: 1e-12, initial: () => 1 });
+    expect(() => new SpaceTimeSystem(square, DoubleTree.sparseGrid(square.domain, 2))).toThrow(/^κT\/L² = 1\.25e-16 /);
+  });
+  it('a decade above the limit still solves with a sensible estimate', () => {
+    for (const domain of [intervalDomain(0, 1, 2), rectangleDomain(0, 1, 0, 1, 2, 2)]) {
+      const r = solveAdaptive(new HeatProblem({ domain, T: 1e-14 * (domain.dim === 2 ? 2 : 1), initial: () => 1 }), { maxUnknowns: 2000 });
+      const last = r.history[r.history.length - 1]!;
+      expect(last.estimate / last.solutionNorm!).toBeLessThan(1e-3);
+      expect(Math.max(...r.history.map((h) => h.pcgIterations))).toBeLessThanOrEqual(40);
+    }
+  });
+});
