@@ -138,6 +138,10 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
   } catch (e) {
     // A damaged or foreign checkpoint, or one of another problem, is an input error.
     if (e instanceof ChronomeshError && (e.code === 'corrupt-file' || (opts.resume !== undefined && e.field === 'problem'))) throw new CliError(`${opts.resume}: ${e.message}`);
+    // The library names its own option (opts.domain); on the command line it is the file's domain.
+    if (e instanceof ChronomeshError && opts.resume !== undefined && e.field === 'opts.domain') {
+      throw new CliError(`${opts.resume}: the checkpoint was written for another problem: ${file}'s domain differs from the saved one (initial mesh, κ or diffusion tensor, c and boundary parts must be the same)`);
+    }
     // Expression values met during the solve (NaN, ∞, κ ≤ 0) are input errors too.
     if (e instanceof ChronomeshError && e.code === 'invalid-argument') return inputError(e);
     throw e;

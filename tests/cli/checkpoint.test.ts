@@ -40,6 +40,15 @@ describe('chronomesh solve --checkpoint / --resume', () => {
     const missing = await runCli(['solve', rod(8), '--resume', join(dir, 'nope.cmsol')]);
     expect(missing.status).toBe(2);
     expect(missing.stderr).toMatch(/cannot read --resume/);
+    // a checkpoint of another domain: named as such, in the command line's words (not the API's opts.domain)
+    const cp2 = join(dir, 'two-cells.cmsol');
+    expect((await runCli(['solve', rod(2), '--checkpoint', cp2, '--quiet'])).status).toBe(0);
+    const threeCells = join(dir, 'three-cells.json');
+    writeFileSync(threeCells, JSON.stringify({ domain: { shape: 'interval', from: 0, to: 1, cells: 3 }, horizon: 1, initial: 'x < 0.3 ? 1 : 0', maxSteps: 4 }));
+    const other = await runCli(['solve', threeCells, '--resume', cp2]);
+    expect(other.status).toBe(2);
+    expect(other.stderr).toMatch(/two-cells\.cmsol: the checkpoint was written for another problem: .*three-cells\.json's domain differs from the saved one/);
+    expect(other.stderr).not.toMatch(/opts\./);
     const sparse = await runCli(['solve', rod(3, 'sparse'), '--checkpoint', join(dir, 'x.cmsol')]);
     expect(sparse.status).toBe(2);
     expect(sparse.stderr).toMatch(/need the adaptive strategy/);
