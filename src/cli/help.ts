@@ -38,7 +38,7 @@ described by PROBLEM.json.
                  "probes":[{"t","x","y","value"}…], "rate": r, "stopReason",
                  "tolerance", "toleranceReached", "forecast", "heldDataError",
                  "exactErrors": {"gradientL2","valueL2","ratioToEstimate",
-                 "ratioRange","rate"} or null, "sensors": {"times","points",
+                 "ratioRange","rate","splitCheck"} or null, "sensors": {"times","points",
                  "values"} or null}; steps carry "trueError" when the file has
                  an exact solution
                 (rate: least-squares slope of −log E against log N over the

@@ -179,6 +179,14 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
         // #Λ̲ ≥ #Λ, so this is a lower bound of the step's memory (src/adapt/step-memory.ts)
         (adaptiveStepBytes(forecast.unknowns, forecast.unknowns, built.problem.domain.dim) > memoryBudget() ? '; that many unknowns exceed this machine\'s memory budget' : ''));
   }
+  const check = run.exactErrors?.splitCheck;
+  if (check && !check.agrees) {
+    progress(
+      `warning: the true error depends on the quadrature: ${run.exactErrors!.gradientL2.toExponential(3)} in L2(0,T;H1) with the standard rule, ` +
+        `${check.gradientL2.toExponential(3)} with every element split ${check.elementSplits} × ${check.elementSplits}: the exact solution is not smooth inside elements ` +
+        '(a kink or jump, e.g. along a curve source off the mesh lines); the split figure is nearer the truth, and the per-step ratios to E are unreliable (spaceTimeErrors option elementSplits)',
+    );
+  }
   const held = run.heldDataError;
   if (held > 0 && held >= 0.5 * last.estimate) {
     progress(

@@ -64,6 +64,16 @@ export interface SpaceTimeErrorOptions {
   singularTimes?: number[];
   /** Geometric panels toward each singular time (default 12: the innermost is 2^-12 of its interval, where t = a + s² makes the rest smooth). */
   gradedPanels?: number;
+  /**
+   * Split every element into this many pieces per edge for the spatial rule: s² sub-triangles in
+   * 2D, s sub-intervals in 1D (default 1, at most 8). For exact solutions with a kink or jump
+   * inside elements — along a curve source off the mesh lines, or where an expression switches —
+   * which the degree-5 rule integrates only to O(h): on a 2D kink across elements of size 0.5 it
+   * gave 8.8e-3 where the error is 4.4e-2 (a brute-force lattice gives 4.4e-2, the rule split
+   * 4 × 4 4.35e-2). Elements at the Dirichlet boundary while its initial layer is thin keep their
+   * graded rules unsplit.
+   */
+  elementSplits?: number;
 }
 
 /**
@@ -108,7 +118,11 @@ export function evaluateErrors(solution: SpaceTimeSolution, exact: KnownSolution
   checkFunction(ex.value, 'exact.value', 'a function (t, x, y) => number');
   checkFunction(ex.gradient, 'exact.gradient', 'a function (t, x, y, grad) => void writing the spatial gradient');
   if (ex.valueAndGradient !== undefined) checkFunction(ex.valueAndGradient, 'exact.valueAndGradient', 'a function (t, x, y, grad) => number');
-  const o = checkOptions<SpaceTimeErrorOptions>(opts, 'opts', ['timePoints', 'singularTimes', 'gradedPanels']);
+  const o = checkOptions<SpaceTimeErrorOptions>(opts, 'opts', ['timePoints', 'singularTimes', 'gradedPanels', 'elementSplits']);
+  const splits = o.elementSplits ?? 1;
+  if (typeof splits !== 'number' || !Number.isInteger(splits) || splits < 1 || splits > 8) {
+    throw new InvalidArgumentError(`opts.elementSplits = ${String(splits)} must be an integer in [1, 8]`, { field: 'opts.elementSplits', expected: 'an integer in [1, 8]', received: splits });
+  }
   const nq = o.timePoints ?? 3;
   if (typeof nq !== 'number' || !Number.isInteger(nq) || nq < 1 || nq > 20) {
     throw new InvalidArgumentError(`opts.timePoints = ${String(nq)} must be an integer in [1, 20]`, { field: 'opts.timePoints', expected: 'an integer in [1, 20]', received: nq });
@@ -203,7 +217,7 @@ export function evaluateErrors(solution: SpaceTimeSolution, exact: KnownSolution
   const nv = slices.mesh.vertexCount;
   let va = new Float64Array(nv);
   let vb = new Float64Array(nv);
-  const integ = new SliceIntegrator(slices.mesh, exactIn);
+  const integ = new SliceIntegrator(slices.mesh, exactIn, splits);
   const rule = new TimeRule(nq, panels);
   const panelRule = mode === 'panels' ? new TimePanels(solution, slices, integ) : null;
   // held boundary values are linear between all breakpoints: their panels are summed per interval

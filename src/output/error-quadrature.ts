@@ -135,7 +135,12 @@ export class SliceIntegrator {
   private eg = 0;
   private ev = 0;
 
-  constructor(readonly mesh: LeafMesh, private readonly exact: ExactFunctions) {
+  /**
+   * @param elementSplits every element away from the boundary layer is split into this many pieces
+   *   per edge for the spatial rule (1: the plain degree-5 rule; more for exact solutions with kinks
+   *   or jumps inside elements, which the plain rule integrates only to O(h))
+   */
+  constructor(readonly mesh: LeafMesh, private readonly exact: ExactFunctions, private readonly elementSplits = 1) {
     const ne = mesh.elementCount;
     const nv = mesh.dim + 1;
     const { elements, coords, isFree } = mesh;
@@ -335,7 +340,7 @@ export class SliceIntegrator {
       this.eb = 0;
       const f = this.flags[e]!;
       const m = f === 0 ? 0 : this.depth(e);
-      const split = f === 0 ? this.nearSplits(e) : 1;
+      const split = f === 0 ? Math.max(this.elementSplits, this.nearSplits(e)) : m === 0 ? this.elementSplits : 1;
       if (split > 1) {
         const h = (xb - xa) / split;
         for (let j = 0; j < split; j++) this.panel1D(xa + j * h, xa + (j + 1) * h, GP.nodes, GP.weights);
@@ -397,7 +402,7 @@ export class SliceIntegrator {
       const f = this.flags[e]!;
       const m = f === 0 ? 0 : this.depth(e);
       const area = 0.5 * Math.abs(det);
-      const split = f === 0 ? this.nearSplits(e) : 1;
+      const split = f === 0 ? Math.max(this.elementSplits, this.nearSplits(e)) : m === 0 ? this.elementSplits : 1;
       if (split > 1) this.splitRule(x0, y0, x1, y1, x2, y2, area, split);
       else if (m === 0) this.triangleRule(x0, y0, x1, y1, x2, y2, area);
       else if (f >> 3) this.edgeGraded(e, f, m, area);

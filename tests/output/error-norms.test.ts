@@ -98,6 +98,36 @@ describe('closed forms', () => {
     expect(Math.abs(e.valueL2 ** 2 / (T ** 3 / 6) - 1)).toBeLessThan(1e-7);
   });
 
+  it('elementSplits: a kink inside elements, u = t·k(x) with k(x) = min(0.63x, 0.37(1 − x)): ∫₀ᵀ∫|∂x u|² = T³/3·(0.63²·0.37 + 0.37²·0.63) by hand', () => {
+    const T = 1;
+    const exact = (0.63 ** 2 * 0.37 + 0.37 ** 2 * 0.63) * T ** 3 / 3;
+    const kinked = {
+      value: (t: number, x: number) => t * (x < 0.37 ? 0.63 * x : 0.37 * (1 - x)),
+      gradient: (t: number, x: number, _y: number, g: Float64Array) => { g[0] = t * (x < 0.37 ? 0.63 : -0.37); g[1] = 0; },
+    };
+    const rel = (d: SpatialDomain, s: number): number => {
+      const e = spaceTimeErrors(zeroSolution(d, DoubleTree.sparseGrid(d, 0), T), kinked, { elementSplits: s });
+      return Math.abs(e.gradientL2 ** 2 / exact - 1);
+    };
+    // the kink x = 0.37 lies in elements away from the boundary (the split applies where no
+    // boundary-layer grading does); the plain rule integrates the jump of |∂x u|² inside an element
+    // only to O(h), splitting shrinks the straddling piece
+    for (const [domain, least] of [[intervalDomain(0, 1, 4), 0.05], [rectangleDomain(0, 1, 0, 1, 4, 4), 0.003]] as const) {
+      const plain = rel(domain, 1);
+      const split = rel(domain, 8);
+      expect(plain).toBeGreaterThan(least);
+      expect(split).toBeLessThan(plain / 4);
+      expect(split).toBeLessThan(0.002);
+    }
+    // a smooth exact solution: the split rule agrees with the plain one
+    const d = rectangleDomain(0, 1, 0, 1, 2, 2);
+    const smooth = { value: (t: number, x: number) => t * Math.sin(Math.PI * x), gradient: (t: number, x: number, _y: number, g: Float64Array) => { g[0] = Math.PI * t * Math.cos(Math.PI * x); g[1] = 0; } };
+    const a = spaceTimeErrors(zeroSolution(d, DoubleTree.sparseGrid(d, 2), T), smooth).gradientL2;
+    const b = spaceTimeErrors(zeroSolution(d, DoubleTree.sparseGrid(d, 2), T), smooth, { elementSplits: 3 }).gradientL2;
+    expect(Math.abs(a / b - 1)).toBeLessThan(1e-6);
+    expect(() => spaceTimeErrors(zeroSolution(d, DoubleTree.sparseGrid(d, 2), T), smooth, { elementSplits: 9 })).toThrow(/opts\.elementSplits = 9 must be an integer in \[1, 8\]/);
+  });
+
   it('a singularity at a user-named time: u = |t − τ|^{-1/8} sin πx, ∫∫|∂x u|² = (π²/2)·(4/3)(τ^{3/4} + (T − τ)^{3/4})', () => {
     const domain = intervalDomain(0, 1, 2);
     const T = 1;
