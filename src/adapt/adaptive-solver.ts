@@ -151,10 +151,13 @@ class AdaptiveRun {
   readonly history: AdaptiveStep[] = [];
   private best: { solution: SpaceTimeSolution; set: DoubleTree } | null = null;
   stopReason: AdaptiveResult['stopReason'] | null = null;
+  /** The concentrated sources as points (1D) and segments (2D), where the candidates go deeper. */
+  private readonly along: number[][];
 
   constructor(private readonly problem: HeatProblem, private readonly opts: AdaptiveOptions) {
     this.v = validate(opts, problem);
     checkDiffusionScale(problem);
+    this.along = sourceSegments(problem);
     // Samples the held values along the initial edges now: bad data fail before any work, and the
     // result reports the data error (docs/error-norms.md §8).
     problem.heldDataError();
@@ -261,7 +264,7 @@ class AdaptiveRun {
     release();
     // ESTIMATE on the enlarged set Λ̲.
     this.checkpoint('estimate');
-    const bigSet = enlargeDoubleTree(domain, set, this.opts.enlargement);
+    const bigSet = enlargeDoubleTree(domain, set, this.opts.enlargement, this.along);
     const inner = this.opts.inner ?? { kind: 'multigrid' as const };
     let ind = estimateResidual(problem, set, solved!.solution, bigSet, inner);
     let estimateSeconds = (performance.now() - t2) / 1000;
@@ -357,6 +360,17 @@ class AdaptiveRun {
     this.set = inOwnPool(next);
     this.newCaches();
   }
+}
+
+/** Points (1D) and segments [x0, y0, x1, y1] (2D) of the problem's curve sources. */
+function sourceSegments(problem: HeatProblem): number[][] {
+  const out: number[][] = [];
+  for (const { curve } of problem.curveSources ?? []) {
+    const p = curve.points;
+    if (curve.dim === 1) out.push([p[0]!]);
+    else for (let k = 0; k + 3 < p.length; k += 2) out.push([p[k]!, p[k + 1]!, p[k + 2]!, p[k + 3]!]);
+  }
+  return out;
 }
 
 /** The same set in a new fibre pool that holds its fibres only (the fibre arrays are shared, not copied). */

@@ -6,6 +6,7 @@
  *   - (λ, ν′) for the free vertices ν′ of the *interior refinement* of the fibre mesh of λ:
  *     every leaf bisected `dim` times (the mesh size halves) and further where that created only
  *     Dirichlet midpoints (see SpatialDomain.refineInterior);
+ * and, along the problem's concentrated sources (`along`), candidates `dim` generations deeper;
  * then close. A node whose fibre is empty (no unknowns yet — e.g. a coarse mesh without free
  * initial vertices) gets the interior refinement of the initial mesh as candidates, so that
  * every temporal node can receive its first spatial unknowns.
@@ -34,7 +35,11 @@ export interface EnlargementOptions {
 
 const ENLARGEMENT_KEYS: Record<keyof Required<EnlargementOptions>, true> = { spatialGenerations: true, temporalLevels: true };
 
-/** Λ̲ ⊇ Λ, sharing Λ's fibre pool. Grows the domain's bisection forest. *
+/**
+ * Λ̲ ⊇ Λ, sharing Λ's fibre pool. Grows the domain's bisection forest. `along`: points (`[x]`) or
+ * segments (`[x0, y0, x1, y1]`) of concentrated sources, where the spatial candidates go `dim`
+ * generations deeper ({@link solveAdaptive} passes the problem's `curveSources`).
+ *
  * @example
  * ```ts
  * import { DoubleTree, enlargeDoubleTree, rectangleDomain } from 'chronomesh';
@@ -43,7 +48,7 @@ const ENLARGEMENT_KEYS: Record<keyof Required<EnlargementOptions>, true> = { spa
  * console.log(set.size, enlargeDoubleTree(domain, set).size);
  * ```
  */
-export function enlargeDoubleTree(domain: SpatialDomain, set: DoubleTree, opts: EnlargementOptions = {}): DoubleTree {
+export function enlargeDoubleTree(domain: SpatialDomain, set: DoubleTree, opts: EnlargementOptions = {}, along: readonly number[][] = []): DoubleTree {
   checkInstance(domain, SpatialDomain, 'domain', 'a SpatialDomain');
   checkSetOnDomain(set, domain, 'set');
   const o = checkOptions<EnlargementOptions>(opts, 'opts', ENLARGEMENT_KEYS);
@@ -76,7 +81,13 @@ export function enlargeDoubleTree(domain: SpatialDomain, set: DoubleTree, opts: 
     }
     let g = refined[id];
     if (g === undefined) {
-      g = unionSorted([f, domain.refineInterior(f, generations)]);
+      // Along concentrated sources (points, segments of `along`) the candidates go dim generations
+      // deeper (mesh size a quarter instead of a half): the solution's gradient jumps across such a
+      // source, and a jump close to a vertex is barely seen by candidates half a mesh size away
+      // (docs/adaptivity.md §2.1).
+      const parts = [f, domain.refineInterior(f, generations)];
+      for (const q of along) parts.push(domain.refineTowards(f, q, generations + domain.dim));
+      g = unionSorted(parts);
       refined[id] = g;
     }
     levels.push(l);
