@@ -37,8 +37,8 @@ export const TOLERANCE_NOT_REACHED = 3;
 /**
  * Reads, validates, solves and reports one problem file. Input errors throw {@link CliError}.
  * `toleranceReached` is null when the file asks for no tolerance (0), else whether the last
- * estimator is within it (or at the rounding level, stop reason 'rounding'); a miss is also reported on the progress stream, never only implied by
- * the stop reason.
+ * estimator is within it (or at the rounding level, stop reason 'rounding'); a miss is also
+ * reported on the progress stream, never only implied by the stop reason.
  */
 export function solveFile(file: string, opts: SolveFileOptions = {}): { run: RunResult; written: string[]; toleranceReached: boolean | null } {
   const log = opts.log ?? ((l: string) => process.stdout.write(l + '\n'));
@@ -79,25 +79,8 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
         'give the initial mesh more cells where it varies',
     );
   }
-  // Edges no part selects hold u = 0 by default. A file that sets up its boundary and leaves some
-  // edges out may not mean that: say how many, and where one of them lies (with the first step, so
-  // that a file refused before any step prints nothing).
-  let defaultEdgesNote: string | null = null;
-  {
-    const tables = built.domain.forest.boundary;
-    if (!opts.quiet && (built.spec.boundary.length > 0 || built.spec.insulated !== null)) {
-      const dim = built.domain.dim;
-      const c = built.domain.forest.vCoord;
-      const defaults: number[] = [];
-      for (let b = 0; b < tables.edgeCount; b++) if (tables.edgeKind[b] === EdgeKind.ZeroValue) defaults.push(b);
-      if (defaults.length > 0) {
-        const e = defaults[0]!;
-        const i = tables.edgeVertices[2 * e]!, j = tables.edgeVertices[2 * e + 1]!;
-        const at = dim === 1 ? `the end point x = ${Number(c[i]!.toPrecision(6))}` : `the edge with midpoint (${Number((0.5 * (c[2 * i]! + c[2 * j]!)).toPrecision(6))}, ${Number((0.5 * (c[2 * i + 1]! + c[2 * j + 1]!)).toPrecision(6))})`;
-        defaultEdgesNote = (`note: ${defaults.length} of ${tables.edgeCount} initial boundary ${dim === 1 ? 'end points' : 'edges'} have no part and hold u = 0 (the default), e.g. ${at}; select them with "insulated" or a boundary part if they should be otherwise`);
-      }
-    }
-  }
+  // With the first step, so that a file refused before any step prints nothing.
+  let defaultEdgesNote = opts.quiet ? null : defaultEdges(built);
   if (built.domain.anisotropic) {
     // The inner V-cycles lose efficiency as the elements mapped by K^{-1/2} flatten; more cycles make
     // up for it until they reach 16 (docs/method.md §4.4).
@@ -275,4 +258,28 @@ export function rateText(rate: number | null, what: string): string {
 function relativeText(rel: number | null): string {
   if (rel === null) return '';
   return rel >= 1e-4 ? ` (${(100 * rel).toPrecision(2)} % of ‖u‖)` : ` (${rel.toExponential(1)} × ‖u‖)`;
+}
+
+/**
+ * Edges no part selects hold u = 0 by default. A file that sets up `insulated` or boundary parts
+ * and leaves some edges out may not mean that: a note with how many, and where one of them lies.
+ */
+function defaultEdges(built: ReturnType<typeof buildProblem>): string | null {
+  if (built.spec.boundary.length === 0 && built.spec.insulated === null) return null;
+  const tables = built.domain.forest.boundary;
+  const dim = built.domain.dim;
+  const c = built.domain.forest.vCoord;
+  let count = 0;
+  let first = -1;
+  for (let b = 0; b < tables.edgeCount; b++) {
+    if (tables.edgeKind[b] !== EdgeKind.ZeroValue) continue;
+    if (first < 0) first = b;
+    count++;
+  }
+  if (count === 0) return null;
+  const i = tables.edgeVertices[2 * first]!, j = tables.edgeVertices[2 * first + 1]!;
+  const r = (v: number): number => Number(v.toPrecision(6));
+  const at = dim === 1 ? `the end point x = ${r(c[i]!)}` : `the edge with midpoint (${r(0.5 * (c[2 * i]! + c[2 * j]!))}, ${r(0.5 * (c[2 * i + 1]! + c[2 * j + 1]!))})`;
+  return `note: ${count} of ${tables.edgeCount} initial boundary ${dim === 1 ? 'end points' : 'edges'} have no part and hold u = 0 (the default), e.g. ${at}; ` +
+    'select them with "insulated" or a boundary part if they should be otherwise';
 }
