@@ -299,7 +299,7 @@ export function buildBoundaryTables(
   return { edgeCount: nb, edgeVertices: edges, edgeKind, edgePart, transfer, vertexValuePart, parts: norm, hasData, hasConvection };
 }
 
-/** ", whose midpoints span x ∈ [a, b], y ∈ [c, d]" (1D: "at x = a and x = b"), for messages. */
+/** ", which span x ∈ [a, b], y ∈ [c, d]" (1D: " (the end points x = a and x = b)"), for messages. */
 function midpointRange(dim: 1 | 2, nb: number, mid: (b: number, k: number) => number): string {
   if (dim === 1) return ` (the end points ${Array.from({ length: nb }, (_, b) => `x = ${mid(b, 0)}`).join(' and ')})`;
   let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
