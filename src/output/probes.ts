@@ -2,7 +2,7 @@
  * Quantities of interest: time series of u at probe points and of the
  * spatial integral ∫_Ω u(t, ·), as arrays and as CSV text.
  */
-import { InvalidArgumentError } from '../errors';
+import { InvalidArgumentError, describeValue } from '../errors';
 import { INTERVAL_POINTS, INTERVAL_WEIGHTS, TRIANGLE_POINTS, TRIANGLE_WEIGHTS } from '../space/quadrature';
 import { SpaceTimeSolution } from '../spacetime/space-time-solution';
 import { checkFunction, checkInstance, checkNumberArray } from '../validation/index';
@@ -18,6 +18,18 @@ import { checkFunction, checkInstance, checkNumberArray } from '../validation/in
  */
 export function spatialIntegral(solution: SpaceTimeSolution, t: number): number {
   return regionIntegral(solution, t, () => true);
+}
+
+/**
+ * The predicate's answer at (x, y): a boolean, or a number read as its truth (1/0); anything else
+ * (NaN, undefined, a string) is a mistake in the predicate, reported with the point instead of being
+ * taken as "outside".
+ */
+function isInside(inside: (x: number, y: number) => boolean, x: number, y: number): boolean {
+  const r = inside(x, y) as unknown;
+  if (typeof r === 'boolean') return r;
+  if (typeof r === 'number' && !Number.isNaN(r)) return r !== 0;
+  throw new InvalidArgumentError(`inside(${x}, ${y}) returned ${describeValue(r)}; expected true or false`, { field: 'inside', expected: 'a boolean', received: describeValue(r) });
 }
 
 /**
@@ -47,7 +59,7 @@ export function regionIntegral(solution: SpaceTimeSolution, t: number, inside: (
       const len = Math.abs(c[i1]! - c[i0]!);
       for (let q = 0; q < INTERVAL_WEIGHTS.length; q++) {
         const l0 = INTERVAL_POINTS[2 * q]!, l1 = INTERVAL_POINTS[2 * q + 1]!;
-        if (inside(l0 * c[i0]! + l1 * c[i1]!, 0)) sum += len * INTERVAL_WEIGHTS[q]! * (l0 * values[i0]! + l1 * values[i1]!);
+        if (isInside(inside, l0 * c[i0]! + l1 * c[i1]!, 0)) sum += len * INTERVAL_WEIGHTS[q]! * (l0 * values[i0]! + l1 * values[i1]!);
       }
     }
     return sum;
@@ -59,7 +71,7 @@ export function regionIntegral(solution: SpaceTimeSolution, t: number, inside: (
       const l0 = TRIANGLE_POINTS[3 * q]!, l1 = TRIANGLE_POINTS[3 * q + 1]!, l2 = TRIANGLE_POINTS[3 * q + 2]!;
       const x = l0 * c[2 * i0]! + l1 * c[2 * i1]! + l2 * c[2 * i2]!;
       const y = l0 * c[2 * i0 + 1]! + l1 * c[2 * i1 + 1]! + l2 * c[2 * i2 + 1]!;
-      if (inside(x, y)) sum += area * TRIANGLE_WEIGHTS[q]! * (l0 * values[i0]! + l1 * values[i1]! + l2 * values[i2]!);
+      if (isInside(inside, x, y)) sum += area * TRIANGLE_WEIGHTS[q]! * (l0 * values[i0]! + l1 * values[i1]! + l2 * values[i2]!);
     }
   }
   return sum;

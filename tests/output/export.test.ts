@@ -24,6 +24,10 @@ describe('exports', () => {
       expect(regionIntegral(solution, t, (x, y) => x > 1 && y > 0.5)).toBeCloseTo(0.5 * (1 + t), 8);
     }
     expect(() => regionIntegral(solution, 0, 3 as never)).toThrow(/predicate/);
+    // a predicate that answers NaN or nothing is a mistake, not "outside"; numbers count as truth
+    expect(() => regionIntegral(solution, 0, (() => NaN) as never)).toThrow(/^inside\([\d.]+, [\d.]+\) returned NaN; expected true or false$/);
+    expect(() => regionIntegral(solution, 0, (() => undefined) as never)).toThrow(/returned undefined/);
+    expect(regionIntegral(solution, 0.5, ((x: number) => (x < 1 ? 1 : 0)) as never)).toBeCloseTo(regionIntegral(solution, 0.5, (x) => x < 1), 12);
   });
 
   it('VTK XML slice has consistent counts and one value per point', () => {
