@@ -20,6 +20,7 @@ import { SpaceTimeSolution } from '../spacetime/space-time-solution';
 import type { HeatProblem } from '../system/heat-problem';
 import { FibreInverseCache } from '../system/fibre-inverse';
 import { checkDiffusionScale } from '../system/diffusion-scale';
+import { systemNorm } from '../system/system-norm';
 import { SpaceTimeSystem, type SpatialCaches } from '../system/space-time-system';
 import type { PcgResult } from '../system/pcg';
 import { validateAdaptiveOptions, type AdaptiveOptions, type AdaptiveProgress, type AdaptiveResult, type AdaptiveStep } from './adaptive-options';
@@ -291,10 +292,7 @@ class AdaptiveRun {
     }
     const t3 = performance.now();
     const uSolved = solved!.solution;
-    // ‖u_δ‖²_S ≈ u_δᵀ b for the solved system (the relative algebraic error is ≤ solverFraction·E).
-    let ub = 0;
-    for (let i = 0; i < uSolved.length; i++) ub += uSolved[i]! * b[i]!;
-    const solutionNorm = Math.sqrt(Math.max(0, ub));
+    const solutionNorm = systemNorm(uSolved, b);
     const solution = new SpaceTimeSolution(domain, set, uSolved, problem.T);
     const stats = spatialStats(set, domain);
     const record: AdaptiveStep = {

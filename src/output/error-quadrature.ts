@@ -275,6 +275,15 @@ export class SliceIntegrator {
     return Math.min(4, Math.max(2, Math.ceil((2 * h) / width)));
   }
 
+  /**
+   * Pieces per edge for element e (flags f, boundary grading depth m): at least `elementSplits`
+   * unless a graded boundary rule applies, more near a boundary layer's tail.
+   */
+  private splits(e: number, f: number, m: number): number {
+    if (f === 0) return Math.max(this.elementSplits, this.nearSplits(e));
+    return m === 0 ? this.elementSplits : 1;
+  }
+
   /** Names the callback and point that gave a non-finite value or gradient (typed error). */
   private reportNonFinite(u: number, x: number, y: number): void {
     const args = [this.t, x, y];
@@ -340,7 +349,7 @@ export class SliceIntegrator {
       this.eb = 0;
       const f = this.flags[e]!;
       const m = f === 0 ? 0 : this.depth(e);
-      const split = f === 0 ? Math.max(this.elementSplits, this.nearSplits(e)) : m === 0 ? this.elementSplits : 1;
+      const split = this.splits(e, f, m);
       if (split > 1) {
         const h = (xb - xa) / split;
         for (let j = 0; j < split; j++) this.panel1D(xa + j * h, xa + (j + 1) * h, GP.nodes, GP.weights);
@@ -402,7 +411,7 @@ export class SliceIntegrator {
       const f = this.flags[e]!;
       const m = f === 0 ? 0 : this.depth(e);
       const area = 0.5 * Math.abs(det);
-      const split = f === 0 ? Math.max(this.elementSplits, this.nearSplits(e)) : m === 0 ? this.elementSplits : 1;
+      const split = this.splits(e, f, m);
       if (split > 1) this.splitRule(x0, y0, x1, y1, x2, y2, area, split);
       else if (m === 0) this.triangleRule(x0, y0, x1, y1, x2, y2, area);
       else if (f >> 3) this.edgeGraded(e, f, m, area);

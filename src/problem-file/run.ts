@@ -9,6 +9,7 @@ import {
 } from './core';
 import type { BuiltProblem } from './build';
 import { knownSolution } from './exact-solution';
+import { systemNorm } from '../system/system-norm';
 
 /** One step of a run, as reported by `chronomesh solve --json`. */
 export interface RunStep {
@@ -164,6 +165,7 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
   let solution: SpaceTimeSolution;
   let set: DoubleTree;
   let stopReason: string;
+  let lastNorm: number | null = null; // ‖u_δ‖_S of the last step (null: not recorded)
   // With a known solution, every step's solution is measured against it as it comes (the
   // solutions of earlier steps are not kept).
   const known = spec.exact ? knownSolution(spec.exact) : null;
@@ -194,6 +196,7 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
     });
     // with resume the history starts with the saved steps
     steps.push(...r.history.map(toStep));
+    lastNorm = r.history[r.history.length - 1]!.solutionNorm;
     ({ solution, set } = r);
     stopReason = r.stopReason;
   } else {
@@ -219,7 +222,8 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
       const system = new SpaceTimeSystem(problem, next);
       const solved = system.solve({ relTol: 1e-8, maxIterations: 500 });
       const estimate = residualIndicators(new SpaceTimeSystem(problem, enlargeDoubleTree(domain, next)), next, solved.pcg.solution).estimate;
-      const norm = normInSystem(solved.pcg.solution, system.rightHandSide());
+      const norm = systemNorm(solved.pcg.solution, system.rightHandSide());
+      lastNorm = norm;
       const s: RunStep = { dofs: next.size, estimate, relativeEstimate: relativeTo(estimate, norm), iterations: solved.pcg.iterations, riseChecks: 0, seconds: (performance.now() - t0) / 1000 };
       if (known) s.trueError = trueError(solved.solution);
       steps.push(s);
@@ -256,10 +260,7 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
       rate: observedRate(withError.map((s) => ({ dofs: s.dofs, estimate: s.trueError! }))),
     };
   }
-  const lastStep = steps[steps.length - 1]!;
-  // the norm of the last step, back from E / (E / norm); 0 where it is unknown
-  const lastNorm = lastStep.relativeEstimate !== null && lastStep.relativeEstimate > 0 ? lastStep.estimate / lastStep.relativeEstimate : 0;
-  const target = spec.tolerance + spec.relativeTolerance * lastNorm;
+  const target = spec.tolerance + spec.relativeTolerance * (lastNorm ?? 0);
   return { steps, probes, sensors, rate: observedRate(steps), solution, set, stopReason, target, exactErrors, heldDataError };
 }
 
@@ -272,11 +273,4 @@ const SPLIT_CHECK = 3;
 /** E / ‖u_δ‖_S, or null where the norm is 0 or unknown. */
 function relativeTo(estimate: number, norm: number | null): number | null {
   return norm !== null && norm > 0 ? estimate / norm : null;
-}
-
-/** ‖u‖_S ≈ (uᵀb)^{1/2} for a solution u of S u = b (as the adaptive loop records it). */
-function normInSystem(u: Float64Array, b: Float64Array): number {
-  let ub = 0;
-  for (let i = 0; i < u.length; i++) ub += u[i]! * b[i]!;
-  return Math.sqrt(Math.max(0, ub));
 }

@@ -251,7 +251,7 @@ export function buildBoundaryTables(
       for (let b = 0; b < nb; b++) if (where(mid(b, 0), mid(b, 1))) selected.push(b);
       // A part that selects nothing leaves its edges at the defaults without a word: the heated face
       // stays cold. Usually an exact comparison ("x == 0.001") that no midpoint meets.
-      if (selected.length === 0) throw new InvalidMeshError(`${field}.where selects no boundary edge: it is false at all ${nb} initial boundary-edge midpoints${midpointRange(dim, nb, mid)}; a part must select at least one edge (compare with a margin, e.g. x < 1e-9 rather than x == 0)`, { field: `${field}.where`, expected: 'a predicate true on at least one boundary-edge midpoint' });
+      if (selected.length === 0) throw noEdgeSelected(`${field}.where`, dim, nb, mid, 'a part must select at least one edge (compare with a margin, e.g. x < 1e-9 rather than x == 0)');
     } else if (Array.isArray(where)) {
       where.forEach((item, k) => {
         const b = findEdge(item);
@@ -299,15 +299,24 @@ export function buildBoundaryTables(
   return { edgeCount: nb, edgeVertices: edges, edgeKind, edgePart, transfer, vertexValuePart, parts: norm, hasData, hasConvection };
 }
 
-/** ", which span x ∈ [a, b], y ∈ [c, d]" (1D: " (the end points x = a and x = b)"), for messages. */
-function midpointRange(dim: 1 | 2, nb: number, mid: (b: number, k: number) => number): string {
-  if (dim === 1) return ` (the end points ${Array.from({ length: nb }, (_, b) => `x = ${mid(b, 0)}`).join(' and ')})`;
-  let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
-  for (let b = 0; b < nb; b++) {
-    x0 = Math.min(x0, mid(b, 0)); x1 = Math.max(x1, mid(b, 0));
-    y0 = Math.min(y0, mid(b, 1)); y1 = Math.max(y1, mid(b, 1));
+/**
+ * A predicate (`boundary[i].where`, `insulated`) that is true at no boundary-edge midpoint: its edges
+ * would silently keep the defaults, usually because of an exact comparison that no midpoint meets.
+ * The error names where the predicate was asked (`mid(b, k)`: coordinate k of edge b's midpoint)
+ * and `advice`. @internal
+ */
+export function noEdgeSelected(field: string, dim: 1 | 2, nb: number, mid: (b: number, k: number) => number, advice: string): InvalidMeshError {
+  let where: string;
+  if (dim === 1) where = `both end points (${Array.from({ length: nb }, (_, b) => `x = ${mid(b, 0)}`).join(' and ')})`;
+  else {
+    let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
+    for (let b = 0; b < nb; b++) {
+      x0 = Math.min(x0, mid(b, 0)); x1 = Math.max(x1, mid(b, 0));
+      y0 = Math.min(y0, mid(b, 1)); y1 = Math.max(y1, mid(b, 1));
+    }
+    where = `all ${nb} initial boundary-edge midpoints, which span x ∈ [${x0}, ${x1}], y ∈ [${y0}, ${y1}]`;
   }
-  return `, which span x ∈ [${x0}, ${x1}], y ∈ [${y0}, ${y1}]`;
+  return new InvalidMeshError(`${field} selects no boundary edge: it is false at ${where}; ${advice}`, { field, expected: 'a predicate true on at least one boundary-edge midpoint' });
 }
 
 /** True for edge kinds that hold the value (Dirichlet). */

@@ -10,7 +10,7 @@ import type { Coefficient, DomainOptions } from './domain-options';
 import { sampleDiffusionTensor } from './diffusion-tensor';
 import { checkNoHangingNodes } from './hanging-nodes';
 import { checkNoOverlap } from './mesh-overlap';
-import { EdgeKind, buildBoundaryTables, isValueKind, naturalEdgeCode, type BoundaryTables } from './boundary';
+import { EdgeKind, buildBoundaryTables, isValueKind, naturalEdgeCode, noEdgeSelected, type BoundaryTables } from './boundary';
 
 /** Neighbour code of a Dirichlet boundary edge. */
 export const DIRICHLET_EDGE = -1;
@@ -196,7 +196,7 @@ export function buildIntervalMesh(a: number, b: number, cells: number, opts: Dom
   if (typeof ins === 'function') {
     insA = !!ins(a, 0);
     insB = !!ins(b, 0);
-    if (!insA && !insB) throw noneSelected('insulated', `both end points (x = ${a} and x = ${b})`);
+    if (!insA && !insB) throw noEdgeSelected('insulated', 1, 2, (e) => (e === 0 ? a : b), INSULATED_ADVICE);
   } else if (ins !== undefined) {
     if (!Array.isArray(ins)) {
       throw new InvalidMeshError(`insulated must be a predicate or a list of endpoints, received ${describeValue(ins)}`, {
@@ -477,30 +477,21 @@ function checkConnected(neighbors: Int32Array): void {
   }
 }
 
-/**
- * An `insulated` predicate that selects no boundary edge leaves the whole boundary held at 0 without
- * a word; usually an exact comparison that no midpoint meets. @internal
- */
-function noneSelected(field: string, where: string): InvalidMeshError {
-  return new InvalidMeshError(`${field} selects no boundary edge: it is false at ${where}; leave it out for none, or compare with a margin (e.g. y > 0.999 rather than y == 1)`, { field, expected: 'a predicate true on at least one boundary-edge midpoint' });
-}
+/** What to do about an `insulated` predicate that selects no edge (see noEdgeSelected). */
+const INSULATED_ADVICE = 'leave it out for none, or compare with a margin (e.g. y > 0.999 rather than y == 1)';
 
 /** Marks the insulated boundary edges (a predicate on the edge midpoint or a list of edges). */
 function labelBoundaryKinds(ins: DomainOptions['insulated'], coords: Float64Array, bEdges: number[], neighbors: Int32Array): void {
   const nv = coords.length / 2;
   if (typeof ins === 'function') {
+    const mid = (b: number, k: number): number => 0.5 * (coords[2 * bEdges[3 * b + 1]! + k]! + coords[2 * bEdges[3 * b + 2]! + k]!);
     let any = false;
-    let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
-    for (let q = 0; q < bEdges.length; q += 3) {
-      const i = bEdges[q + 1]!, j = bEdges[q + 2]!;
-      const mx = 0.5 * (coords[2 * i]! + coords[2 * j]!), my = 0.5 * (coords[2 * i + 1]! + coords[2 * j + 1]!);
-      if (ins(mx, my)) {
-        neighbors[bEdges[q]!] = INSULATED_EDGE;
-        any = true;
-      }
-      x0 = Math.min(x0, mx); x1 = Math.max(x1, mx); y0 = Math.min(y0, my); y1 = Math.max(y1, my);
+    for (let b = 0; 3 * b < bEdges.length; b++) {
+      if (!ins(mid(b, 0), mid(b, 1))) continue;
+      neighbors[bEdges[3 * b]!] = INSULATED_EDGE;
+      any = true;
     }
-    if (!any) throw noneSelected('insulated', `all ${bEdges.length / 3} initial boundary-edge midpoints, which span x ∈ [${x0}, ${x1}], y ∈ [${y0}, ${y1}]`);
+    if (!any) throw noEdgeSelected('insulated', 2, bEdges.length / 3, mid, INSULATED_ADVICE);
   } else if (ins !== undefined) {
     if (!Array.isArray(ins)) {
       throw new InvalidMeshError(`insulated must be a predicate or a list of boundary edges, received ${describeValue(ins)}`, {

@@ -13,6 +13,9 @@
 import { InvalidArgumentError } from '../errors';
 import type { HeatProblem } from './heat-problem';
 
+/** Problems that passed the check. */
+const checked = new WeakSet<HeatProblem>();
+
 /** κ_max T / diam(Ω)² must be at least this (module comment). */
 export const SMALLEST_DIFFUSION_SCALE = 1e-15;
 
@@ -22,6 +25,8 @@ export const SMALLEST_DIFFUSION_SCALE = 1e-15;
  * @internal
  */
 export function checkDiffusionScale(problem: HeatProblem): void {
+  // Every system of an adaptive run asks again; a problem's T and initial mesh never change.
+  if (checked.has(problem)) return;
   const f = problem.domain.forest;
   let kappa = 0;
   for (let e = 0; e < f.kappa.length; e++) kappa = Math.max(kappa, f.kappa[e]!);
@@ -37,7 +42,10 @@ export function checkDiffusionScale(problem: HeatProblem): void {
     span2 += (hi - lo) ** 2;
   }
   const ratio = (kappa * problem.T) / span2;
-  if (ratio >= SMALLEST_DIFFUSION_SCALE) return;
+  if (ratio >= SMALLEST_DIFFUSION_SCALE) {
+    checked.add(problem);
+    return;
+  }
   const L = Math.sqrt(span2);
   throw new InvalidArgumentError(
     `κT/L² = ${ratio.toExponential(2)} (largest κ ${kappa.toExponential(2)}, T = ${problem.T}, domain diameter L = ${L.toExponential(2)}) is below ${SMALLEST_DIFFUSION_SCALE}: ` +

@@ -28,7 +28,7 @@ const CASES: [string, string[], RegExp][] = [
   ['boundary part without its kind', ['solve', file('nokind.json', { ...rod, boundary: [{ where: 'x < 0.5', flux: '1' }] })], /boundary\[0\]\.kind: is missing; the part has the fields of a "flux" part — did you mean "kind": "flux"\?/],
   ['missing field named as missing', ['solve', file('noshape.json', { ...rod, domain: { from: 0, to: 1 } })], /domain\.shape: must be one of .*found nothing \(the field is missing\)/],
   ['probe given as a point without its time', ['solve', file('probept.json', { ...rod, probes: [[0.5]] })], /probes\[0\]: must be \[t, x\] \(2 numbers\), found a list of 1; .*"sensors"/],
-  ['boundary part that selects no edge', ['solve', file('noedge.json', { ...rod, boundary: [{ kind: 'flux', where: 'x == 0.3', flux: '1' }] })], /boundary\[0\]\.where selects no boundary edge: it is false at all 2 initial boundary-edge midpoints \(the end points x = 0 and x = 1\)/],
+  ['boundary part that selects no edge', ['solve', file('noedge.json', { ...rod, boundary: [{ kind: 'flux', where: 'x == 0.3', flux: '1' }] })], /boundary\[0\]\.where selects no boundary edge: it is false at both end points \(x = 0 and x = 1\); a part must select at least one edge/],
   ['insulated that selects no edge', ['solve', file('noins.json', { ...rod, insulated: 'x > 2' })], /insulated selects no boundary edge: it is false at both end points \(x = 0 and x = 1\)/],
   ['unknown shape', ['solve', file('shape.json', { ...rod, domain: { shape: 'rectangel', from: [0, 0], to: [1, 1] } })], /domain\.shape: must be one of .*did you mean "rectangle"\?/],
   ['wrong type', ['solve', file('type.json', { ...rod, horizon: '1' })], /horizon: must be a number > 0 \(the final time T\), found the string "1"/],
