@@ -37,10 +37,10 @@ described by PROBLEM.json.
                  "riseChecks","seconds"}…],
                  "probes":[{"t","x","y","value"}…], "rate": r, "stopReason",
                  "tolerance", "toleranceReached", "forecast", "heldDataError",
-                 "exactErrors": {"gradientL2","valueL2","ratioToEstimate",
-                 "ratioRange","rate","splitCheck"} or null, "sensors": {"times","points",
-                 "values"} or null}; steps carry "trueError" when the file has
-                 an exact solution
+                 "exactErrors": {"energyL2","gradientL2","valueL2",
+                 "ratioToEstimate","ratioRange","rate","splitCheck"} or null,
+                 "sensors": {"times","points","values"} or null}; steps carry
+                 "trueError" when the file has an exact solution
                 (rate: least-squares slope of −log E against log N over the
                 second half of the steps; forecast: {"rate","unknowns",
                 "seconds"} where E would reach a missed tolerance at the
@@ -150,9 +150,11 @@ problem file fields (JSON object):
               element, as solved), the initial state and every boundary
               condition at sample points (exact derivatives; a mismatch is an
               input error naming the condition and the point); then every
-              step reports its true error in L2(0,T;H1) ("trueError"), and the
-              run the band of true error / E, the true error's observed rate
-              and the last L2(0,T;L2) error. Held values are interpolated
+              step reports its true error in the energy norm
+              (∫∫ κ|∇e|² + c e²)^1/2, the norm E measures ("trueError"; the
+              L2(0,T;H1) norm when κ = 1 and c = 0), and the run the band of
+              true error / E, the true error's observed rate and the last
+              L2(0,T;H1) and L2(0,T;L2) errors. Held values are interpolated
               linearly along initial edges: pick a solution whose boundary
               values are affine there, or the error stalls at about
               "heldDataError"

@@ -165,8 +165,8 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
   const check = run.exactErrors?.splitCheck;
   if (check && !check.agrees) {
     progress(
-      `warning: the true error depends on the quadrature: ${run.exactErrors!.gradientL2.toExponential(3)} in L2(0,T;H1) with the standard rule, ` +
-        `${check.gradientL2.toExponential(3)} with every element split ${check.elementSplits} × ${check.elementSplits}: the exact solution is not smooth inside elements ` +
+      `warning: the true error depends on the quadrature: ${run.exactErrors!.energyL2.toExponential(3)} in the energy norm with the standard rule, ` +
+        `${check.energyL2.toExponential(3)} with every element split ${check.elementSplits} × ${check.elementSplits}: the exact solution is not smooth inside elements ` +
         '(a kink or jump, e.g. along a curve source off the mesh lines); the split figure is nearer the truth, and the per-step ratios to E are unreliable (spaceTimeErrors option elementSplits)',
     );
   }
@@ -174,7 +174,7 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
   if (held > 0 && held >= 0.5 * last.estimate) {
     progress(
       `warning: the held boundary values are interpolated linearly between initial-mesh vertices, which leaves an error of about ${held.toExponential(2)} ` +
-        `in L2(0,T;H1) that refinement does not reduce and the estimator (${last.estimate.toExponential(3)}) does not include; ` +
+        `in the energy norm that refinement does not reduce and the estimator (${last.estimate.toExponential(3)}) does not include; ` +
         'give the initial mesh more cells along the held parts where their values are not affine',
     );
   }
@@ -189,7 +189,9 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     if (held > 0) log(`held-value data error (not in the estimator, not reduced by refinement): about ${held.toExponential(2)}`);
     const ex = run.exactErrors;
     if (ex) {
-      log(`true error against the file's exact solution: ${ex.gradientL2.toExponential(3)} in L2(0,T;H1), ${ex.valueL2.toExponential(3)} in L2(0,T;L2); ` +
+      const sameNorm = ex.energyL2 === ex.gradientL2;
+      log(`true error against the file's exact solution: ${ex.energyL2.toExponential(3)} in the energy norm (∫∫ κ|∇e|² + c e²)^1/2, the norm of the estimator` +
+        `${sameNorm ? ' (here the L2(0,T;H1) norm)' : `; ${ex.gradientL2.toExponential(3)} in L2(0,T;H1)`}, ${ex.valueL2.toExponential(3)} in L2(0,T;L2); ` +
         (run.stopReason === 'rounding'
           ? 'both at the rounding level, where their ratio means nothing; '
           : `${ex.ratioToEstimate.toFixed(2)} × the estimator (${ex.ratioRange[0].toFixed(2)}–${ex.ratioRange[1].toFixed(2)} over the steps); `) +

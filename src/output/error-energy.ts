@@ -1,6 +1,7 @@
 /**
- * ∫_P ‖∇u_δ‖² dt and ∫_P ‖u_δ‖² dt over a dyadic time cell P, in time linear in the
- * number of coefficients that touch P (no sweep over every breakpoint × element).
+ * ∫_P ‖∇u_δ‖² dt, ∫_P ‖u_δ‖² dt and ∫_P a(u_δ, u_δ) dt (the energy of ./energy-weights) over a
+ * dyadic time cell P, in time linear in the number of coefficients that touch P (no sweep over
+ * every breakpoint × element).
  *
  * On a dyadic cell Q of level m every trial wavelet of level ≤ m is linear in t
  * (its kinks lie on its level's grid, docs/method.md §3.1). Split the wavelets
@@ -13,7 +14,7 @@
  *
  * and on each child the wavelets of level m + 1 are the new linear part. a(C, f_λ) for all λ
  * at once: r = Tᵀ A C (nodal stiffness on the mesh of Q, then the transposed hierarchical
- * transform), a(C, f_λ) = Σ_ν c_{λν} r_ν. Same for the mass form. The mesh of Q is the leaf
+ * transform), a(C, f_λ) = Σ_ν c_{λν} r_ν. Same for the mass form and the energy. The mesh of Q is the leaf
  * mesh of the union of the fibres overlapping Q; fibres shrink along the temporal tree, so
  * these meshes shrink with the cells and the total work is about Σ_λ #fibre(λ) × (levels
  * below |λ| the cell recursion passes through).
@@ -24,23 +25,25 @@ import type { LeafMesh } from '../space/leaf-mesh';
 import type { SpaceTimeSolution } from '../spacetime/space-time-solution';
 import { intervalQuadratic } from './error-panels';
 import { trialSupports } from './error-slices';
+import { energyWeights } from './energy-weights';
 
 const G2 = [0.5 - Math.sqrt(3) / 6, 0.5 + Math.sqrt(3) / 6];
 
 export class CellEnergy {
   private readonly lo: Float64Array;
   private readonly hi: Float64Array;
-  private readonly quad = new Float64Array(2);
-  private readonly meshes = new Map<string, { union: Int32Array; mesh: LeafMesh & { readonly memberLocal: Int32Array } }>();
+  private readonly quad = new Float64Array(3);
+  private readonly meshes = new Map<string, { union: Int32Array; mesh: LeafMesh & { readonly memberLocal: Int32Array }; weights: Float64Array }>();
   /** Results of the last {@link CellEnergy.energy}. */
   g = 0;
   v = 0;
+  k = 0;
 
   constructor(private readonly solution: SpaceTimeSolution) {
     ({ lo: this.lo, hi: this.hi } = trialSupports(solution.trialSet.tree));
   }
 
-  /** ∫ over the dyadic cell [c·2^-m, (c+1)·2^-m]·T of ‖∇u_δ‖² and ‖u_δ‖² (held boundary values excluded) into g, v. */
+  /** ∫ over the dyadic cell [c·2^-m, (c+1)·2^-m]·T of ‖∇u_δ‖², ‖u_δ‖² and a(u_δ, u_δ) (held boundary values excluded) into g, v, k. */
   energy(m: number, c: number): void {
     const tree = this.solution.trialSet.tree;
     const a = c * 2 ** -m;
@@ -49,6 +52,7 @@ export class CellEnergy {
     for (let i = 0; i < tree.size; i++) if (this.lo[i]! < b && this.hi[i]! > a) nodes.push(i);
     this.g = 0;
     this.v = 0;
+    this.k = 0;
     this.cell(m, c, Int32Array.from(nodes));
   }
 
@@ -69,7 +73,7 @@ export class CellEnergy {
     const h = 2 ** -m;
     const a = c * h;
     const b = a + h;
-    const { union, mesh } = this.meshOf(nodes);
+    const { union, mesh, weights } = this.meshOf(nodes);
     const nv = mesh.vertexCount;
     const member = mesh.memberLocal;
     const Ca = new Float64Array(nv);
@@ -83,18 +87,17 @@ export class CellEnergy {
     }
     hierarchicalToNodal(mesh, Ca);
     hierarchicalToNodal(mesh, Cb);
-    intervalQuadratic(mesh, Ca, Cb, h * T, this.quad);
+    intervalQuadratic(mesh, Ca, Cb, h * T, this.quad, weights);
     this.g += this.quad[0]!;
     this.v += this.quad[1]!;
+    this.k += this.quad[2]!;
     if (fine === 0) return;
-    // dual vectors r = Tᵀ A C, Tᵀ M C
+    // dual vectors r = Tᵀ A C, Tᵀ M C, Tᵀ K C (K: the energy form)
     const rAa = new Float64Array(nv), rAb = new Float64Array(nv), rMa = new Float64Array(nv), rMb = new Float64Array(nv);
-    applyP1(mesh, Ca, rAa, rMa);
-    applyP1(mesh, Cb, rAb, rMb);
-    hierarchicalToNodalTransposed(mesh, rAa);
-    hierarchicalToNodalTransposed(mesh, rAb);
-    hierarchicalToNodalTransposed(mesh, rMa);
-    hierarchicalToNodalTransposed(mesh, rMb);
+    const rKa = new Float64Array(nv), rKb = new Float64Array(nv);
+    applyP1(mesh, Ca, rAa, rMa, rKa, weights);
+    applyP1(mesh, Cb, rAb, rMb, rKb, weights);
+    for (const r of [rAa, rAb, rMa, rMb, rKa, rKb]) hierarchicalToNodalTransposed(mesh, r);
     const left: number[] = [];
     const right: number[] = [];
     const mid = a + 0.5 * h;
@@ -127,6 +130,7 @@ export class CellEnergy {
       const o = set.functionOffset[i]!;
       let dA = 0;
       let dM = 0;
+      let dK = 0;
       let q = 0;
       for (let r = 0; r < f.length; r++) {
         while (union[q]! !== f[r]!) q++;
@@ -134,9 +138,11 @@ export class CellEnergy {
         const cv = coef[o + r]!;
         dA += cv * (al * rAa[loc]! + be * rAb[loc]!);
         dM += cv * (al * rMa[loc]! + be * rMb[loc]!);
+        dK += cv * (al * rKa[loc]! + be * rKb[loc]!);
       }
       this.g += 2 * dA;
       this.v += 2 * dM;
+      this.k += 2 * dK;
       if (this.lo[i]! < mid) left.push(i);
       if (this.hi[i]! > mid) right.push(i);
     }
@@ -148,7 +154,7 @@ export class CellEnergy {
    * Leaf mesh of the union of the fibres of `nodes`, cached by the set of distinct fibre ids
    * (neighbouring cells of one level usually share it; on sparse grids all cells of a level do).
    */
-  private meshOf(nodes: Int32Array): { union: Int32Array; mesh: LeafMesh & { readonly memberLocal: Int32Array } } {
+  private meshOf(nodes: Int32Array): { union: Int32Array; mesh: LeafMesh & { readonly memberLocal: Int32Array }; weights: Float64Array } {
     const set = this.solution.trialSet;
     const idList: number[] = [];
     for (const i of nodes) idList.push(set.nodeFibre[i]!);
@@ -168,7 +174,8 @@ export class CellEnergy {
     let nu = 0;
     for (let q = 0; q < cat.length; q++) if (nu === 0 || cat[q]! !== cat[nu - 1]!) cat[nu++] = cat[q]!;
     const union = cat.slice(0, nu);
-    const entry = { union, mesh: this.solution.domain.leafMesh(union) };
+    const mesh = this.solution.domain.leafMesh(union);
+    const entry = { union, mesh, weights: energyWeights(mesh) };
     if (this.meshes.size >= 64) this.meshes.clear();
     this.meshes.set(key, entry);
     return entry;
@@ -190,11 +197,12 @@ export class CellEnergy {
 }
 
 /**
- * Nodal P1 stiffness (plain gradient, no κ) and mass applied to u on `mesh`: outA += A u,
- * outM += M u (element forms as in ./error-panels intervalQuadratic).
+ * Nodal P1 stiffness (plain gradient, no κ), mass and energy form applied to u on `mesh`:
+ * outA += A u, outM += M u, outK += (A_K + c M) u with A_K the stiffness of each element's K
+ * (element forms as in ./error-panels intervalQuadratic; weights from ./energy-weights).
  */
-function applyP1(mesh: LeafMesh, u: Float64Array, outA: Float64Array, outM: Float64Array): void {
-  const { elements, coords, elementCount: ne } = mesh;
+function applyP1(mesh: LeafMesh, u: Float64Array, outA: Float64Array, outM: Float64Array, outK: Float64Array, w: Float64Array): void {
+  const { elements, coords, elementCount: ne, elementMaterial: mat } = mesh;
   if (mesh.dim === 1) {
     for (let e = 0; e < ne; e++) {
       const i0 = elements[2 * e]!, i1 = elements[2 * e + 1]!;
@@ -203,8 +211,12 @@ function applyP1(mesh: LeafMesh, u: Float64Array, outA: Float64Array, outM: Floa
       outA[i0] -= du;
       outA[i1] += du;
       const s = u[i0]! + u[i1]!;
-      outM[i0] += (len / 6) * (u[i0]! + s);
-      outM[i1] += (len / 6) * (u[i1]! + s);
+      const m0 = (len / 6) * (u[i0]! + s), m1 = (len / 6) * (u[i1]! + s);
+      outM[i0] += m0;
+      outM[i1] += m1;
+      const o = 4 * mat[e]!;
+      outK[i0] += -w[o]! * du + w[o + 3]! * m0;
+      outK[i1] += w[o]! * du + w[o + 3]! * m1;
     }
     return;
   }
@@ -225,8 +237,14 @@ function applyP1(mesh: LeafMesh, u: Float64Array, outA: Float64Array, outM: Floa
     outA[i1] += area * (ux * g1x + uy * g1y);
     outA[i2] += area * (ux * g2x + uy * g2y);
     const s = u[i0]! + u[i1]! + u[i2]!;
-    outM[i0] += (area / 12) * (u[i0]! + s);
-    outM[i1] += (area / 12) * (u[i1]! + s);
-    outM[i2] += (area / 12) * (u[i2]! + s);
+    const m0 = (area / 12) * (u[i0]! + s), m1 = (area / 12) * (u[i1]! + s), m2 = (area / 12) * (u[i2]! + s);
+    outM[i0] += m0;
+    outM[i1] += m1;
+    outM[i2] += m2;
+    const o = 4 * mat[e]!;
+    const kx = w[o]! * ux + w[o + 1]! * uy, ky = w[o + 1]! * ux + w[o + 2]! * uy, c = w[o + 3]!;
+    outK[i0] += area * (kx * g0x + ky * g0y) + c * m0;
+    outK[i1] += area * (kx * g1x + ky * g1y) + c * m1;
+    outK[i2] += area * (kx * g2x + ky * g2y) + c * m2;
   }
 }

@@ -20,6 +20,7 @@ import { BreakpointSlices, lowerBound } from './error-slices';
 import { SliceIntegrator, TimeRule } from './error-quadrature';
 import { MAX_PANEL, TimePanels, intervalQuadratic } from './error-panels';
 import { CellEnergy } from './error-energy';
+import { energyWeights } from './energy-weights';
 import { liftingOf } from '../space/boundary-lifting';
 type SpaceTimeSolution = SolutionClass;
 
@@ -37,6 +38,14 @@ export interface SpaceTimeErrors {
   gradientL2: number;
   /** (∫_I ‖u − u_δ‖² dt)^{1/2} */
   valueL2: number;
+  /**
+   * (∫_I a(u − u_δ, u − u_δ) dt)^{1/2} with the spatial form a(v, v) = ∫_Ω K∇v·∇v + c v² of the
+   * solution's domain (K = κ·I for isotropic diffusion; κ, K and c as the library takes them, one
+   * value per initial element). The error in the norm the estimator measures (without the convection
+   * term of boundary parts that exchange heat): compare E with this, not with gradientL2, when
+   * κ ≠ 1 or c ≠ 0 (equal to gradientL2 for κ = 1, c = 0).
+   */
+  energyL2: number;
   /** Number of times at which the exact solution was sampled (on the whole mesh). */
   slices: number;
   /** Number of exact-solution evaluations (calls of `valueAndGradient`, or of `gradient` and `value`). */
@@ -222,9 +231,11 @@ export function evaluateErrors(solution: SpaceTimeSolution, exact: KnownSolution
   const panelRule = mode === 'panels' ? new TimePanels(solution, slices, integ) : null;
   // held boundary values are linear between all breakpoints: their panels are summed per interval
   const cellEnergy = mode === 'panels' && liftingOf(solution.domain.forest).isZero ? new CellEnergy(solution) : null;
-  const quad = new Float64Array(2);
+  const quad = new Float64Array(3);
+  const weights = energyWeights(slices.mesh);
   let g2 = 0;
   let v2 = 0;
+  let k2 = 0;
   let count = 0;
   slices.nodalAt(0, va);
   let k = 0;
@@ -236,21 +247,24 @@ export function evaluateErrors(solution: SpaceTimeSolution, exact: KnownSolution
         panelRule.panel(k, k1);
         g2 += panelRule.g;
         v2 += panelRule.v;
+        k2 += panelRule.k;
         count += panelRule.points;
         if (cellEnergy !== null) {
           // ∫‖∇u_δ‖², ∫‖u_δ‖² over the dyadic panel without visiting its breakpoints
           cellEnergy.energy(panelLevel, panelIndex);
           g2 += cellEnergy.g;
           v2 += cellEnergy.v;
+          k2 += cellEnergy.k;
           k = k1;
           slices.nodalAt(k, va);
           continue;
         }
         for (; k < k1; k++) {
           slices.nodalAt(k + 1, vb);
-          intervalQuadratic(slices.mesh, va, vb, (br[k + 1]! - br[k]!) * T, quad);
+          intervalQuadratic(slices.mesh, va, vb, (br[k + 1]! - br[k]!) * T, quad, weights);
           g2 += quad[0]!;
           v2 += quad[1]!;
+          k2 += quad[2]!;
           const tmp = va;
           va = vb;
           vb = tmp;
@@ -268,6 +282,7 @@ export function evaluateErrors(solution: SpaceTimeSolution, exact: KnownSolution
       integ.integrate(t, va, vb, (t - a) / (b - a));
       g2 += rule.w[q]! * integ.g2;
       v2 += rule.w[q]! * integ.v2;
+      k2 += rule.w[q]! * integ.k2;
       count++;
     }
     const tmp = va;
@@ -277,7 +292,7 @@ export function evaluateErrors(solution: SpaceTimeSolution, exact: KnownSolution
   }
   // The panel sums subtract cross terms; a solution (almost) equal to the exact one can leave a
   // tiny negative rounding residue (about 1e-16 of ‖∇u‖²).
-  return { gradientL2: Math.sqrt(Math.max(g2, 0)), valueL2: Math.sqrt(Math.max(v2, 0)), slices: count, exactEvaluations: integ.evaluations };
+  return { gradientL2: Math.sqrt(Math.max(g2, 0)), valueL2: Math.sqrt(Math.max(v2, 0)), energyL2: Math.sqrt(Math.max(k2, 0)), slices: count, exactEvaluations: integ.evaluations };
 }
 
 /**

@@ -43,6 +43,7 @@ import { gaussLegendre01 } from '../numerics/gauss-legendre';
 import type { SpaceTimeSolution } from '../spacetime/space-time-solution';
 import { trialSupports, type BreakpointSlices } from './error-slices';
 import type { SliceIntegrator } from './error-quadrature';
+import { energyWeights, weightedDot } from './energy-weights';
 
 /** Gauss nodes per time panel. */
 export const PANEL_POINTS = 12;
@@ -51,9 +52,10 @@ export const MAX_PANEL = 1 / 16;
 const PIECE = gaussLegendre01(7);
 
 export class TimePanels {
-  /** Results of the last {@link TimePanels.panel}: Σ_j W_j‖∇u‖² − 2Σ_j(∇u, ∇V_j) and the L2 analogue. */
+  /** Results of the last {@link TimePanels.panel}: Σ_j W_j‖∇u‖² − 2Σ_j(∇u, ∇V_j), the L2 analogue and the energy analogue Σ_j W_j a(u, u) − 2Σ_j a(u, V_j). */
   g = 0;
   v = 0;
+  k = 0;
   readonly points = PANEL_POINTS;
   private readonly nodes: Float64Array;
   private readonly weights: Float64Array;
@@ -178,6 +180,7 @@ export class TimePanels {
     }
     let gs = 0;
     let vs = 0;
+    let ks = 0;
     const integ = this.integ;
     for (let j = 0; j < p; j++) {
       const V = this.V[j]!;
@@ -187,29 +190,38 @@ export class TimePanels {
       const W = (b - a) * T * this.weights[j]!;
       gs += W * integ.a2 - 2 * integ.g2;
       vs += W * integ.b2 - 2 * integ.v2;
+      ks += W * integ.ka2 - 2 * integ.k2;
     }
     this.g = gs;
     this.v = vs;
+    this.k = ks;
   }
 }
 
 /**
- * ∫ over a breakpoint interval of length h of |∇u_h|² and u_h² for u_h = (1 − θ)ua + θ ub
- * (nodal vectors on `mesh`): h/3·(q(ua, ua) + q(ua, ub) + q(ub, ub)) with the P1 stiffness and
- * mass forms, mass |K|/((d+1)(d+2))·(I + 11ᵀ) per element (common practice).
+ * ∫ over a breakpoint interval of length h of |∇u_h|², u_h² and the energy a(u_h, u_h) (into
+ * out[0], out[1], out[2]) for u_h = (1 − θ)ua + θ ub (nodal vectors on `mesh`):
+ * h/3·(q(ua, ua) + q(ua, ub) + q(ub, ub)) with the P1 stiffness and mass forms, mass
+ * |K|/((d+1)(d+2))·(I + 11ᵀ) per element (common practice); the energy weighs each element's
+ * gradient form by its K and its mass form by its c (./energy-weights).
  */
-export function intervalQuadratic(mesh: LeafMesh, ua: Float64Array, ub: Float64Array, h: number, out: Float64Array): void {
-  const { elements, coords, elementCount: ne } = mesh;
+export function intervalQuadratic(mesh: LeafMesh, ua: Float64Array, ub: Float64Array, h: number, out: Float64Array, weights: Float64Array = energyWeights(mesh)): void {
+  const { elements, coords, elementCount: ne, elementMaterial: mat } = mesh;
   let sg = 0;
   let sv = 0;
+  let sk = 0;
   if (mesh.dim === 1) {
     for (let e = 0; e < ne; e++) {
       const i0 = elements[2 * e]!, i1 = elements[2 * e + 1]!;
       const len = Math.abs(coords[i1]! - coords[i0]!);
       const a0 = ua[i0]!, a1 = ua[i1]!, b0 = ub[i0]!, b1 = ub[i1]!;
       const da = (a1 - a0) / len, db = (b1 - b0) / len;
-      sg += len * (da * da + da * db + db * db);
-      sv += (len / 6) * (mass1(a0, a1, a0, a1) + mass1(a0, a1, b0, b1) + mass1(b0, b1, b0, b1));
+      const g = len * (da * da + da * db + db * db);
+      const v = (len / 6) * (mass1(a0, a1, a0, a1) + mass1(a0, a1, b0, b1) + mass1(b0, b1, b0, b1));
+      const o = 4 * mat[e]!;
+      sg += g;
+      sv += v;
+      sk += weights[o]! * g + weights[o + 3]! * v;
     }
   } else {
     for (let e = 0; e < ne; e++) {
@@ -230,11 +242,17 @@ export function intervalQuadratic(mesh: LeafMesh, ua: Float64Array, ub: Float64A
       const aa = a0 * a0 + a1 * a1 + a2 * a2 + sa * sa;
       const ab = a0 * b0 + a1 * b1 + a2 * b2 + sa * sb;
       const bb = b0 * b0 + b1 * b1 + b2 * b2 + sb * sb;
-      sv += (area / 12) * (aa + ab + bb);
+      const v = (area / 12) * (aa + ab + bb);
+      sv += v;
+      const m = mat[e]!;
+      // q(a, a) + q(a, b) + q(b, b) of the K-weighted gradient form
+      const kq = weightedDot(weights, m, ax, ay, ax, ay) + weightedDot(weights, m, ax, ay, bx, by) + weightedDot(weights, m, bx, by, bx, by);
+      sk += area * kq + weights[4 * m + 3]! * v;
     }
   }
   out[0] = (h / 3) * sg;
   out[1] = (h / 3) * sv;
+  out[2] = (h / 3) * sk;
 }
 
 /** (x, y) of the 1D element mass matrix times 6/h: x·y + (Σx)(Σy). */

@@ -21,6 +21,7 @@ import type { LeafMesh } from '../space/leaf-mesh';
 import { TRIANGLE_POINTS, TRIANGLE_WEIGHTS } from '../space/quadrature';
 import { gaussLegendre01 } from '../numerics/gauss-legendre';
 import { checkCallbackResult } from '../validation/index';
+import { energyWeights } from './energy-weights';
 
 /** Points and weights of a time rule on one interval, reused between intervals. */
 export class TimeRule {
@@ -98,8 +99,9 @@ const G3 = gaussLegendre01(3);
 const GP = gaussLegendre01(5);
 
 /**
- * Spatial part of the error integrand at one time: ∫_Ω |∇(u − u_δ)|² and ∫_Ω (u − u_δ)²
- * on a fixed leaf mesh, for nodal values given as (1 − θ)·va + θ·vb.
+ * Spatial part of the error integrand at one time: ∫_Ω |∇(u − u_δ)|², ∫_Ω (u − u_δ)² and the
+ * energy a(u − u_δ, u − u_δ) = ∫_Ω K∇(u − u_δ)·∇(u − u_δ) + c (u − u_δ)² on a fixed leaf mesh, for
+ * nodal values given as (1 − θ)·va + θ·vb.
  */
 export class SliceIntegrator {
   /**
@@ -108,9 +110,12 @@ export class SliceIntegrator {
    */
   g2 = 0;
   v2 = 0;
-  /** After {@link SliceIntegrator.integrateCross}: ∫|∇u|² and ∫u² with the same rule. */
+  /** After {@link SliceIntegrator.integrate}: a(u − u_h, u − u_h); after integrateCross: a(u, v). */
+  k2 = 0;
+  /** After {@link SliceIntegrator.integrateCross}: ∫|∇u|², ∫u² and a(u, u) with the same rule. */
   a2 = 0;
   b2 = 0;
+  ka2 = 0;
   /** Exact-solution evaluations so far (all calls). */
   evaluations = 0;
   private cross = false;
@@ -134,6 +139,14 @@ export class SliceIntegrator {
   private gy = 0;
   private eg = 0;
   private ev = 0;
+  private ek = 0;
+  private eka = 0;
+  // energy weights of the current element's material (./energy-weights)
+  private kxx = 0;
+  private kxy = 0;
+  private kyy = 0;
+  private rc = 0;
+  private readonly weights: Float64Array;
 
   /**
    * @param elementSplits every element away from the boundary layer is split into this many pieces
@@ -144,6 +157,7 @@ export class SliceIntegrator {
     const ne = mesh.elementCount;
     const nv = mesh.dim + 1;
     const { elements, coords, isFree } = mesh;
+    this.weights = energyWeights(mesh);
     this.flags = new Int32Array(ne);
     this.size = new Float64Array(ne);
     this.corner = new Uint8Array(mesh.vertexCount);
@@ -227,12 +241,14 @@ export class SliceIntegrator {
     this.cross = false;
     this.g2 = 0;
     this.v2 = 0;
+    this.k2 = 0;
     if (this.mesh.dim === 1) this.integrate1D(va, vb, theta);
     else this.integrate2D(va, vb, theta);
   }
 
   /**
-   * Cross terms at time t for a nodal field v: g2 = ∫∇u·∇v, v2 = ∫u v, a2 = ∫|∇u|², b2 = ∫u², with
+   * Cross terms at time t for a nodal field v: g2 = ∫∇u·∇v, v2 = ∫u v, k2 = a(u, v), a2 = ∫|∇u|²,
+   * b2 = ∫u², ka2 = a(u, u), with
    * the rule every time in [tLo, tHi] would get (the finer of the two choices per element), so that
    * one rule serves a whole time panel (./error-panels).
    */
@@ -243,8 +259,10 @@ export class SliceIntegrator {
     this.cross = true;
     this.g2 = 0;
     this.v2 = 0;
+    this.k2 = 0;
     this.a2 = 0;
     this.b2 = 0;
+    this.ka2 = 0;
     if (this.mesh.dim === 1) this.integrate1D(v, v, 0);
     else this.integrate2D(v, v, 0);
     this.cross = false;
@@ -309,12 +327,16 @@ export class SliceIntegrator {
     const uh = this.u0 + this.gx * (x - this.x0) + this.gy * (y - this.y0);
     const g0 = g[0]!;
     const g1 = this.mesh.dim === 1 ? 0 : g[1]!;
+    const { kxx, kxy, kyy, rc } = this;
     if (this.cross) {
       if (!Number.isFinite(g0 + g1 + u)) this.reportNonFinite(u, x, y);
-      this.eg += w * (g0 * this.gx + g1 * this.gy);
+      const gx = this.gx, gy = this.gy;
+      this.eg += w * (g0 * gx + g1 * gy);
       this.ev += w * u * uh;
+      this.ek += w * (kxx * g0 * gx + kxy * (g0 * gy + g1 * gx) + kyy * g1 * gy + rc * u * uh);
       this.ea += w * (g0 * g0 + g1 * g1);
       this.eb += w * u * u;
+      this.eka += w * (kxx * g0 * g0 + 2 * kxy * g0 * g1 + kyy * g1 * g1 + rc * u * u);
       return;
     }
     const d0 = g0 - this.gx;
@@ -323,6 +345,33 @@ export class SliceIntegrator {
     if (!Number.isFinite(d0 + d1 + dv)) this.reportNonFinite(u, x, y);
     this.eg += w * (d0 * d0 + d1 * d1);
     this.ev += w * dv * dv;
+    this.ek += w * (kxx * d0 * d0 + 2 * kxy * d0 * d1 + kyy * d1 * d1 + rc * dv * dv);
+  }
+
+  /** Energy weights of element e's material into kxx … rc, and the element's sums reset. */
+  private startElement(e: number): void {
+    const o = 4 * this.mesh.elementMaterial[e]!;
+    const w = this.weights;
+    this.kxx = w[o]!;
+    this.kxy = w[o + 1]!;
+    this.kyy = w[o + 2]!;
+    this.rc = w[o + 3]!;
+    this.eg = 0;
+    this.ev = 0;
+    this.ek = 0;
+    this.ea = 0;
+    this.eb = 0;
+    this.eka = 0;
+  }
+
+  /** Adds the current element's sums to the results. */
+  private endElement(): void {
+    this.g2 += this.eg;
+    this.v2 += this.ev;
+    this.k2 += this.ek;
+    this.a2 += this.ea;
+    this.b2 += this.eb;
+    this.ka2 += this.eka;
   }
 
   // ---------------------------------------------------------------- 1D
@@ -343,10 +392,7 @@ export class SliceIntegrator {
       this.u0 = ua;
       this.gx = (ub - ua) / (xb - xa);
       this.gy = 0;
-      this.eg = 0;
-      this.ev = 0;
-      this.ea = 0;
-      this.eb = 0;
+      this.startElement(e);
       const f = this.flags[e]!;
       const m = f === 0 ? 0 : this.depth(e);
       const split = this.splits(e, f, m);
@@ -360,10 +406,7 @@ export class SliceIntegrator {
         this.graded1D(xb, mid, m - 1);
       } else if (f === 1) this.graded1D(xa, xb, m);
       else this.graded1D(xb, xa, m);
-      this.g2 += this.eg;
-      this.v2 += this.ev;
-      this.a2 += this.ea;
-      this.b2 += this.eb;
+      this.endElement();
     }
   }
 
@@ -404,10 +447,7 @@ export class SliceIntegrator {
       this.u0 = u0;
       this.x0 = x0;
       this.y0 = y0;
-      this.eg = 0;
-      this.ev = 0;
-      this.ea = 0;
-      this.eb = 0;
+      this.startElement(e);
       const f = this.flags[e]!;
       const m = f === 0 ? 0 : this.depth(e);
       const area = 0.5 * Math.abs(det);
@@ -416,10 +456,7 @@ export class SliceIntegrator {
       else if (m === 0) this.triangleRule(x0, y0, x1, y1, x2, y2, area);
       else if (f >> 3) this.edgeGraded(e, f, m, area);
       else this.vertexGraded(f, m, x0, y0, x1, y1, x2, y2, area);
-      this.g2 += this.eg;
-      this.v2 += this.ev;
-      this.a2 += this.ea;
-      this.b2 += this.eb;
+      this.endElement();
     }
   }
 

@@ -33,8 +33,10 @@ export interface RunStep {
   /** Wall time of the step in seconds (without the true error below). */
   seconds: number;
   /**
-   * With a known solution in the file (`exact`): the step's true error in L2(0, T; H¹)
-   * (null for steps restored from a checkpoint, whose solutions are gone). Absent otherwise.
+   * With a known solution in the file (`exact`): the step's true error in the energy norm
+   * (∫∫ κ|∇e|² + c e²)^{1/2}, the norm E measures (= L2(0, T; H¹₀) for κ = 1, c = 0; see
+   * {@link ExactErrors.energyL2}); null for steps restored from a checkpoint, whose solutions are
+   * gone. Absent otherwise.
    */
   trueError?: number | null;
 }
@@ -90,11 +92,17 @@ export interface RunResult {
  * ```
  */
 export interface ExactErrors {
+  /**
+   * (∫₀ᵀ a(u − u_δ, u − u_δ) dt)^{1/2} with a(v, v) = ∫ κ|∇v|² + c v² (K∇v·∇v for a diffusion
+   * tensor): the error in the norm the estimator measures, which the ratios and the rate use
+   * (docs/error-norms.md §9). Equal to gradientL2 for κ = 1, c = 0.
+   */
+  energyL2: number;
   /** (∫₀ᵀ ‖∇(u − u_δ)‖² dt)^{1/2}, the error in L2(0, T; H¹₀) (docs/error-norms.md). */
   gradientL2: number;
   /** (∫₀ᵀ ‖u − u_δ‖² dt)^{1/2}. */
   valueL2: number;
-  /** gradientL2 / E of the last step: how far the estimator was from the true error. */
+  /** energyL2 / E of the last step: how far the estimator was from the true error. */
   ratioToEstimate: number;
   /** Smallest and largest true error / E over the steps (the estimator's band on this problem). */
   ratioRange: [number, number];
@@ -102,12 +110,12 @@ export interface ExactErrors {
   rate: number | null;
   /**
    * The last solution's errors again with every element split into 3 per edge for the spatial
-   * rule (`elementSplits`): a check of the quadrature. `agrees` is false when the two gradient
+   * rule (`elementSplits`): a check of the quadrature. `agrees` is false when the two energy
    * errors differ by more than 5 %: the exact solution is then not smooth inside elements (a kink
    * or jump, e.g. along a curve source off the mesh lines), the figures above and the per-step
    * ratios come from a rule that does not resolve it, and the split figures are nearer the truth.
    */
-  splitCheck: { elementSplits: number; gradientL2: number; valueL2: number; agrees: boolean };
+  splitCheck: { elementSplits: number; energyL2: number; gradientL2: number; valueL2: number; agrees: boolean };
 }
 
 /**
@@ -174,7 +182,7 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
   const trueError = (s: SpaceTimeSolution): number => {
     last.solution = s;
     last.errors = spaceTimeErrors(s, known!);
-    return last.errors.gradientL2;
+    return last.errors.energyL2;
   };
   const measured = new Map<number, number>(); // adaptive step number → true error
   const toStep = (h: AdaptiveStep): RunStep => ({
@@ -248,14 +256,14 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
   let exactErrors: ExactErrors | null = null;
   if (known) {
     const e = last.errors !== null && last.solution === solution ? last.errors : spaceTimeErrors(solution, known);
-    const ratioToEstimate = e.gradientL2 / steps[steps.length - 1]!.estimate;
+    const ratioToEstimate = e.energyL2 / steps[steps.length - 1]!.estimate;
     const withError = steps.filter((s) => typeof s.trueError === 'number' && s.estimate > 0);
     // A run resumed from a checkpoint without a new step has no measured step: the last ratio alone.
     const ratios = withError.length > 0 ? withError.map((s) => s.trueError! / s.estimate) : [ratioToEstimate];
     const split = spaceTimeErrors(solution, known, { elementSplits: SPLIT_CHECK });
     exactErrors = {
-      splitCheck: { elementSplits: SPLIT_CHECK, gradientL2: split.gradientL2, valueL2: split.valueL2, agrees: Math.abs(split.gradientL2 - e.gradientL2) <= 0.05 * Math.max(split.gradientL2, e.gradientL2) },
-      gradientL2: e.gradientL2, valueL2: e.valueL2, ratioToEstimate,
+      splitCheck: { elementSplits: SPLIT_CHECK, energyL2: split.energyL2, gradientL2: split.gradientL2, valueL2: split.valueL2, agrees: Math.abs(split.energyL2 - e.energyL2) <= 0.05 * Math.max(split.energyL2, e.energyL2) },
+      energyL2: e.energyL2, gradientL2: e.gradientL2, valueL2: e.valueL2, ratioToEstimate,
       ratioRange: [Math.min(...ratios), Math.max(...ratios)],
       rate: observedRate(withError.map((s) => ({ dofs: s.dofs, estimate: s.trueError! }))),
     };

@@ -202,7 +202,7 @@ describe('true errors against the known solution', () => {
     expect(ex.splitCheck.agrees).toBe(false);
     // measured: 8.8e-3 with the plain rule where a brute-force lattice gives 4.4e-2
     expect(ex.splitCheck.gradientL2).toBeGreaterThan(3 * ex.gradientL2);
-    expect(progress.join('\n')).toMatch(/warning: the true error depends on the quadrature: \S+ in L2\(0,T;H1\) with the standard rule, \S+ with every element split 3 × 3/);
+    expect(progress.join('\n')).toMatch(/warning: the true error depends on the quadrature: \S+ in the energy norm with the standard rule, \S+ with every element split 3 × 3/);
   });
 
   it("a known solution in the discrete space: the run stops with 'rounding' and says why, without an error ratio", () => {
