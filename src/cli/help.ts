@@ -7,7 +7,9 @@ can be wrong through modelling assumptions, input mistakes, discretisation and
 solver error, or software faults. Do not rely on them alone for decisions about
 thermal safety, medical heating (e.g. hyperthermia or tissue exposure), fire
 protection or other safety matters: follow the applicable codes and standards and
-have results checked by a licensed engineer using independent methods.`;
+have results checked by a licensed engineer using independent methods. The error
+estimate is a global measure over space and time, not a bound on a point value or
+a peak temperature.`;
 
 export const MAIN_HELP = `usage: chronomesh <command> [options]
 
@@ -35,8 +37,9 @@ described by PROBLEM.json.
   --json        print exactly one JSON document on stdout:
                 {"steps":[{"dofs","estimate","relativeEstimate","iterations",
                  "riseChecks","seconds"}…],
-                 "probes":[{"t","x","y","value"}…], "rate": r, "stopReason",
-                 "tolerance", "toleranceReached", "forecast", "heldDataError",
+                 "probes":[{"t","x","y","value","previous"}…], "rate": r,
+                 "stopReason", "tolerance", "toleranceReached", "forecast",
+                 "heldDataError",
                  "exactErrors": {"energyL2","gradientL2","valueL2",
                  "ratioToEstimate","ratioRange","rate","splitCheck"} or null,
                  "sensors": {"times","points","values"} or null}; steps carry

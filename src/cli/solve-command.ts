@@ -197,7 +197,7 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
           : `${ex.ratioToEstimate.toFixed(2)} × the estimator (${ex.ratioRange[0].toFixed(2)}–${ex.ratioRange[1].toFixed(2)} over the steps); `) +
         `observed rate of the true error ${rateText(ex.rate, 'the true error')}`);
     }
-    for (const p of run.probes) log(`u(t = ${p.t}, x = ${p.x}${p.y === null ? '' : `, y = ${p.y}`}) = ${p.value.toPrecision(6)}`);
+    for (const p of run.probes) log(`u(t = ${p.t}, x = ${p.x}${p.y === null ? '' : `, y = ${p.y}`}) = ${p.value.toPrecision(6)}${probeChange(p)}`);
     if (run.sensors !== null) {
       const { times, points, values } = run.sensors;
       log(`sensor histories: ${points.length} sensor${points.length === 1 ? '' : 's'} at ${times.length} times (sensors.csv with --out); at t = ${times[times.length - 1]}: ` +
@@ -240,6 +240,17 @@ function roundedCount(n: number): string {
 }
 
 /** Seconds to two significant digits in the largest fitting unit: 44 s, 7.3 min, 42 h, 3.1e3 days. */
+/**
+ * How much a probe moved in the last step: E bounds a global norm, not point values, so the change
+ * under the last refinement is the practical check of a probe's accuracy (an indication, not a bound).
+ */
+function probeChange(p: { value: number; previous: number | null }): string {
+  if (p.previous === null) return '';
+  const d = Math.abs(p.value - p.previous);
+  const rel = Math.abs(p.value) > 0 ? ` (${(100 * d / Math.abs(p.value)).toPrecision(2)} %)` : '';
+  return `; changed by ${d.toExponential(1)}${rel} in the last step`;
+}
+
 function roundedDuration(s: number): string {
   if (s < 60) return `${Number(s.toPrecision(2))} s`;
   if (s < 3600) return `${Number((s / 60).toPrecision(2))} min`;

@@ -43,7 +43,7 @@ export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): st
     csvLine(['step', 'dofs', 'estimate', 'iterations', 'riseChecks', 'seconds', ...(truth ? ['trueError'] : []), 'relativeEstimate']),
     ...run.steps.map((s, i) => csvLine([i, s.dofs, s.estimate, s.iterations, s.riseChecks, s.seconds, ...(truth ? [s.trueError ?? ''] : []), s.relativeEstimate ?? ''])),
   ].join('\n') + '\n');
-  save('probes.csv', [csvLine(['t', 'x', 'y', 'value']), ...run.probes.map((p) => csvLine([p.t, p.x, p.y, p.value]))].join('\n') + '\n');
+  save('probes.csv', [csvLine(['t', 'x', 'y', 'value', 'previousStep']), ...run.probes.map((p) => csvLine([p.t, p.x, p.y, p.value, p.previous ?? '']))].join('\n') + '\n');
   if (run.sensors !== null) {
     // one row per reading time, one column per sensor, named by its position
     const { times, points, values } = run.sensors;

@@ -48,6 +48,13 @@ export interface ProbeValue {
   /** null in 1D. */
   y: number | null;
   value: number;
+  /**
+   * The value at the same point from the step before the last (null after a single step). E bounds
+   * a global norm, not point values; how much a probe still moved in the last refinement is the
+   * practical check of its accuracy (common practice in solution verification). Its change is an
+   * indication, not a bound.
+   */
+  previous: number | null;
 }
 
 /** Result of {@link runProblem}. */
@@ -185,6 +192,15 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
     return last.errors.energyL2;
   };
   const measured = new Map<number, number>(); // adaptive step number → true error
+  // Probe values of the last two steps' solutions (ProbeValue.previous); probes are in absolute time.
+  const readProbes = (s: SpaceTimeSolution): number[] => spec.probes.map((p) => s.evaluate(p[0]! - spec.start, p.slice(1))[0]!);
+  let probesBefore: number[] | null = null;
+  let probesLast: number[] | null = null;
+  const recordProbes = (s: SpaceTimeSolution): void => {
+    if (spec.probes.length === 0) return;
+    probesBefore = probesLast;
+    probesLast = readProbes(s);
+  };
   const toStep = (h: AdaptiveStep): RunStep => ({
     dofs: h.unknowns, estimate: h.estimate, relativeEstimate: relativeTo(h.estimate, h.solutionNorm), iterations: h.pcgIterations, riseChecks: h.riseChecks, seconds: h.seconds,
     ...(known ? { trueError: measured.get(h.step) ?? null } : {}),
@@ -199,6 +215,7 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
       ...(adaptive.resume ? { resume: adaptive.resume } : {}),
       onStep: (h, solution) => {
         if (known) measured.set(h.step, trueError(solution));
+        recordProbes(solution);
         onStep?.(toStep(h), h.step);
       },
     });
@@ -234,6 +251,7 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
       lastNorm = norm;
       const s: RunStep = { dofs: next.size, estimate, relativeEstimate: relativeTo(estimate, norm), iterations: solved.pcg.iterations, riseChecks: 0, seconds: (performance.now() - t0) / 1000 };
       if (known) s.trueError = trueError(solved.solution);
+      recordProbes(solved.solution);
       steps.push(s);
       onStep?.(s, steps.length - 1);
       last = { solution: solved.solution, set: next };
@@ -242,10 +260,11 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
     }
     ({ solution, set } = last!);
   }
-  const probes = spec.probes.map((p) => {
+  const before = probesBefore as number[] | null; // assigned in the step callbacks
+  const probes = spec.probes.map((p, i) => {
     const pt = p.slice(1);
     const value = solution.evaluate(p[0]! - spec.start, pt)[0]!; // probes are in absolute time
-    return { t: p[0]!, x: pt[0]!, y: pt.length > 1 ? pt[1]! : null, value };
+    return { t: p[0]!, x: pt[0]!, y: pt.length > 1 ? pt[1]! : null, value, previous: before === null ? null : before[i]! };
   });
   let sensors: RunResult['sensors'] = null;
   if (spec.sensors !== null) {

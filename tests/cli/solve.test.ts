@@ -67,7 +67,7 @@ describe('chronomesh solve', () => {
       expect(existsSync(join(out, f)), f).toBe(true);
     }
     const csv = readFileSync(join(out, 'probes.csv'), 'utf8').trim().split('\n');
-    expect(csv[0]).toBe('t,x,y,value');
+    expect(csv[0]).toBe('t,x,y,value,previousStep');
     expect(csv.length).toBe(4);
     const pvd = readFileSync(join(out, 'slices.pvd'), 'utf8');
     expect(pvd).toContain('timestep="0.02"');
