@@ -123,8 +123,8 @@ problem file fields (JSON object):
   strategy    "adaptive" (default), "sparse" or "full" (grids of growing level)
   tolerance   stop when the estimator E ≤ tolerance (default ${PROBLEM_DEFAULTS.tolerance}); E is an
               estimate of the error, not a bound: against exact solutions the
-              L2(0,T;H1) error was 0.7–2.3 times E, so ask for a few times less
-              than the error you can accept
+              error in the energy norm (∫∫ κ|∇e|² + c e²)^1/2 was 0.7–2.3 times
+              E, so ask for a few times less than the error you can accept
   relativeTolerance  in [0, 1), default 0: adds this fraction of the size of
               the solution (in the norm E measures, the "% of ‖u‖" printed with
               every step) to tolerance: 0.05 stops at E ≤ 5 % of ‖u‖, whatever

@@ -69,7 +69,7 @@ export function writeOutputs(dir: string, spec: ProblemSpec, run: RunResult): st
     const series = [{ label: truePts.length > 0 ? `${spec.strategy}: estimator E` : spec.strategy, points: pts }];
     if (truePts.length > 0) series.push({ label: 'true error', points: truePts });
     save('history.svg', convergencePlotSvg(series, truePts.length > 0
-      ? { title: `${name}: estimator and true error in L2(0,T;H1)`, yLabel: 'E, true error' }
+      ? { title: `${name}: estimator and true error (energy norm)`, yLabel: 'E, true error' }
       : { title: `${name}: residual estimator`, yLabel: 'estimator E' }));
   }
   const dim = run.solution.domain.dim;
