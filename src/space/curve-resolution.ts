@@ -18,6 +18,8 @@ import type { VertexClosure } from './vertex-closure';
 import { EdgeKind } from './boundary';
 import { bisectWhere, sampleSpacing } from './data-resolution';
 import { clipToTriangle, clipped } from './curve-load';
+import { elementDiameter } from './diffusion-time';
+import { pointSegmentDistance } from './geometry';
 import type { SourceCurve } from './source-curve';
 
 /** Largest diameter of an element meeting a source, in units of the source's distance to the held boundary. */
@@ -29,7 +31,6 @@ export function curveResolvedSet(closure: VertexClosure, curves: readonly Source
   const created: number[] = [];
   const b = f.boundary;
   const d = f.dim;
-  const xy = f.vCoord;
   const held: number[] = [];
   for (let e = 0; e < b.edgeCount; e++) {
     const k = b.edgeKind[e]!;
@@ -37,18 +38,11 @@ export function curveResolvedSet(closure: VertexClosure, curves: readonly Source
   }
   if (curves.length === 0 || held.length === 0) return closure.close(created);
   const floor = sampleSpacing(f) / 4; // diam(Ω)/512: a source on the held boundary does not refine forever
-  const v = f.eVert;
-  const diameter = (e: number): number => {
-    if (d === 1) return Math.abs(xy[v[2 * e + 1]!]! - xy[v[2 * e]!]!);
-    const a = v[3 * e]!, p = v[3 * e + 1]!, q = v[3 * e + 2]!;
-    return Math.max(
-      Math.hypot(xy[2 * p]! - xy[2 * a]!, xy[2 * p + 1]! - xy[2 * a + 1]!),
-      Math.hypot(xy[2 * q]! - xy[2 * p]!, xy[2 * q + 1]! - xy[2 * p + 1]!),
-      Math.hypot(xy[2 * a]! - xy[2 * q]!, xy[2 * a + 1]! - xy[2 * q + 1]!),
-    );
-  };
   // distance from the part of the sources inside element e to the held boundary (∞ if none meets e)
   const localDistance = (e: number): number => {
+    // read afresh: the forest replaces its arrays when bisection grows it
+    const xy = f.vCoord;
+    const v = f.eVert;
     let m = Infinity;
     for (const c of curves) {
       const P = c.points;
@@ -71,7 +65,7 @@ export function curveResolvedSet(closure: VertexClosure, curves: readonly Source
     return m;
   };
   bisectWhere(closure, created, (e) => {
-    const h = diameter(e);
+    const h = elementDiameter(f, e);
     return h > floor && h > RESOLUTION * localDistance(e);
   });
   return closure.close(created);
@@ -83,13 +77,6 @@ function segmentDistance(ax: number, ay: number, bx: number, by: number, cx: num
   const d1 = cross(ax, ay, bx, by, cx, cy), d2 = cross(ax, ay, bx, by, dx, dy);
   const d3 = cross(cx, cy, dx, dy, ax, ay), d4 = cross(cx, cy, dx, dy, bx, by);
   if (d1 * d2 < 0 && d3 * d4 < 0) return 0;
-  return Math.min(pointSegment(ax, ay, cx, cy, dx, dy), pointSegment(bx, by, cx, cy, dx, dy), pointSegment(cx, cy, ax, ay, bx, by), pointSegment(dx, dy, ax, ay, bx, by));
+  return Math.min(pointSegmentDistance(ax, ay, cx, cy, dx, dy), pointSegmentDistance(bx, by, cx, cy, dx, dy), pointSegmentDistance(cx, cy, ax, ay, bx, by), pointSegmentDistance(dx, dy, ax, ay, bx, by));
 }
 
-/** Distance from the point P to the segment QR. */
-function pointSegment(px: number, py: number, qx: number, qy: number, rx: number, ry: number): number {
-  const ux = rx - qx, uy = ry - qy;
-  const l2 = ux * ux + uy * uy;
-  const t = l2 > 0 ? Math.max(0, Math.min(1, ((px - qx) * ux + (py - qy) * uy) / l2)) : 0;
-  return Math.hypot(px - qx - t * ux, py - qy - t * uy);
-}

@@ -16,16 +16,26 @@ export function shortestDiffusionTime(domain: SpatialDomain): number {
 
 /** h²/κ of forest element e, with h its shortest edge. @internal */
 export function elementDiffusionTime(f: BisectionForest, e: number): number {
+  return squaredEdgeRange(f, e, true) / f.kappa[f.eMat[e]!]!;
+}
+
+/** Diameter (longest edge) of forest element e. @internal */
+export function elementDiameter(f: BisectionForest, e: number): number {
+  return Math.sqrt(squaredEdgeRange(f, e, false));
+}
+
+/** The shortest (or longest) squared edge length of forest element e. */
+function squaredEdgeRange(f: BisectionForest, e: number, shortest: boolean): number {
   const nv = f.nv;
   const d = f.dim;
-  let h2 = Infinity;
+  let best = shortest ? Infinity : 0;
   for (let a = 0; a < nv; a++) {
     for (let b = a + 1; b < nv; b++) {
       const p = f.eVert[e * nv + a]!, q = f.eVert[e * nv + b]!;
       let s = 0;
       for (let k = 0; k < d; k++) s += (f.vCoord[p * d + k]! - f.vCoord[q * d + k]!) ** 2;
-      h2 = Math.min(h2, s);
+      best = shortest ? Math.min(best, s) : Math.max(best, s);
     }
   }
-  return h2 / f.kappa[f.eMat[e]!]!;
+  return best;
 }

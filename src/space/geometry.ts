@@ -38,3 +38,11 @@ export function segmentMeetsElement(f: BisectionForest, e: number, q: ArrayLike<
   }
   return true;
 }
+
+/** Distance from the point P to the segment QR (a point when Q = R). @internal */
+export function pointSegmentDistance(px: number, py: number, qx: number, qy: number, rx: number, ry: number): number {
+  const ux = rx - qx, uy = ry - qy;
+  const l2 = ux * ux + uy * uy;
+  const t = l2 > 0 ? Math.max(0, Math.min(1, ((px - qx) * ux + (py - qy) * uy) / l2)) : 0;
+  return Math.hypot(px - qx - t * ux, py - qy - t * uy);
+}

@@ -146,3 +146,37 @@ describe('estimator reliability over long horizons (many diffusion times)', () =
     }
   }, 120_000);
 });
+
+describe('estimator reliability over short horizons (a fraction of the diffusion time of the elements)', () => {
+  // u0 ≡ 1 against u = 0 makes a layer of width √(κt) ≤ √(κT), far thinner than the initial
+  // elements when κT ≪ h0². Before the first set was refined toward such held edges (docs/adaptivity.md
+  // §2.4), err/E at the first step was 17 (1D, κT = 1e-6), 54 (1D, 1e-8), 2.9 (2D, 1e-4) and 9.6
+  // (2D, 1e-6): E/‖u‖ = 0.7 % against a true error of 6.4 % of ‖u‖ on the square at κT = 1e-6.
+  // Reference: the series / method-of-images solution (Carslaw & Jaeger §3.3); errors in the energy norm.
+  it.each([
+    ['(0, 1), two cells, κT = 1e-6', () => intervalDomain(0, 1, 2), 1e-6, unitInterval],
+    ['(0, 1), one cell, κT = 1e-8', () => intervalDomain(0, 1, 1), 1e-8, unitInterval],
+    ['unit square, 2 × 2, κT = 1e-5', () => rectangleDomain(0, 1, 0, 1, 2, 2), 1e-5, unitSquare],
+    ['unit square, two triangles, κT = 1e-4', () => rectangleDomain(0, 1, 0, 1, 1, 1), 1e-4, unitSquare],
+  ] as const)('%s: err/E within [0.5, 2] from the first step on', (_name, domain, T, exact) => {
+    const d = domain();
+    const ratios: number[] = [];
+    solveAdaptive(new HeatProblem({ domain: d, T, initial: () => 1 }), {
+      maxSteps: d.dim === 1 ? 6 : 3,
+      onStep: (s, solution) => { ratios.push(spaceTimeErrors(solution, exact).energyL2 / s.estimate); },
+    });
+    if (process.env.CHRONOMESH_VERBOSE) console.log(_name, ratios.map((r) => r.toFixed(2)).join(' '));
+    for (const r of ratios) {
+      expect(r).toBeGreaterThan(0.5);
+      expect(r).toBeLessThan(2);
+    }
+  }, 120_000);
+
+  it('an initial state that matches the held values adds nothing to the first set', () => {
+    const d = rectangleDomain(0, 1, 0, 1, 2, 2);
+    const smooth = solveAdaptive(new HeatProblem({ domain: d, T: 1e-6, initial: (x, y) => Math.sin(Math.PI * x) * Math.sin(Math.PI * y) }), { maxSteps: 1 });
+    const jump = solveAdaptive(new HeatProblem({ domain: rectangleDomain(0, 1, 0, 1, 2, 2), T: 1e-6, initial: () => 1 }), { maxSteps: 1 });
+    expect(smooth.history[0]!.unknowns).toBeLessThan(50);
+    expect(jump.history[0]!.unknowns).toBeGreaterThan(1000);
+  });
+});

@@ -1,0 +1,132 @@
+/**
+ * The first adaptive set next to held boundary parts where the initial state differs from the held
+ * value, for horizons shorter than the diffusion time of the elements there (docs/adaptivity.md
+ * §2.4).
+ *
+ * An initial state that jumps against the held value starts a layer of width about √(κt), which
+ * stays thinner than √(κT) over the whole run. Where that is much thinner than the elements, the
+ * hats of the first set and the candidates one h-halving finer cannot represent it, and the
+ * estimator sees only a small part of the error. Measured before this rule: u0 ≡ 1 on the unit
+ * square of 2 × 2 cells held at 0, E at the first step was 1/10 of the true error for κT = 10⁻⁶ and
+ * 1/30 for κT = 10⁻⁸, and 1/17 on (0, 1) in two cells for κT = 10⁻⁶. A run asked for 1 % of the
+ * solution stopped at once with an error of 6 %. So the elements with a vertex on such an edge are
+ * bisected, from the initial mesh down, while their diameter exceeds RESOLUTION · √(κT) (in 2D not
+ * below diam(Ω)/512, which bounds the first set to a few thousand vertices per unit of held
+ * boundary). Initial states that match the held values, and horizons of a diffusion time or more,
+ * add nothing.
+ */
+import { EdgeKind } from './boundary';
+import { bisectWhere, sampleSpacing } from './data-resolution';
+import { elementDiameter } from './diffusion-time';
+import { pointSegmentDistance } from './geometry';
+import type { VertexClosure } from './vertex-closure';
+
+/** Largest diameter of an element next to the layer, in units of the layer width √(κT). */
+const RESOLUTION = 4;
+/** Relative mismatch of the initial state and the held value (against the larger of their sizes) that counts as a jump. */
+const MISMATCH = 1e-3;
+/** Sample points inside each held edge (edge coordinate), away from its end points. */
+const EDGE_SAMPLES = [0.25, 0.5, 0.75];
+
+/**
+ * The closed vertex set that resolves the layers at held edges where `initial` differs from the held
+ * value at t = 0 (see the file comment), and the shortest diffusion time h²/κ of the elements it
+ * creates. @internal
+ */
+export function layerResolvedSet(closure: VertexClosure, initial: ((x: number, y: number) => number) | null | undefined, T: number): { set: Int32Array; tau: number } {
+  const f = closure.forest;
+  const created: number[] = [];
+  const edges = incompatibleHeldEdges(closure, initial ?? (() => 0));
+  if (edges.length === 0) return { set: closure.close(created), tau: Infinity };
+  const d = f.dim;
+  const span = sampleSpacing(f) * 128; // diam(Ω)
+  const floor = d === 2 ? span / 512 : 0;
+  const eps = 1e-12 * span;
+  // per forest vertex: 1 if on an incompatible held edge, 0 if not, undefined until asked
+  const onEdge: (0 | 1 | undefined)[] = [];
+  const touches = (v: number): boolean => {
+    let flag = onEdge[v];
+    if (flag === undefined) {
+      flag = 0;
+      if (!f.vFree[v]) {
+        const xy = f.vCoord; // read afresh: the forest replaces its arrays when bisection grows it
+        const px = xy[d * v]!, py = d === 2 ? xy[d * v + 1]! : 0;
+        for (let k = 0; k < edges.length && flag === 0; k += 4) {
+          if (pointSegmentDistance(px, py, edges[k]!, edges[k + 1]!, edges[k + 2]!, edges[k + 3]!) <= eps) flag = 1;
+        }
+      }
+      onEdge[v] = flag;
+    }
+    return flag === 1;
+  };
+  const nv = f.nv;
+  const tau = bisectWhere(closure, created, (e) => {
+    const h = elementDiameter(f, e);
+    if (!(h > floor) || !(h > RESOLUTION * Math.sqrt(f.kappa[f.eMat[e]!]! * T))) return false;
+    for (let k = 0; k < nv; k++) if (touches(f.eVert[nv * e + k]!)) return true;
+    return false;
+  });
+  return { set: closure.close(created), tau };
+}
+
+/**
+ * End points (x0, y0, x1, y1; y = 0 in 1D) of the initial boundary edges held at a value (zero or
+ * given) where the initial state differs from that value at t = 0 by more than MISMATCH of the
+ * larger of the two sizes: sampled inside each edge in 2D, at the end point in 1D.
+ */
+function incompatibleHeldEdges(closure: VertexClosure, initial: (x: number, y: number) => number): number[] {
+  const f = closure.forest;
+  const b = f.boundary;
+  const d = f.dim;
+  const xy = f.vCoord;
+  const held = (v: number): number => {
+    const p = b.vertexValuePart[v]!;
+    const data = p >= 0 ? b.parts[p]!.data : null;
+    return data === null ? 0 : data(0, xy[d * v]!, d === 2 ? xy[d * v + 1]! : 0);
+  };
+  const samples: { edge: number; gap: number }[] = [];
+  // The size of the initial state over the domain (initial vertices and element centroids), so
+  // that rounding on an edge where it vanishes (sin πx at x = 1) does not count as a jump.
+  let scale = 0;
+  const nv = f.nv;
+  for (let v = 0; v < f.initialVertexCount; v++) scale = Math.max(scale, finiteSize(initial(xy[d * v]!, d === 2 ? xy[d * v + 1]! : 0)));
+  for (let e = 0; e < f.initialElementCount; e++) {
+    let x = 0, y = 0;
+    for (let k = 0; k < nv; k++) {
+      const v = f.eVert[nv * e + k]!;
+      x += xy[d * v]! / nv;
+      if (d === 2) y += xy[d * v + 1]! / nv;
+    }
+    scale = Math.max(scale, finiteSize(initial(x, y)));
+  }
+  for (let e = 0; e < b.edgeCount; e++) {
+    const k = b.edgeKind[e]!;
+    if (k !== EdgeKind.ZeroValue && k !== EdgeKind.Value) continue;
+    const i = b.edgeVertices[2 * e]!, j = b.edgeVertices[2 * e + 1]!;
+    const gi = held(i), gj = held(j);
+    let gap = 0;
+    for (const s of d === 1 ? [0] : EDGE_SAMPLES) {
+      const x = (1 - s) * xy[d * i]! + s * xy[d * j]!;
+      const y = d === 2 ? (1 - s) * xy[d * i + 1]! + s * xy[d * j + 1]! : 0;
+      const u = initial(x, y);
+      const g = (1 - s) * gi + s * gj; // the held value as the solver takes it: linear along the edge
+      if (!Number.isFinite(u)) continue; // the initial state's own check names it
+      gap = Math.max(gap, Math.abs(u - g));
+      scale = Math.max(scale, Math.abs(u), Math.abs(g));
+    }
+    samples.push({ edge: e, gap });
+  }
+  const out: number[] = [];
+  if (!(scale > 0)) return out;
+  for (const { edge, gap } of samples) {
+    if (!(gap > MISMATCH * scale)) continue;
+    const i = b.edgeVertices[2 * edge]!, j = b.edgeVertices[2 * edge + 1]!;
+    out.push(xy[d * i]!, d === 2 ? xy[d * i + 1]! : 0, xy[d * j]!, d === 2 ? xy[d * j + 1]! : 0);
+  }
+  return out;
+}
+
+/** |u| for a finite u, 0 otherwise (the initial state's own check names values that are not finite). */
+function finiteSize(u: number): number {
+  return Number.isFinite(u) ? Math.abs(u) : 0;
+}
