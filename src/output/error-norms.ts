@@ -20,7 +20,6 @@ import { BreakpointSlices, lowerBound } from './error-slices';
 import { SliceIntegrator, TimeRule } from './error-quadrature';
 import { MAX_PANEL, TimePanels, intervalQuadratic } from './error-panels';
 import { CellEnergy } from './error-energy';
-import { energyWeights } from './energy-weights';
 import { liftingOf } from '../space/boundary-lifting';
 type SpaceTimeSolution = SolutionClass;
 
@@ -232,7 +231,6 @@ export function evaluateErrors(solution: SpaceTimeSolution, exact: KnownSolution
   // held boundary values are linear between all breakpoints: their panels are summed per interval
   const cellEnergy = mode === 'panels' && liftingOf(solution.domain.forest).isZero ? new CellEnergy(solution) : null;
   const quad = new Float64Array(3);
-  const weights = energyWeights(slices.mesh);
   let g2 = 0;
   let v2 = 0;
   let k2 = 0;
@@ -261,7 +259,7 @@ export function evaluateErrors(solution: SpaceTimeSolution, exact: KnownSolution
         }
         for (; k < k1; k++) {
           slices.nodalAt(k + 1, vb);
-          intervalQuadratic(slices.mesh, va, vb, (br[k + 1]! - br[k]!) * T, quad, weights);
+          intervalQuadratic(slices.mesh, va, vb, (br[k + 1]! - br[k]!) * T, quad, integ.weights);
           g2 += quad[0]!;
           v2 += quad[1]!;
           k2 += quad[2]!;

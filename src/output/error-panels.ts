@@ -43,7 +43,7 @@ import { gaussLegendre01 } from '../numerics/gauss-legendre';
 import type { SpaceTimeSolution } from '../spacetime/space-time-solution';
 import { trialSupports, type BreakpointSlices } from './error-slices';
 import type { SliceIntegrator } from './error-quadrature';
-import { energyWeights, weightedDot } from './energy-weights';
+import { weightedDot } from './energy-weights';
 
 /** Gauss nodes per time panel. */
 export const PANEL_POINTS = 12;
@@ -203,9 +203,9 @@ export class TimePanels {
  * out[0], out[1], out[2]) for u_h = (1 − θ)ua + θ ub (nodal vectors on `mesh`):
  * h/3·(q(ua, ua) + q(ua, ub) + q(ub, ub)) with the P1 stiffness and mass forms, mass
  * |K|/((d+1)(d+2))·(I + 11ᵀ) per element (common practice); the energy weighs each element's
- * gradient form by its K and its mass form by its c (./energy-weights).
+ * gradient form by its K and its mass form by its c (`weights`, from ./energy-weights).
  */
-export function intervalQuadratic(mesh: LeafMesh, ua: Float64Array, ub: Float64Array, h: number, out: Float64Array, weights: Float64Array = energyWeights(mesh)): void {
+export function intervalQuadratic(mesh: LeafMesh, ua: Float64Array, ub: Float64Array, h: number, out: Float64Array, weights: Float64Array): void {
   const { elements, coords, elementCount: ne, elementMaterial: mat } = mesh;
   let sg = 0;
   let sv = 0;

@@ -146,7 +146,8 @@ export class SliceIntegrator {
   private kxy = 0;
   private kyy = 0;
   private rc = 0;
-  private readonly weights: Float64Array;
+  /** Energy weights of the mesh's materials (./energy-weights), for callers that integrate u_δ alone. */
+  readonly weights: Float64Array;
 
   /**
    * @param elementSplits every element away from the boundary layer is split into this many pieces
@@ -239,9 +240,7 @@ export class SliceIntegrator {
     this.tLo = t;
     this.tHi = t;
     this.cross = false;
-    this.g2 = 0;
-    this.v2 = 0;
-    this.k2 = 0;
+    this.resetResults();
     if (this.mesh.dim === 1) this.integrate1D(va, vb, theta);
     else this.integrate2D(va, vb, theta);
   }
@@ -257,12 +256,7 @@ export class SliceIntegrator {
     this.tLo = tLo;
     this.tHi = tHi;
     this.cross = true;
-    this.g2 = 0;
-    this.v2 = 0;
-    this.k2 = 0;
-    this.a2 = 0;
-    this.b2 = 0;
-    this.ka2 = 0;
+    this.resetResults();
     if (this.mesh.dim === 1) this.integrate1D(v, v, 0);
     else this.integrate2D(v, v, 0);
     this.cross = false;
@@ -348,6 +342,11 @@ export class SliceIntegrator {
     this.ek += w * (kxx * d0 * d0 + 2 * kxy * d0 * d1 + kyy * d1 * d1 + rc * dv * dv);
   }
 
+  /** All results to 0 (the element loops add every element's sums to them). */
+  private resetResults(): void {
+    this.g2 = this.v2 = this.k2 = this.a2 = this.b2 = this.ka2 = 0;
+  }
+
   /** Energy weights of element e's material into kxx … rc, and the element's sums reset. */
   private startElement(e: number): void {
     const o = 4 * this.mesh.elementMaterial[e]!;
@@ -356,12 +355,7 @@ export class SliceIntegrator {
     this.kxy = w[o + 1]!;
     this.kyy = w[o + 2]!;
     this.rc = w[o + 3]!;
-    this.eg = 0;
-    this.ev = 0;
-    this.ek = 0;
-    this.ea = 0;
-    this.eb = 0;
-    this.eka = 0;
+    this.eg = this.ev = this.ek = this.ea = this.eb = this.eka = 0;
   }
 
   /** Adds the current element's sums to the results. */

@@ -260,11 +260,12 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
     }
     ({ solution, set } = last!);
   }
+  // The last step's values are the final solution's; a resumed run without a new step has none.
   const before = probesBefore as number[] | null; // assigned in the step callbacks
+  const values = (probesLast as number[] | null) ?? readProbes(solution);
   const probes = spec.probes.map((p, i) => {
     const pt = p.slice(1);
-    const value = solution.evaluate(p[0]! - spec.start, pt)[0]!; // probes are in absolute time
-    return { t: p[0]!, x: pt[0]!, y: pt.length > 1 ? pt[1]! : null, value, previous: before === null ? null : before[i]! };
+    return { t: p[0]!, x: pt[0]!, y: pt.length > 1 ? pt[1]! : null, value: values[i]!, previous: before === null ? null : before[i]! };
   });
   let sensors: RunResult['sensors'] = null;
   if (spec.sensors !== null) {

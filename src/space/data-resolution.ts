@@ -75,15 +75,20 @@ export function dataResolvedSet(closure: VertexClosure, data: readonly SampledDa
   return { set: closure.close(created), tau };
 }
 
-/** The longest sub-element edge of the fine rules: SAMPLE_FRACTION of the domain's diameter (from the initial vertices' bounding box). @internal */
+/** The longest sub-element edge of the fine rules: SAMPLE_FRACTION of the domain's diameter. @internal */
 export function sampleSpacing(f: VertexClosure['forest']): number {
+  return domainDiameter(f) * SAMPLE_FRACTION;
+}
+
+/** The diameter of the domain's bounding box (from the initial vertices). @internal */
+export function domainDiameter(f: VertexClosure['forest']): number {
   const d = f.dim;
   let lo0 = Infinity, hi0 = -Infinity, lo1 = Infinity, hi1 = -Infinity;
   for (let v = 0; v < f.initialVertexCount; v++) {
     const x = f.vCoord[v * d]!, y = d === 2 ? f.vCoord[v * d + 1]! : 0;
     lo0 = Math.min(lo0, x); hi0 = Math.max(hi0, x); lo1 = Math.min(lo1, y); hi1 = Math.max(hi1, y);
   }
-  return Math.hypot(hi0 - lo0, hi1 - lo1) * SAMPLE_FRACTION;
+  return Math.hypot(hi0 - lo0, hi1 - lo1);
 }
 
 /**

@@ -16,7 +16,7 @@
  * add nothing.
  */
 import { EdgeKind } from './boundary';
-import { bisectWhere, sampleSpacing } from './data-resolution';
+import { bisectWhere, domainDiameter } from './data-resolution';
 import { elementDiameter } from './diffusion-time';
 import { pointSegmentDistance } from './geometry';
 import type { VertexClosure } from './vertex-closure';
@@ -39,7 +39,7 @@ export function layerResolvedSet(closure: VertexClosure, initial: ((x: number, y
   const edges = incompatibleHeldEdges(closure, initial ?? (() => 0));
   if (edges.length === 0) return { set: closure.close(created), tau: Infinity };
   const d = f.dim;
-  const span = sampleSpacing(f) * 128; // diam(Ω)
+  const span = domainDiameter(f);
   const floor = d === 2 ? span / 512 : 0;
   const eps = 1e-12 * span;
   // per forest vertex: 1 if on an incompatible held edge, 0 if not, undefined until asked
