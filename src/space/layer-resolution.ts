@@ -1,9 +1,9 @@
 /**
- * The first adaptive set next to held boundary parts where the initial state differs from the held
- * value, for horizons shorter than the diffusion time of the elements there (docs/adaptivity.md
+ * The first adaptive set next to boundary parts where the initial state differs from the boundary
+ * data, for horizons shorter than the diffusion time of the elements there (docs/adaptivity.md
  * §2.4).
  *
- * An initial state that jumps against the held value starts a layer of width about √(κt), which
+ * An initial state that jumps against a held value starts a layer of width about √(κt), which
  * stays thinner than √(κT) over the whole run. Where that is much thinner than the elements, the
  * hats of the first set and the candidates one h-halving finer cannot represent it, and the
  * estimator sees only a small part of the error. Measured before this rule: u0 ≡ 1 on the unit
@@ -14,6 +14,12 @@
  * below diam(Ω)/512, which bounds the first set to a few thousand vertices per unit of held
  * boundary). Initial states that match the held values, and horizons of a diffusion time or more,
  * add nothing.
+ *
+ * Convection edges whose ambient differs from the initial state start the same layer, with the
+ * surface value leaving u0 by about min(1, H√(κt))·|u0 − u_∞|, H = h/κ (the semi-infinite solid with
+ * surface heat transfer, Carslaw & Jaeger §2.7). Unresolved, E fell step after step while the error
+ * stayed, to a fifth of it on (0, 1) with h = 1000, κT = 10⁻⁶ (docs/adaptivity.md §2.4), so they are
+ * refined alike where that surface change exceeds MISMATCH.
  */
 import { EdgeKind } from './boundary';
 import { bisectWhere, domainDiameter } from './data-resolution';
@@ -36,7 +42,7 @@ const EDGE_SAMPLES = [0.25, 0.5, 0.75];
 export function layerResolvedSet(closure: VertexClosure, initial: ((x: number, y: number) => number) | null | undefined, T: number): { set: Int32Array; tau: number } {
   const f = closure.forest;
   const created: number[] = [];
-  const edges = incompatibleHeldEdges(closure, initial ?? (() => 0));
+  const edges = layerEdges(closure, initial ?? (() => 0), T);
   if (edges.length === 0) return { set: closure.close(created), tau: Infinity };
   const d = f.dim;
   const span = domainDiameter(f);
@@ -48,12 +54,11 @@ export function layerResolvedSet(closure: VertexClosure, initial: ((x: number, y
     let flag = onEdge[v];
     if (flag === undefined) {
       flag = 0;
-      if (!f.vFree[v]) {
-        const xy = f.vCoord; // read afresh: the forest replaces its arrays when bisection grows it
-        const px = xy[d * v]!, py = d === 2 ? xy[d * v + 1]! : 0;
-        for (let k = 0; k < edges.length && flag === 0; k += 4) {
-          if (pointSegmentDistance(px, py, edges[k]!, edges[k + 1]!, edges[k + 2]!, edges[k + 3]!) <= eps) flag = 1;
-        }
+      // every vertex is tested: those on convection edges are free, so freedom tells nothing here
+      const xy = f.vCoord; // read afresh: the forest replaces its arrays when bisection grows it
+      const px = xy[d * v]!, py = d === 2 ? xy[d * v + 1]! : 0;
+      for (let k = 0; k < edges.length && flag === 0; k += 4) {
+        if (pointSegmentDistance(px, py, edges[k]!, edges[k + 1]!, edges[k + 2]!, edges[k + 3]!) <= eps) flag = 1;
       }
       onEdge[v] = flag;
     }
@@ -70,11 +75,13 @@ export function layerResolvedSet(closure: VertexClosure, initial: ((x: number, y
 }
 
 /**
- * End points (x0, y0, x1, y1; y = 0 in 1D) of the initial boundary edges held at a value (zero or
- * given) where the initial state differs from that value at t = 0 by more than MISMATCH of the
- * larger of the two sizes: sampled inside each edge in 2D, at the end point in 1D.
+ * End points (x0, y0, x1, y1; y = 0 in 1D) of the initial boundary edges where a layer starts: held
+ * at a value (zero or given) where the initial state differs from that value at t = 0 by more than
+ * MISMATCH of the larger of the two sizes, or convective with an ambient that differs so much after
+ * scaling by the surface change min(1, H√(κT)) (file comment; the smallest κ of the domain, so that
+ * no layer is missed). Sampled inside each edge in 2D, at the end point in 1D.
  */
-function incompatibleHeldEdges(closure: VertexClosure, initial: (x: number, y: number) => number): number[] {
+function layerEdges(closure: VertexClosure, initial: (x: number, y: number) => number, T: number): number[] {
   const f = closure.forest;
   const b = f.boundary;
   const d = f.dim;
@@ -84,6 +91,9 @@ function incompatibleHeldEdges(closure: VertexClosure, initial: (x: number, y: n
     const data = p >= 0 ? b.parts[p]!.data : null;
     return data === null ? 0 : data(0, xy[d * v]!, d === 2 ? xy[d * v + 1]! : 0);
   };
+  let kappaMin = Infinity;
+  for (let e = 0; e < f.initialElementCount; e++) kappaMin = Math.min(kappaMin, f.kappa[f.eMat[e]!]!);
+  const sqrtTOverKappa = Math.sqrt(T / kappaMin); // H√(κT) = h·√(T/κ)
   const samples: { edge: number; gap: number }[] = [];
   // The size of the initial state over the domain (initial vertices and element centroids), so
   // that rounding on an edge where it vanishes (sin πx at x = 1) does not count as a jump.
@@ -101,19 +111,24 @@ function incompatibleHeldEdges(closure: VertexClosure, initial: (x: number, y: n
   }
   for (let e = 0; e < b.edgeCount; e++) {
     const k = b.edgeKind[e]!;
-    if (k !== EdgeKind.ZeroValue && k !== EdgeKind.Value) continue;
+    const convective = k === EdgeKind.Convection && b.transfer[e]! > 0;
+    if (k !== EdgeKind.ZeroValue && k !== EdgeKind.Value && !convective) continue;
     const i = b.edgeVertices[2 * e]!, j = b.edgeVertices[2 * e + 1]!;
-    const gi = held(i), gj = held(j);
+    const gi = convective ? 0 : held(i), gj = convective ? 0 : held(j);
+    const p = b.edgePart[e]!;
+    const ambient = convective && p >= 0 ? b.parts[p]!.data : null;
     let gap = 0;
     for (const s of d === 1 ? [0] : EDGE_SAMPLES) {
       const x = (1 - s) * xy[d * i]! + s * xy[d * j]!;
       const y = d === 2 ? (1 - s) * xy[d * i + 1]! + s * xy[d * j + 1]! : 0;
       const u = initial(x, y);
-      const g = (1 - s) * gi + s * gj; // the held value as the solver takes it: linear along the edge
-      if (!Number.isFinite(u)) continue; // the initial state's own check names it
+      // the held value as the solver takes it (linear along the edge); the ambient where it is sampled
+      const g = convective ? (ambient === null ? 0 : ambient(0, x, y)) : (1 - s) * gi + s * gj;
+      if (!Number.isFinite(u) || !Number.isFinite(g)) continue; // the data's own checks name them
       gap = Math.max(gap, Math.abs(u - g));
       scale = Math.max(scale, Math.abs(u), Math.abs(g));
     }
+    if (convective) gap *= Math.min(1, b.transfer[e]! * sqrtTOverKappa);
     samples.push({ edge: e, gap });
   }
   const out: number[] = [];

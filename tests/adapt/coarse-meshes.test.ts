@@ -19,6 +19,7 @@ import {
   type KnownSolution, type SpatialDomain,
 } from '../../src/index';
 import { heatExact1D, unitInterval, unitSquare } from '../helpers/heat-exact';
+import { cooledSlab } from '../helpers/robin-exact';
 
 interface Case {
   name: string;
@@ -172,6 +173,43 @@ describe('estimator reliability over short horizons (a fraction of the diffusion
     }
   }, 120_000);
 
+  // Convection at the surfaces starts the same layer (surface value 1 → about e^{h²t}erfc(h√t)).
+  // Before the first set was refined toward convection edges too, E on (0, 1) in two cells with
+  // h = 1000, κT = 1e-6 fell for 14 steps while the error stayed at the whole layer: err/E went from
+  // 0.07 to 4.9. Reference: the cooled slab of tests/helpers/robin-exact.ts (Carslaw & Jaeger §2.7).
+  // The error is in the Y-energy (∫∫|∂x e|² + h ∫ (e(t,0)² + e(t,1)²) dt)^½, integrated here by hand
+  // on panels graded toward both surfaces and toward t = 0, from point values of the solution only:
+  // the library's error module would need the layer resolved to integrate it.
+  it('convection at the surfaces, (0, 1), two cells, h = 1000, κT = 1e-6: err/E within [0.5, 2] from the first step on', () => {
+    const h = 1000, T = 1e-6;
+    const domain = intervalDomain(0, 1, 2, { boundary: [{ kind: 'convection', where: () => true, transferCoefficient: h, ambient: 0 }] });
+    const xs = gradedGauss(0, 1, 30, 4), ts = gradedGauss(0, 2 * T, 30, 4, T);
+    // one-sided differences toward the middle: exact for the piecewise-linear solution inside an element
+    const dx = 1e-9, pts = new Float64Array(2 * xs.p.length);
+    xs.p.forEach((x, i) => { pts[2 * i] = x; pts[2 * i + 1] = x < 0.5 ? x + dx : x - dx; });
+    const ratios: number[] = [];
+    solveAdaptive(new HeatProblem({ domain, T, initial: () => 1 }), {
+      maxSteps: 8,
+      onStep: (s, sol) => {
+        let sum = 0;
+        ts.p.forEach((t, k) => {
+          const v = sol.evaluate(t, pts), vb = sol.evaluate(t, [0, 1]);
+          let g = 0;
+          xs.p.forEach((x, i) => { g += xs.w[i]! * ((v[2 * i + 1]! - v[2 * i]!) / (pts[2 * i + 1]! - x) - cooledSlab(h, t, x)[1]) ** 2; });
+          const e0 = vb[0]! - cooledSlab(h, t, 0)[0], e1 = vb[1]! - cooledSlab(h, t, 1)[0];
+          sum += ts.w[k]! * (g + h * (e0 * e0 + e1 * e1));
+        });
+        ratios.push(Math.sqrt(sum) / s.estimate);
+      },
+    });
+    if (process.env.CHRONOMESH_VERBOSE) console.log('cooled slab', ratios.map((r) => r.toFixed(2)).join(' '));
+    expect(ratios.length).toBe(8);
+    for (const r of ratios) {
+      expect(r).toBeGreaterThan(0.5);
+      expect(r).toBeLessThan(2);
+    }
+  }, 120_000);
+
   it('an initial state that matches the held values adds nothing to the first set', () => {
     const d = rectangleDomain(0, 1, 0, 1, 2, 2);
     const smooth = solveAdaptive(new HeatProblem({ domain: d, T: 1e-6, initial: (x, y) => Math.sin(Math.PI * x) * Math.sin(Math.PI * y) }), { maxSteps: 1 });
@@ -179,4 +217,46 @@ describe('estimator reliability over short horizons (a fraction of the diffusion
     expect(smooth.history[0]!.unknowns).toBeLessThan(50);
     expect(jump.history[0]!.unknowns).toBeGreaterThan(1000);
   });
+
+  it('convection refines the first set only where the surface value moves: h√(κT) = 5e-4 adds nothing, 1 does', () => {
+    const cooled = (h: number) => solveAdaptive(new HeatProblem({
+      domain: rectangleDomain(0, 1, 0, 1, 2, 2, { boundary: [{ kind: 'convection', where: () => true, transferCoefficient: h, ambient: 0 }] }),
+      T: 1e-6,
+      initial: () => 1,
+    }), { maxSteps: 1 }).history[0]!.unknowns;
+    const matched = solveAdaptive(new HeatProblem({
+      domain: rectangleDomain(0, 1, 0, 1, 2, 2, { boundary: [{ kind: 'convection', where: () => true, transferCoefficient: 1000, ambient: 1 }] }),
+      T: 1e-6,
+      initial: () => 1,
+    }), { maxSteps: 1 }).history[0]!.unknowns;
+    // every boundary vertex carries an unknown here, so the sparse grid of level 1 alone has 59
+    expect(matched).toBeLessThan(100);
+    expect(cooled(0.5)).toBe(matched);
+    expect(cooled(1000)).toBeGreaterThan(1000);
+  }, 60_000);
 });
+
+/**
+ * Three-point Gauss rules on panels graded geometrically toward both ends of (a, b) (2^-depth of the
+ * length innermost), each panel split in `sub`; points at or beyond `cut` are dropped (a graded rule
+ * toward t = 0 only). The panel ends are dyadic, so they meet the kinks of dyadic meshes.
+ */
+function gradedGauss(a: number, b: number, depth: number, sub: number, cut = Infinity): { p: number[]; w: number[] } {
+  const G = [-Math.sqrt(3 / 5), 0, Math.sqrt(3 / 5)], W = [5 / 9, 8 / 9, 5 / 9];
+  const L = b - a, ends = [a];
+  for (let k = depth; k >= 1; k--) ends.push(a + L * 2 ** -(k + 1));
+  ends.push(a + L / 2);
+  for (let k = 1; k <= depth; k++) ends.push(b - L * 2 ** -(k + 1));
+  ends.push(b);
+  const p: number[] = [], w: number[] = [];
+  for (let i = 0; i + 1 < ends.length; i++) {
+    for (let s = 0; s < sub; s++) {
+      const lo = ends[i]! + ((ends[i + 1]! - ends[i]!) * s) / sub, hi = ends[i]! + ((ends[i + 1]! - ends[i]!) * (s + 1)) / sub;
+      for (let q = 0; q < 3; q++) {
+        const x = 0.5 * (lo + hi) + 0.5 * (hi - lo) * G[q]!;
+        if (x < cut) { p.push(x); w.push(0.5 * (hi - lo) * W[q]!); }
+      }
+    }
+  }
+  return { p, w };
+}

@@ -1,0 +1,40 @@
+/**
+ * The cooled-slab reference of ./robin-exact.ts checked against what defines it (the heat equation,
+ * the surface condition, the initial state) and against the held-surface limit, so that the formula
+ * quoted from memory (Carslaw & Jaeger §2.7) cannot carry a slip into the tests that use it.
+ */
+import { describe, expect, it } from 'vitest';
+import { erfc } from './erfc';
+import { cooledHalfSpace, cooledSlab, erfcx } from './robin-exact';
+
+describe('semi-infinite solid cooled at its surface (Carslaw & Jaeger §2.7)', () => {
+  it('erfcx matches e^{x²} erfc(x) where both are representable', () => {
+    for (const x of [0, 0.3, 1.9, 2, 2.1, 5, 12]) expect(erfcx(x)).toBeCloseTo(Math.exp(x * x) * erfc(x), 12);
+    // large x: erfcx(x) ~ 1/(x√π) (1 − 1/(2x²)) (A&S 7.1.23)
+    expect(erfcx(1e4) * 1e4 * Math.sqrt(Math.PI)).toBeCloseTo(1 - 0.5e-8, 12);
+  });
+
+  it.each([1, 30, 1000])('h = %d: satisfies ∂t w = ∂²w/∂x², ∂w/∂x = h w at x = 0 and w → 1 as t → 0', (h) => {
+    const t = 1e-4, dt = 1e-9, dx = 1e-5;
+    for (const x of [0.3e-2, 1e-2, 3e-2]) {
+      const wt = (cooledHalfSpace(h, t + dt, x)[0] - cooledHalfSpace(h, t - dt, x)[0]) / (2 * dt);
+      const wxx = (cooledHalfSpace(h, t, x + dx)[0] - 2 * cooledHalfSpace(h, t, x)[0] + cooledHalfSpace(h, t, x - dx)[0]) / (dx * dx);
+      expect(Math.abs(wt - wxx)).toBeLessThan(1e-4 * Math.max(1, Math.abs(wt)));
+      const dwx = (cooledHalfSpace(h, t, x + dx)[0] - cooledHalfSpace(h, t, x - dx)[0]) / (2 * dx);
+      expect(cooledHalfSpace(h, t, x)[1]).toBeCloseTo(dwx, 5);
+    }
+    const [w0, g0] = cooledHalfSpace(h, t, 0);
+    expect(g0).toBeCloseTo(h * w0, 10);
+    expect(cooledHalfSpace(h, 1e-14, 0.01)[0]).toBeCloseTo(1, 12);
+  });
+
+  it('tends to the held surface, w = erf(x/(2√t)), as h → ∞', () => {
+    for (const x of [1e-3, 1e-2, 2e-2]) expect(cooledHalfSpace(1e9, 1e-4, x)[0]).toBeCloseTo(1 - erfc(x / 2e-2), 6);
+  });
+
+  it('the slab superposes both surfaces and is symmetric', () => {
+    expect(cooledSlab(50, 1e-5, 0.2)[0]).toBeCloseTo(cooledSlab(50, 1e-5, 0.8)[0], 14);
+    expect(cooledSlab(50, 1e-5, 0.2)[1]).toBeCloseTo(-cooledSlab(50, 1e-5, 0.8)[1], 12);
+    expect(cooledSlab(50, 1e-5, 0.5)[0]).toBeCloseTo(1, 14);
+  });
+});
