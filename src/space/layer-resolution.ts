@@ -15,11 +15,15 @@
  * boundary). Initial states that match the held values, and horizons of a diffusion time or more,
  * add nothing.
  *
- * Convection edges whose ambient differs from the initial state start the same layer, with the
- * surface value leaving u0 by about min(1, H√(κt))·|u0 − u_∞|, H = h/κ (the semi-infinite solid with
- * surface heat transfer, Carslaw & Jaeger §2.7). Unresolved, E fell step after step while the error
- * stayed, to a fifth of it on (0, 1) with h = 1000, κT = 10⁻⁶ (docs/adaptivity.md §2.4), so they are
- * refined alike where that surface change exceeds MISMATCH.
+ * Convection and flux edges start the same kind of layer where their data depart from the initial
+ * state. The surface value moves by about min(1, H√(κt))·|u0 − u_∞| under an ambient u_∞, H = h/κ,
+ * and by about q√(t/κ) under an inward flux q (the semi-infinite solid with surface heat transfer
+ * and with a constant flux, Carslaw & Jaeger §2.7 and §2.9). Unresolved, E fell step after step while
+ * the error stayed: to a fifth of it on (0, 1) with h = 1000, κT = 10⁻⁶, to a third with q = 1
+ * (docs/adaptivity.md §2.4). So those edges are refined alike where that surface change exceeds
+ * MISMATCH. All data are compared at the times T·k/8, since data that leave the initial value later
+ * start a layer too; the compatibility of a flux with the initial state's normal derivative is not
+ * checked (a first set refined for nothing costs unknowns, never accuracy).
  */
 import { EdgeKind } from './boundary';
 import { bisectWhere, domainDiameter } from './data-resolution';
@@ -33,6 +37,8 @@ const RESOLUTION = 4;
 const MISMATCH = 1e-3;
 /** Sample points inside each held edge (edge coordinate), away from its end points. */
 const EDGE_SAMPLES = [0.25, 0.5, 0.75];
+/** Times T·k/8, k = 0 … 8, at which the boundary data are compared with the initial state. */
+const TIME_SAMPLES = 9;
 
 /**
  * The closed vertex set that resolves the layers at held edges where `initial` differs from the held
@@ -75,21 +81,21 @@ export function layerResolvedSet(closure: VertexClosure, initial: ((x: number, y
 }
 
 /**
- * End points (x0, y0, x1, y1; y = 0 in 1D) of the initial boundary edges where a layer starts: held
- * at a value (zero or given) where the initial state differs from that value at t = 0 by more than
- * MISMATCH of the larger of the two sizes, or convective with an ambient that differs so much after
- * scaling by the surface change min(1, H√(κT)) (file comment; the smallest κ of the domain, so that
- * no layer is missed). Sampled inside each edge in 2D, at the end point in 1D.
+ * End points (x0, y0, x1, y1; y = 0 in 1D) of the initial boundary edges where a layer starts: the
+ * surface change their data would cause (held: |g − u0|; ambient: |u∞ − u0|·min(1, H√(κT)); flux:
+ * |q|·√(T/κ)), at the times T·k/8, exceeds MISMATCH of the largest size of the initial state, the
+ * data and those changes (file comment; the smallest κ of the domain, so that no layer is missed).
+ * Sampled inside each edge in 2D, at the end point in 1D.
  */
 function layerEdges(closure: VertexClosure, initial: (x: number, y: number) => number, T: number): number[] {
   const f = closure.forest;
   const b = f.boundary;
   const d = f.dim;
   const xy = f.vCoord;
-  const held = (v: number): number => {
+  const held = (v: number, t: number): number => {
     const p = b.vertexValuePart[v]!;
     const data = p >= 0 ? b.parts[p]!.data : null;
-    return data === null ? 0 : data(0, xy[d * v]!, d === 2 ? xy[d * v + 1]! : 0);
+    return data === null ? 0 : data(t, xy[d * v]!, d === 2 ? xy[d * v + 1]! : 0);
   };
   let kappaMin = Infinity;
   for (let e = 0; e < f.initialElementCount; e++) kappaMin = Math.min(kappaMin, f.kappa[f.eMat[e]!]!);
@@ -109,26 +115,33 @@ function layerEdges(closure: VertexClosure, initial: (x: number, y: number) => n
     }
     scale = Math.max(scale, finiteSize(initial(x, y)));
   }
+  const times = Array.from({ length: TIME_SAMPLES }, (_, k) => (T * k) / (TIME_SAMPLES - 1));
   for (let e = 0; e < b.edgeCount; e++) {
     const k = b.edgeKind[e]!;
-    const convective = k === EdgeKind.Convection && b.transfer[e]! > 0;
-    if (k !== EdgeKind.ZeroValue && k !== EdgeKind.Value && !convective) continue;
-    const i = b.edgeVertices[2 * e]!, j = b.edgeVertices[2 * e + 1]!;
-    const gi = convective ? 0 : held(i), gj = convective ? 0 : held(j);
     const p = b.edgePart[e]!;
-    const ambient = convective && p >= 0 ? b.parts[p]!.data : null;
+    const data = p >= 0 ? b.parts[p]!.data : null;
+    const convective = k === EdgeKind.Convection && b.transfer[e]! > 0;
+    const flux = k === EdgeKind.Flux && data !== null;
+    if (k !== EdgeKind.ZeroValue && k !== EdgeKind.Value && !convective && !flux) continue;
+    const i = b.edgeVertices[2 * e]!, j = b.edgeVertices[2 * e + 1]!;
+    // the surface change per unit of data: 1 for held values, min(1, H√(κT)) for an ambient, √(T/κ) for a flux
+    const weight = convective ? Math.min(1, b.transfer[e]! * sqrtTOverKappa) : flux ? sqrtTOverKappa : 1;
     let gap = 0;
     for (const s of d === 1 ? [0] : EDGE_SAMPLES) {
       const x = (1 - s) * xy[d * i]! + s * xy[d * j]!;
       const y = d === 2 ? (1 - s) * xy[d * i + 1]! + s * xy[d * j + 1]! : 0;
       const u = initial(x, y);
-      // the held value as the solver takes it (linear along the edge); the ambient where it is sampled
-      const g = convective ? (ambient === null ? 0 : ambient(0, x, y)) : (1 - s) * gi + s * gj;
-      if (!Number.isFinite(u) || !Number.isFinite(g)) continue; // the data's own checks name them
-      gap = Math.max(gap, Math.abs(u - g));
-      scale = Math.max(scale, Math.abs(u), Math.abs(g));
+      if (!Number.isFinite(u)) continue; // the initial state's own check names it
+      scale = Math.max(scale, Math.abs(u));
+      for (const t of times) {
+        // held values as the solver takes them (linear along the edge); ambient and flux where sampled
+        const g = convective || flux ? (data === null ? 0 : data(t, x, y)) : (1 - s) * held(i, t) + s * held(j, t);
+        if (!Number.isFinite(g)) continue; // the data's own checks name them
+        const change = weight * (flux ? Math.abs(g) : Math.abs(u - g));
+        gap = Math.max(gap, change);
+        scale = Math.max(scale, flux ? change : Math.abs(g));
+      }
     }
-    if (convective) gap *= Math.min(1, b.transfer[e]! * sqrtTOverKappa);
     samples.push({ edge: e, gap });
   }
   const out: number[] = [];

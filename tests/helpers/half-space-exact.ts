@@ -1,10 +1,13 @@
 /**
- * Exact solution for a slab cooled at its surfaces over short horizons: u0 ≡ 1 on (0, 1), κ = 1,
- * convection κ ∂u/∂n = h (0 − u) at both ends (Newton cooling into surroundings at 0).
+ * Exact solutions next to a surface over short horizons (κ = 1), where the layer is far thinner than
+ * the body and the half-space solutions apply.
+ *
+ * Cooling: a slab cooled at its surfaces, u0 ≡ 1 on (0, 1), convection κ ∂u/∂n = h (0 − u) at both
+ * ends (Newton cooling into surroundings at 0).
  *
  * Source: H. S. Carslaw & J. C. Jaeger, Conduction of Heat in Solids, 2nd ed., 1959, §2.7 (the
  * semi-infinite solid x > 0 at constant initial temperature, with heat transfer at its surface into
- * a medium at zero); the formula is quoted from memory and checked in tests/helpers/robin-exact.test.ts
+ * a medium at zero); the formula is quoted from memory and checked in tests/helpers/half-space-exact.test.ts
  * against the equation, the surface condition and the held-surface limit h → ∞:
  *
  *   w(t, x) = erf(X) + e^{hx + h²t} erfc(X + h√t),   X = x/(2√t),
@@ -14,6 +17,11 @@
  * neither overflows nor loses digits. On the slab the two surfaces' solutions superpose,
  * u = w(t, x) + w(t, 1 − x) − 1, with an error below erfc(1/(2√t)) (the method of images, common
  * practice), far below rounding for t ≤ 10⁻³.
+ *
+ * Heating by a flux: a constant flux q into the half-space x > 0 at 0 (Carslaw & Jaeger §2.9; from
+ * memory, checked as above):
+ *
+ *   u(t, x) = 2q√t ierfc(X),   ∂u/∂x = −q erfc(X),   ierfc z = e^{−z²}/√π − z erfc z.
  */
 import { erfc } from './erfc';
 
@@ -37,4 +45,12 @@ export function cooledSlab(h: number, t: number, x: number): [number, number] {
   if (t <= 0) return [1, 0];
   const a = cooledHalfSpace(h, t, x), b = cooledHalfSpace(h, t, 1 - x);
   return [a[0] + b[0] - 1, a[1] - b[1]];
+}
+
+/** u and ∂u/∂x in the half-space x > 0 at 0, heated by the constant flux q at x = 0 (file comment), t ≥ 0. */
+export function heatedHalfSpace(q: number, t: number, x: number): [number, number] {
+  if (t <= 0) return [0, 0];
+  const st = Math.sqrt(t), X = x / (2 * st);
+  const ierfc = Math.exp(-X * X) / Math.sqrt(Math.PI) - X * erfc(X);
+  return [2 * q * st * ierfc, -q * erfc(X)];
 }

@@ -1,13 +1,13 @@
 /**
- * The cooled-slab reference of ./robin-exact.ts checked against what defines it (the heat equation,
+ * The half-space references of ./half-space-exact.ts checked against what defines it (the heat equation,
  * the surface condition, the initial state) and against the held-surface limit, so that the formula
- * quoted from memory (Carslaw & Jaeger §2.7) cannot carry a slip into the tests that use it.
+ * quoted from memory (Carslaw & Jaeger §2.7 and §2.9) cannot carry a slip into the tests that use it.
  */
 import { describe, expect, it } from 'vitest';
 import { erfc } from './erfc';
-import { cooledHalfSpace, cooledSlab, erfcx } from './robin-exact';
+import { cooledHalfSpace, cooledSlab, erfcx, heatedHalfSpace } from './half-space-exact';
 
-describe('semi-infinite solid cooled at its surface (Carslaw & Jaeger §2.7)', () => {
+describe('semi-infinite solid cooled at its surface (Carslaw & Jaeger §2.7 and §2.9)', () => {
   it('erfcx matches e^{x²} erfc(x) where both are representable', () => {
     for (const x of [0, 0.3, 1.9, 2, 2.1, 5, 12]) expect(erfcx(x)).toBeCloseTo(Math.exp(x * x) * erfc(x), 12);
     // large x: erfcx(x) ~ 1/(x√π) (1 − 1/(2x²)) (A&S 7.1.23)
@@ -36,5 +36,25 @@ describe('semi-infinite solid cooled at its surface (Carslaw & Jaeger §2.7)', (
     expect(cooledSlab(50, 1e-5, 0.2)[0]).toBeCloseTo(cooledSlab(50, 1e-5, 0.8)[0], 14);
     expect(cooledSlab(50, 1e-5, 0.2)[1]).toBeCloseTo(-cooledSlab(50, 1e-5, 0.8)[1], 12);
     expect(cooledSlab(50, 1e-5, 0.5)[0]).toBeCloseTo(1, 14);
+  });
+});
+
+describe('semi-infinite solid heated by a constant surface flux (Carslaw & Jaeger §2.9)', () => {
+  it('satisfies ∂t u = ∂²u/∂x², −∂u/∂x = q at x = 0, u → 0 as t → 0, and takes in q·t', () => {
+    const q = 3, t = 1e-4, dt = 1e-9, dx = 1e-5;
+    for (const x of [0.3e-2, 1e-2, 3e-2]) {
+      const ut = (heatedHalfSpace(q, t + dt, x)[0] - heatedHalfSpace(q, t - dt, x)[0]) / (2 * dt);
+      const uxx = (heatedHalfSpace(q, t, x + dx)[0] - 2 * heatedHalfSpace(q, t, x)[0] + heatedHalfSpace(q, t, x - dx)[0]) / (dx * dx);
+      expect(Math.abs(ut - uxx)).toBeLessThan(1e-4 * Math.max(1, Math.abs(ut)));
+      const dux = (heatedHalfSpace(q, t, x + dx)[0] - heatedHalfSpace(q, t, x - dx)[0]) / (2 * dx);
+      expect(heatedHalfSpace(q, t, x)[1]).toBeCloseTo(dux, 5);
+    }
+    expect(heatedHalfSpace(q, t, 0)[1]).toBeCloseTo(-q, 12);
+    expect(heatedHalfSpace(q, 1e-14, 0.01)[0]).toBeCloseTo(0, 12);
+    // heat balance: ∫₀^∞ u dx = q t (composite Simpson to x = 0.2, where u is below 1e-40)
+    const n = 4000, L = 0.2;
+    let s = 0;
+    for (let k = 0; k <= n; k++) s += (k === 0 || k === n ? 1 : k % 2 ? 4 : 2) * heatedHalfSpace(q, t, (k * L) / n)[0];
+    expect((s * L) / (3 * n)).toBeCloseTo(q * t, 10);
   });
 });
