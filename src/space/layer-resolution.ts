@@ -15,20 +15,22 @@
  * boundary). Initial states that match the held values, and horizons of a diffusion time or more,
  * add nothing.
  *
- * Convection and flux edges start the same kind of layer where their data depart from the initial
- * state. The surface value moves by about min(1, H√(κt))·|u0 − u_∞| under an ambient u_∞, H = h/κ,
- * and by about q√(t/κ) under an inward flux q (the semi-infinite solid with surface heat transfer
- * and with a constant flux, Carslaw & Jaeger §2.7 and §2.9). Unresolved, E fell step after step while
- * the error stayed: to a fifth of it on (0, 1) with h = 1000, κT = 10⁻⁶, to a third with q = 1
- * (docs/adaptivity.md §2.4). So those edges are refined alike where that surface change exceeds
- * MISMATCH. All data are compared at the times T·k/8, since data that leave the initial value later
- * start a layer too; the compatibility of a flux with the initial state's normal derivative is not
- * checked (a first set refined for nothing costs unknowns, never accuracy).
+ * Convection and flux edges start the same kind of layer where the flux their data ask for differs
+ * from the flux n·K∇u0 the initial state carries across them (./surface-flux-mismatch). A mismatch m
+ * moves the surface value by about |m|·√(t/κ), and under convection by at most |m|/h, where the
+ * heat transfer balances it: min(1, H√(κt))·|u0 − u_∞| for a uniform u0 and ambient u_∞, H = h/κ
+ * (the semi-infinite solid with surface heat transfer and with a constant flux, Carslaw & Jaeger
+ * §2.7 and §2.9). Unresolved, E fell step after step while the error stayed: to a fifth of it on
+ * (0, 1) with h = 1000, κT = 10⁻⁶, to a third with q = 1 (docs/adaptivity.md §2.4). So those edges
+ * are refined alike where that surface change exceeds MISMATCH; data in balance with u0 (a steady
+ * state, a manufactured solution) add nothing. All data are compared at the times T·k/8, since data
+ * that leave the initial value or balance later start a layer too.
  */
 import { EdgeKind } from './boundary';
 import { bisectWhere, domainDiameter } from './data-resolution';
 import { elementDiameter } from './diffusion-time';
 import { pointSegmentDistance } from './geometry';
+import { boundaryEdgeFrames, conormalFlux, normalDiffusivity } from './surface-flux-mismatch';
 import type { VertexClosure } from './vertex-closure';
 
 /** Largest diameter of an element next to the layer, in units of the layer width √(κT). */
@@ -82,10 +84,11 @@ export function layerResolvedSet(closure: VertexClosure, initial: ((x: number, y
 
 /**
  * End points (x0, y0, x1, y1; y = 0 in 1D) of the initial boundary edges where a layer starts: the
- * surface change their data would cause (held: |g − u0|; ambient: |u∞ − u0|·min(1, H√(κT)); flux:
- * |q|·√(T/κ)), at the times T·k/8, exceeds MISMATCH of the largest size of the initial state, the
- * data and those changes (file comment; the smallest κ of the domain, so that no layer is missed).
- * Sampled inside each edge in 2D, at the end point in 1D.
+ * surface change their data would cause at the times T·k/8 exceeds MISMATCH of the largest size of
+ * the initial state, the data and those changes. The change is |g − u0| at a held edge; at a flux
+ * or convection edge it is the mismatch m of the flux asked for (q, or h(u∞ − u0)) against the flux
+ * u0 carries (n·K∇u0), times √(T/κ) with κ = n·K·n of the owning element, and for convection at
+ * most |m|/h (file comment). Sampled inside each edge in 2D, at the end point in 1D.
  */
 function layerEdges(closure: VertexClosure, initial: (x: number, y: number) => number, T: number): number[] {
   const f = closure.forest;
@@ -97,9 +100,7 @@ function layerEdges(closure: VertexClosure, initial: (x: number, y: number) => n
     const data = p >= 0 ? b.parts[p]!.data : null;
     return data === null ? 0 : data(t, xy[d * v]!, d === 2 ? xy[d * v + 1]! : 0);
   };
-  let kappaMin = Infinity;
-  for (let e = 0; e < f.initialElementCount; e++) kappaMin = Math.min(kappaMin, f.kappa[f.eMat[e]!]!);
-  const sqrtTOverKappa = Math.sqrt(T / kappaMin); // H√(κT) = h·√(T/κ)
+  const frames = boundaryEdgeFrames(f);
   const samples: { edge: number; gap: number }[] = [];
   // The size of the initial state over the domain (initial vertices and element centroids), so
   // that rounding on an edge where it vanishes (sin πx at x = 1) does not count as a jump.
@@ -124,8 +125,10 @@ function layerEdges(closure: VertexClosure, initial: (x: number, y: number) => n
     const flux = k === EdgeKind.Flux && data !== null;
     if (k !== EdgeKind.ZeroValue && k !== EdgeKind.Value && !convective && !flux) continue;
     const i = b.edgeVertices[2 * e]!, j = b.edgeVertices[2 * e + 1]!;
-    // the surface change per unit of data: 1 for held values, min(1, H√(κT)) for an ambient, √(T/κ) for a flux
-    const weight = convective ? Math.min(1, b.transfer[e]! * sqrtTOverKappa) : flux ? sqrtTOverKappa : 1;
+    // a flux mismatch m moves the surface by about |m|·√(T/κ), an ambient at most until h(u∞ − u) balances it
+    const h = b.transfer[e]!;
+    const reach = Math.sqrt(T / normalDiffusivity(f, frames, e));
+    const perFlux = convective ? Math.min(reach, 1 / h) : reach;
     let gap = 0;
     for (const s of d === 1 ? [0] : EDGE_SAMPLES) {
       const x = (1 - s) * xy[d * i]! + s * xy[d * j]!;
@@ -133,11 +136,14 @@ function layerEdges(closure: VertexClosure, initial: (x: number, y: number) => n
       const u = initial(x, y);
       if (!Number.isFinite(u)) continue; // the initial state's own check names it
       scale = Math.max(scale, Math.abs(u));
+      // the flux u0 already carries across the edge (surface-flux-mismatch.ts)
+      const carried = convective || flux ? conormalFlux(f, frames, e, initial, x, y) : 0;
+      if (!Number.isFinite(carried)) continue;
       for (const t of times) {
         // held values as the solver takes them (linear along the edge); ambient and flux where sampled
         const g = convective || flux ? (data === null ? 0 : data(t, x, y)) : (1 - s) * held(i, t) + s * held(j, t);
         if (!Number.isFinite(g)) continue; // the data's own checks name them
-        const change = weight * (flux ? Math.abs(g) : Math.abs(u - g));
+        const change = flux ? Math.abs(g - carried) * perFlux : convective ? Math.abs(h * (g - u) - carried) * perFlux : Math.abs(u - g);
         gap = Math.max(gap, change);
         scale = Math.max(scale, flux ? change : Math.abs(g));
       }

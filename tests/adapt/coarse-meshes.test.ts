@@ -223,6 +223,30 @@ describe('estimator reliability over short horizons (a fraction of the diffusion
     expect(cooled(0.5)).toBe(matched);
     expect(cooled(1000)).toBeGreaterThan(1000);
   }, 60_000);
+
+  it('flux and convection in balance with u0 add nothing; either out of balance refines', () => {
+    // u = (1 + t) sin(πx/4)(2 − y) on (0, 2) × (0, 1) with κ = 0.5 (the manufactured plate of
+    // examples/verification-plate.json): its flux at y = 0 and its ambient at y = 1 (h = 2) are
+    // what u0 carries across those edges, so no layer starts; set either datum to 0 and one does.
+    const S = (x: number) => Math.sin((Math.PI * x) / 4);
+    const firstSet = (T: number, flux: boolean, ambient: boolean) => solveAdaptive(new HeatProblem({
+      domain: rectangleDomain(0, 2, 0, 1, 4, 2, {
+        kappa: 0.5,
+        insulated: (mx) => mx > 1.999,
+        boundary: [
+          { kind: 'flux', where: (_mx, my) => my < 0.001, flux: (t, x) => (flux ? 0.5 * (1 + t) * S(x) : 0) },
+          { kind: 'convection', where: (_mx, my) => my > 0.999, transferCoefficient: 2, ambient: (t, x) => (ambient ? 0.75 * (1 + t) * S(x) : 0) },
+        ],
+      }),
+      T,
+      initial: (x, y) => S(x) * (2 - y),
+      source: (t, x, y) => S(x) * (2 - y) * (1 + ((1 + t) * Math.PI ** 2) / 32),
+    }), { maxSteps: 1 }).history[0]!.unknowns;
+    const long = firstSet(1, true, true);
+    expect(firstSet(1e-4, true, true)).toBe(long);
+    expect(firstSet(1e-4, false, true)).toBeGreaterThan(long + 500);
+    expect(firstSet(1e-4, true, false)).toBeGreaterThan(long + 500);
+  }, 60_000);
 });
 
 /**
