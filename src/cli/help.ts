@@ -154,8 +154,9 @@ problem file fields (JSON object):
               condition at sample points (exact derivatives; a mismatch is an
               input error naming the condition and the point); then every
               step reports its true error in the energy norm
-              (∫∫ κ|∇e|² + c e²)^1/2, the norm E measures ("trueError"; the
-              L2(0,T;H1) norm when κ = 1 and c = 0), and the run the band of
+              (∫∫ κ|∇e|² + c e² + ∫∫ h e² on convection parts)^1/2, the
+              norm E measures ("trueError"; the L2(0,T;H1) norm when κ = 1,
+              c = 0 and nothing convects), and the run the band of
               true error / E, the true error's observed rate and the last
               L2(0,T;H1) and L2(0,T;L2) errors. Held values are interpolated
               linearly along initial edges: pick a solution whose boundary

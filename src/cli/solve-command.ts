@@ -190,7 +190,7 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     const ex = run.exactErrors;
     if (ex) {
       const sameNorm = Math.abs(ex.energyL2 - ex.gradientL2) <= 1e-12 * ex.gradientL2; // κ = 1, c = 0
-      log(`true error against the file's exact solution: ${ex.energyL2.toExponential(3)} in the energy norm (∫∫ κ|∇e|² + c e²)^1/2, the norm of the estimator` +
+      log(`true error against the file's exact solution: ${ex.energyL2.toExponential(3)} in the energy norm (∫∫ κ|∇e|² + c e² + ∫∫ h e² on convection parts)^1/2, the norm of the estimator` +
         `${sameNorm ? ' (here the L2(0,T;H1) norm)' : `; ${ex.gradientL2.toExponential(3)} in L2(0,T;H1)`}, ${ex.valueL2.toExponential(3)} in L2(0,T;L2); ` +
         (run.stopReason === 'rounding'
           ? 'both at the rounding level, where their ratio means nothing; '

@@ -2,7 +2,7 @@
  * The weights of the energy a(e, e) = ∫_Ω K∇e·∇e + c e² dx of the spatial form (docs/method.md §1;
  * docs/error-norms.md §9), per initial element of a leaf mesh's domain: four numbers per material
  * m, (Kxx, Kxy, Kyy, c), with K = κ·I for isotropic diffusion (Kxx = κ in 1D). The convection term
- * on boundary parts that exchange heat is not part of it.
+ * h∫_Γ e² of boundary parts that exchange heat is integrated separately (./error-boundary).
  */
 import type { LeafMesh } from '../space/leaf-mesh';
 

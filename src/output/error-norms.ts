@@ -20,6 +20,7 @@ import { BreakpointSlices, lowerBound } from './error-slices';
 import { SliceIntegrator, TimeRule } from './error-quadrature';
 import { MAX_PANEL, TimePanels, intervalQuadratic } from './error-panels';
 import { CellEnergy } from './error-energy';
+import { convectionErrorSquared } from './error-boundary';
 import { liftingOf } from '../space/boundary-lifting';
 type SpaceTimeSolution = SolutionClass;
 
@@ -38,11 +39,11 @@ export interface SpaceTimeErrors {
   /** (∫_I ‖u − u_δ‖² dt)^{1/2} */
   valueL2: number;
   /**
-   * (∫_I a(u − u_δ, u − u_δ) dt)^{1/2} with the spatial form a(v, v) = ∫_Ω K∇v·∇v + c v² of the
-   * solution's domain (K = κ·I for isotropic diffusion; κ, K and c as the library takes them, one
-   * value per initial element). The error in the norm the estimator measures (without the convection
-   * term of boundary parts that exchange heat): compare E with this, not with gradientL2, when
-   * κ ≠ 1 or c ≠ 0 (equal to gradientL2 for κ = 1, c = 0).
+   * (∫_I a(u − u_δ, u − u_δ) dt)^{1/2} with the spatial form a(v, v) = ∫_Ω K∇v·∇v + c v² +
+   * ∫_{Γ_C} h v² of the solution's domain (K = κ·I for isotropic diffusion; κ, K and c as the
+   * library takes them, one value per initial element; h on the convection parts). The error in the
+   * norm the estimator measures: compare E with this, not with gradientL2, when κ ≠ 1, c ≠ 0 or
+   * some boundary part convects (equal to gradientL2 for κ = 1, c = 0 and no convection).
    */
   energyL2: number;
   /** Number of times at which the exact solution was sampled (on the whole mesh). */
@@ -290,6 +291,8 @@ export function evaluateErrors(solution: SpaceTimeSolution, exact: KnownSolution
   }
   // The panel sums subtract cross terms; a solution (almost) equal to the exact one can leave a
   // tiny negative rounding residue (about 1e-16 of ‖∇u‖²).
+  // the convection term h∫_Γ e² of the form, on boundary parts that exchange heat (./error-boundary)
+  k2 += convectionErrorSquared(slices, exactIn, T, rule, graded, isSingular);
   return { gradientL2: Math.sqrt(Math.max(g2, 0)), valueL2: Math.sqrt(Math.max(v2, 0)), energyL2: Math.sqrt(Math.max(k2, 0)), slices: count, exactEvaluations: integ.evaluations };
 }
 

@@ -34,7 +34,8 @@ export interface RunStep {
   seconds: number;
   /**
    * With a known solution in the file (`exact`): the step's true error in the energy norm
-   * (∫∫ κ|∇e|² + c e²)^{1/2}, the norm E measures (= L2(0, T; H¹₀) for κ = 1, c = 0; see
+   * (∫∫ κ|∇e|² + c e² + ∫∫_Γ h e²)^{1/2}, the norm E measures (= L2(0, T; H¹₀) for κ = 1, c = 0
+   * and no convection; see
    * {@link ExactErrors.energyL2}); null for steps restored from a checkpoint, whose solutions are
    * gone. Absent otherwise.
    */

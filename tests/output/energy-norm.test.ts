@@ -8,6 +8,10 @@
  * - a closed form with a tensor and a reaction term: for w = t sin πx sin πy on the unit square,
  *   ∫₀ᵀ∫ K∇w·∇w + c w² = (T³/3)((Kxx + Kyy)π²/4 + c/4) (the Kxy term integrates to zero),
  *   and in 1D for w = t sin πx, (T³/3)(κπ²/2 + c/2) (integrals by hand);
+ * - the convection term h∫_Γ e² on boundary parts that exchange heat: for w = t,
+ *   ∫₀ᵀ h∫_Γ w² = h|Γ|T³/3 (by hand), and the energy identity with that term,
+ *   ∫₀ᵀ ∫ |u_x|² + h(u(t,0)² + u(t,1)²) dt = (‖u0‖² − ‖u(T)‖²)/2 (multiply by u and integrate; common
+ *   practice) for the slab cooled at both ends (Carslaw & Jaeger §2.7, tests/helpers/half-space-exact.ts);
  * - two changes of variables on discrete solutions (common practice): time scaling (κ, T) →
  *   (1, κT) leaves the discrete solution unchanged up to the time map, so energyL2 for κ equals
  *   the L2(0,T;H¹) error for κ = 1; and the stretch y′ = y/√k of the unit square turns
@@ -20,12 +24,37 @@ import {
   type KnownSolution, type SpatialDomain,
 } from '../../src/index';
 import { heatExact1D, heatExact2D } from '../helpers/heat-exact';
+import { cooledSlab } from '../helpers/half-space-exact';
 
 function zeroSolution(domain: SpatialDomain, set: DoubleTree, T: number): SpaceTimeSolution {
   return new SpaceTimeSolution(domain, set, new Float64Array(set.size), T);
 }
 
 describe('energyL2 against outside references', () => {
+  it('the convection term: h|Γ|T³/3 for w = t in 1D and 2D, and the energy identity of the cooled slab', () => {
+    const T = 0.8, h = 3;
+    const convective = { boundary: [{ kind: 'convection' as const, where: () => true, transferCoefficient: h, ambient: 0 }] };
+    const w: KnownSolution = { value: (t) => t, gradient: (_t, _x, _y, g) => { g.fill(0); } };
+    const sq = rectangleDomain(0, 1, 0, 1, 2, 2, convective);
+    expect(spaceTimeErrors(zeroSolution(sq, DoubleTree.sparseGrid(sq, 3), T), w).energyL2 ** 2).toBeCloseTo((h * 4 * T ** 3) / 3, 12);
+    const rod = intervalDomain(0, 1, 2, convective);
+    expect(spaceTimeErrors(zeroSolution(rod, DoubleTree.sparseGrid(rod, 3), T), w).energyL2 ** 2).toBeCloseTo((2 * h * T ** 3) / 3, 12);
+    // the held part of a mixed boundary adds nothing: only y = 1 convects
+    const top = rectangleDomain(0, 1, 0, 1, 2, 2, { boundary: [{ kind: 'convection', where: (_mx, my) => my > 0.999, transferCoefficient: h, ambient: 0 }] });
+    expect(spaceTimeErrors(zeroSolution(top, DoubleTree.sparseGrid(top, 3), T), w).energyL2 ** 2).toBeCloseTo((h * T ** 3) / 3, 12);
+
+    const hs = 5, Ts = 0.01;
+    const slab: KnownSolution = { value: (t, x) => cooledSlab(hs, t, x)[0], gradient: (t, x, _y, g) => { g[0] = cooledSlab(hs, t, x)[1]; } };
+    const cooled = intervalDomain(0, 1, 2, { boundary: [{ kind: 'convection', where: () => true, transferCoefficient: hs, ambient: 0 }] });
+    const e2 = spaceTimeErrors(zeroSolution(cooled, DoubleTree.sparseGrid(cooled, 7), Ts), slab, { elementSplits: 8, timePoints: 6 }).energyL2 ** 2;
+    // ‖u(T)‖² by composite Simpson on 2·10⁴ cells (the layer √T = 0.1 spans 2000 of them)
+    const n = 20000;
+    let uT2 = 0;
+    for (let k = 0; k <= n; k++) uT2 += (k === 0 || k === n ? 1 : k % 2 ? 4 : 2) * cooledSlab(hs, Ts, k / n)[0] ** 2;
+    uT2 /= 3 * n;
+    expect(Math.abs(e2 / ((1 - uT2) / 2) - 1)).toBeLessThan(1e-9);
+  });
+
   it('energy identity for u0 ≡ 1: ∫∫ κ|∇u|² = (‖u0‖² − ‖u(T)‖²)/2, 1D and 2D, κ ≠ 1 and a reaction-free body', () => {
     const T = 0.5;
     const cases: [SpatialDomain, ReturnType<typeof heatExact1D>, string][] = [
