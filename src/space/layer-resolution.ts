@@ -43,9 +43,9 @@ const EDGE_SAMPLES = [0.25, 0.5, 0.75];
 const TIME_SAMPLES = 9;
 
 /**
- * The closed vertex set that resolves the layers at held edges where `initial` differs from the held
- * value at t = 0 (see the file comment), and the shortest diffusion time h²/κ of the elements it
- * creates. @internal
+ * The closed vertex set that resolves the layers at boundary edges whose data start one against
+ * `initial` (held values, ambients and fluxes; see the file comment), and the shortest diffusion
+ * time h²/κ of the elements it creates. @internal
  */
 export function layerResolvedSet(closure: VertexClosure, initial: ((x: number, y: number) => number) | null | undefined, T: number): { set: Int32Array; tau: number } {
   const f = closure.forest;

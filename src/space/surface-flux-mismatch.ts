@@ -4,14 +4,14 @@
  * (docs/adaptivity.md §2.4). A flux part asks for q, a convection part for h(u∞ − u0); where u0
  * already carries it (a steady state, a manufactured solution), no layer starts.
  *
- * The gradient of u0 comes from differences at a step of 10⁻⁶ of the edge length (the domain's
+ * The gradient of u0 comes from differences at a step of 10⁻⁶ of the edge length (of the element's
  * length in 1D): one-sided into the element that owns the edge for the normal part, central along
  * the edge for the tangential part (2D). That is accurate to about 10⁻⁶ relative for smooth u0, far
  * below the 10⁻³ the layer test asks for.
  */
 import type { BisectionForest } from './forest';
 
-/** Outward unit normal, tangent and owning initial element of each initial boundary edge. @internal */
+/** Outward unit normal, owning initial element and difference step of each initial boundary edge. @internal */
 export interface EdgeFrames {
   /** (nx, ny) per boundary edge; ny = 0 in 1D. */
   readonly normal: Float64Array;
