@@ -139,12 +139,7 @@ describe('estimator reliability over long horizons (many diffusion times)', () =
       maxSteps: 6,
       onStep: (s, solution) => { ratios.push(spaceTimeErrors(solution, exact).energyL2 / s.estimate); },
     });
-    if (process.env.CHRONOMESH_VERBOSE) console.log(_name, ratios.map((r) => r.toFixed(2)).join(' '));
-    expect(ratios.length).toBe(6);
-    for (const r of ratios) {
-      expect(r).toBeGreaterThan(0.5);
-      expect(r).toBeLessThan(3);
-    }
+    expectRatiosWithin(_name, ratios, 0.5, 3, 6);
   }, 120_000);
 });
 
@@ -166,11 +161,7 @@ describe('estimator reliability over short horizons (a fraction of the diffusion
       maxSteps: d.dim === 1 ? 6 : 3,
       onStep: (s, solution) => { ratios.push(spaceTimeErrors(solution, exact).energyL2 / s.estimate); },
     });
-    if (process.env.CHRONOMESH_VERBOSE) console.log(_name, ratios.map((r) => r.toFixed(2)).join(' '));
-    for (const r of ratios) {
-      expect(r).toBeGreaterThan(0.5);
-      expect(r).toBeLessThan(2);
-    }
+    expectRatiosWithin(_name, ratios, 0.5, 2);
   }, 120_000);
 
   // Convection and fluxes at the surfaces start the same kind of layer. Before the first set was
@@ -199,12 +190,7 @@ describe('estimator reliability over short horizons (a fraction of the diffusion
         expect(lib / err).toBeLessThan(1.01);
       },
     });
-    if (process.env.CHRONOMESH_VERBOSE) console.log(_name, ratios.map((r) => r.toFixed(2)).join(' '));
-    expect(ratios.length).toBe(8);
-    for (const r of ratios) {
-      expect(r).toBeGreaterThan(0.5);
-      expect(r).toBeLessThan(2);
-    }
+    expectRatiosWithin(_name, ratios, 0.5, 2, 8);
   }, 120_000);
 
   it('an initial state that matches the held values adds nothing to the first set', () => {
@@ -302,4 +288,14 @@ function gradedGauss(a: number, b: number, depth: number, sub: number, cut = Inf
     }
   }
   return { p, w };
+}
+
+/** err/E of every step within (lo, hi), and `steps` of them when given; printed with CHRONOMESH_VERBOSE. */
+function expectRatiosWithin(name: string, ratios: number[], lo: number, hi: number, steps?: number): void {
+  if (process.env.CHRONOMESH_VERBOSE) console.log(name, ratios.map((r) => r.toFixed(2)).join(' '));
+  if (steps !== undefined) expect(ratios.length).toBe(steps);
+  for (const r of ratios) {
+    expect(r).toBeGreaterThan(lo);
+    expect(r).toBeLessThan(hi);
+  }
 }
