@@ -129,6 +129,9 @@ function layerEdges(closure: VertexClosure, initial: (x: number, y: number) => n
     const h = b.transfer[e]!;
     const reach = Math.sqrt(T / normalDiffusivity(f, frames, e));
     const perFlux = convective ? Math.min(reach, 1 / h) : reach;
+    // held values at both ends, once per time (the edge takes them linearly in between)
+    const gi = convective || flux ? null : times.map((t) => held(i, t));
+    const gj = convective || flux ? null : times.map((t) => held(j, t));
     let gap = 0;
     for (const s of d === 1 ? [0] : EDGE_SAMPLES) {
       const x = (1 - s) * xy[d * i]! + s * xy[d * j]!;
@@ -139,9 +142,9 @@ function layerEdges(closure: VertexClosure, initial: (x: number, y: number) => n
       // the flux u0 already carries across the edge (surface-flux-mismatch.ts)
       const carried = convective || flux ? conormalFlux(f, frames, e, initial, x, y) : 0;
       if (!Number.isFinite(carried)) continue;
-      for (const t of times) {
+      for (let q = 0; q < times.length; q++) {
         // held values as the solver takes them (linear along the edge); ambient and flux where sampled
-        const g = convective || flux ? (data === null ? 0 : data(t, x, y)) : (1 - s) * held(i, t) + s * held(j, t);
+        const g = gi === null || gj === null ? (data === null ? 0 : data(times[q]!, x, y)) : (1 - s) * gi[q]! + s * gj[q]!;
         if (!Number.isFinite(g)) continue; // the data's own checks name them
         const change = flux ? Math.abs(g - carried) * perFlux : convective ? Math.abs(h * (g - u) - carried) * perFlux : Math.abs(u - g);
         gap = Math.max(gap, change);

@@ -20,10 +20,20 @@ export function erfc(x: number): number {
     }
     return 1 - (2 / Math.sqrt(Math.PI)) * sum;
   }
-  // continued fraction evaluated from the tail
+  return Math.exp(-x * x) / Math.sqrt(Math.PI) / (x + laplaceTail(x));
+}
+
+/** erfcx(x) = e^{x²} erfc(x) for x ≥ 0 without overflow: directly below 2, by the same continued fraction above. */
+export function erfcx(x: number): number {
+  if (x < 2) return Math.exp(x * x) * erfc(x);
+  return 1 / Math.sqrt(Math.PI) / (x + laplaceTail(x));
+}
+
+/** The tail f of Laplace's continued fraction erfc x = e^{−x²}/√π · 1/(x + f), evaluated from 60 terms down (x ≥ 2). */
+function laplaceTail(x: number): number {
   let f = 0;
   for (let k = 60; k >= 1; k--) f = (k / 2) / (x + f);
-  return Math.exp(-x * x) / Math.sqrt(Math.PI) / (x + f);
+  return f;
 }
 
 /** i²erfc x, the second repeated integral of erfc. */

@@ -23,15 +23,9 @@
  *
  *   u(t, x) = 2q√t ierfc(X),   ∂u/∂x = −q erfc(X),   ierfc z = e^{−z²}/√π − z erfc z.
  */
-import { erfc } from './erfc';
+import { erfc, erfcx } from './erfc';
 
-/** erfcx(x) = e^{x²} erfc(x) for x ≥ 0: directly below 2, by Laplace's continued fraction above (A&S 7.1.14). */
-export function erfcx(x: number): number {
-  if (x < 2) return Math.exp(x * x) * erfc(x);
-  let f = 0;
-  for (let k = 60; k >= 1; k--) f = (k / 2) / (x + f);
-  return 1 / Math.sqrt(Math.PI) / (x + f);
-}
+export { erfcx };
 
 /** w and ∂w/∂x of the semi-infinite solid (file comment), t > 0, x ≥ 0. */
 export function cooledHalfSpace(h: number, t: number, x: number): [number, number] {
