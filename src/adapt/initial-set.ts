@@ -11,6 +11,7 @@ import { dataResolvedSet, type SampledDatum } from '../space/data-resolution';
 import { boundaryDataResolvedSet } from '../space/boundary-data-resolution';
 import { curveResolvedSet } from '../space/curve-resolution';
 import { layerResolvedSet } from '../space/layer-resolution';
+import { frontResolvedSet } from '../space/front-resolution';
 import { loadTimeBreakpoints } from '../system/load-time-rule';
 import { unionOfTwoSorted } from '../space/operator-plan';
 
@@ -28,7 +29,8 @@ export const DEEPEST_SET_LEVEL = MAX_TEMPORAL_LEVEL - 2;
  * The smallest sparse grid with at least one unknown (level 1 unless the mesh is very coarse),
  * with every fibre refined where the load quadrature would miss features of the source or the
  * initial state, near concentrated sources close to a held boundary (§2.1) and, for short
- * horizons, next to held edges where the initial state jumps against the held value (§2.4), graded toward
+ * horizons, next to held edges where the initial state jumps against the held value (§2.4) and across
+ * jumps of the initial state inside the domain (§2.5), graded toward
  * t = 0 down to the shortest diffusion time of the initial mesh and of the elements that resolve
  * the initial state.
  */
@@ -42,8 +44,9 @@ export function defaultInitialSet(problem: HeatProblem): DoubleTree {
       const boundary = boundaryDataResolvedSet(closure, sampleTimes(problem.T));
       const curves = curveResolvedSet(closure, (problem.curveSources ?? []).map((c) => c.curve));
       const layer = layerResolvedSet(closure, problem.initial, problem.T);
-      const tau = Math.min(shortestDiffusionTime(problem.domain), initial.tau, layer.tau);
-      const extra = unionOfTwoSorted(unionOfTwoSorted(unionOfTwoSorted(unionOfTwoSorted(initial.set, source.set), boundary), curves), layer.set);
+      const front = frontResolvedSet(closure, problem.initial, problem.T);
+      const tau = Math.min(shortestDiffusionTime(problem.domain), initial.tau, layer.tau, front.tau);
+      const extra = [source.set, boundary, curves, layer.set, front.set].reduce(unionOfTwoSorted, initial.set);
       return withPulseNodes(problem, withVertices(problem, gradedTowardsStart(problem, set, tau), extra));
     }
   }

@@ -20,6 +20,7 @@ import {
 } from '../../src/index';
 import { heatExact1D, unitInterval, unitSquare } from '../helpers/heat-exact';
 import { cooledSlab, heatedHalfSpace } from '../helpers/half-space-exact';
+import { gradedGauss } from '../helpers/graded-gauss';
 
 interface Case {
   name: string;
@@ -251,7 +252,7 @@ describe('estimator reliability over short horizons (a fraction of the diffusion
  * solution comes from one-sided differences toward the middle, exact inside an element.
  */
 function layerEnergyError(sol: SpaceTimeSolution, exact: (t: number, x: number) => readonly [number, number], h: number, T: number): number {
-  const xs = gradedGauss(0, 1, 30, 4), ts = gradedGauss(0, 2 * T, 30, 4, T);
+  const xs = gradedGauss([0, 1], 30, 4), ts = gradedGauss([0, 2 * T], 30, 4, T);
   const dx = 1e-9, pts = new Float64Array(2 * xs.p.length);
   xs.p.forEach((x, i) => { pts[2 * i] = x; pts[2 * i + 1] = x < 0.5 ? x + dx : x - dx; });
   let sum = 0;
@@ -263,31 +264,6 @@ function layerEnergyError(sol: SpaceTimeSolution, exact: (t: number, x: number) 
     sum += ts.w[k]! * (g + h * (e0 * e0 + e1 * e1));
   });
   return Math.sqrt(sum);
-}
-
-/**
- * Three-point Gauss rules on panels graded geometrically toward both ends of (a, b) (2^-depth of the
- * length innermost), each panel split in `sub`; points at or beyond `cut` are dropped (a graded rule
- * toward t = 0 only). The panel ends are dyadic, so they meet the kinks of dyadic meshes.
- */
-function gradedGauss(a: number, b: number, depth: number, sub: number, cut = Infinity): { p: number[]; w: number[] } {
-  const G = [-Math.sqrt(3 / 5), 0, Math.sqrt(3 / 5)], W = [5 / 9, 8 / 9, 5 / 9];
-  const L = b - a, ends = [a];
-  for (let k = depth; k >= 1; k--) ends.push(a + L * 2 ** -(k + 1));
-  ends.push(a + L / 2);
-  for (let k = 1; k <= depth; k++) ends.push(b - L * 2 ** -(k + 1));
-  ends.push(b);
-  const p: number[] = [], w: number[] = [];
-  for (let i = 0; i + 1 < ends.length; i++) {
-    for (let s = 0; s < sub; s++) {
-      const lo = ends[i]! + ((ends[i + 1]! - ends[i]!) * s) / sub, hi = ends[i]! + ((ends[i + 1]! - ends[i]!) * (s + 1)) / sub;
-      for (let q = 0; q < 3; q++) {
-        const x = 0.5 * (lo + hi) + 0.5 * (hi - lo) * G[q]!;
-        if (x < cut) { p.push(x); w.push(0.5 * (hi - lo) * W[q]!); }
-      }
-    }
-  }
-  return { p, w };
 }
 
 /** err/E of every step within (lo, hi), and `steps` of them when given; printed with CHRONOMESH_VERBOSE. */

@@ -1,11 +1,12 @@
 /**
  * The half-space references of ./half-space-exact.ts checked against what defines it (the heat equation,
  * the surface condition, the initial state) and against the held-surface limit, so that the formula
- * quoted from memory (Carslaw & Jaeger §2.7 and §2.9) cannot carry a slip into the tests that use it.
+ * quoted from memory (Carslaw & Jaeger §2.2, §2.7 and §2.9) cannot carry a slip into the tests that use it.
  */
 import { describe, expect, it } from 'vitest';
 import { erfc } from './erfc';
-import { cooledHalfSpace, cooledSlab, erfcx, heatedHalfSpace } from './half-space-exact';
+import { cooledHalfSpace, cooledSlab, erfcx, heatedHalfSpace, warmBand } from './half-space-exact';
+import { gradedGauss } from './graded-gauss';
 
 /**
  * Checks ∂t u = ∂²u/∂x² at t = 1e-4 and three depths inside the layer by central differences, and
@@ -58,5 +59,32 @@ describe('semi-infinite solid heated by a constant surface flux (Carslaw & Jaege
     let s = 0;
     for (let k = 0; k <= n; k++) s += (k === 0 || k === n ? 1 : k % 2 ? 4 : 2) * heatedHalfSpace(q, t, (k * L) / n)[0];
     expect((s * L) / (3 * n)).toBeCloseTo(q * t, 10);
+  });
+});
+
+describe('infinite solid with u0 = 1 on a band (Carslaw & Jaeger §2.2)', () => {
+  const a = 0.3, b = 0.7;
+  it('satisfies the heat equation at both fronts, starts from the band and keeps its heat content', () => {
+    expectHeatEquation((t, x) => warmBand(a, b, t, a + x));
+    expectHeatEquation((t, x) => { const [u, g] = warmBand(a, b, t, b - x); return [u, -g]; });
+    for (const [x, want] of [[0.29, 0], [0.31, 1], [0.5, 1], [0.71, 0]] as const) expect(warmBand(a, b, 1e-14, x)[0]).toBeCloseTo(want, 12);
+    const xs = gradedGauss([0, a, b, 1], 30, 4);
+    let heat = 0;
+    xs.p.forEach((x, i) => { heat += xs.w[i]! * warmBand(a, b, 1e-4, x)[0]; });
+    expect(heat).toBeCloseTo(b - a, 8);
+  });
+
+  it('energy identity ∫₀ᵀ‖∂x u‖² dt = (‖u0‖² − ‖u(T)‖²)/2 = 2·√(T/2π) on the rules the tests integrate errors with', () => {
+    // The identity follows from the equation (common practice); 2·√(T/2π) is ∫₀ᵀ 1/√(8πt) dt for each
+    // of the two fronts (J = 1), exact up to their overlap e^{−(b−a)²/8T}.
+    const T = 1e-6;
+    const xs = gradedGauss([0, a, b, 1], 30, 4), ts = gradedGauss([0, 2 * T], 30, 4, T);
+    let energy = 0;
+    ts.p.forEach((t, k) => { let g = 0; xs.p.forEach((x, i) => { g += xs.w[i]! * warmBand(a, b, t, x)[1] ** 2; }); energy += ts.w[k]! * g; });
+    let uT = 0;
+    xs.p.forEach((x, i) => { uT += xs.w[i]! * warmBand(a, b, T, x)[0] ** 2; });
+    // 2·10⁻⁶ low: the innermost time panel (2^-31 T) misses part of the 1/√t singularity
+    expect(energy / (2 * Math.sqrt(T / (2 * Math.PI)))).toBeCloseTo(1, 5);
+    expect(energy / ((b - a - uT) / 2)).toBeCloseTo(1, 5);
   });
 });
