@@ -2,11 +2,10 @@
  * The benchmark runner behind `npm run bench` and `chronomesh bench`: runs the selected suites
  * and prints a table, or one JSON document `{"rows":[{"component","size","nsPerUnit",...}]}`.
  */
-import { existsSync, writeFileSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
+import { writeFileSync } from 'node:fs';
 import { runCases, type BenchCase, type BenchRow } from './harness';
 import { suites } from './suites';
-import { adaptiveRuns } from './adaptive';
+import { adaptiveRuns, adaptiveRunsAvailable } from './adaptive';
 
 /** Options of {@link runBench}. */
 export interface BenchOptions {
@@ -34,8 +33,8 @@ export function runBench(o: BenchOptions, print: (line: string) => void = consol
   runCases(cases, o.prefixes, opts, onRow);
   // Whole-run suites (the adaptive loop), each run in a child process for its own peak memory.
   const selected = (component: string): boolean => o.prefixes.length === 0 || o.prefixes.some((p) => component.startsWith(p));
-  // They need the TypeScript sources (a child process under tsx): from a repository checkout only.
-  if (existsSync(fileURLToPath(new URL('./adaptive-run.ts', import.meta.url)))) adaptiveRuns.run(o.quick, selected, onRow);
+  // They need the child's file (bench/adaptive-run.ts, or its bundle out/bench/adaptive-run.js): from a repository checkout only.
+  if (adaptiveRunsAvailable()) adaptiveRuns.run(o.quick, selected, onRow);
   else if (o.prefixes.some((p) => p.startsWith('adaptive'))) process.stderr.write('bench: adaptive.* rows need a repository checkout (npm run bench); skipped\n');
   if (o.json) print(JSON.stringify({ rows }));
   if (o.out) writeFileSync(o.out, JSON.stringify({ rows }, null, 1) + '\n');
