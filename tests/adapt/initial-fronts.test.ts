@@ -100,6 +100,9 @@ describe('estimator reliability at jumps of the initial state inside the domain 
       return d.forest.vertexCount - before; // vertices the rule bisected into the forest
     };
     expect(created((x, y) => Math.sin(Math.PI * x) * Math.sin(Math.PI * y), 1e-6)).toBe(0);
+    // steep but linear (neighbour differences exactly halve with the spacing), at the shortest horizons
+    expect(created((x, y) => 1e3 * (x + 2 * y), 1e-12)).toBe(0);
+    expect(created((x) => 5 * x * x, 1e-12)).toBe(0);
     // a front of width 0.05, far wider than √(κT) = 10⁻³: the loop resolves it from its candidates
     expect(created((x) => Math.tanh((x - 0.3) / 0.05), 1e-6)).toBe(0);
     expect(created((x, y) => 5e-4 * band(x) * band(y) + x, 1e-6)).toBe(0); // jump below 10⁻³ of u0's size
