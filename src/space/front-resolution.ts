@@ -9,25 +9,23 @@
  * the infinite solid with a step, Carslaw & Jaeger §2.2). An element much larger than √(κT) with its
  * h-halving candidates cannot represent that layer, so the estimator sees only the part the coarse
  * hats carry. Measured before this rule on (0, 1) in two cells, held at 0, u0 = 1 on (0.3, 0.7):
- * err/E = 3.3 at the first step for κT = 10⁻⁶ and 10.5 for κT = 10⁻⁸, with an error of 98 % of the
- * solution's energy while E said 9.5 %.
+ * err/E = 3.3 at the first step for κT = 10⁻⁶ and 10.5 for κT = 10⁻⁸; at 10⁻⁸ the error was nearly all
+ * of the solution's energy while E said 9.5 % of it.
  *
  * **What counts as a jump.** Within an element, u0 is sampled on the regular sub-grids of spacing
  * h/16 and h/8 (h the element's diameter): D₁₆ and D₈ are the largest differences of neighbouring
  * samples. For a u0 that is smooth at the element's scale, halving the spacing halves the difference
  * (D₁₆ ≈ D₈/2); across a jump, or a front much narrower than h/16, it stays (D₁₆ ≈ D₈). An element is
  * bisected while D₁₆ > FRONT_RATIO·D₈, D₁₆ exceeds MISMATCH of the size of u0 over the domain, and its
- * diameter exceeds RESOLUTION·√(κT) (in 2D not below diam(Ω)/512), as at held edges. Smooth initial
+ * diameter exceeds 4√(κT) (in 2D not below diam(Ω)/512), as at held edges (thickerThanLayer). Smooth initial
  * states, however steep at the element's scale, and horizons of a diffusion time or more add
  * nothing; a front wider than about h/16 stops the bisection there, and the loop resolves it from
  * its candidates.
  */
-import { bisectWhere, domainDiameter } from './data-resolution';
-import { elementDiameter } from './diffusion-time';
+import { bisectWhere } from './data-resolution';
+import { thickerThanLayer } from './layer-resolution';
 import type { VertexClosure } from './vertex-closure';
 
-/** Largest diameter of an element on the front, in units of the layer width √(κT) (as at held edges). */
-const RESOLUTION = 4;
 /** Neighbour difference on the fine sub-grid, against the size of u0 over Ω, below which nothing counts. */
 const MISMATCH = 1e-3;
 /** D₁₆/D₈ above which the variation is a jump at the element's scale (smooth: ½; jump: 1). */
@@ -44,11 +42,7 @@ export function frontResolvedSet(closure: VertexClosure, initial: ((x: number, y
   const created: number[] = [];
   if (!initial) return { set: closure.close(created), tau: Infinity };
   const d = f.dim;
-  const floor = d === 2 ? domainDiameter(f) / 512 : 0;
-  const coarse = (e: number): boolean => {
-    const h = elementDiameter(f, e);
-    return h > floor && h > RESOLUTION * Math.sqrt(f.kappa[f.eMat[e]!]! * T);
-  };
+  const coarse = thickerThanLayer(closure, T);
   // Nothing to do on horizons of the elements' diffusion time or more (no sampling then).
   let any = false;
   for (let e = 0; e < f.initialElementCount && !any; e++) any = coarse(e);

@@ -53,9 +53,7 @@ export function layerResolvedSet(closure: VertexClosure, initial: ((x: number, y
   const edges = layerEdges(closure, initial ?? (() => 0), T);
   if (edges.length === 0) return { set: closure.close(created), tau: Infinity };
   const d = f.dim;
-  const span = domainDiameter(f);
-  const floor = d === 2 ? span / 512 : 0;
-  const eps = 1e-12 * span;
+  const eps = 1e-12 * domainDiameter(f);
   // per forest vertex: 1 if on an incompatible held edge, 0 if not, undefined until asked
   const onEdge: (0 | 1 | undefined)[] = [];
   const touches = (v: number): boolean => {
@@ -73,13 +71,27 @@ export function layerResolvedSet(closure: VertexClosure, initial: ((x: number, y
     return flag === 1;
   };
   const nv = f.nv;
+  const thick = thickerThanLayer(closure, T);
   const tau = bisectWhere(closure, created, (e) => {
-    const h = elementDiameter(f, e);
-    if (!(h > floor) || !(h > RESOLUTION * Math.sqrt(f.kappa[f.eMat[e]!]! * T))) return false;
+    if (!thick(e)) return false;
     for (let k = 0; k < nv; k++) if (touches(f.eVert[nv * e + k]!)) return true;
     return false;
   });
   return { set: closure.close(created), tau };
+}
+
+/**
+ * Whether forest element e is still to be bisected toward a layer of width √(κT): its diameter
+ * exceeds RESOLUTION·√(κT) (κ of its material) and, in 2D, diam(Ω)/512, which bounds a first set to a
+ * few thousand vertices per unit length of layer. Shared with ./front-resolution. @internal
+ */
+export function thickerThanLayer(closure: VertexClosure, T: number): (e: number) => boolean {
+  const f = closure.forest;
+  const floor = f.dim === 2 ? domainDiameter(f) / 512 : 0;
+  return (e) => {
+    const h = elementDiameter(f, e);
+    return h > floor && h > RESOLUTION * Math.sqrt(f.kappa[f.eMat[e]!]! * T);
+  };
 }
 
 /**

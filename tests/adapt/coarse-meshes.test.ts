@@ -16,11 +16,11 @@
 import { describe, expect, it } from 'vitest';
 import {
   HeatProblem, intervalDomain, lShapeDomain, rectangleDomain, solveAdaptive, spaceTimeErrors, squareWithHoleDomain, triangulatedDomain,
-  type KnownSolution, type SpaceTimeSolution, type SpatialDomain,
+  type KnownSolution, type SpatialDomain,
 } from '../../src/index';
 import { heatExact1D, unitInterval, unitSquare } from '../helpers/heat-exact';
 import { cooledSlab, heatedHalfSpace } from '../helpers/half-space-exact';
-import { gradedGauss } from '../helpers/graded-gauss';
+import { energyError1D } from '../helpers/energy-error-1d';
 
 interface Case {
   name: string;
@@ -182,7 +182,7 @@ describe('estimator reliability over short horizons (a fraction of the diffusion
     solveAdaptive(new HeatProblem({ domain, T, initial: () => u0 }), {
       maxSteps: 8,
       onStep: (s, sol) => {
-        const err = layerEnergyError(sol, exact, h, T);
+        const err = energyError1D(sol, exact, T, { transfer: h });
         ratios.push(err / s.estimate);
         // the library's energyL2 (convection term included) against the hand quadrature: its
         // interior rules are not graded toward convection edges, 2 % low at the first steps
@@ -243,28 +243,6 @@ describe('estimator reliability over short horizons (a fraction of the diffusion
     expect(firstSet(1e-4, true, false)).toBeGreaterThan(long + 500);
   }, 60_000);
 });
-
-/**
- * The error of a 1D solution against `exact` (value and ∂x) in the Y-energy with transfer h at both
- * ends, (∫∫|∂x e|² + h ∫(e(t,0)² + e(t,1)²) dt)^½, integrated by hand on panels graded toward both
- * ends and toward t = 0, from point values of the solution only: the library's error module would
- * need the layer resolved by the solution's own mesh to integrate it. ∂x of the piecewise-linear
- * solution comes from one-sided differences toward the middle, exact inside an element.
- */
-function layerEnergyError(sol: SpaceTimeSolution, exact: (t: number, x: number) => readonly [number, number], h: number, T: number): number {
-  const xs = gradedGauss([0, 1], 30, 4), ts = gradedGauss([0, 2 * T], 30, 4, T);
-  const dx = 1e-9, pts = new Float64Array(2 * xs.p.length);
-  xs.p.forEach((x, i) => { pts[2 * i] = x; pts[2 * i + 1] = x < 0.5 ? x + dx : x - dx; });
-  let sum = 0;
-  ts.p.forEach((t, k) => {
-    const v = sol.evaluate(t, pts), vb = sol.evaluate(t, [0, 1]);
-    let g = 0;
-    xs.p.forEach((x, i) => { g += xs.w[i]! * ((v[2 * i + 1]! - v[2 * i]!) / (pts[2 * i + 1]! - x) - exact(t, x)[1]) ** 2; });
-    const e0 = vb[0]! - exact(t, 0)[0], e1 = vb[1]! - exact(t, 1)[0];
-    sum += ts.w[k]! * (g + h * (e0 * e0 + e1 * e1));
-  });
-  return Math.sqrt(sum);
-}
 
 /** err/E of every step within (lo, hi), and `steps` of them when given; printed with CHRONOMESH_VERBOSE. */
 function expectRatiosWithin(name: string, ratios: number[], lo: number, hi: number, steps?: number): void {
