@@ -141,6 +141,13 @@ problem file fields (JSON object):
               the problem to working precision, as when a known solution lies
               in the discrete space)
   bulk        Dörfler parameter θ in (0, 1) (default 0.5 in 1D, 0.7 in 2D)
+  acceptFlatElements
+              true to run the adaptive strategy on initial elements too flat
+              for its estimator (default false: such a mesh is refused before
+              any work, naming the flattest element; bisection keeps their
+              descendants as flat, where E was measured 3-12 times below the
+              true error and PCG stalls; better: more vertices along the long
+              sides, docs/adaptivity.md §2.6)
   probes      list of [t, x] or [t, x, y]
   sensors     {"points": [[x, y], …], "times": n or [t, …]}: sensor histories,
               u at fixed points read at n evenly spaced times over [start,

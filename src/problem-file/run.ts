@@ -211,7 +211,7 @@ export function runProblem(built: BuiltProblem, onStep?: (step: RunStep, index: 
   }
   if (spec.strategy === 'adaptive') {
     const r = solveAdaptive(problem, {
-      ...(spec.bulk === null ? {} : { theta: spec.bulk }), tolerance: spec.tolerance, relativeTolerance: spec.relativeTolerance, maxUnknowns: spec.maxDofs, maxSteps: spec.maxSteps, maxSeconds: spec.maxSeconds,
+      ...(spec.bulk === null ? {} : { theta: spec.bulk }), tolerance: spec.tolerance, relativeTolerance: spec.relativeTolerance, maxUnknowns: spec.maxDofs, maxSteps: spec.maxSteps, maxSeconds: spec.maxSeconds, acceptFlatElements: spec.acceptFlatElements,
       ...(adaptive.checkpoint ? { checkpoint: adaptive.checkpoint } : {}),
       ...(adaptive.resume ? { resume: adaptive.resume } : {}),
       onStep: (h, solution) => {

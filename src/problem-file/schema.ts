@@ -75,6 +75,8 @@ export interface ProblemSpec {
   maxSteps: number;
   /** Dörfler θ, or null for the library's default (0.5 in 1D, 0.7 in 2D). */
   bulk: number | null;
+  /** Whether the adaptive strategy runs on initial elements too flat for its estimator (AdaptiveOptions.acceptFlatElements). */
+  acceptFlatElements: boolean;
   /** Probe points as [t, x] or [t, x, y]. */
   probes: number[][];
   /**
@@ -92,7 +94,7 @@ export interface ProblemSpec {
 /** Top-level fields of a problem file (the contract of the command line; additions only). */
 export const PROBLEM_FIELDS = [
   'title', 'description', 'domain', 'start', 'horizon', 'diffusion', 'reaction', 'source', 'initial', 'insulated',
-  'boundary', 'strategy', 'tolerance', 'relativeTolerance', 'maxDofs', 'maxSeconds', 'maxSteps', 'bulk', 'probes', 'slices', 'exact',
+  'boundary', 'strategy', 'tolerance', 'relativeTolerance', 'maxDofs', 'maxSeconds', 'maxSteps', 'bulk', 'acceptFlatElements', 'probes', 'slices', 'exact',
   'sensors', 'curveSources',
 ] as const;
 
@@ -106,13 +108,18 @@ const DOMAIN_FIELDS: Record<DomainSpec['shape'], string[]> = {
 /** Defaults of the optional fields. */
 export const PROBLEM_DEFAULTS = {
   diffusion: '1', reaction: '0', source: '0', initial: '0', strategy: 'adaptive',
-  tolerance: 0, relativeTolerance: 0, maxDofs: 20000, maxSeconds: 60, maxSteps: 200, bulk: null,
+  tolerance: 0, relativeTolerance: 0, maxDofs: 20000, maxSeconds: 60, maxSteps: 200, bulk: null, acceptFlatElements: false,
 } as const;
 
 
 function num(v: unknown, field: string, range: string, ok: (x: number) => boolean): number {
   if (typeof v !== 'number' || !Number.isFinite(v)) bad(field, `must be a number ${range}, found ${typeName(v)}`, v);
   if (!ok(v)) bad(field, `must be ${range}, found ${v}`, v);
+  return v;
+}
+
+function flag(v: unknown, field: string): boolean {
+  if (typeof v !== 'boolean') bad(field, `must be true or false, found ${typeName(v)}`, v);
   return v;
 }
 
@@ -326,6 +333,7 @@ export function parseProblem(json: unknown, opts: ParseProblemOptions = {}): Pro
     maxSeconds: o.maxSeconds === undefined ? PROBLEM_DEFAULTS.maxSeconds : num(o.maxSeconds, 'maxSeconds', '> 0', (x) => x > 0),
     maxSteps: o.maxSteps === undefined ? PROBLEM_DEFAULTS.maxSteps : int(o.maxSteps, 'maxSteps', 1, 10000),
     bulk: o.bulk === undefined ? PROBLEM_DEFAULTS.bulk : num(o.bulk, 'bulk', 'in (0, 1) (the Dörfler parameter θ)', (x) => x > 0 && x < 1),
+    acceptFlatElements: o.acceptFlatElements === undefined ? PROBLEM_DEFAULTS.acceptFlatElements : flag(o.acceptFlatElements, 'acceptFlatElements'),
     probes,
     sensors,
     slices,

@@ -195,26 +195,51 @@ export class BisectionForest {
   }
 
   /**
-   * The largest mapped anisotropy (./diffusion-tensor.ts) over the oriented classes of the initial
-   * elements and of all their descendants: the closure of each initial class under bisection
-   * (finitely many classes, registered here if not met yet). 1 for an isotropic domain.
+   * The largest mapped anisotropy (./diffusion-tensor.ts) over the classes of the initial elements
+   * and of all their descendants: the closure of each initial class under bisection (finitely many
+   * classes, registered here if not met yet). Isotropic classes count with K = I: a flat triangle
+   * under a scalar κ is to the V-cycles and the estimator what a fat one is under a strongly
+   * anisotropic K (docs/method.md §4.4). 1 in 1D.
    */
   mappedAnisotropy(): number {
     let worst = 1;
-    const seen = new Set<number>();
-    const stack: number[] = [];
-    for (let e = 0; e < this.initialElementCount; e++) if (this.dim === 2 && this.materialTensor[e]! >= 0) stack.push(this.eShape[e]!);
-    while (stack.length > 0) {
-      const c = stack.pop()!;
-      if (seen.has(c)) continue;
-      seen.add(c);
-      const x = this.shapeZ[2 * c]!, y = this.shapeZ[2 * c + 1]!, dx = this.shapeDir[2 * c]!, dy = this.shapeDir[2 * c + 1]!;
-      const t = this.shapeTensor[c]!;
-      // the class's triangle (0, 0), d, z·d with its normalized tensor (the scale does not matter)
-      worst = Math.max(worst, mappedAnisotropy(dx, dy, x * dx - y * dy, x * dy + y * dx, this.tensorUnit[3 * t]!, this.tensorUnit[3 * t + 1]!, this.tensorUnit[3 * t + 2]!));
-      stack.push(this.childShape(c, 0), this.childShape(c, 1));
-    }
+    for (const a of this.initialMappedAnisotropy()) worst = Math.max(worst, a);
     return worst;
+  }
+
+  /** Per initial element, the largest mapped anisotropy over its class and its descendants' (empty in 1D). */
+  initialMappedAnisotropy(): Float64Array {
+    const n = this.dim === 2 ? this.initialElementCount : 0;
+    const out = new Float64Array(n);
+    const byClass = new Map<number, number>(); // the initial classes repeat (a structured mesh has two)
+    for (let e = 0; e < n; e++) {
+      const c0 = this.eShape[e]!;
+      let worst = byClass.get(c0);
+      if (worst === undefined) {
+        worst = 1;
+        const seen = new Set<number>();
+        const stack = [c0];
+        while (stack.length > 0) {
+          const c = stack.pop()!;
+          if (seen.has(c)) continue;
+          seen.add(c);
+          worst = Math.max(worst, this.classAnisotropy(c));
+          stack.push(this.childShape(c, 0), this.childShape(c, 1));
+        }
+        byClass.set(c0, worst);
+      }
+      out[e] = worst;
+    }
+    return out;
+  }
+
+  /** Mapped anisotropy of one class: its triangle (0, 0), d, z·d under its normalized tensor (K = I if isotropic). */
+  private classAnisotropy(c: number): number {
+    const x = this.shapeZ[2 * c]!, y = this.shapeZ[2 * c + 1]!;
+    const t = this.shapeTensor[c]!;
+    if (t < 0) return mappedAnisotropy(1, 0, x, y, 1, 0, 1);
+    const dx = this.shapeDir[2 * c]!, dy = this.shapeDir[2 * c + 1]!;
+    return mappedAnisotropy(dx, dy, x * dx - y * dy, x * dy + y * dx, this.tensorUnit[3 * t]!, this.tensorUnit[3 * t + 1]!, this.tensorUnit[3 * t + 2]!);
   }
 
   /** Class of child k (0: (c, a, m), 1: (b, c, m)) of an element of class `shape`. */

@@ -59,9 +59,9 @@ describe('coefficients that vary inside initial elements', () => {
 });
 
 describe('a diffusion tensor in a problem file, from the command line', () => {
-  const run = (diffusion: object): string[] => {
+  const run = (diffusion: object, extra: object = {}): string[] => {
     const file = join(mkdtempSync(join(tmpdir(), 'chronomesh-tensor-')), 'p.json');
-    writeFileSync(file, JSON.stringify({ domain: { shape: 'rectangle', from: [0, 0], to: [1, 1], cells: [2, 2] }, horizon: 0.1, initial: '1', diffusion, maxDofs: 150 }));
+    writeFileSync(file, JSON.stringify({ domain: { shape: 'rectangle', from: [0, 0], to: [1, 1], cells: [2, 2] }, horizon: 0.1, initial: '1', diffusion, maxDofs: 150, ...extra }));
     const progress: string[] = [];
     solveFile(file, { log: () => {}, progress: (l) => progress.push(l) });
     return progress;
@@ -75,7 +75,10 @@ describe('a diffusion tensor in a problem file, from the command line', () => {
   });
 
   it('warns when the cycles reach their limit of 16 and names the remedy', () => {
-    const p = run({ xx: 1, xy: 0, yy: 0.004 });
+    // A = 750 > 128: the adaptive strategy refuses such elements unless the file accepts them
+    // (docs/adaptivity.md §2.6), naming the flattest element and the field that accepts it
+    expect(() => run({ xx: 1, xy: 0, yy: 0.004 })).toThrow(/initial element \d+ .* too flat .* mapped anisotropy 750 > 128.*acceptFlatElements/);
+    const p = run({ xx: 1, xy: 0, yy: 0.004 }, { acceptFlatElements: true });
     expect(p.filter((l) => /^warning: diffusion tensor with eigenvalue ratio up to 250; .* anisotropy up to 750, so .* 16 V-cycles .* the most they run: .* stretched along the strong direction by about √250/.test(l))).toHaveLength(1);
   }, 60_000);
 

@@ -1,0 +1,47 @@
+/**
+ * Initial elements too flat for the adaptive loop (docs/adaptivity.md §2.6).
+ *
+ * Newest-vertex bisection never improves a triangle's shape: the descendants of an initial element
+ * fall into finitely many similarity classes, as flat as the element itself. What matters is the
+ * shape the diffusion sees, the element mapped by K^{−1/2} (K = κI for a scalar κ), measured by the
+ * mapped anisotropy A (./diffusion-tensor.ts: 1 equilateral, 3 right isosceles, 3/w² for the right
+ * triangle with legs 1 and w under a scalar κ). On flat elements
+ * - the point smoother of the V-cycles loses its grip (up to A = 8·16 more cycles make up for it,
+ *   docs/method.md §4.4; beyond, PCG needs hundreds of iterations or does not converge), and
+ * - the estimator under-reads: its indicators scale each candidate by its own norm, and on flat
+ *   elements the hats have steep slopes across the thin direction, which a solution smooth across
+ *   it never needs, so E sees a fraction of the error. Measured on the strip (0, 1) × (0, w) in
+ *   one cell, held at 0 at x = 0 and 1, insulated along y, u0 ≡ 1, T = 0.5, against the slab
+ *   series (Carslaw & Jaeger §3.3): err/E 1.5 (w = 1, A = 3), 2.3–2.6 (w = 1/4, A = 48), 3.2–4.4
+ *   (w = 1/10, A = 300), 9–12 and no convergence (w = 1/20, A = 1 200), 4–6 and no convergence
+ *   (w = 1/50, A = 7 500); the same strip in 50 cells (A = 3): 1.15–1.20.
+ */
+import type { SpatialDomain } from './domain';
+
+/** Largest mapped anisotropy the adaptive loop accepts by default: where the inner cycles stop growing (8 · 16). */
+export const FLAT_ELEMENT_LIMIT = 128;
+
+/** The flattest initial element, for error messages. @internal */
+export interface FlattestElement {
+  /** Index of the initial element. */
+  element: number;
+  /** Its mapped anisotropy (the largest over its bisection descendants). */
+  anisotropy: number;
+  /** Its vertex coordinates. */
+  vertices: [number, number][];
+}
+
+/** The initial element with the largest mapped anisotropy (null in 1D). @internal */
+export function flattestInitialElement(domain: SpatialDomain): FlattestElement | null {
+  const f = domain.forest;
+  const a = f.initialMappedAnisotropy();
+  if (a.length === 0) return null;
+  let worst = 0;
+  for (let e = 1; e < a.length; e++) if (a[e]! > a[worst]!) worst = e;
+  const vertices: [number, number][] = [];
+  for (let k = 0; k < 3; k++) {
+    const v = f.eVert[3 * worst + k]!;
+    vertices.push([f.vCoord[2 * v]!, f.vCoord[2 * v + 1]!]);
+  }
+  return { element: worst, anisotropy: a[worst]!, vertices };
+}
