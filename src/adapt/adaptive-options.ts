@@ -235,12 +235,12 @@ export function validateAdaptiveOptions(opts: unknown, problem: HeatProblem, fie
   if (o.acceptFlatElements !== undefined && typeof o.acceptFlatElements !== 'boolean') {
     throw new InvalidArgumentError(`${field}.acceptFlatElements must be true or false`, { field: `${field}.acceptFlatElements`, expected: 'boolean', received: describeValue(o.acceptFlatElements) });
   }
-  if (o.acceptFlatElements !== true) checkFlatElements(problem.domain, field);
+  if (o.acceptFlatElements !== true) checkFlatElements(problem.domain);
   return o;
 }
 
 /** Refuses an initial mesh whose elements are too flat for the estimator and the inner solvers (docs/adaptivity.md §2.6). */
-function checkFlatElements(domain: SpatialDomain, field: string): void {
+function checkFlatElements(domain: SpatialDomain): void {
   if (domain.mappedAnisotropy <= FLAT_ELEMENT_LIMIT) return;
   const flat = flattestInitialElement(domain)!;
   const at = flat.vertices.map(([x, y]) => `(${Number(x.toPrecision(6))}, ${Number(y.toPrecision(6))})`).join(', ');
