@@ -92,6 +92,12 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     progress(A > 8 * 16
       ? `warning: ${note}, the most they run: PCG iterations grow beyond it; initial elements stretched along the strong direction by about √${Number(r.toPrecision(3))} help (docs/method.md §4.4)`
       : `${note} (docs/method.md §4.4)`);
+  } else if (built.domain.mappedAnisotropy > 8) {
+    // Flat isotropic elements slow the V-cycles as anisotropic K does (docs/adaptivity.md §2.6).
+    const A = built.domain.mappedAnisotropy;
+    const cycles = cyclesForAnisotropy(A);
+    progress(`flat initial elements (anisotropy up to ${Number(A.toPrecision(3))}): the spatial inner solvers run ${cycles} V-cycles per application, ` +
+      'and the estimator reads further below the error the flatter they are; more vertices along their long sides help (docs/adaptivity.md §2.6)');
   }
   if (opts.out !== undefined) checkWritable(opts.out);
   if ((opts.checkpoint !== undefined || opts.resume !== undefined) && built.spec.strategy !== 'adaptive') {

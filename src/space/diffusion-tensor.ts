@@ -71,7 +71,8 @@ export function mappedAnisotropy(x1: number, y1: number, x2: number, y2: number,
  * K = diag(1, 0.01)): 31 / 20 / 20; A = 30 (2 × 2, diag(1, 0.1)): 162 / 37 / 20; A = 120 (4 × 2,
  * diag(1, 0.1)): 972 / 162 / 37; A = 300 (2 × 2, diag(1, 0.01)): 892 / 196 / 55; A = 2026 (2 × 20,
  * eigenvalues 1 and 0.01 at 30°): 2298 / 388 / 79. Among 1, 2, 4, 8 and 16 cycles the time per
- * solve was least near A/8 cycles where that is below 16. A scalar κ always takes one cycle.
+ * solve was least near A/8 cycles where that is below 16. A scalar κ counts the element shapes as they are
+ * (K = I): right isosceles elements take one cycle, flat ones more (docs/adaptivity.md §2.6).
  */
 export function cyclesForAnisotropy(A: number): number {
   return Math.min(16, Math.max(1, Math.ceil(A / 8)));
