@@ -96,8 +96,9 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     // Flat isotropic elements slow the V-cycles as anisotropic K does (docs/adaptivity.md §2.6).
     const A = built.domain.mappedAnisotropy;
     const cycles = cyclesForAnisotropy(A);
-    progress(`flat initial elements (anisotropy up to ${Number(A.toPrecision(3))}): the spatial inner solvers run ${cycles} V-cycles per application, ` +
-      'and the estimator reads further below the error the flatter they are; more vertices along their long sides help (docs/adaptivity.md §2.6)');
+    const estimator = built.spec.strategy === 'adaptive' ? ', and the estimator reads further below the error the flatter they are' : '';
+    progress(`flat initial elements (anisotropy up to ${Number(A.toPrecision(3))}): the spatial inner solvers run ${cycles} V-cycles per application` +
+      `${estimator}; more vertices along their long sides help (docs/adaptivity.md §2.6)`);
   }
   if (opts.out !== undefined) checkWritable(opts.out);
   if ((opts.checkpoint !== undefined || opts.resume !== undefined) && built.spec.strategy !== 'adaptive') {
