@@ -187,8 +187,11 @@ export class SpaceTimeSystem {
     // Never silently wrong: an iterate cut off at the iteration cap is refused unless asked for.
     const reached = result.residualHistory[result.residualHistory.length - 1]!;
     const target = Math.max(opts.absTol ?? 0, (opts.relTol ?? 1e-8) * result.residualHistory[0]!);
+    // With an energy tolerance that estimate is the criterion (relTol is then only a floor), so say it.
+    const estimated = Number.isFinite(result.energyError) ? result.energyError.toExponential(2) : 'not yet available (fewer iterations than its delay)';
+    const energy = (opts.energyTol ?? 0) > 0 ? `, estimated S-energy error ${estimated} against energyTol ${opts.energyTol!.toExponential(2)}` : '';
     const msg = `PCG stopped unconverged after ${result.iterations} iterations (maxIterations) on #Λ = ${this.size}: ` +
-      `preconditioned residual ${reached.toExponential(2)}, requested ${target.toExponential(2)}`;
+      `preconditioned residual ${reached.toExponential(2)}, requested ${target.toExponential(2)}${energy}`;
     if (!allowUnconverged) throw new NotConvergedError(`${msg}; raise maxIterations or relTol, or pass allowUnconverged: true to get the iterate`, result.iterations, reached, target, { field: 'maxIterations', received: result.iterations });
     return { solution, pcg: result, warning: `UNCONVERGED: ${msg}` };
   }

@@ -64,6 +64,11 @@ describe('short times are solved, not silently wrong', () => {
     const flagged = sys.solve({ maxIterations: 3, allowUnconverged: true });
     expect(flagged.pcg.converged).toBe(false);
     expect(flagged.warning).toMatch(/^UNCONVERGED/);
+    // stopped on an S-energy tolerance (as the adaptive loop stops it), the message names that criterion
+    let energyCaught: unknown;
+    try { sys.solve({ maxIterations: 12, energyTol: 1e-12, relTol: 1e-14 }); } catch (e) { energyCaught = e; }
+    expect(energyCaught).toBeInstanceOf(NotConvergedError);
+    expect((energyCaught as Error).message).toMatch(/estimated S-energy error \d\.\d\de-\d+ against energyTol 1\.00e-12/);
   });
 });
 
