@@ -5,7 +5,7 @@
  * (a misspelt key is answered with the nearest name).
  */
 import { InvalidArgumentError, InvalidMeshError, describeValue } from '../errors';
-import { FLAT_ELEMENT_LIMIT, flattestInitialElement } from '../space/flat-elements';
+import { FLAT_ELEMENT_LIMIT, bulkAnisotropy, flattestInitialElement } from '../space/flat-elements';
 import type { SpatialDomain } from '../space/domain';
 import { checkFunction, checkInstance, checkInteger, checkNumber, checkOptions } from '../validation/index';
 import { checkSetOnDomain } from '../spacetime/set-checks';
@@ -241,16 +241,18 @@ export function validateAdaptiveOptions(opts: unknown, problem: HeatProblem, fie
 
 /** Refuses an initial mesh whose elements are too flat for the estimator and the inner solvers (docs/adaptivity.md §2.6). */
 function checkFlatElements(domain: SpatialDomain): void {
-  if (domain.mappedAnisotropy <= FLAT_ELEMENT_LIMIT) return;
+  const bulk = bulkAnisotropy(domain);
+  if (bulk <= FLAT_ELEMENT_LIMIT) return;
   const flat = flattestInitialElement(domain)!;
   const at = flat.vertices.map(([x, y]) => `(${Number(x.toPrecision(6))}, ${Number(y.toPrecision(6))})`).join(', ');
   const A = Number(flat.anisotropy.toPrecision(3));
+  const share = `${flat.flatCount} of ${domain.forest.initialElementCount} initial elements, ${Number((100 * flat.flatShare).toPrecision(3))} % of the area`;
   throw new InvalidMeshError(
-    `initial element ${flat.element} with vertices ${at} is too flat for the adaptive loop: mapped anisotropy ${A} > ${FLAT_ELEMENT_LIMIT}` +
+    `the initial mesh is too flat for the adaptive loop (${share}, beyond mapped anisotropy ${FLAT_ELEMENT_LIMIT}); the flattest, element ${flat.element} with vertices ${at}, has ${A}` +
     `${domain.anisotropic ? ' (its shape as the diffusion tensor sees it)' : ''}. Bisection keeps its descendants as flat, and on such elements the ` +
     'estimator reads several times below the true error and PCG stalls (docs/adaptivity.md §2.6). Use an initial mesh with more vertices along the long sides ' +
     '(e.g. more cells along a thin strip, so that cells are at most about 4 times longer than wide)' +
     `${domain.anisotropic ? ', or elements stretched along the strong direction of K' : ''}, or set acceptFlatElements: true (an option of solveAdaptive, a field of problem files) to run anyway`,
-    { field: `domain.triangles[${flat.element}]`, expected: `mapped anisotropy ≤ ${FLAT_ELEMENT_LIMIT}`, received: A },
+    { field: `domain.triangles[${flat.element}]`, expected: `mapped anisotropy of the mesh ≤ ${FLAT_ELEMENT_LIMIT}`, received: Number(bulk.toPrecision(3)) },
   );
 }

@@ -1,5 +1,6 @@
 /** `chronomesh solve PROBLEM.json [--json] [--out DIR] [--checkpoint FILE] [--resume FILE] [--quiet] [--debug]`. */
 import { cyclesForAnisotropy } from '../space/diffusion-tensor';
+import { FLAT_ELEMENT_LIMIT, bulkAnisotropy, flattestInitialElement } from '../space/flat-elements';
 import { EdgeKind } from '../space/boundary';
 import { readFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
@@ -92,12 +93,20 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     progress(A > 8 * 16
       ? `warning: ${note}, the most they run: PCG iterations grow beyond it; initial elements stretched along the strong direction by about √${Number(r.toPrecision(3))} help (docs/method.md §4.4)`
       : `${note} (docs/method.md §4.4)`);
-  } else if (built.domain.mappedAnisotropy > 8) {
+  }
+  const flat = built.domain.dim === 2 ? flattestInitialElement(built.domain) : null;
+  if (flat !== null && flat.flatCount > 0 && bulkAnisotropy(built.domain) <= FLAT_ELEMENT_LIMIT && built.spec.strategy === 'adaptive') {
+    // A few flat elements in a mesh of fat ones are accepted (docs/adaptivity.md §2.6); say where they are.
+    progress(`warning: ${flat.flatCount} initial element${flat.flatCount === 1 ? ' is' : 's are'} flat (mapped anisotropy up to ${Number(flat.anisotropy.toPrecision(3))}, ` +
+      `${Number((100 * flat.flatShare).toPrecision(2))} % of the area; the flattest is element ${flat.element}): where the solution varies along them, the estimator ` +
+      'can read below the error there; more vertices along their long sides help (docs/adaptivity.md §2.6)');
+  }
+  if (!built.domain.anisotropic && built.domain.mappedAnisotropy > 8) {
     // Flat isotropic elements slow the V-cycles as anisotropic K does (docs/adaptivity.md §2.6).
     const A = built.domain.mappedAnisotropy;
     const cycles = cyclesForAnisotropy(A);
     const estimator = built.spec.strategy === 'adaptive' ? ', and the estimator reads further below the error the flatter they are' : '';
-    progress(`flat initial elements (anisotropy up to ${Number(A.toPrecision(3))}): the spatial inner solvers run ${cycles} V-cycles per application` +
+    progress(`flat initial elements (mapped anisotropy up to ${Number(A.toPrecision(3))}): the spatial inner solvers run ${cycles} V-cycles per application` +
       `${estimator}; more vertices along their long sides help (docs/adaptivity.md §2.6)`);
   }
   if (opts.out !== undefined) checkWritable(opts.out);

@@ -15,9 +15,14 @@
  * The closed form A = 3r of the rectangle generator's right triangles under K = diag(1, 1/r) is
  * worked by hand in tests/system/anisotropic-diffusion.test.ts (docs/method.md §4.4).
  */
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { HeatProblem, InvalidMeshError, rectangleDomain, solveAdaptive, spaceTimeErrors, type KnownSolution } from '../../src/index';
-import { heatExact1D } from '../helpers/heat-exact';
+import { HeatProblem, InvalidMeshError, rectangleDomain, solveAdaptive, spaceTimeErrors, triangulatedDomain, type KnownSolution } from '../../src/index';
+import { solveFile } from '../../src/cli/solve-command';
+import { heatExact1D, heatExact2D } from '../helpers/heat-exact';
+import { bulkAnisotropy } from '../../src/space/flat-elements';
 
 const slab = heatExact1D();
 /** The slab solution as a solution on the strip: constant across it. */
@@ -25,6 +30,11 @@ const exact: KnownSolution = {
   value: (t, x) => slab.value(t, x),
   gradient: (t, x, _y, g) => { slab.gradient(t, x, 0, g); g[1] = 0; },
 };
+
+/** The unit square with two slivers (A ≈ 7 500) on 1 % of its area, around the segment (0.5, 0.5)–(0.52, 0.5). */
+const SLIVERED = { points: [0, 0, 1, 0, 1, 1, 0, 1, 0.5, 0.5, 0.52, 0.5], triangles: [0, 1, 4, 1, 5, 4, 1, 2, 5, 2, 3, 5, 5, 3, 4, 3, 0, 4] };
+/** The unit square with thin triangles (A ≈ 200) on 10 % of its area, toward the vertex (0.9, 0.1). */
+const OFF_CENTRE = { points: [0, 0, 1, 0, 1, 1, 0, 1, 0.9, 0.1], triangles: [0, 1, 4, 1, 2, 4, 2, 3, 4, 3, 0, 4] };
 
 /** The strip (0, 1) × (0, w) in nx × 1 cells, insulated along y (held at 0 at x = 0 and x = 1). */
 function strip(w: number, nx: number): HeatProblem {
@@ -88,11 +98,41 @@ describe('initial elements flat as the diffusion sees them', () => {
     const err = caught as InvalidMeshError;
     expect(err.field).toMatch(/^domain\.triangles\[[01]\]$/);
     expect(err.received).toBeCloseTo(300, 6);
-    expect(err.expected).toBe('mapped anisotropy ≤ 128');
-    expect(err.message).toMatch(/initial element [01] with vertices .* too flat .* 300 > 128.* more vertices along the long sides.*acceptFlatElements: true/);
+    expect(err.expected).toBe('mapped anisotropy of the mesh ≤ 128');
+    expect(err.message).toMatch(/too flat for the adaptive loop \(2 of 2 initial elements, 100 % of the area, beyond mapped anisotropy 128\); the flattest, element [01] with vertices .*, has 300\..* more vertices along the long sides.*acceptFlatElements: true/);
     expect(steps).toBe(0);
     // told to accept them, it runs (E is not to be trusted there: err/E 2.7–5.6 measured)
     expect(track(problem, 300, true).ratios.length).toBeGreaterThan(0);
+  }, 60_000);
+
+  it.each([['two slivers on 1 % of the area', SLIVERED], ['thin triangles on 10 % of the area', OFF_CENTRE]])('a few flat elements in a mesh of fat ones (%s) are accepted, and E stays honest', (_name, mesh) => {
+    const domain = triangulatedDomain(mesh.points, mesh.triangles);
+    expect(domain.mappedAnisotropy).toBeGreaterThan(128); // the V-cycles count the flattest element (16 cycles)
+    expect(bulkAnisotropy(domain)).toBeLessThan(8); // the estimator's concern, the bulk of the mesh: fat
+    const exact = heatExact2D(); // u0 ≡ 1 held at 0 on the unit square: product of slab series
+    const ratios: number[] = [];
+    const iterations: number[] = [];
+    solveAdaptive(new HeatProblem({ domain, T: 0.5, initial: () => 1 }), {
+      maxUnknowns: 2000,
+      onStep: (s, sol) => { ratios.push(spaceTimeErrors(sol, exact).energyL2 / s.estimate); iterations.push(s.pcgIterations); },
+    });
+    if (process.env.CHRONOMESH_VERBOSE) console.log(ratios.map((r) => r.toFixed(2)).join(' '), iterations.join(' '));
+    // measured to about 4 000 unknowns: err/E 1.57–1.97 and at most 15 iterations with 16 cycles (one cycle: up to 216)
+    expect(Math.min(...ratios)).toBeGreaterThan(0.8);
+    expect(Math.max(...ratios)).toBeLessThan(2.6);
+    expect(Math.max(...iterations)).toBeLessThanOrEqual(40);
+  }, 120_000);
+
+  it('chronomesh solve warns about the few flat elements it accepts, naming how many and where', () => {
+    const file = join(mkdtempSync(join(tmpdir(), 'chronomesh-flat-')), 'p.json');
+    const pts: number[][] = [];
+    for (let i = 0; i < SLIVERED.points.length; i += 2) pts.push([SLIVERED.points[i]!, SLIVERED.points[i + 1]!]);
+    const tris: number[][] = [];
+    for (let i = 0; i < SLIVERED.triangles.length; i += 3) tris.push(SLIVERED.triangles.slice(i, i + 3));
+    writeFileSync(file, JSON.stringify({ domain: { shape: 'mesh', points: pts, triangles: tris }, horizon: 0.5, initial: '1', maxDofs: 200 }));
+    const progress: string[] = [];
+    solveFile(file, { log: () => {}, progress: (l) => progress.push(l) });
+    expect(progress.filter((l) => /^warning: 2 initial elements are flat \(mapped anisotropy up to 7[45]\d\d, 1(\.\d)? % of the area; the flattest is element [1-5]\)/.test(l))).toHaveLength(1);
   }, 60_000);
 
   it('anisotropic diffusion: the remedy is elements stretched along the strong direction', () => {

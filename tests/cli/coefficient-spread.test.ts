@@ -77,7 +77,7 @@ describe('a diffusion tensor in a problem file, from the command line', () => {
   it('warns when the cycles reach their limit of 16 and names the remedy', () => {
     // A = 750 > 128: the adaptive strategy refuses such elements unless the file accepts them
     // (docs/adaptivity.md §2.6), naming the flattest element and the field that accepts it
-    expect(() => run({ xx: 1, xy: 0, yy: 0.004 })).toThrow(/initial element \d+ .* too flat .* mapped anisotropy 750 > 128.*acceptFlatElements/);
+    expect(() => run({ xx: 1, xy: 0, yy: 0.004 })).toThrow(/too flat for the adaptive loop \(8 of 8 initial elements, 100 % of the area, beyond mapped anisotropy 128\); the flattest, element \d+ .* has 750.*acceptFlatElements/);
     const p = run({ xx: 1, xy: 0, yy: 0.004 }, { acceptFlatElements: true });
     expect(p.filter((l) => /^warning: diffusion tensor with eigenvalue ratio up to 250; .* anisotropy up to 750, so .* 16 V-cycles .* the most they run: .* stretched along the strong direction by about √250/.test(l))).toHaveLength(1);
   }, 60_000);
