@@ -153,11 +153,12 @@ export interface AdaptiveOptions {
    */
   resume?: Uint8Array;
   /**
-   * Run even if some initial elements are flat as the diffusion sees them (default false). The loop
-   * refuses, before any work, a mesh whose mapped anisotropy ({@link SpatialDomain.mappedAnisotropy})
-   * exceeds 128: bisection keeps elements as flat as the initial ones, and on such elements the
-   * estimator was measured to read 3 to 12 times below the true error, and PCG to stall
-   * (docs/adaptivity.md §2.6). The remedy is a finer initial mesh across the long sides (more cells
+   * Run even if the bulk of the initial mesh is flat as the diffusion sees it (default false). The
+   * loop refuses, before any work, a mesh whose initial elements covering half its area have mapped
+   * anisotropy above 128 (for an anisotropic material: any of its elements; see
+   * {@link SpatialDomain.mappedAnisotropy}): bisection keeps elements as flat as the initial ones,
+   * and on such meshes the estimator was measured to read 3 to 12 times below the true error, and
+   * PCG to stall (docs/adaptivity.md §2.6). A few slivers are accepted. The remedy is a finer initial mesh across the long sides (more cells
    * along a thin strip's length), or, for anisotropic K, elements stretched along its strong
    * direction. Set this only where you check the error by other means.
    */
