@@ -142,9 +142,9 @@ problem file fields (JSON object):
               in the discrete space)
   bulk        Dörfler parameter θ in (0, 1) (default 0.5 in 1D, 0.7 in 2D)
   acceptFlatElements
-              true to run the adaptive strategy on initial elements too flat
-              for its estimator (default false: such a mesh is refused before
-              any work, naming the flattest element; bisection keeps their
+              true to run the adaptive strategy on a mesh whose bulk is too
+              flat for its estimator (default false: such a mesh is refused
+              before any work, naming the flattest element; bisection keeps their
               descendants as flat, where E was measured 3-12 times below the
               true error and PCG stalls; better: more vertices along the long
               sides, docs/adaptivity.md §2.6)

@@ -76,7 +76,8 @@ export class SpatialDomain {
    * of an element mapped by K^{−1/2} (K = I for a scalar κ), over all element shapes bisection
    * produces (1 for an equilateral mapped element, 3 for a right isosceles one, 3/w² for the right
    * triangle with legs 1 and w). The inner solvers run ⌈A/8⌉ V-cycles, at most 16 (docs/method.md
-   * §4.4), and `solveAdaptive` refuses A > 128 unless told (docs/adaptivity.md §2.6). A mesh whose elements are
+   * §4.4); `solveAdaptive` refuses meshes whose bulk is flatter than A = 128 unless told
+   * (docs/adaptivity.md §2.6). A mesh whose elements are
    * stretched along the strong direction of K by about √r has a small A; on the rectangle
    * generator's right triangles A is about three times the eigenvalue ratio r.
    *
