@@ -43,7 +43,7 @@ export function defaultInitialSet(problem: HeatProblem): DoubleTree {
       const source = dataResolvedSet(closure, sourceData(problem));
       const boundary = boundaryDataResolvedSet(closure, sampleTimes(problem.T));
       const curves = curveResolvedSet(closure, (problem.curveSources ?? []).map((c) => c.curve));
-      const layer = layerResolvedSet(closure, problem.initial, problem.T);
+      const layer = layerResolvedSet(closure, problem.initial, problem.T, problem.source);
       const front = frontResolvedSet(closure, problem.initial, problem.T);
       const tau = Math.min(shortestDiffusionTime(problem.domain), initial.tau, layer.tau, front.tau);
       const extra = [source.set, boundary, curves, layer.set, front.set].reduce(unionOfTwoSorted, initial.set);
