@@ -158,9 +158,10 @@ export interface AdaptiveOptions {
    * anisotropy above 128 (for an anisotropic material: any of its elements; see
    * {@link SpatialDomain.mappedAnisotropy}): bisection keeps elements as flat as the initial ones,
    * and on such meshes the estimator was measured to read 3 to 12 times below the true error, and
-   * PCG to stall (docs/adaptivity.md §2.6). A few slivers are accepted. The remedy is a finer initial mesh across the long sides (more cells
-   * along a thin strip's length), or, for anisotropic K, elements stretched along its strong
-   * direction. Set this only where you check the error by other means.
+   * PCG to stall (docs/adaptivity.md §2.6); a few slivers are accepted. The remedy is more
+   * vertices along the long sides (more cells along a thin strip's length), or, for anisotropic K,
+   * elements stretched along its strong direction. Set this only where you check the error by
+   * other means.
    */
   acceptFlatElements?: boolean;
 }

@@ -12,15 +12,16 @@
  *   elements the hats have steep slopes across the thin direction, which a solution smooth across
  *   it never needs, so E sees a fraction of the error. Measured on the strip (0, 1) × (0, w) in
  *   one cell, held at 0 at x = 0 and 1, insulated along y, u0 ≡ 1, T = 0.5, against the slab
- *   series (Carslaw & Jaeger §3.3): err/E 1.5 (w = 1, A = 3), 2.3–2.6 (w = 1/4, A = 48), 3.2–4.4
- *   (w = 1/10, A = 300), 9–12 and no convergence (w = 1/20, A = 1 200), 4–8 and no convergence
- *   (w = 1/50, A = 7 500); the same strip in 50 cells (A = 3): 1.15–1.16.
+ *   series (Carslaw & Jaeger §3.3), with ⌈A/8⌉ cycles: err/E 1.08–1.91 (w = 1, A = 3), 1.55–2.94
+ *   (w = 1/4, A = 48), 2.7–5.6 (w = 1/10, A = 300); with the single cycle of before, 9–12 and no
+ *   convergence (w = 1/20, A = 1 200), 4–8 and no convergence (w = 1/50, A = 7 500); the same
+ *   strip in 50 cells (A = 3): 1.15–1.16.
  *
  * The loop refuses by the flatness of the bulk of the mesh ({@link bulkAnisotropy}: the area
  * median over isotropic elements, the largest over anisotropic materials). A few slivers in a mesh
  * of fat elements did not hurt the estimator: on the unit square with two slivers of A ≈ 7 500 on
- * 1 % of the area, or thin triangles (A ≈ 200) on 10 % of it, err/E stayed 1.6–2.2 and 1.2–1.7
- * (the V-cycles still count the flattest element: SpatialDomain.mappedAnisotropy).
+ * 1 % of the area, or thin triangles (A ≈ 200) on 10 % of it, err/E stayed 1.64–1.97 and
+ * 1.15–1.91 (the V-cycles still count the flattest element: SpatialDomain.mappedAnisotropy).
  */
 import type { SpatialDomain } from './domain';
 
