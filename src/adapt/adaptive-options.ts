@@ -4,10 +4,10 @@
  * callbacks that are functions, a starting set from the problem's own domain, and no unknown keys
  * (a misspelt key is answered with the nearest name).
  */
-import { InvalidArgumentError, InvalidMeshError, describeValue } from '../errors';
-import { FLAT_ELEMENT_LIMIT, bulkAnisotropy, flattestInitialElement } from '../space/flat-elements';
+import { InvalidArgumentError, InvalidMeshError } from '../errors';
+import { FLAT_ELEMENT_LIMIT, meshFlatness } from '../space/flat-elements';
 import type { SpatialDomain } from '../space/domain';
-import { checkFunction, checkInstance, checkInteger, checkNumber, checkOptions } from '../validation/index';
+import { checkBoolean, checkFunction, checkInstance, checkInteger, checkNumber, checkOptions } from '../validation/index';
 import { checkSetOnDomain } from '../spacetime/set-checks';
 import { HeatProblem } from '../system/heat-problem';
 import { validateInnerSolver } from '../system/system-options';
@@ -234,18 +234,15 @@ export function validateAdaptiveOptions(opts: unknown, problem: HeatProblem, fie
   }
   if (o.initialSet !== undefined) checkSetOnDomain(o.initialSet, problem.domain, `${field}.initialSet`);
   if (o.tolerance !== undefined && o.tolerance > 0) problem.checkTolerance(o.tolerance, `${field}.tolerance`);
-  if (o.acceptFlatElements !== undefined && typeof o.acceptFlatElements !== 'boolean') {
-    throw new InvalidArgumentError(`${field}.acceptFlatElements must be true or false`, { field: `${field}.acceptFlatElements`, expected: 'boolean', received: describeValue(o.acceptFlatElements) });
-  }
+  if (o.acceptFlatElements !== undefined) checkBoolean(o.acceptFlatElements, `${field}.acceptFlatElements`);
   if (o.acceptFlatElements !== true) checkFlatElements(problem.domain);
   return o;
 }
 
 /** Refuses an initial mesh whose elements are too flat for the estimator and the inner solvers (docs/adaptivity.md §2.6). */
 function checkFlatElements(domain: SpatialDomain): void {
-  const bulk = bulkAnisotropy(domain);
-  if (bulk <= FLAT_ELEMENT_LIMIT) return;
-  const flat = flattestInitialElement(domain)!;
+  const flat = meshFlatness(domain);
+  if (flat === null || flat.bulk <= FLAT_ELEMENT_LIMIT) return;
   const at = flat.vertices.map(([x, y]) => `(${Number(x.toPrecision(6))}, ${Number(y.toPrecision(6))})`).join(', ');
   const A = Number(flat.anisotropy.toPrecision(3));
   const share = `${flat.flatCount} of ${domain.forest.initialElementCount} initial elements, ${Number((100 * flat.flatShare).toPrecision(3))} % of the area`;
@@ -255,6 +252,6 @@ function checkFlatElements(domain: SpatialDomain): void {
     'estimator reads several times below the true error and PCG stalls (docs/adaptivity.md §2.6). Use an initial mesh with more vertices along the long sides ' +
     '(e.g. more cells along a thin strip, so that cells are at most about 4 times longer than wide)' +
     `${domain.anisotropic ? ', or elements stretched along the strong direction of K' : ''}, or set acceptFlatElements: true (an option of solveAdaptive, a field of problem files) to run anyway`,
-    { field: `domain.triangles[${flat.element}]`, expected: `mapped anisotropy of the mesh ≤ ${FLAT_ELEMENT_LIMIT}`, received: Number(bulk.toPrecision(3)) },
+    { field: `domain.triangles[${flat.element}]`, expected: `mapped anisotropy of the mesh ≤ ${FLAT_ELEMENT_LIMIT}`, received: Number(flat.bulk.toPrecision(3)) },
   );
 }

@@ -1,6 +1,6 @@
 /** `chronomesh solve PROBLEM.json [--json] [--out DIR] [--checkpoint FILE] [--resume FILE] [--quiet] [--debug]`. */
 import { cyclesForAnisotropy } from '../space/diffusion-tensor';
-import { FLAT_ELEMENT_LIMIT, bulkAnisotropy, flattestInitialElement } from '../space/flat-elements';
+import { FLAT_ELEMENT_LIMIT, meshFlatness } from '../space/flat-elements';
 import { EdgeKind } from '../space/boundary';
 import { readFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
@@ -94,8 +94,8 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
       ? `warning: ${note}, the most they run: PCG iterations grow beyond it; initial elements stretched along the strong direction by about √${Number(r.toPrecision(3))} help (docs/method.md §4.4)`
       : `${note} (docs/method.md §4.4)`);
   }
-  const flat = built.domain.dim === 2 ? flattestInitialElement(built.domain) : null;
-  if (flat !== null && flat.flatCount > 0 && bulkAnisotropy(built.domain) <= FLAT_ELEMENT_LIMIT && built.spec.strategy === 'adaptive') {
+  const flat = meshFlatness(built.domain);
+  if (flat !== null && flat.flatCount > 0 && flat.bulk <= FLAT_ELEMENT_LIMIT && built.spec.strategy === 'adaptive') {
     // A few flat elements in a mesh of fat ones are accepted (docs/adaptivity.md §2.6); say where they are.
     progress(`warning: ${flat.flatCount} initial element${flat.flatCount === 1 ? ' is' : 's are'} flat (mapped anisotropy up to ${Number(flat.anisotropy.toPrecision(3))}, ` +
       `${Number((100 * flat.flatShare).toPrecision(2))} % of the area; the flattest is element ${flat.element}): where the solution varies along them, the estimator ` +

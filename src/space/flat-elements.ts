@@ -17,7 +17,7 @@
  *   convergence (w = 1/20, A = 1 200), 4–8 and no convergence (w = 1/50, A = 7 500); the same
  *   strip in 50 cells (A = 3): 1.15–1.16.
  *
- * The loop refuses by the flatness of the bulk of the mesh ({@link bulkAnisotropy}: the area
+ * The loop refuses by the flatness of the bulk of the mesh (MeshFlatness.bulk: the area
  * median over isotropic elements, the largest over anisotropic materials). A few slivers in a mesh
  * of fat elements did not hurt the estimator: on the unit square with two slivers of A ≈ 7 500 on
  * 1 % of the area, or thin triangles (A ≈ 200) on 10 % of it, err/E stayed 1.64–1.97 and
@@ -28,36 +28,15 @@ import type { SpatialDomain } from './domain';
 /** Largest mapped anisotropy the adaptive loop accepts by default: where the inner cycles stop growing (8 · 16). */
 export const FLAT_ELEMENT_LIMIT = 128;
 
-/**
- * How flat the bulk of the mesh is, as the estimator is concerned: over the isotropic initial
- * elements the area median of their mapped anisotropy, over anisotropic materials the largest
- * (as SpatialDomain.mappedAnisotropy). 1 in 1D. @internal
- */
-export function bulkAnisotropy(domain: SpatialDomain): number {
-  const f = domain.forest;
-  const a = f.initialMappedAnisotropy();
-  let worst = 1;
-  const iso: number[] = [];
-  for (let e = 0; e < a.length; e++) {
-    if (f.isAnisotropicElement(e)) worst = Math.max(worst, a[e]!);
-    else iso.push(e);
-  }
-  if (iso.length === 0) return worst;
-  iso.sort((p, q) => a[p]! - a[q]!);
-  let total = 0;
-  for (const e of iso) total += Math.abs(f.initialMeasure[e]!);
-  // the smallest value such that the elements at or below it cover half the area
-  let acc = 0;
-  for (const e of iso) {
-    acc += Math.abs(f.initialMeasure[e]!);
-    if (acc >= 0.5 * total) return Math.max(worst, a[e]!);
-  }
-  return worst;
-}
-
-/** The flattest initial element and how much of the domain such elements cover, for messages. @internal */
-export interface FlattestElement {
-  /** Index of the initial element. */
+/** How flat the initial mesh is, for the refusal and the messages (null in 1D). @internal */
+export interface MeshFlatness {
+  /**
+   * How flat the bulk of the mesh is, as the estimator is concerned: over the isotropic initial
+   * elements the area median of their mapped anisotropy, over anisotropic materials the largest
+   * (as SpatialDomain.mappedAnisotropy).
+   */
+  bulk: number;
+  /** Index of the flattest initial element. */
   element: number;
   /** Its mapped anisotropy (the largest over its bisection descendants). */
   anisotropy: number;
@@ -69,8 +48,8 @@ export interface FlattestElement {
   flatShare: number;
 }
 
-/** The initial element with the largest mapped anisotropy, and the elements beyond the limit (null in 1D). @internal */
-export function flattestInitialElement(domain: SpatialDomain): FlattestElement | null {
+/** The flatness of the initial mesh of `domain`, in one pass over its elements (null in 1D). @internal */
+export function meshFlatness(domain: SpatialDomain): MeshFlatness | null {
   const f = domain.forest;
   const a = f.initialMappedAnisotropy();
   if (a.length === 0) return null;
@@ -78,6 +57,9 @@ export function flattestInitialElement(domain: SpatialDomain): FlattestElement |
   let flatCount = 0;
   let flatArea = 0;
   let total = 0;
+  let isoArea = 0;
+  let bulk = 1;
+  const iso: number[] = [];
   for (let e = 0; e < a.length; e++) {
     const area = Math.abs(f.initialMeasure[e]!);
     total += area;
@@ -86,11 +68,26 @@ export function flattestInitialElement(domain: SpatialDomain): FlattestElement |
       flatArea += area;
     }
     if (a[e]! > a[worst]!) worst = e;
+    if (f.isAnisotropicElement(e)) bulk = Math.max(bulk, a[e]!);
+    else {
+      iso.push(e);
+      isoArea += area;
+    }
+  }
+  // over the isotropic elements, the smallest value such that those at or below it cover half their area
+  iso.sort((p, q) => a[p]! - a[q]!);
+  let acc = 0;
+  for (const e of iso) {
+    acc += Math.abs(f.initialMeasure[e]!);
+    if (acc >= 0.5 * isoArea) {
+      bulk = Math.max(bulk, a[e]!);
+      break;
+    }
   }
   const vertices: [number, number][] = [];
   for (let k = 0; k < 3; k++) {
     const v = f.eVert[3 * worst + k]!;
     vertices.push([f.vCoord[2 * v]!, f.vCoord[2 * v + 1]!]);
   }
-  return { element: worst, anisotropy: a[worst]!, vertices, flatCount, flatShare: flatArea / total };
+  return { bulk, element: worst, anisotropy: a[worst]!, vertices, flatCount, flatShare: flatArea / total };
 }
