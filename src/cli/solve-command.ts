@@ -1,6 +1,7 @@
 /** `chronomesh solve PROBLEM.json [--json] [--out DIR] [--checkpoint FILE] [--resume FILE] [--quiet] [--debug]`. */
 import { cyclesForAnisotropy } from '../space/diffusion-tensor';
 import { FLAT_ELEMENT_LIMIT, meshFlatness } from '../space/flat-elements';
+import { HIGH_CONTRAST, diffusionContrast } from '../space/coefficient-contrast';
 import { EdgeKind } from '../space/boundary';
 import { readFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
@@ -108,6 +109,13 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     const estimator = built.spec.strategy === 'adaptive' ? ', and the estimator reads further below the error the flatter they are' : '';
     progress(`flat initial elements (mapped anisotropy up to ${Number(A.toPrecision(3))}): the spatial inner solvers run ${cycles} V-cycles per application` +
       `${estimator}; more vertices along their long sides help (docs/adaptivity.md §2.6)`);
+  }
+  const contrast = diffusionContrast(built.domain);
+  if (contrast !== null && contrast.ratio >= HIGH_CONTRAST) {
+    // The block-diagonal preconditioner misprices hats that straddle such an interface (docs/method.md §6.2).
+    const at = contrast.at.slice(0, built.domain.dim).map((v) => Number(v.toPrecision(6))).join(', ');
+    progress(`warning: the diffusivity jumps by a factor ${Number(contrast.ratio.toPrecision(3))} across the interface at (${at}) (initial elements ${contrast.elements[0]} and ${contrast.elements[1]}); ` +
+      'beyond a contrast of about 100 the preconditioner loses robustness there: PCG may need hundreds of iterations per step or stop unconverged with an error (docs/method.md §6.2)');
   }
   if (opts.out !== undefined) checkWritable(opts.out);
   if ((opts.checkpoint !== undefined || opts.resume !== undefined) && built.spec.strategy !== 'adaptive') {

@@ -24,6 +24,8 @@ import { initialLoadWithLifting, sourceLoadWithBoundary } from './boundary-data-
 import { SchurOperator } from './schur-operator';
 import { TestInnerProductInverse } from './test-inner-product-inverse';
 import { TrialPreconditioner } from './trial-preconditioner';
+import { diffusionContrast, NOTABLE_CONTRAST } from '../space/coefficient-contrast';
+import type { SpatialDomain } from '../space/domain';
 
 /** Options of {@link SpaceTimeSystem}. */
 export interface SpaceTimeSystemOptions {
@@ -192,7 +194,19 @@ export class SpaceTimeSystem {
     const energy = (opts.energyTol ?? 0) > 0 ? `, estimated S-energy error ${estimated} against energyTol ${opts.energyTol!.toExponential(2)}` : '';
     const msg = `PCG stopped unconverged after ${result.iterations} iterations (maxIterations) on #Λ = ${this.size}: ` +
       `preconditioned residual ${reached.toExponential(2)}, requested ${target.toExponential(2)}${energy}`;
-    if (!allowUnconverged) throw new NotConvergedError(`${msg}; raise maxIterations or relTol, or pass allowUnconverged: true to get the iterate`, result.iterations, reached, target, { field: 'maxIterations', received: result.iterations });
-    return { solution, pcg: result, warning: `UNCONVERGED: ${msg}` };
+    if (!allowUnconverged) throw new NotConvergedError(`${msg}${contrastHint(this.problem.domain)}; raise maxIterations or relTol, or pass allowUnconverged: true to get the iterate`, result.iterations, reached, target, { field: 'maxIterations', received: result.iterations });
+    return { solution, pcg: result, warning: `UNCONVERGED: ${msg}${contrastHint(this.problem.domain)}` };
   }
+}
+
+/**
+ * The likely cause of slow PCG convergence where the diffusivity jumps by orders of magnitude
+ * across an interface of the initial mesh (docs/method.md §6.2), or '' where it does not.
+ */
+function contrastHint(domain: SpatialDomain): string {
+  const c = diffusionContrast(domain);
+  if (c === null || c.ratio < NOTABLE_CONTRAST) return '';
+  const at = domain.dim === 1 ? `x = ${Number(c.at[0].toPrecision(6))}` : `(${Number(c.at[0].toPrecision(6))}, ${Number(c.at[1].toPrecision(6))})`;
+  return `; the diffusivity jumps by a factor ${Number(c.ratio.toPrecision(3))} at ${at} (${Number(c.kappa[0].toPrecision(3))} in initial element ${c.elements[0]} against ` +
+    `${Number(c.kappa[1].toPrecision(3))} in ${c.elements[1]}), and the preconditioner loses robustness at such interfaces beyond a contrast of about 100 (docs/method.md §6.2)`;
 }
