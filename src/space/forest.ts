@@ -199,9 +199,8 @@ export class BisectionForest {
    * and of all their descendants: the closure of each initial class under bisection (finitely many
    * classes, registered here if not met yet). Isotropic classes count with K = I: a flat triangle
    * under a scalar κ is to the V-cycles what a fat one is under a strongly anisotropic K
-   * (docs/adaptivity.md §2.6). The largest, not a typical value: with one cycle, two slivers on 1 %
-   * of a square's area cost up to 216 PCG iterations in one adaptive step, with 16 at most 15, in
-   * about the same time. 1 in 1D.
+   * (docs/adaptivity.md §2.6). The largest value; the cycles go by the bulk of the mesh and take
+   * 2 where only a few elements are flatter (SpatialDomain.innerCycles). 1 in 1D.
    */
   mappedAnisotropy(): number {
     let worst = 1;

@@ -4,7 +4,6 @@
  * spatial module or, for small problems and tests, an exact dense Cholesky
  * solve (ml-matrix) of the hierarchical matrix.
  */
-import { cyclesForAnisotropy } from '../space/diffusion-tensor';
 import { CholeskyDecomposition, Matrix } from 'ml-matrix';
 import { InvalidArgumentError } from '../errors';
 import type { SpatialDomain } from '../space/index';
@@ -161,8 +160,8 @@ export class FibreInverseCache {
     }
     const fibre = this.pool.get(fibreId);
     const mesh = this.domain.leafMesh(fibre);
-    // one V-cycle unless the diffusion is anisotropic (cyclesForAnisotropy, docs/method.md §4.4)
-    const cycles = this.solver.cycles ?? cyclesForAnisotropy(this.domain.mappedAnisotropy);
+    // one V-cycle unless the mesh looks flat to the smoother (SpatialDomain.innerCycles, docs/method.md §4.4)
+    const cycles = this.solver.cycles ?? this.domain.innerCycles;
     const mg = new MultilevelPreconditioner(mesh, { cycles }).useScratch(this.scratch);
     return new MultigridFibreInverse(this.domain, mesh, fibre, mg, this.scratch);
   }
