@@ -1,5 +1,5 @@
 /** `chronomesh solve PROBLEM.json [--json] [--out DIR] [--checkpoint FILE] [--resume FILE] [--quiet] [--debug]`. */
-import { FLAT_ELEMENT_LIMIT, meshFlatness } from '../space/flat-elements';
+import { FLAT_ELEMENT_LIMIT, innerCycles, meshFlatness } from '../space/flat-elements';
 import { HIGH_CONTRAST, diffusionContrast } from '../space/coefficient-contrast';
 import { EdgeKind } from '../space/boundary';
 import { readFileSync } from 'node:fs';
@@ -87,7 +87,7 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     // up for it until they reach 16 (docs/method.md §4.4).
     const r = built.domain.anisotropyRatio;
     const A = built.domain.mappedAnisotropy;
-    const cycles = built.domain.innerCycles;
+    const cycles = innerCycles(built.domain);
     const note = `diffusion tensor with eigenvalue ratio up to ${Number(r.toPrecision(3))}; mapped by K^(-1/2) the elements have anisotropy up to ` +
       `${Number(A.toPrecision(3))}, so the spatial inner solvers run ${cycles} V-cycle${cycles === 1 ? '' : 's'} per application`;
     progress(cycles >= 16 && A > 8 * 16
@@ -104,7 +104,7 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
   if (!built.domain.anisotropic && built.domain.mappedAnisotropy > 8) {
     // Flat isotropic elements slow the V-cycles as anisotropic K does (docs/adaptivity.md §2.6).
     const A = built.domain.mappedAnisotropy;
-    const cycles = built.domain.innerCycles;
+    const cycles = innerCycles(built.domain);
     const estimator = built.spec.strategy === 'adaptive' ? ', and the estimator reads further below the error the flatter they are' : '';
     progress(`flat initial elements (mapped anisotropy up to ${Number(A.toPrecision(3))}): the spatial inner solvers run ${cycles} V-cycles per application` +
       `${estimator}; more vertices along their long sides help (docs/adaptivity.md §2.6)`);

@@ -63,7 +63,8 @@ export function mappedAnisotropy(x1: number, y1: number, x2: number, y2: number,
 /**
  * V-cycles per application of the spatial inner solvers for a mapped anisotropy A of the mesh's
  * element classes ({@link mappedAnisotropy}, over every shape bisection produces): ⌈A/8⌉, between
- * 1 and 16. The domain applies it to the bulk of its mesh (SpatialDomain.innerCycles). A V-cycle with point Gauss–Seidel smoothing works on the stiffness as
+ * 1 and 16, applied to the bulk of the mesh (innerCycles in ./flat-elements). A V-cycle with
+ * point Gauss–Seidel smoothing works on the stiffness as
  * on the mapped elements, and it slows down as they flatten (common practice); PCG on the
  * space-time system then needs more iterations, while with exact inner solves the count does not
  * depend on the anisotropy (docs/method.md §4.4). Measured (sparse grid of level 4 on the unit

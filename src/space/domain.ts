@@ -6,7 +6,6 @@
  * point location (./point-location.ts); they share the scratch of one VertexClosure.
  */
 import { anisotropyRatio } from './diffusion-tensor';
-import { innerCycles } from './flat-elements';
 import { InvalidArgumentError, describeValue } from '../errors';
 import { BisectionForest } from './forest';
 import type { InitialMesh } from './initial-mesh';
@@ -95,25 +94,6 @@ export class SpatialDomain {
   }
   private mapped: number | undefined;
 
-  /**
-   * V-cycles the spatial inner solvers run per application unless told otherwise: ⌈A/8⌉ (1 … 16) for
-   * the mapped anisotropy A of the bulk of the mesh (all of it under an anisotropic K), and 2 where
-   * only a few elements are flatter than the bulk (docs/adaptivity.md §2.6).
-   *
-   * @example
-   * ```ts
-   * import { rectangleDomain, triangulatedDomain } from 'chronomesh';
-   * console.log(rectangleDomain(0, 1, 0, 1, 2, 2).innerCycles); // → 1
-   * console.log(rectangleDomain(0, 1, 0, 1, 2, 2, { diffusionTensor: { xx: 1, xy: 0, yy: 0.01 } }).innerCycles); // → 16
-   * // a square of six triangles, two of them slivers around (0.5, 0.5)–(0.52, 0.5)
-   * const slivered = triangulatedDomain([0, 0, 1, 0, 1, 1, 0, 1, 0.5, 0.5, 0.52, 0.5], [0, 1, 4, 1, 5, 4, 1, 2, 5, 2, 3, 5, 5, 3, 4, 3, 0, 4]);
-   * console.log(slivered.innerCycles); // → 2
-   * ```
-   */
-  get innerCycles(): number {
-    return (this.cycles ??= innerCycles(this));
-  }
-  private cycles: number | undefined;
 
   /** Vertices created so far (grows as the forest is refined). */
   get vertexCount(): number {

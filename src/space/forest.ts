@@ -200,7 +200,7 @@ export class BisectionForest {
    * classes, registered here if not met yet). Isotropic classes count with K = I: a flat triangle
    * under a scalar κ is to the V-cycles what a fat one is under a strongly anisotropic K
    * (docs/adaptivity.md §2.6). The largest value; the cycles go by the bulk of the mesh and take
-   * 2 where only a few elements are flatter (SpatialDomain.innerCycles). 1 in 1D.
+   * 2 where only a few elements are flatter (innerCycles in ./flat-elements). 1 in 1D.
    */
   mappedAnisotropy(): number {
     let worst = 1;

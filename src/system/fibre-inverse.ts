@@ -14,6 +14,7 @@ import { localIndices } from '../space/operator-plan';
 import type { FibrePool } from '../spacetime/fibre-pool';
 import type { SpatialPlanCache } from '../spacetime/spatial-plan-cache';
 import { EpochMap } from '../spacetime/epoch-map';
+import { innerCycles } from '../space/flat-elements';
 
 /**
  * How the spatial inverses inside K_Y and K_X are realised: V-cycles (`cycles` per application;
@@ -141,6 +142,8 @@ export class FibreInverseCache {
   private readonly items = new EpochMap<FibreInverse>();
   // Work vectors shared by the V-cycles of all inverses built here (numerics/work-vectors).
   private readonly scratch = new WorkVectors();
+  // V-cycles per application, from the shape of the initial mesh (computed on first use).
+  private cycles: number | undefined;
   constructor(
     private readonly domain: SpatialDomain,
     readonly pool: FibrePool,
@@ -160,8 +163,8 @@ export class FibreInverseCache {
     }
     const fibre = this.pool.get(fibreId);
     const mesh = this.domain.leafMesh(fibre);
-    // one V-cycle unless the mesh looks flat to the smoother (SpatialDomain.innerCycles, docs/method.md §4.4)
-    const cycles = this.solver.cycles ?? this.domain.innerCycles;
+    // one V-cycle unless the mesh looks flat to the smoother (innerCycles, docs/method.md §4.4)
+    const cycles = this.solver.cycles ?? (this.cycles ??= innerCycles(this.domain));
     const mg = new MultilevelPreconditioner(mesh, { cycles }).useScratch(this.scratch);
     return new MultigridFibreInverse(this.domain, mesh, fibre, mg, this.scratch);
   }
