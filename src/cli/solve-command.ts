@@ -1,6 +1,6 @@
 /** `chronomesh solve PROBLEM.json [--json] [--out DIR] [--checkpoint FILE] [--resume FILE] [--quiet] [--debug]`. */
 import { FLAT_ELEMENT_LIMIT, innerCycles, meshFlatness } from '../space/flat-elements';
-import { HIGH_CONTRAST, diffusionContrast } from '../space/coefficient-contrast';
+import { HIGH_BIOT, HIGH_CONTRAST, diffusionContrast, stiffestTransfer } from '../space/coefficient-contrast';
 import { EdgeKind } from '../space/boundary';
 import { readFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
@@ -115,6 +115,12 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
     const at = contrast.at.slice(0, built.domain.dim).map((v) => Number(v.toPrecision(6))).join(', ');
     progress(`warning: the diffusivity jumps by a factor ${Number(contrast.ratio.toPrecision(3))} across the interface at (${at}) (initial elements ${contrast.elements[0]} and ${contrast.elements[1]}); ` +
       'beyond a contrast of about 100 the preconditioner loses robustness there: PCG may need hundreds of iterations per step or stop unconverged with an error (docs/method.md §6.2)');
+  }
+  const stiff = stiffestTransfer(built.domain);
+  if (stiff !== null && stiff.biot >= HIGH_BIOT) {
+    const at = stiff.at.slice(0, built.domain.dim).map((v) => Number(v.toPrecision(6))).join(', ');
+    progress(`warning: the convection edge at (${at}) has a Biot number hL/κ of ${Number(stiff.biot.toPrecision(3))} (h = ${Number(stiff.h.toPrecision(3))}): such a stiff surface ` +
+      "slows the solver as a high-contrast interface does, and PCG may need hundreds of iterations per step; a surface meant to follow the ambient is better held at it (kind 'value'; docs/method.md §6.2)");
   }
   if (opts.out !== undefined) checkWritable(opts.out);
   if ((opts.checkpoint !== undefined || opts.resume !== undefined) && built.spec.strategy !== 'adaptive') {

@@ -24,7 +24,7 @@ import { initialLoadWithLifting, sourceLoadWithBoundary } from './boundary-data-
 import { SchurOperator } from './schur-operator';
 import { TestInnerProductInverse } from './test-inner-product-inverse';
 import { TrialPreconditioner } from './trial-preconditioner';
-import { diffusionContrast, NOTABLE_CONTRAST } from '../space/coefficient-contrast';
+import { diffusionContrast, NOTABLE_BIOT, NOTABLE_CONTRAST, stiffestTransfer } from '../space/coefficient-contrast';
 import type { SpatialDomain } from '../space/domain';
 
 /** Options of {@link SpaceTimeSystem}. */
@@ -200,13 +200,22 @@ export class SpaceTimeSystem {
 }
 
 /**
- * The likely cause of slow PCG convergence where the diffusivity jumps by orders of magnitude
- * across an interface of the initial mesh (docs/method.md §6.2), or '' where it does not.
+ * The likely causes of slow PCG convergence that the mesh and data show (docs/method.md §6.2): a
+ * diffusivity that jumps by orders of magnitude across an interface of the initial mesh, a
+ * convection edge with a large Biot number; '' where there is neither.
  */
 function contrastHint(domain: SpatialDomain): string {
+  const place = (p: [number, number]): string => domain.dim === 1 ? `x = ${Number(p[0].toPrecision(6))}` : `(${Number(p[0].toPrecision(6))}, ${Number(p[1].toPrecision(6))})`;
+  let hint = '';
   const c = diffusionContrast(domain);
-  if (c === null || c.ratio < NOTABLE_CONTRAST) return '';
-  const at = domain.dim === 1 ? `x = ${Number(c.at[0].toPrecision(6))}` : `(${Number(c.at[0].toPrecision(6))}, ${Number(c.at[1].toPrecision(6))})`;
-  return `; the diffusivity jumps by a factor ${Number(c.ratio.toPrecision(3))} at ${at} (${Number(c.kappa[0].toPrecision(3))} in initial element ${c.elements[0]} against ` +
-    `${Number(c.kappa[1].toPrecision(3))} in ${c.elements[1]}), and the preconditioner loses robustness at such interfaces beyond a contrast of about 100 (docs/method.md §6.2)`;
+  if (c !== null && c.ratio >= NOTABLE_CONTRAST) {
+    hint += `; the diffusivity jumps by a factor ${Number(c.ratio.toPrecision(3))} at ${place(c.at)} (${Number(c.kappa[0].toPrecision(3))} in initial element ${c.elements[0]} against ` +
+      `${Number(c.kappa[1].toPrecision(3))} in ${c.elements[1]}), and the preconditioner loses robustness at such interfaces beyond a contrast of about 100 (docs/method.md §6.2)`;
+  }
+  const r = stiffestTransfer(domain);
+  if (r !== null && r.biot >= NOTABLE_BIOT) {
+    hint += `; the convection edge at ${place(r.at)} has a Biot number hL/κ of ${Number(r.biot.toPrecision(3))} (h = ${Number(r.h.toPrecision(3))}), which stiffens the system ` +
+      "there as a high-contrast interface does (docs/method.md §6.2): a surface meant to follow the ambient is better held at it (kind 'value')";
+  }
+  return hint;
 }

@@ -11,7 +11,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { DoubleTree, HeatProblem, NotConvergedError, SpaceTimeSystem, intervalDomain, rectangleDomain, solveAdaptive } from '../../src/index';
-import { diffusionContrast } from '../../src/space/coefficient-contrast';
+import { diffusionContrast, stiffestTransfer } from '../../src/space/coefficient-contrast';
 import { solveFile } from '../../src/cli/solve-command';
 import { buildProblem, parseProblem } from '../../src/problem-file/index';
 
@@ -46,6 +46,51 @@ describe('diffusionContrast', () => {
     const json = JSON.parse(readFileSync(join(__dirname, '../../examples/two-layer-wall.json'), 'utf8'));
     expect(diffusionContrast(buildProblem(parseProblem(json)).domain)!.ratio).toBeCloseTo(20, 9);
   });
+});
+
+describe('stiffestTransfer', () => {
+  const cooled = (h: number, kappa = 1) => intervalDomain(0, 1, 2, { kappa, boundary: [{ kind: 'convection', where: () => true, transferCoefficient: h, ambient: 0 }] });
+  it('gives the Biot number hL/κ with L the domain diameter and κ across the edge', () => {
+    expect(stiffestTransfer(cooled(1e4))!.biot).toBeCloseTo(1e4, 8);
+    expect(stiffestTransfer(cooled(1e4, 2))!.biot).toBeCloseTo(5e3, 8);
+    expect(stiffestTransfer(intervalDomain(0, 1, 2))).toBeNull(); // held ends: no convection
+    // 2D: h = 30 on the top of the rectangle (0, 2) × (0, 1), L = √5, κ = 3 → 10√5
+    const top = stiffestTransfer(rectangleDomain(0, 2, 0, 1, 2, 1, { kappa: 3, boundary: [{ kind: 'convection', where: (_mx, my) => my > 1 - 1e-9, transferCoefficient: 30, ambient: 0 }] }))!;
+    expect(top.biot).toBeCloseTo(10 * Math.sqrt(5), 9);
+    expect(top.at[1]).toBeCloseTo(1, 12);
+    expect(top.h).toBe(30);
+  });
+
+  it('an unconverged solve names a stiff convection edge; a mild one is not named', () => {
+    const message = (h: number): string => {
+      const p = new HeatProblem({ domain: cooled(h), T: 0.5, initial: () => 1 });
+      try {
+        new SpaceTimeSystem(p, DoubleTree.sparseGrid(p.domain, 4)).solve({ maxIterations: 1 });
+      } catch (e) {
+        expect(e).toBeInstanceOf(NotConvergedError);
+        return (e as Error).message;
+      }
+      throw new Error('expected NotConvergedError');
+    };
+    expect(message(1e4)).toMatch(/the convection edge at x = [01] has a Biot number hL\/κ of 10000 \(h = 10000\).*held at it \(kind 'value'\)/);
+    expect(message(10)).not.toMatch(/Biot/);
+  });
+
+  it('chronomesh solve warns from a Biot number of 10⁴', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'chronomesh-biot-'));
+    const warnings = (h: string): string[] => {
+      const file = join(dir, `p${h}.json`);
+      writeFileSync(file, JSON.stringify({ domain: { shape: 'interval', from: 0, to: 1, cells: 2 }, horizon: 0.5, initial: '1', maxDofs: 40,
+        boundary: [{ kind: 'convection', where: 'x > 0.5', transferCoefficient: h, ambient: '0' }] }));
+      const progress: string[] = [];
+      solveFile(file, { log: () => {}, progress: (l) => progress.push(l) });
+      return progress.filter((l) => l.includes('Biot'));
+    };
+    const w = warnings('10000');
+    expect(w).toHaveLength(1);
+    expect(w[0]).toMatch(/^warning: the convection edge at \(1\) has a Biot number hL\/κ of 10000 \(h = 10000\)/);
+    expect(warnings('100')).toHaveLength(0);
+  }, 60_000);
 });
 
 describe('solves across a high-contrast interface', () => {
