@@ -120,7 +120,7 @@ export function solveFile(file: string, opts: SolveFileOptions = {}): { run: Run
   if (stiff !== null && stiff.biot >= HIGH_BIOT) {
     const at = stiff.at.slice(0, built.domain.dim).map((v) => Number(v.toPrecision(6))).join(', ');
     progress(`warning: the convection edge at (${at}) has a Biot number hL/κ of ${Number(stiff.biot.toPrecision(3))} (h = ${Number(stiff.h.toPrecision(3))}): such a stiff surface ` +
-      "slows the solver as a high-contrast interface does, and PCG may need hundreds of iterations per step; a surface meant to follow the ambient is better held at it (kind 'value'; docs/method.md §6.2)");
+      "slows the solver, and PCG may need hundreds of iterations per step; a surface meant to follow the ambient is better held at it (kind 'value'; docs/method.md §6.2)");
   }
   if (opts.out !== undefined) checkWritable(opts.out);
   if ((opts.checkpoint !== undefined || opts.resume !== undefined) && built.spec.strategy !== 'adaptive') {

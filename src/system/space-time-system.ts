@@ -215,7 +215,7 @@ function contrastHint(domain: SpatialDomain): string {
   const r = stiffestTransfer(domain);
   if (r !== null && r.biot >= NOTABLE_BIOT) {
     hint += `; the convection edge at ${place(r.at)} has a Biot number hL/κ of ${Number(r.biot.toPrecision(3))} (h = ${Number(r.h.toPrecision(3))}), which stiffens the system ` +
-      "there as a high-contrast interface does (docs/method.md §6.2): a surface meant to follow the ambient is better held at it (kind 'value')";
+      "there and slows the solver (docs/method.md §6.2): a surface meant to follow the ambient is better held at it (kind 'value')";
   }
   return hint;
 }
