@@ -10,12 +10,24 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { DoubleTree, HeatProblem, NotConvergedError, SpaceTimeSystem, intervalDomain, rectangleDomain, solveAdaptive } from '../../src/index';
+import { DoubleTree, HeatProblem, NotConvergedError, SpaceTimeSystem, intervalDomain, rectangleDomain, solveAdaptive, type SpatialDomain } from '../../src/index';
 import { diffusionContrast, stiffestTransfer } from '../../src/space/coefficient-contrast';
 import { solveFile } from '../../src/cli/solve-command';
 import { buildProblem, parseProblem } from '../../src/problem-file/index';
 
 const layered = (k2: number) => intervalDomain(0, 1, 2, { kappa: (mx) => (mx < 0.5 ? 1 : k2), boundary: [{ kind: 'value', where: (mx) => mx > 0.5, value: 1 }] });
+
+/** The message of the NotConvergedError that one PCG iteration on the sparse grid of level 4 ends in. */
+function unconvergedMessage(domain: SpatialDomain): string {
+  const p = new HeatProblem({ domain, T: 0.5, initial: () => 1 });
+  try {
+    new SpaceTimeSystem(p, DoubleTree.sparseGrid(domain, 4)).solve({ maxIterations: 1 });
+  } catch (e) {
+    expect(e).toBeInstanceOf(NotConvergedError);
+    return (e as Error).message;
+  }
+  throw new Error('expected NotConvergedError');
+}
 
 describe('diffusionContrast', () => {
   it('finds the facet, the sides and the ratio in 1D and 2D', () => {
@@ -62,16 +74,7 @@ describe('stiffestTransfer', () => {
   });
 
   it('an unconverged solve names a stiff convection edge; a mild one is not named', () => {
-    const message = (h: number): string => {
-      const p = new HeatProblem({ domain: cooled(h), T: 0.5, initial: () => 1 });
-      try {
-        new SpaceTimeSystem(p, DoubleTree.sparseGrid(p.domain, 4)).solve({ maxIterations: 1 });
-      } catch (e) {
-        expect(e).toBeInstanceOf(NotConvergedError);
-        return (e as Error).message;
-      }
-      throw new Error('expected NotConvergedError');
-    };
+    const message = (h: number): string => unconvergedMessage(cooled(h));
     expect(message(1e4)).toMatch(/the convection edge at x = [01] has a Biot number hL\/κ of 10000 \(h = 10000\).*held at it \(kind 'value'\)/);
     expect(message(10)).not.toMatch(/Biot/);
   });
@@ -95,16 +98,7 @@ describe('stiffestTransfer', () => {
 
 describe('solves across a high-contrast interface', () => {
   it('an unconverged solve names the interface; without a jump it does not', () => {
-    const run = (k2: number): string => {
-      const p = new HeatProblem({ domain: layered(k2), T: 0.5, initial: () => 1 });
-      try {
-        new SpaceTimeSystem(p, DoubleTree.sparseGrid(p.domain, 4)).solve({ maxIterations: 1 });
-      } catch (e) {
-        expect(e).toBeInstanceOf(NotConvergedError);
-        return (e as Error).message;
-      }
-      throw new Error('expected NotConvergedError');
-    };
+    const run = (k2: number): string => unconvergedMessage(layered(k2));
     expect(run(1e-4)).toMatch(/the diffusivity jumps by a factor 10000 at x = 0\.5 \(1 in initial element 0 against 0\.0001 in 1\).*docs\/method\.md §6\.2/);
     expect(run(1)).not.toMatch(/jumps/);
   });
