@@ -16,10 +16,10 @@
  * A convection edge with a large transfer coefficient slows the solver too (whether by the same
  * mechanism is not checked): the Robin term h adds to the stiffness of the surface hats alone.
  * Measured on (0, 1) in two cells with h at both ends, ambient 0, u0 ≡ 1, T = 0.5, along the
- * default loop to 2·10⁴ unknowns: at most 10
- * PCG iterations per step for a Biot number hL/κ = 10², 413 for 10⁴, 203 for 10⁶, and unconverged at
- * 5 545 unknowns for 10⁸ (also with exact inner solves: 97 for 10⁴ at 3·10³ unknowns). On the 2 × 2
- * square: 14, 189, 13 and 11. A surface meant to follow the ambient is better held at it.
+ * default loop to 2·10⁴ unknowns: at most 10 PCG iterations per step for a Biot number hL/κ = 10²,
+ * 413 for 10⁴, 203 for 10⁶, and unconverged at 5 545 unknowns for 10⁸ (also with exact inner
+ * solves: 97 for 10⁴ at 3·10³ unknowns). On the 2 × 2 square: 14, 189, 13 and 11. A surface meant
+ * to follow the ambient is better held at it.
  */
 import type { SpatialDomain } from './domain';
 import { EdgeKind } from './boundary';
