@@ -22,7 +22,7 @@
  * memory), checked below against the equations.
  */
 import { describe, expect, it } from 'vitest';
-import { HeatProblem, intervalDomain, solveAdaptive, type SpaceTimeSolution } from '../../src/index';
+import { HeatProblem, intervalDomain, solveAdaptive, type SpaceTimeSolution, type SpatialDomain } from '../../src/index';
 import { gradedGauss } from '../helpers/graded-gauss';
 
 const C = 1e4;
@@ -65,6 +65,26 @@ function energyError(sol: SpaceTimeSolution): number {
   return Math.sqrt(sum);
 }
 
+/** err/E at every step of the default loop on `domain` with u0 = 0, f = 1, over `steps` steps. */
+function ratiosAlong(domain: SpatialDomain, steps: number, error: (sol: SpaceTimeSolution) => number): number[] {
+  const ratios: number[] = [];
+  solveAdaptive(new HeatProblem({ domain, T, initial: () => 0, source: () => 1 }), {
+    maxSteps: steps,
+    onStep: (s, sol) => { ratios.push(error(sol) / s.estimate); },
+  });
+  if (process.env.CHRONOMESH_VERBOSE) console.log(ratios.map((r) => r.toFixed(2)).join(' '));
+  return ratios;
+}
+
+/** Unknowns of the first adaptive set on `domain` with u0 ≡ u0v and f ≡ f. */
+function firstSetSize(domain: SpatialDomain, u0v: number, f: number): number {
+  let size = 0;
+  solveAdaptive(new HeatProblem({ domain, T, initial: () => u0v, source: () => f }), {
+    maxSteps: 1, onStep: (s) => { size = s.unknowns; },
+  });
+  return size;
+}
+
 describe('a reaction layer at held edges (c = 10⁴ on (0, 1) in two cells)', () => {
   it('the reference solves the problem: steady ODE, initial state, PDE and boundary values', () => {
     const h = 1e-4;
@@ -85,27 +105,15 @@ describe('a reaction layer at held edges (c = 10⁴ on (0, 1) in two cells)', ()
   });
 
   it('err/E stays within [0.7, 2] over 30 steps (before: up to 4.8)', () => {
-    const ratios: number[] = [];
-    const domain = intervalDomain(0, 1, 2, { reaction: C });
-    solveAdaptive(new HeatProblem({ domain, T, initial: () => 0, source: () => 1 }), {
-      maxSteps: 30,
-      onStep: (s, sol) => { ratios.push(energyError(sol) / s.estimate); },
-    });
-    if (process.env.CHRONOMESH_VERBOSE) console.log(ratios.map((r) => r.toFixed(2)).join(' '));
+    const ratios = ratiosAlong(intervalDomain(0, 1, 2, { reaction: C }), 30, energyError);
     expect(ratios).toHaveLength(30);
     expect(Math.min(...ratios)).toBeGreaterThan(0.7);
     expect(Math.max(...ratios)).toBeLessThan(2);
   }, 60_000);
 
   it('the rule adds nothing where the reduced state meets the held value, or the layer is wider than the elements', () => {
-    const first = (c: number, f: number, g: number): number => {
-      const domain = intervalDomain(0, 1, 2, { reaction: c, boundary: [{ kind: 'value', where: () => true, value: g }] });
-      let size = 0;
-      solveAdaptive(new HeatProblem({ domain, T, initial: () => g, source: () => f }), {
-        maxSteps: 1, onStep: (s) => { size = s.unknowns; },
-      });
-      return size;
-    };
+    const first = (c: number, f: number, g: number): number =>
+      firstSetSize(intervalDomain(0, 1, 2, { reaction: c, boundary: [{ kind: 'value', where: () => true, value: g }] }), g, f);
     const plain = first(1e4, 0, 0); // f = 0: nothing to balance, u ≡ 0
     expect(first(1e4, 1, 1e-4)).toBe(plain); // f/c = g: in balance
     expect(first(1, 1, 0)).toBe(first(1, 0, 0)); // √(κ/c) = 1, wider than the cells
@@ -188,25 +196,14 @@ describe('a reaction layer at convection edges (c = 10⁴, h = 1000, ambient 0, 
   });
 
   it('err/E stays within [0.7, 2] over 25 steps (before: rising to 3.76)', () => {
-    const ratios: number[] = [];
-    solveAdaptive(new HeatProblem({ domain: intervalDomain(0, 1, 2, robin(0)), T, initial: () => 0, source: () => 1 }), {
-      maxSteps: 25,
-      onStep: (s, sol) => { ratios.push(robinError(sol) / s.estimate); },
-    });
-    if (process.env.CHRONOMESH_VERBOSE) console.log(ratios.map((r) => r.toFixed(2)).join(' '));
+    const ratios = ratiosAlong(intervalDomain(0, 1, 2, robin(0)), 25, robinError);
     expect(ratios).toHaveLength(25);
     expect(Math.min(...ratios)).toBeGreaterThan(0.7);
     expect(Math.max(...ratios)).toBeLessThan(2);
   }, 60_000);
 
   it('adds nothing where the ambient is the reduced state', () => {
-    const first = (f: number, ambient: number): number => {
-      let size = 0;
-      solveAdaptive(new HeatProblem({ domain: intervalDomain(0, 1, 2, robin(ambient)), T, initial: () => ambient, source: () => f }), {
-        maxSteps: 1, onStep: (s) => { size = s.unknowns; },
-      });
-      return size;
-    };
+    const first = (f: number, ambient: number): number => firstSetSize(intervalDomain(0, 1, 2, robin(ambient)), ambient, f);
     const plain = first(0, 0);
     expect(first(1, 1 / C)).toBe(plain); // f/c = u∞ = u0: in balance
     expect(first(1, 0)).toBeGreaterThan(plain + 6); // the layer at both ends
