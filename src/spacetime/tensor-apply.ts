@@ -122,27 +122,52 @@ export function applyTensorOperatorOnce(
   partCoefficients = PART_COEFFICIENTS,
 ): void {
   checkNotAliased(x, y, 'applyTensorOperatorOnce');
-  const forms = [timeFormWithMass, timeFormWithStiffness] as const;
   // Both halves use the scratch slots 0 and 1 of `work` in turn (callers applying several
   // operators once may pass one WorkVectors to all of them).
-  {
-    // Time first: z = (U ⊗ I) x on Θ, then y = (I ⊗ M_x) z_M + (I ⊗ A_x) z_A.
-    const theta = timeFirstSet(input, output);
-    const zM = work.get(0, theta.size);
-    const zA = work.get(1, theta.size);
-    zM.fill(0, 0, theta.size);
-    zA.fill(0, 0, theta.size);
-    inParts(forms, input, theta, 'upper', T, partCoefficients, (plan) => plan.applyEach(x, [zM, zA]));
-    new SpatialPassPlan(theta, output, cache, true).applySum(zM, zA, y, accumulate);
-  }
-  {
-    // Space first: w = (I ⊗ M_x) x, (I ⊗ A_x) x on Σ, then y += (L ⊗ I) w.
-    const sigma = spaceFirstSet(input, output);
-    const wM = work.get(0, sigma.size);
-    const wA = work.get(1, sigma.size);
-    new SpatialPassPlan(input, sigma, cache, true).applySplit(x, wM, wA);
-    inParts(forms, sigma, output, 'lower', T, partCoefficients, (plan) => plan.applySummed([wM, wA], y, true));
-  }
+  // Time first: z = (U ⊗ I) x on Θ, then y = (I ⊗ M_x) z_M + (I ⊗ A_x) z_A.
+  const { theta, zM, zA } = timeFirstTemporalOnce(timeFormWithMass, timeFormWithStiffness, input, output, T, x, work, partCoefficients);
+  new SpatialPassPlan(theta, output, cache, true).applySum(zM, zA, y, accumulate);
+  applySpaceFirstHalfOnce(timeFormWithMass, timeFormWithStiffness, input, output, cache, T, x, y, work, partCoefficients);
+}
+
+/**
+ * The temporal pass of the time-first half of {@link applyTensorOperatorOnce}: z = (U ⊗ I) x on Θ,
+ * split by the spatial factor it still needs (zM for M_x, zA for A_x; scratch slots 0 and 1 of
+ * `work`). Θ has the temporal tree of `output`, so its function f is output's function f, and
+ * Θ's fibre of f lies inside output's (a union of the input fibres overlapping f on its level).
+ * For callers that run the spatial half themselves, fused with other work on output's fibres
+ * (the estimator, ../system/enlarged-residual.ts). @internal
+ */
+export function timeFirstTemporalOnce(
+  timeFormWithMass: TemporalForm, timeFormWithStiffness: TemporalForm,
+  input: DoubleTree, output: DoubleTree, T: number, x: Float64Array, work: WorkVectors,
+  partCoefficients = PART_COEFFICIENTS,
+): { theta: DoubleTree; zM: Float64Array; zA: Float64Array } {
+  const forms = [timeFormWithMass, timeFormWithStiffness] as const;
+  const theta = timeFirstSet(input, output);
+  const zM = work.get(0, theta.size);
+  const zA = work.get(1, theta.size);
+  zM.fill(0, 0, theta.size);
+  zA.fill(0, 0, theta.size);
+  inParts(forms, input, theta, 'upper', T, partCoefficients, (plan) => plan.applyEach(x, [zM, zA]));
+  return { theta, zM, zA };
+}
+
+/**
+ * The space-first half of {@link applyTensorOperatorOnce}, applied once and added to y:
+ * w = (I ⊗ M_x) x, (I ⊗ A_x) x on Σ, then y += (L ⊗ I) w. @internal
+ */
+export function applySpaceFirstHalfOnce(
+  timeFormWithMass: TemporalForm, timeFormWithStiffness: TemporalForm,
+  input: DoubleTree, output: DoubleTree, cache: SpatialPlanCache, T: number,
+  x: Float64Array, y: Float64Array, work: WorkVectors, partCoefficients = PART_COEFFICIENTS,
+): void {
+  const forms = [timeFormWithMass, timeFormWithStiffness] as const;
+  const sigma = spaceFirstSet(input, output);
+  const wM = work.get(0, sigma.size);
+  const wA = work.get(1, sigma.size);
+  new SpatialPassPlan(input, sigma, cache, true).applySplit(x, wM, wA);
+  inParts(forms, sigma, output, 'lower', T, partCoefficients, (plan) => plan.applySummed([wM, wA], y, true));
 }
 
 /**

@@ -155,14 +155,17 @@ export class FibreInverseCache {
     return this.items.getOrMake(fibreId, () => this.build(fibreId));
   }
 
-  /** A new inverse on fibre `fibreId`, not kept (for one-shot sweeps such as the estimator's K_Y). */
-  build(fibreId: number): FibreInverse {
+  /**
+   * A new inverse on fibre `fibreId`, not kept (for one-shot sweeps such as the estimator's K_Y).
+   * `mesh`, if given, is the fibre's leaf mesh built by the caller for other work on the same fibre.
+   */
+  build(fibreId: number, mesh?: LeafMesh): FibreInverse {
     if (this.solver.kind === 'exact') {
       const { M, A } = denseFibreMatrices(this.plans, fibreId);
       return new ExactFibreInverse(M, A);
     }
     const fibre = this.pool.get(fibreId);
-    const mesh = this.domain.leafMesh(fibre);
+    mesh ??= this.domain.leafMesh(fibre);
     // one V-cycle unless the mesh looks flat to the smoother (innerCycles, docs/method.md §4.4)
     const cycles = this.solver.cycles ?? (this.cycles ??= innerCycles(this.domain));
     const mg = new MultilevelPreconditioner(mesh, { cycles }).useScratch(this.scratch);
