@@ -45,6 +45,15 @@ export class SpatialPlanCache {
     });
   }
 
+  /**
+   * The leaf mesh of fibre `id` as the plans share it (built on first use), for other work on the
+   * same fibre, such as its V-cycle hierarchy (../system/fibre-inverse.ts). The cache keeps it only
+   * while a cached plan uses it. @internal
+   */
+  meshOf(id: number): SharedLeafMesh {
+    return this.meshFor(this.pool.get(id));
+  }
+
   /** The shared leaf mesh of `union` (built and validated on first use: the union must be closed). */
   private meshFor(union: Int32Array): SharedLeafMesh {
     const id = this.unions.intern(union);

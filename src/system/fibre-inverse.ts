@@ -165,7 +165,9 @@ export class FibreInverseCache {
       return new ExactFibreInverse(M, A);
     }
     const fibre = this.pool.get(fibreId);
-    mesh ??= this.domain.leafMesh(fibre);
+    // the plans' mesh of the fibre when they have one (B's and Bᵀ's unions on the test side are the
+    // test fibres, K_X's stiffness plans work on the trial fibres): one extraction, one copy alive
+    mesh ??= this.plans.pool === this.pool ? this.plans.meshOf(fibreId).mesh : this.domain.leafMesh(fibre);
     // one V-cycle unless the mesh looks flat to the smoother (innerCycles, docs/method.md §4.4)
     const cycles = this.solver.cycles ?? (this.cycles ??= innerCycles(this.domain));
     const mg = new MultilevelPreconditioner(mesh, { cycles }).useScratch(this.scratch);
