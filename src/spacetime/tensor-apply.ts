@@ -162,11 +162,24 @@ export function applySpaceFirstHalfOnce(
   input: DoubleTree, output: DoubleTree, cache: SpatialPlanCache, T: number,
   x: Float64Array, y: Float64Array, work: WorkVectors, partCoefficients = PART_COEFFICIENTS,
 ): void {
-  const forms = [timeFormWithMass, timeFormWithStiffness] as const;
   const sigma = spaceFirstSet(input, output);
   const wM = work.get(0, sigma.size);
   const wA = work.get(1, sigma.size);
   new SpatialPassPlan(input, sigma, cache, true).applySplit(x, wM, wA);
+  spaceFirstTemporalOnce(timeFormWithMass, timeFormWithStiffness, sigma, output, T, wM, wA, y, partCoefficients);
+}
+
+/**
+ * The temporal pass of the space-first half: y += (L ⊗ I) w from Σ (with wM the part that went
+ * through M_x, wA through A_x) to `output`. For callers that run the spatial half themselves
+ * (../system/enlarged-residual.ts). @internal
+ */
+export function spaceFirstTemporalOnce(
+  timeFormWithMass: TemporalForm, timeFormWithStiffness: TemporalForm,
+  sigma: DoubleTree, output: DoubleTree, T: number, wM: Float64Array, wA: Float64Array, y: Float64Array,
+  partCoefficients = PART_COEFFICIENTS,
+): void {
+  const forms = [timeFormWithMass, timeFormWithStiffness] as const;
   inParts(forms, sigma, output, 'lower', T, partCoefficients, (plan) => plan.applySummed([wM, wA], y, true));
 }
 
@@ -228,7 +241,10 @@ function timeFirstSet(input: DoubleTree, output: DoubleTree): DoubleTree {
   return DoubleTree.fromNodeFibres(output.kind, output.tree, overlapUnionFibres(output.tree, input, 0), input.pool);
 }
 
-/** Σ of the module comment: the temporal projection of Λ_in with the overlapping output fibres one level finer. */
-function spaceFirstSet(input: DoubleTree, output: DoubleTree): DoubleTree {
+/**
+ * Σ of the module comment: the temporal projection of Λ_in with the overlapping output fibres one
+ * level finer. Its function f is Λ_in's function f. @internal
+ */
+export function spaceFirstSet(input: DoubleTree, output: DoubleTree): DoubleTree {
   return DoubleTree.fromNodeFibres(input.kind, input.tree, overlapUnionFibres(input.tree, output, 1), input.pool);
 }
