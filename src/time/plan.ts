@@ -67,10 +67,14 @@ export class TreeOperatorPlan {
     this.part = part;
     this.T = T;
     const b = new ProgramBuilder();
-    const c = new PlanCompiler(b, form, inTree, outTree, T);
-    if (part !== 'upper') c.lower();
-    if (part !== 'lower') c.upper();
-    this.program = b.finish();
+    try {
+      const c = new PlanCompiler(b, form, inTree, outTree, T);
+      if (part !== 'upper') c.lower();
+      if (part !== 'lower') c.upper();
+      this.program = b.finish();
+    } finally {
+      b.release(); // if compiling threw, the next builder still gets the shared arrays
+    }
   }
 
   /** Scratch entries one column needs (`applyWithWork` takes ≥ workSize · batch). @internal */
