@@ -67,14 +67,10 @@ export class TreeOperatorPlan {
     this.part = part;
     this.T = T;
     const b = new ProgramBuilder();
-    try {
-      const c = new PlanCompiler(b, form, inTree, outTree, T);
-      if (part !== 'upper') c.lower();
-      if (part !== 'lower') c.upper();
-      this.program = b.finish();
-    } finally {
-      b.release(); // if compiling threw, the next builder still gets the shared arrays
-    }
+    const c = new PlanCompiler(b, form, inTree, outTree, T);
+    if (part !== 'upper') c.lower();
+    if (part !== 'lower') c.upper();
+    this.program = b.finish();
   }
 
   /** Scratch entries one column needs (`applyWithWork` takes ≥ workSize · batch). @internal */

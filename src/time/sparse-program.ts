@@ -51,17 +51,12 @@ class GrowI32 {
   }
 }
 
-/** Growable arrays of one builder. */
-function freshArrays() {
-  return {
-    stepSrc: new GrowI32(), stepDst: new GrowI32(), stepRow: new GrowI32(), stepEntry: new GrowI32(),
-    rowDst: new GrowI32(), rowLen: new GrowI32(), col: new GrowI32(), weight: new GrowF64(),
-    tSrc: new GrowI32(), tDst: new GrowI32(), tW: new GrowF64(),
-  };
-}
-/** The arrays builders borrow in turn (see the ProgramBuilder constructor), and who holds them. */
-const SHARED = freshArrays();
-let sharedOwner: ProgramBuilder | null = null;
+/** The growable arrays all builders use in turn (see the ProgramBuilder constructor). */
+const SHARED = {
+  stepSrc: new GrowI32(), stepDst: new GrowI32(), stepRow: new GrowI32(), stepEntry: new GrowI32(),
+  rowDst: new GrowI32(), rowLen: new GrowI32(), col: new GrowI32(), weight: new GrowF64(),
+  tSrc: new GrowI32(), tDst: new GrowI32(), tW: new GrowF64(),
+};
 
 // Scratch of ProgramBuilder.endStep, shared by all builders and grown on demand.
 let sortCnt = new Int32Array(256);
@@ -111,15 +106,12 @@ export class ProgramBuilder {
   private ascending = true;
 
   /**
-   * Plans are compiled one at a time (inside their constructors), so a builder borrows one set of
-   * growable arrays that all builders reuse, emptied here, and `finish` (or `release`) returns
-   * it. A builder opened while another still holds the set gets arrays of its own. Arrays of their
-   * own for every plan, grown from 64 entries each time, made compiling slower: the d = 1 reference
-   * run took 11 % longer, the d = 2 run to 2.1·10⁵ unknowns 4 % (docs/measurement-log.md).
+   * Builders run one at a time (a plan is compiled inside its constructor), so they all grow the
+   * same arrays, emptied here; `finish` copies the program out. Arrays of their own, grown from 64
+   * entries for every small plan, made compiling about 30 % slower (docs/measurement-log.md).
    */
   constructor() {
-    const b = sharedOwner === null ? SHARED : freshArrays();
-    if (b === SHARED) sharedOwner = this;
+    const b = SHARED;
     this.stepSrc = b.stepSrc;
     this.stepDst = b.stepDst;
     this.stepRow = b.stepRow;
@@ -134,11 +126,6 @@ export class ProgramBuilder {
     for (const a of [this.stepSrc, this.stepDst, this.stepRow, this.stepEntry, this.rowDst, this.rowLen, this.col, this.weight, this.tSrc, this.tDst, this.tW]) a.length = 0;
     this.stepRow.push(0);
     this.stepEntry.push(0);
-  }
-
-  /** Returns the shared arrays if this builder holds them (after `finish`, or when a compile fails). */
-  release(): void {
-    if (sharedOwner === this) sharedOwner = null;
   }
 
   /** Reserves n scratch slots; returns the first. */
@@ -257,7 +244,7 @@ export class ProgramBuilder {
 
   /** The compiled program (copies of the entries). */
   finish(): SparseProgram {
-    const program = {
+    return {
       workSize: this.workSize,
       stepSrc: Uint8Array.from(this.stepSrc.data.subarray(0, this.stepSrc.length)),
       stepDst: Uint8Array.from(this.stepDst.data.subarray(0, this.stepDst.length)),
@@ -268,8 +255,6 @@ export class ProgramBuilder {
       col: this.col.toArray(),
       weight: this.weight.toArray(),
     };
-    this.release();
-    return program;
   }
 }
 
