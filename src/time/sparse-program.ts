@@ -10,7 +10,15 @@ export const SRC_WORK = 1;
 export const DST_WORK = 1;
 export const DST_Y = 2;
 
-/** Entries each growable array starts with. */
+/**
+ * Entries each growable array starts with. Every builder has arrays of its own: sharing one
+ * set between the plans compiled one after the other made compiling about 30 % faster (the growth
+ * of fresh arrays for every small plan), but raised the peak of the d = 2 reference run by 60–100 MB
+ * (1.45–1.54 → 1.56–1.62 GB, both with a fixed shared capacity of 2¹⁴ entries and with one kept
+ * at its largest size), above the target of 1.5 KB per unknown: less garbage made by compiling
+ * means later garbage collections, and more of the freed system still resident during the
+ * estimate (docs/adaptivity.md §5).
+ */
 const INITIAL_CAPACITY = 64;
 
 class GrowF64 {
@@ -51,13 +59,6 @@ class GrowI32 {
   }
 }
 
-/** The growable arrays all builders use in turn (see the ProgramBuilder constructor). */
-const SHARED = {
-  stepSrc: new GrowI32(), stepDst: new GrowI32(), stepRow: new GrowI32(), stepEntry: new GrowI32(),
-  rowDst: new GrowI32(), rowLen: new GrowI32(), col: new GrowI32(), weight: new GrowF64(),
-  tSrc: new GrowI32(), tDst: new GrowI32(), tW: new GrowF64(),
-};
-
 // Scratch of ProgramBuilder.endStep, shared by all builders and grown on demand.
 let sortCnt = new Int32Array(256);
 let sortFill = new Int32Array(256);
@@ -85,18 +86,18 @@ export interface SparseProgram {
  */
 export class ProgramBuilder {
   workSize = 0;
-  private readonly stepSrc: GrowI32;
-  private readonly stepDst: GrowI32;
-  private readonly stepRow: GrowI32;
-  private readonly stepEntry: GrowI32;
-  private readonly rowDst: GrowI32;
-  private readonly rowLen: GrowI32;
-  private readonly col: GrowI32;
-  private readonly weight: GrowF64;
+  private readonly stepSrc = new GrowI32();
+  private readonly stepDst = new GrowI32();
+  private readonly stepRow = new GrowI32();
+  private readonly stepEntry = new GrowI32();
+  private readonly rowDst = new GrowI32();
+  private readonly rowLen = new GrowI32();
+  private readonly col = new GrowI32();
+  private readonly weight = new GrowF64();
   // entries of the open step
-  private readonly tSrc: GrowI32;
-  private readonly tDst: GrowI32;
-  private readonly tW: GrowF64;
+  private readonly tSrc = new GrowI32();
+  private readonly tDst = new GrowI32();
+  private readonly tW = new GrowF64();
   private src = -1;
   private dst = -1;
   private lo = 0;
@@ -105,25 +106,7 @@ export class ProgramBuilder {
   private lastDst = -1;
   private ascending = true;
 
-  /**
-   * Builders run one at a time (a plan is compiled inside its constructor), so they all grow the
-   * same arrays, emptied here; `finish` copies the program out. Arrays of their own, grown from 64
-   * entries for every small plan, made compiling about 30 % slower (docs/measurement-log.md).
-   */
   constructor() {
-    const b = SHARED;
-    this.stepSrc = b.stepSrc;
-    this.stepDst = b.stepDst;
-    this.stepRow = b.stepRow;
-    this.stepEntry = b.stepEntry;
-    this.rowDst = b.rowDst;
-    this.rowLen = b.rowLen;
-    this.col = b.col;
-    this.weight = b.weight;
-    this.tSrc = b.tSrc;
-    this.tDst = b.tDst;
-    this.tW = b.tW;
-    for (const a of [this.stepSrc, this.stepDst, this.stepRow, this.stepEntry, this.rowDst, this.rowLen, this.col, this.weight, this.tSrc, this.tDst, this.tW]) a.length = 0;
     this.stepRow.push(0);
     this.stepEntry.push(0);
   }
