@@ -7,7 +7,10 @@
  *
  * where B̲ ũ only needs the input Λ (ũ vanishes on Λ̲ \ Λ), so it is applied from Λ to Λ̲_Y; K̲_Y
  * is applied block by block with one spatial inverse alive at a time; and the spatial plans are
- * released as soon as the pass that used them is done. No preconditioner is built on Λ̲.
+ * released as soon as the pass that used them is done. No preconditioner is built on Λ̲. The
+ * spatial halves of B̲ and B̲ᵀ that work on test fibres run inside K̲_Y's loop over the distinct
+ * test fibres, on one leaf mesh per fibre (tests/spacetime/test-side-intermediates.test.ts checks
+ * that their fibres lie in the test fibres).
  */
 import type { DoubleTree } from '../spacetime/double-tree';
 import type { FibrePool } from '../spacetime/fibre-pool';
