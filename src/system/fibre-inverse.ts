@@ -149,7 +149,15 @@ export class FibreInverseCache {
     readonly pool: FibrePool,
     readonly plans: SpatialPlanCache,
     readonly solver: InnerSolver,
-  ) {}
+  ) {
+    // Fibre ids are read in both (the inverses take their meshes, the exact solves their matrices,
+    // from the plans), so they must number the same fibres.
+    if (plans.pool !== pool) {
+      throw new InvalidArgumentError('plans must serve the same fibre pool as the inverse cache (fibre ids would name other fibres)', {
+        field: 'plans', expected: 'a SpatialPlanCache built on `pool`', received: 'a SpatialPlanCache of another pool',
+      });
+    }
+  }
 
   get(fibreId: number): FibreInverse {
     return this.items.getOrMake(fibreId, () => this.build(fibreId));
@@ -167,7 +175,7 @@ export class FibreInverseCache {
     const fibre = this.pool.get(fibreId);
     // the plans' mesh of the fibre when they have one (B's and Bᵀ's unions on the test side are the
     // test fibres, K_X's stiffness plans work on the trial fibres): one extraction, one copy alive
-    mesh ??= this.plans.pool === this.pool ? this.plans.meshOf(fibreId).mesh : this.domain.leafMesh(fibre);
+    mesh ??= this.plans.meshOf(fibreId).mesh;
     // one V-cycle unless the mesh looks flat to the smoother (innerCycles, docs/method.md §4.4)
     const cycles = this.solver.cycles ?? (this.cycles ??= innerCycles(this.domain));
     const mg = new MultilevelPreconditioner(mesh, { cycles }).useScratch(this.scratch);

@@ -6,7 +6,7 @@ import { describe, expect, it } from 'vitest';
 import {
   DoubleTree, FibreInverseCache, HeatProblem, RunInterruptedError, SpaceTimeSystem, SpatialPlanCache, dorflerMark, embeddingMap,
   SpaceTimeSolution, enlargeDoubleTree, estimateResidual, intervalDomain, prolongCoefficients, rectangleDomain, refineDoubleTree, solveAdaptive, solveAdaptiveAsync,
-  MAX_TEMPORAL_LEVEL, type AdaptiveStep,
+  MAX_TEMPORAL_LEVEL, InvalidArgumentError, type AdaptiveStep,
 } from '../../src/index';
 import { rng } from '../helpers/random';
 import { FibrePool } from '../../src/spacetime/fibre-pool';
@@ -331,6 +331,21 @@ describe('adaptive loop: caches across steps', () => {
     const plans = new SpatialPlanCache(domain, a.pool);
     const caches = { plans, inverses: new FibreInverseCache(domain, a.pool, plans, { kind: 'multigrid' }) };
     expect(() => new SpaceTimeSystem(new HeatProblem({ domain, T: 1 }), b, { caches })).toThrow(/another fibre pool/);
+  });
+
+  it('an inverse cache refuses plans of another fibre pool (the ids would name other fibres)', () => {
+    const domain = intervalDomain(0, 1, 2);
+    const a = DoubleTree.sparseGrid(domain, 3);
+    const b = DoubleTree.sparseGrid(domain, 3);
+    const plans = new SpatialPlanCache(domain, b.pool);
+    let caught: unknown;
+    try {
+      new FibreInverseCache(domain, a.pool, plans, { kind: 'multigrid' });
+    } catch (e) {
+      caught = e;
+    }
+    expect(caught).toBeInstanceOf(InvalidArgumentError);
+    expect((caught as InvalidArgumentError).field).toBe('plans');
   });
 });
 
